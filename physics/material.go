@@ -1,0 +1,25 @@
+package physics
+
+// Material is a solid of the stack. Density is constant (SPEC §10).
+type Material struct {
+	Name         string
+	Density      float64 // kg/m³
+	SpecificHeat Blend   // J/(kg·K)
+	Conductivity Blend   // W/(m·K)
+	Cure         *Cure   // nil for a material that does not cure
+	Dielectric   *Dielectric
+	// Source names where the values come from (a handbook table, a data
+	// sheet, or "invented for the examples").
+	Source string
+}
+
+// Dielectric holds the dielectric properties of an absorbing material at the
+// working frequency. A material without one is transparent to volumetric
+// heating. (Volumetric heating is delivered by a later issue; the type is
+// declared here so materials can carry it.)
+type Dielectric struct {
+	Permittivity    float64 // relative permittivity ε′
+	LossFactor      float64 // ε″ of the uncured material
+	LossFactorCured float64 // ε″ at full cure (linear in α between)
+	Shield          bool    // absorbs nothing and blocks the field beyond it
+}
