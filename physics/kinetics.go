@@ -27,7 +27,11 @@ func Arrhenius(A, E, T float64) (k, dkdT float64) {
 }
 
 // powDeriv returns x^p and d(x^p)/dx for x in [0, 1] and p ≥ 0, with the
-// conventions 0^0 = 1 and a derivative capped (not infinite) at x = 0 when p < 1.
+// convention 0^0 = 1. For p < 1 the derivative is infinite at x = 0; below
+// x = slopeFloor it is reported as the value at slopeFloor instead. The
+// value itself is exact; only the derivative (which enters Newton's
+// Jacobian, never a residual) is capped, so iterations converge to the
+// exact solution.
 func powDeriv(x, p float64) (v, d float64) {
 	switch {
 	case p == 0:
@@ -36,17 +40,19 @@ func powDeriv(x, p float64) (v, d float64) {
 		return x, 1
 	case x <= 0:
 		if p < 1 {
-			return 0, maxSlope
+			return 0, p * math.Pow(slopeFloor, p-1)
 		}
 		return 0, 0
 	}
 	v = math.Pow(x, p)
+	if p < 1 && x < slopeFloor {
+		return v, p * math.Pow(slopeFloor, p-1)
+	}
 	return v, p * v / x
 }
 
-// maxSlope caps d(x^p)/dx at x = 0 for p < 1, where it is infinite. The cap
-// only enters Newton's Jacobian, never the residual.
-const maxSlope = 1e6
+// slopeFloor is where powDeriv starts capping the derivative of x^p, p < 1.
+const slopeFloor = 1e-4
 
 // NthOrder is the n-th order law
 //

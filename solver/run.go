@@ -1,0 +1,314 @@
+package solver
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+
+	"cureslab/physics"
+)
+
+// ErrProblem is returned (wrapped) by Run for a Problem that breaks its
+// documented contract. Package cases validates user input before it gets
+// here, so this signals a programming error upstream.
+var ErrProblem = errors.New("invalid problem")
+
+// RunawayError reports the first cell that passed the abort temperature.
+type RunawayError struct {
+	Time, Depth, Temperature, Limit float64 // s, m, K, K
+}
+
+func (e *RunawayError) Error() string {
+	return fmt.Sprintf("runaway at t = %.6g s: %.6g °C at depth %.6g mm passed the abort limit %.6g °C",
+		e.Time, e.Temperature-273.15, e.Depth*1e3, e.Limit-273.15)
+}
+
+// StepError reports a numerical failure: the step size fell below the
+// smallest usable step at time Time without Newton converging or the
+// error estimate being met.
+type StepError struct {
+	Time, Step float64 // s
+	Reason     string
+}
+
+func (e *StepError) Error() string {
+	return fmt.Sprintf("numerical failure at t = %.6g s (step %.3g s): %s", e.Time, e.Step, e.Reason)
+}
+
+// Run integrates the problem from t = 0 to p.End.
+//
+// Crank–Nicolson in time with two implicit Euler start-up steps after t = 0,
+// where the boundary conditions jump from the initial state; Newton's method
+// on the coupled heat and cure residuals with cure eliminated cell by cell;
+// step size from a predictor–corrector estimate of the local error against
+// the tolerances, landing exactly on every output time and every breakpoint of
+// a face schedule. See DEVELOPERS.md for the equations.
+//
+// The returned error is non-nil only for a Problem that breaks its contract.
+// A runaway, a numerical failure or a cancelled ctx still return a Result:
+// its Status and Err say what happened, and it holds every snapshot up to
+// that moment plus one at the moment itself.
+func Run(ctx context.Context, p *Problem) (*Result, error) {
+	q, err := normalise(p)
+	if err != nil {
+		return nil, err
+	}
+	s := newStepper(q)
+	return s.run(ctx), nil
+}
+
+// normalise checks the contract and returns a copy with defaults filled in.
+func normalise(p *Problem) (*Problem, error) {
+	if p == nil || p.Mesh == nil || p.Mesh.Cells() == 0 {
+		return nil, fmt.Errorf("%w: no mesh", ErrProblem)
+	}
+	if len(p.Materials) != len(p.Mesh.Layers) {
+		return nil, fmt.Errorf("%w: %d materials for %d layers", ErrProblem, len(p.Materials), len(p.Mesh.Layers))
+	}
+	for j, m := range p.Materials {
+		if m == nil || !(m.Density > 0) || !(m.SpecificHeat.Min() > 0) || !(m.Conductivity.Min() > 0) {
+			return nil, fmt.Errorf("%w: material of layer %d needs positive density, specific heat and conductivity", ErrProblem, j)
+		}
+	}
+	if !(p.End > 0) || math.IsInf(p.End, 0) {
+		return nil, fmt.Errorf("%w: end time %g s", ErrProblem, p.End)
+	}
+	if !(p.InitialTemperature > 0) {
+		return nil, fmt.Errorf("%w: initial temperature %g K", ErrProblem, p.InitialTemperature)
+	}
+	if !(p.InitialCure >= 0 && p.InitialCure < 1) {
+		return nil, fmt.Errorf("%w: initial cure %g outside [0, 1)", ErrProblem, p.InitialCure)
+	}
+	q := *p
+	if q.TemperatureTolerance == 0 {
+		q.TemperatureTolerance = DefaultTemperatureTolerance
+	}
+	if q.CureTolerance == 0 {
+		q.CureTolerance = DefaultCureTolerance
+	}
+	if q.AbortTemperature == 0 {
+		q.AbortTemperature = DefaultAbortTemperature
+	}
+	if q.MaxStep == 0 {
+		q.MaxStep = q.End
+	}
+	if !(q.TemperatureTolerance > 0 && q.CureTolerance > 0 && q.MaxStep > 0) {
+		return nil, fmt.Errorf("%w: tolerances and max step must be positive", ErrProblem)
+	}
+	var outs []float64
+	if q.OutputTimes == nil {
+		for k := 1; k < 100; k++ {
+			outs = append(outs, q.End*float64(k)/100)
+		}
+	} else {
+		for _, t := range q.OutputTimes {
+			if t > 0 && t < q.End {
+				outs = append(outs, t)
+			}
+		}
+	}
+	outs = append(outs, q.End)
+	if !slices.IsSorted(outs) {
+		return nil, fmt.Errorf("%w: output times must increase", ErrProblem)
+	}
+	q.OutputTimes = slices.Compact(outs)
+	thick := q.Mesh.Thickness()
+	for _, z := range q.Probes {
+		if !(z >= 0 && z <= thick) {
+			return nil, fmt.Errorf("%w: probe at %g m outside the stack (0 to %g m)", ErrProblem, z, thick)
+		}
+	}
+	return &q, nil
+}
+
+func (s *stepper) run(ctx context.Context) *Result {
+	p := s.p
+	n := s.n
+	res := &Result{}
+
+	// Initial state.
+	for i := range n {
+		s.T[i] = p.InitialTemperature
+		if s.cure[i] != nil {
+			s.A[i] = p.InitialCure
+		}
+	}
+	s.t = 0
+	s.eval(s.old, 0, s.T, s.A)
+	s.histLen = 0
+	s.pushHistory()
+
+	tr := s.newTracker()
+	tr.observe(s, 0)
+	res.Snapshots = append(res.Snapshots, s.snapshot(s.old, 0))
+
+	events := s.events()
+	ev := 0
+	out := 0 // next output time index
+	h := s.initialStep(events[0])
+	startup := 2 // implicit Euler steps left
+	var ledger Ledger
+	minStep := 1e-9 * max(1, p.End)
+
+	for ev < len(events) {
+		if err := ctx.Err(); err != nil {
+			res.Status, res.Err = Failed, err
+			break
+		}
+		target := events[ev]
+		hTry := min(h, p.MaxStep)
+		landing := false
+		switch rem := target - s.t; {
+		case hTry*1.1 >= rem:
+			hTry, landing = rem, true
+		case hTry*2 > rem:
+			hTry = rem / 2
+		}
+		theta := 0.5
+		if startup > 0 {
+			theta = 1
+		}
+		tNew := s.t + hTry
+		if landing {
+			tNew = target
+		}
+		s.predict(tNew)
+		copy(s.Tn, s.predT)
+		copy(s.An, s.predA)
+		outcome, its := s.solve(tNew-s.t, theta)
+		tr.sum.NewtonIterations += its + 1
+		tr.sum.MaxNewtonIterations = max(tr.sum.MaxNewtonIterations, its+1)
+		if outcome != stepOK {
+			tr.sum.RejectedSteps++
+			h = hTry / 4
+			if h < minStep {
+				res.Status = Failed
+				res.Err = &StepError{Time: s.t, Step: hTry, Reason: "Newton's iteration did not converge even for tiny steps"}
+				break
+			}
+			continue
+		}
+		ratio, order := s.errorRatio(tNew-s.t, theta == 0.5)
+		if ratio > 1 {
+			tr.sum.RejectedSteps++
+			h = hTry * max(0.2, 0.9*math.Pow(ratio, -1/order))
+			if h < minStep {
+				res.Status = Failed
+				res.Err = &StepError{Time: s.t, Step: hTry, Reason: "the error estimate cannot be met"}
+				break
+			}
+			continue
+		}
+		// Accept.
+		hUsed := tNew - s.t
+		s.account(&ledger, hUsed, theta)
+		s.t = tNew
+		copy(s.T, s.Tn)
+		copy(s.A, s.An)
+		s.old, s.cur = s.cur, s.old
+		s.pushHistory()
+		tr.sum.Steps++
+		if startup > 0 {
+			startup--
+		}
+		grow := 5.0
+		if ratio > 0 {
+			grow = min(5, max(0.2, 0.9*math.Pow(ratio, -1/order)))
+		}
+		if hNext := hUsed * grow; !landing || hUsed >= min(h, p.MaxStep) {
+			h = hNext
+		} else {
+			// Landing shortened the step: keep the controller's proposal.
+			h = max(hNext, h)
+		}
+		tr.observe(s, hUsed)
+
+		if landing {
+			ev++
+			for out < len(p.OutputTimes) && p.OutputTimes[out] <= s.t {
+				if p.OutputTimes[out] == s.t {
+					snap := s.snapshot(s.old, ledger.Faces+ledger.Volumetric)
+					res.Snapshots = append(res.Snapshots, snap)
+				}
+				out++
+			}
+		}
+		if hot, i := maxAt(s.T); hot > p.AbortTemperature {
+			res.Status = Runaway
+			res.Err = &RunawayError{Time: s.t, Depth: p.Mesh.Centers[i], Temperature: hot, Limit: p.AbortTemperature}
+			break
+		}
+	}
+	if res.Status != OK {
+		last := res.Snapshots[len(res.Snapshots)-1]
+		if last.Time != s.t {
+			res.Snapshots = append(res.Snapshots, s.snapshot(s.old, ledger.Faces+ledger.Volumetric))
+		}
+	}
+	res.Ledger = ledger
+	res.EndTime = s.t
+	tr.finish(s, &ledger)
+	res.Summary = tr.sum
+	return res
+}
+
+// account adds the accepted step to the ledger.
+func (s *stepper) account(l *Ledger, h, theta float64) {
+	o, v := s.old, s.cur
+	l.Faces += h * (theta*(v.down[0]-v.down[s.n]) + (1-theta)*(o.down[0]-o.down[s.n]))
+	for i := range s.n {
+		cs := 0.5 * (o.cp[i] + v.cp[i])
+		l.Stored += s.rho[i] * cs * s.w[i] * (s.Tn[i] - s.T[i])
+		if s.cure[i] != nil {
+			l.Reaction += s.heat[i] * s.w[i] * (s.An[i] - s.A[i])
+		}
+	}
+}
+
+// events returns the times the stepper must land on: output times and face
+// schedule breakpoints inside (0, End], sorted, End last.
+func (s *stepper) events() []float64 {
+	p := s.p
+	ev := slices.Clone(p.OutputTimes)
+	for _, fc := range []*physics.Face{&p.Top, &p.Bottom} {
+		for _, sch := range []*physics.Schedule{&fc.Air, &fc.Set, &fc.Flux} {
+			for _, t := range sch.Breakpoints() { // nil for an unused schedule
+				if t > 0 && t < p.End {
+					ev = append(ev, t)
+				}
+			}
+		}
+	}
+	slices.Sort(ev)
+	return slices.Compact(ev)
+}
+
+// initialStep picks the first step from the initial rates of change: small
+// enough that no cell's temperature moves by more than the tolerance and no
+// cell's cure by more than the cure tolerance.
+func (s *stepper) initialStep(firstEvent float64) float64 {
+	p := s.p
+	h := min(firstEvent, p.MaxStep, 60.0)
+	for i := range s.n {
+		rate := math.Abs(s.old.D[i]+s.heat[i]*s.w[i]*s.old.r[i]) / (s.rho[i] * s.old.cp[i] * s.w[i])
+		if rate > 0 {
+			h = min(h, p.TemperatureTolerance/rate)
+		}
+		if s.cure[i] != nil && s.old.r[i] > 0 {
+			h = min(h, p.CureTolerance/s.old.r[i])
+		}
+	}
+	return max(h, 1e-6)
+}
+
+func maxAt(x []float64) (float64, int) {
+	m, k := x[0], 0
+	for i, v := range x {
+		if v > m {
+			m, k = v, i
+		}
+	}
+	return m, k
+}

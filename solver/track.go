@@ -1,0 +1,230 @@
+package solver
+
+import (
+	"math"
+
+	"cureslab/physics"
+)
+
+// tracker follows the summary quantities over accepted steps.
+type tracker struct {
+	sum      Summary
+	gel      []float64 // gel time per cell, NaN until gelled
+	drivers  []*physics.Schedule
+	prevMinA float64
+}
+
+func (s *stepper) newTracker() *tracker {
+	nan := math.NaN()
+	tr := &tracker{gel: make([]float64, s.n)}
+	tr.sum = Summary{
+		PeakTemperature: math.Inf(-1), Overshoot: nan, MaxSpread: nan,
+		MinFinalCure: nan, MinFinalCureDepth: nan, MeanFinalCure: nan, TimeToMinCure: nan,
+		GelTimeFirst: nan, GelTimeLast: nan, MinFinalGlass: nan,
+	}
+	for i := range tr.gel {
+		tr.gel[i] = nan
+	}
+	for _, f := range []*physics.Face{&s.p.Top, &s.p.Bottom} {
+		if d, ok := f.Driver(); ok {
+			tr.drivers = append(tr.drivers, d)
+		}
+	}
+	tr.prevMinA = math.NaN()
+	return tr
+}
+
+// observe updates the tracked quantities with the state just accepted at
+// s.t after a step of size h (h = 0 for the initial state). Crossing times
+// (gelation, reaching the minimum cure) are interpolated linearly in time
+// within the step.
+func (tr *tracker) observe(s *stepper, h float64) {
+	t := s.t
+	sum := &tr.sum
+	hot := math.Inf(-1)
+	for i, T := range s.T {
+		if T > sum.PeakTemperature { // strict: earliest time, shallowest cell on ties
+			sum.PeakTemperature, sum.PeakTime, sum.PeakDepth = T, t, s.p.Mesh.Centers[i]
+		}
+		hot = max(hot, T)
+	}
+	if len(tr.drivers) > 0 {
+		drive := math.Inf(-1)
+		for _, d := range tr.drivers {
+			drive = max(drive, d.At(t))
+		}
+		if ov := hot - drive; !(ov <= sum.Overshoot) {
+			sum.Overshoot = ov
+		}
+	}
+	if !s.curing {
+		return
+	}
+	lo, hi, minA := math.Inf(1), math.Inf(-1), math.Inf(1)
+	prevA := s.histA[1] // the state before this step (valid when h > 0)
+	for i, c := range s.cure {
+		if c == nil {
+			continue
+		}
+		lo, hi = min(lo, s.T[i]), max(hi, s.T[i])
+		a := s.A[i]
+		minA = min(minA, a)
+		if math.IsNaN(tr.gel[i]) && a >= c.GelPoint {
+			tr.gel[i] = crossing(t, h, prevA, i, a, c.GelPoint)
+		}
+	}
+	if spread := hi - lo; !(spread <= sum.MaxSpread) {
+		sum.MaxSpread = spread
+	}
+	if mc := s.p.MinCure; mc > 0 && math.IsNaN(sum.TimeToMinCure) && minA >= mc {
+		if h == 0 || math.IsNaN(tr.prevMinA) || tr.prevMinA >= mc {
+			sum.TimeToMinCure = t
+		} else {
+			sum.TimeToMinCure = t - h + h*(mc-tr.prevMinA)/(minA-tr.prevMinA)
+		}
+	}
+	tr.prevMinA = minA
+}
+
+// crossing returns the time within the step (t−h, t] at which cell i's cure,
+// linear in time from prev[i] to a, reached level.
+func crossing(t, h float64, prev []float64, i int, a, level float64) float64 {
+	if h == 0 || prev[i] >= level || a == prev[i] {
+		return t
+	}
+	return t - h + h*(level-prev[i])/(a-prev[i])
+}
+
+// finish fills the end-of-run fields of the summary.
+func (tr *tracker) finish(s *stepper, l *Ledger) {
+	sum := &tr.sum
+	sum.EnergyBalanceError = l.BalanceError()
+	if !s.curing {
+		return
+	}
+	m := s.p.Mesh
+	var wsum, asum float64
+	allGel := true
+	for i, c := range s.cure {
+		if c == nil {
+			continue
+		}
+		a := s.A[i]
+		if !(a >= sum.MinFinalCure) { // strict after the first: shallowest on ties
+			sum.MinFinalCure, sum.MinFinalCureDepth = a, m.Centers[i]
+		}
+		wsum += m.Widths[i]
+		asum += m.Widths[i] * a
+		if c.Glass != nil {
+			if tg := c.Glass.Tg(a); !(tg >= sum.MinFinalGlass) {
+				sum.MinFinalGlass = tg
+			}
+		}
+		g := tr.gel[i]
+		if math.IsNaN(g) {
+			allGel = false
+		} else if !(g >= sum.GelTimeFirst) {
+			sum.GelTimeFirst = g
+		}
+		if !(g <= sum.GelTimeLast) {
+			sum.GelTimeLast = g
+		}
+	}
+	sum.MeanFinalCure = asum / wsum
+	if !allGel {
+		sum.GelTimeLast = math.NaN()
+	}
+}
+
+// snapshot records the accepted state held by lv (at s.t) and the
+// cumulative heat in.
+func (s *stepper) snapshot(lv *level, heatIn float64) Snapshot {
+	n := s.n
+	nan := math.NaN()
+	snap := Snapshot{
+		Time: s.t,
+		T:    append([]float64(nil), s.T...),
+		Cure: make([]float64, n), Rate: make([]float64, n), Tg: make([]float64, n),
+		AirTop: nan, AirBottom: nan, HeatIn: heatIn,
+	}
+	for i, c := range s.cure {
+		snap.Cure[i], snap.Rate[i], snap.Tg[i] = nan, nan, nan
+		if c == nil {
+			continue
+		}
+		snap.Cure[i], snap.Rate[i] = s.A[i], lv.r[i]
+		if c.Glass != nil {
+			snap.Tg[i] = c.Glass.Tg(s.A[i])
+		}
+	}
+	if s.p.Top.Kind == physics.Convection {
+		snap.AirTop = s.p.Top.Air.At(s.t)
+	}
+	if s.p.Bottom.Kind == physics.Convection {
+		snap.AirBottom = s.p.Bottom.Air.At(s.t)
+	}
+	for _, z := range s.p.Probes {
+		T, a := s.probe(lv, z)
+		snap.ProbeT = append(snap.ProbeT, T)
+		snap.ProbeCure = append(snap.ProbeCure, a)
+	}
+	return snap
+}
+
+// probe returns temperature and cure at depth z: linear through the cell
+// centres of z's layer and the temperatures on that layer's side of its two
+// faces; a depth exactly on a layer face belongs to the upper layer. Cure is
+// linear between centres and constant from the outermost centre to the face;
+// NaN in a layer that does not cure.
+func (s *stepper) probe(lv *level, z float64) (T, a float64) {
+	m := s.p.Mesh
+	n := s.n
+	j := 0
+	for j < len(m.Layers)-1 && z > m.Faces[m.First[j+1]] {
+		j++
+	}
+	first, last := m.First[j], m.First[j+1]-1
+	ztop, zbot := m.Faces[first], m.Faces[last+1]
+	var Ttop, Tbot float64
+	if first == 0 {
+		Ttop = lv.tfTop
+	} else {
+		Ttop = s.T[first] + lv.down[first]*lv.R[first]
+	}
+	if last == n-1 {
+		Tbot = lv.tfBot
+	} else {
+		Tbot = s.T[last] - lv.down[last+1]*lv.R[last]
+	}
+	cured := s.cure[first] != nil
+	a = math.NaN()
+	switch {
+	case z <= m.Centers[first]:
+		T = lerp(ztop, Ttop, m.Centers[first], s.T[first], z)
+		if cured {
+			a = s.A[first]
+		}
+	case z >= m.Centers[last]:
+		T = lerp(m.Centers[last], s.T[last], zbot, Tbot, z)
+		if cured {
+			a = s.A[last]
+		}
+	default:
+		i := first
+		for m.Centers[i+1] < z {
+			i++
+		}
+		T = lerp(m.Centers[i], s.T[i], m.Centers[i+1], s.T[i+1], z)
+		if cured {
+			a = lerp(m.Centers[i], s.A[i], m.Centers[i+1], s.A[i+1], z)
+		}
+	}
+	return T, a
+}
+
+func lerp(x0, y0, x1, y1, x float64) float64 {
+	if x1 == x0 {
+		return y0
+	}
+	return y0 + (y1-y0)*(x-x0)/(x1-x0)
+}
