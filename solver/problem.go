@@ -108,19 +108,19 @@ type Summary struct {
 	Overshoot float64
 	// MaxSpread is the largest (hottest − coldest) over all cells of all
 	// curing layers, at any step; NaN without curing layers.
-	MaxSpread            float64
-	MinFinalCure         float64 // NaN without curing layers
-	MinFinalCureDepth    float64
-	MeanFinalCure        float64 // thickness-weighted over curing cells
-	TimeToMinCure        float64 // when every curing cell reached Problem.MinCure
-	GelTimeFirst         float64 // first cell to reach its gel point
-	GelTimeLast          float64 // NaN if any curing cell never gels
-	MinFinalGlass        float64 // lowest final glass transition; NaN where undefined
-	EnergyBalanceError   float64
-	Steps                int // accepted steps
-	RejectedSteps        int
-	NewtonIterations     int
-	MaxNewtonIterations  int
+	MaxSpread           float64
+	MinFinalCure        float64 // NaN without curing layers
+	MinFinalCureDepth   float64
+	MeanFinalCure       float64 // thickness-weighted over curing cells
+	TimeToMinCure       float64 // when every curing cell reached Problem.MinCure
+	GelTimeFirst        float64 // first cell to reach its gel point
+	GelTimeLast         float64 // NaN if any curing cell never gels
+	MinFinalGlass       float64 // lowest final glass transition; NaN where undefined
+	EnergyBalanceError  float64
+	Steps               int // accepted steps
+	RejectedSteps       int
+	NewtonIterations    int
+	MaxNewtonIterations int
 }
 
 // Result is what Run returns: snapshots at the output times reached, the

@@ -155,8 +155,8 @@ func (s *stepper) eval(lv *level, t float64, T, A []float64) {
 type stepOutcome int
 
 const (
-	stepOK        stepOutcome = iota
-	stepNoConverge            // Newton did not converge, or the elimination broke down
+	stepOK         stepOutcome = iota
+	stepNoConverge             // Newton did not converge, or the elimination broke down
 )
 
 // Newton settings. The residual tolerances are far below any accuracy
@@ -306,13 +306,13 @@ func (s *stepper) predict(t float64) {
 // errorRatio estimates the local error of the step just solved, relative to
 // the tolerances (≤ 1 means acceptable), from the difference between the
 // corrector (Tn, An) and the predictor. With three history points and
-// Crank–Nicolson, the quadratic predictor's error is y'''/6·h(h+h1)(h+h1+h2)
-// and the trapezoidal rule's local error is h³y'''/12, so
+// Crank–Nicolson, the quadratic predictor's error is y”'/6·h(h+h1)(h+h1+h2)
+// and the trapezoidal rule's local error is h³y”'/12, so
 //
 //	LTE ≈ |y_C − y_P| · h² / (2 (h+h1)(h+h1+h2)).
 //
 // With two points (the implicit Euler start-up), the linear predictor's
-// error is y''/2·h(h+h1) against implicit Euler's h²y''/2, so
+// error is y”/2·h(h+h1) against implicit Euler's h²y”/2, so
 // LTE ≈ |y_C − y_P| · h/(h+h1). With one point there is no estimate (0).
 // The second return value is the order p of the error in h (LTE ∝ h^p).
 func (s *stepper) errorRatio(h float64, cn bool) (ratio, order float64) {
