@@ -193,9 +193,14 @@ func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 				continue
 			}
 			G := A[i] - A0[i] - h*(theta*v.r[i]+(1-theta)*o.r[i])
-			if !(A[i] >= 1 && G < 0) { // at full cure the rate is zero: α = 1 stands
-				maxG = max(maxG, math.Abs(G))
+			if A[i] >= 1 && G <= 0 {
+				// The step would carry the cell past full cure: α = 1 stands
+				// (the rate is zero there) and the cell's cure is not an
+				// unknown of this iteration.
+				s.jaT[i], s.jaa[i], s.gA[i] = 0, 1, 0
+				continue
 			}
+			maxG = max(maxG, math.Abs(G))
 			jTa := m*0.5*v.cpA[i]*dT - s.heat[i]*s.w[i]/h
 			jaT := -h * theta * v.rT[i]
 			jaa := 1 - h*theta*v.rA[i]
