@@ -52,7 +52,7 @@ func powDeriv(x, p float64) (v, d float64) {
 }
 
 // slopeFloor is where powDeriv starts capping the derivative of x^p, p < 1.
-const slopeFloor = 1e-4
+const slopeFloor = 1e-10
 
 // NthOrder is the n-th order law
 //

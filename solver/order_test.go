@@ -11,7 +11,7 @@ import (
 // thickPotting is a 10 mm curing layer in an oven whose air ramps from 23 °C
 // to 70 °C and holds: the exotherm overshoots the air in the core. The resin
 // is invented for the test.
-func thickPotting(t *testing.T, cells int) *Problem {
+func thickPotting(t testing.TB, cells int) *Problem {
 	mat := &physics.Material{
 		Name: "resin", Density: 1150,
 		SpecificHeat: physics.Blend{Uncured: physics.Constant(1500), Cured: physics.Constant(1350), HasCured: true},

@@ -9,7 +9,9 @@ import (
 	"cureslab/physics"
 )
 
-func slab(t *testing.T, L float64, cells int) *mesh.Mesh {
+func slab(t testing.TB, L float64, cells int) *mesh.Mesh { return mustSlab(t, L, cells) }
+
+func mustSlab(t testing.TB, L float64, cells int) *mesh.Mesh {
 	m, err := mesh.Build([]mesh.Layer{{Name: "wall", Thickness: L, Cells: cells}}, mesh.Options{})
 	if err != nil {
 		t.Fatal(err)

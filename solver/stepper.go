@@ -15,11 +15,15 @@ type level struct {
 
 	down []float64 // heat flux across each face in the +z direction, W/m², len n+1
 	R    []float64 // half-cell conduction resistance w/(2k), m²K/W
-	dR   []float64 // ∂R/∂T
+	dRT  []float64 // ∂R/∂T
+	dRA  []float64 // ∂R/∂α
 	D    []float64 // net conduction into each cell, W/m²: down[i] − down[i+1]
-	dDl  []float64 // ∂D_i/∂T_{i−1}
-	dDd  []float64 // ∂D_i/∂T_i
-	dDu  []float64 // ∂D_i/∂T_{i+1}
+
+	// Partial derivatives of down[f] with respect to the temperature and
+	// cure of the cells above (a = f−1) and below (b = f) face f. Outer faces
+	// depend on one cell only: face 0 on cell 0 (stored as b), face n on
+	// cell n−1 (stored as a).
+	fTa, fTb, fAa, fAb []float64
 
 	r, rT, rA    []float64 // cure rate and its partial derivatives (0 where inert)
 	cp, cpT, cpA []float64 // specific heat and its partial derivatives
@@ -28,10 +32,11 @@ type level struct {
 }
 
 func newLevel(n int) *level {
-	buf := make([]float64, 15*n+1)
+	buf := make([]float64, 16*n+5)
 	take := func(m int) []float64 { s := buf[:m:m]; buf = buf[m:]; return s }
 	return &level{
-		down: take(n + 1), R: take(n), dR: take(n), D: take(n), dDl: take(n), dDd: take(n), dDu: take(n),
+		down: take(n + 1), R: take(n), dRT: take(n), dRA: take(n), D: take(n),
+		fTa: take(n + 1), fTb: take(n + 1), fAa: take(n + 1), fAb: take(n + 1),
 		r: take(n), rT: take(n), rA: take(n), cp: take(n), cpT: take(n), cpA: take(n),
 	}
 }
@@ -61,7 +66,7 @@ type stepper struct {
 
 	// Tridiagonal system and elimination scratch.
 	lo, di, up, rhs, cp []float64
-	jTa, jaT, jaa, gA   []float64
+	jaT, jaa, gA        []float64
 
 	// History of accepted states for the predictor and the error estimate:
 	// histT[0] is the newest. histLen counts the valid entries.
@@ -99,7 +104,7 @@ func newStepper(p *Problem) *stepper {
 	}
 	s.T, s.A, s.Tn, s.An = f(), f(), f(), f()
 	s.lo, s.di, s.up, s.rhs, s.cp = f(), f(), f(), f(), f()
-	s.jTa, s.jaT, s.jaa, s.gA = f(), f(), f(), f()
+	s.jaT, s.jaa, s.gA = f(), f(), f()
 	for k := range 3 {
 		s.histT[k], s.histA[k] = f(), f()
 	}
@@ -108,44 +113,46 @@ func newStepper(p *Problem) *stepper {
 	return s
 }
 
-// eval fills lv with everything at time t and state (T, A).
+// eval fills lv with everything at time t and state (T, A), including the
+// exact partial derivatives Newton's method needs.
 func (s *stepper) eval(lv *level, t float64, T, A []float64) {
 	n := s.n
 	lv.t = t
 	for i := range n {
 		mt := s.mat[i]
-		k, kT, _ := mt.Conductivity.At(T[i], A[i])
+		k, kT, kA := mt.Conductivity.At(T[i], A[i])
 		lv.R[i] = s.w[i] / (2 * k)
-		lv.dR[i] = -s.w[i] / (2 * k * k) * kT
+		c := -s.w[i] / (2 * k * k)
+		lv.dRT[i], lv.dRA[i] = c*kT, c*kA
 		lv.cp[i], lv.cpT[i], lv.cpA[i] = mt.SpecificHeat.At(T[i], A[i])
-		if c := s.cure[i]; c != nil {
-			lv.r[i], lv.rT[i], lv.rA[i] = c.Rate(T[i], A[i])
+		if cu := s.cure[i]; cu != nil {
+			lv.r[i], lv.rT[i], lv.rA[i] = cu.Rate(T[i], A[i])
 		}
-		lv.dDl[i], lv.dDd[i], lv.dDu[i] = 0, 0, 0
 	}
 	// Internal faces: conductance g from the two half-cells in series plus
-	// any contact resistance; the downward flux d = g (T_a − T_b) has the
-	// exact derivatives (with ∂g/∂T = −g² ∂R/∂T)
-	//	∂d/∂T_a =  g − d g ∂R_a/∂T_a,   ∂d/∂T_b = −g − d g ∂R_b/∂T_b.
+	// any contact resistance. The downward flux d = g (T_a − T_b) has, with
+	// ∂g/∂R = −g², the derivatives
+	//	∂d/∂T_a = g − d g ∂R_a/∂T_a,  ∂d/∂T_b = −g − d g ∂R_b/∂T_b,
+	//	∂d/∂α_a = −d g ∂R_a/∂α_a,     ∂d/∂α_b = −d g ∂R_b/∂α_b.
 	for f := 1; f < n; f++ {
 		a, b := f-1, f
 		g := 1 / (lv.R[a] + s.rc[f] + lv.R[b])
 		d := g * (T[a] - T[b])
+		dg := d * g
 		lv.down[f] = d
-		da := g - d*g*lv.dR[a]
-		db := -g - d*g*lv.dR[b]
-		// D_a −= d ; D_b += d
-		lv.dDd[a] -= da
-		lv.dDu[a] = -db
-		lv.dDd[b] += db
-		lv.dDl[b] = da
+		lv.fTa[f], lv.fTb[f] = g-dg*lv.dRT[a], -g-dg*lv.dRT[b]
+		lv.fAa[f], lv.fAb[f] = -dg*lv.dRA[a], -dg*lv.dRA[b]
 	}
+	// Outer faces. For every face kind ∂q/∂R = q ∂q/∂T_c (differentiate
+	// the face balance implicitly), so the derivatives through R follow.
 	q, dq, tf := s.p.Top.HeatIn(t, T[0], lv.R[0])
 	lv.down[0], lv.tfTop = q, tf
-	lv.dDd[0] += dq
+	lv.fTa[0], lv.fAa[0] = 0, 0
+	lv.fTb[0], lv.fAb[0] = dq+q*dq*lv.dRT[0], q*dq*lv.dRA[0]
 	q, dq, tf = s.p.Bottom.HeatIn(t, T[n-1], lv.R[n-1])
 	lv.down[n], lv.tfBot = -q, tf
-	lv.dDd[n-1] += dq
+	lv.fTa[n], lv.fAa[n] = -(dq + q*dq*lv.dRT[n-1]), -q*dq*lv.dRA[n-1]
+	lv.fTb[n], lv.fAb[n] = 0, 0
 	for i := range n {
 		lv.D[i] = lv.down[i] - lv.down[i+1]
 	}
@@ -159,36 +166,47 @@ const (
 	stepNoConverge             // Newton did not converge, or the elimination broke down
 )
 
-// Newton settings. The residual tolerances are far below any accuracy
-// target so that the energy ledger balances to round-off.
+// Newton settings. The heat residual is scaled to kelvin by the cell's
+// heat capacity; the energy ledger balances to that level, so it is kept
+// far below any accuracy target. Cure residuals do not enter the ledger
+// (the reaction heat is counted from the same α the heat equation uses) and
+// need only be far below the cure tolerance.
 const (
 	maxNewton  = 10
-	newtonTolT = 1e-10 // K, residual scaled by the cell's heat capacity
-	newtonTolA = 1e-12 // degree of cure
-	minJaa     = 0.05  // smallest ∂G/∂α allowed in the elimination
+	newtonTolT = 1e-10 // K: scaled heat residual
+	newtonTolA = 1e-10 // degree of cure: cure residual
+	// An update this small means the iterate sits at the residual's
+	// round-off floor (about ε·T·h/τ_cell for cells of diffusion time τ_cell).
+	newtonTinyT = 1e-9  // K
+	newtonTinyA = 1e-11 // degree of cure
+	minJaa      = 0.05  // smallest ∂G/∂α allowed in the elimination
 )
 
 // solve runs Newton's method for one step of size h with weight theta from
 // the accepted state (s.T, s.A, s.old) to time s.t+h, starting from the
 // predictor in (s.Tn, s.An). On success s.cur holds the converged level.
+//
+// The residuals are, per cell i of width w and with c* = ½(c_p⁰ + c_p),
+//
+//	F_i = ρ w c* (T_i − T_i⁰)/h − θ D_i − (1−θ) D_i⁰ − ρ w_r H w (α_i − α_i⁰)/h
+//	G_i = α_i − α_i⁰ − h [θ r(T_i, α_i) + (1−θ) r(T_i⁰, α_i⁰)].
+//
+// G_i involves cell i alone, so δα_j = −s_j − p_j δT_j with
+// p_j = (∂G_j/∂T_j)/(∂G_j/∂α_j) and s_j = G_j/(∂G_j/∂α_j); substituting into
+// the linearised F leaves one tridiagonal system for δT. The Jacobian is
+// exact except for the capped slope of α^m near α = 0 (see physics).
 func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 	n := s.n
 	T0, A0, o := s.T, s.A, s.old
 	T, A, v := s.Tn, s.An, s.cur
 	tn := s.t + h
+	pj, sj := s.jaT, s.gA // p_j and s_j of the elimination
 	for it := 0; ; it++ {
 		s.eval(v, tn, T, A)
 		maxF, maxG := 0.0, 0.0
+		// Cure rows first: p_j and s_j are needed by the neighbours' rows.
 		for i := range n {
-			m := s.rho[i] * s.w[i] / h
-			cs := 0.5 * (o.cp[i] + v.cp[i])
-			dT := T[i] - T0[i]
-			F := m*cs*dT - theta*v.D[i] - (1-theta)*o.D[i] - s.heat[i]*s.w[i]*(A[i]-A0[i])/h
-			s.lo[i] = -theta * v.dDl[i]
-			s.up[i] = -theta * v.dDu[i]
-			s.di[i] = m*(cs+0.5*v.cpT[i]*dT) - theta*v.dDd[i]
-			s.rhs[i] = -F
-			maxF = max(maxF, math.Abs(F)/(m*cs))
+			pj[i], sj[i], s.jaa[i] = 0, 0, 1
 			if s.cure[i] == nil {
 				continue
 			}
@@ -197,19 +215,47 @@ func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 				// The step would carry the cell past full cure: α = 1 stands
 				// (the rate is zero there) and the cell's cure is not an
 				// unknown of this iteration.
-				s.jaT[i], s.jaa[i], s.gA[i] = 0, 1, 0
 				continue
 			}
 			maxG = max(maxG, math.Abs(G))
-			jTa := m*0.5*v.cpA[i]*dT - s.heat[i]*s.w[i]/h
-			jaT := -h * theta * v.rT[i]
 			jaa := 1 - h*theta*v.rA[i]
 			if jaa < minJaa {
-				return stepNoConverge, it
+				// Autocatalysis faster than the step can follow (the
+				// trapezoidal rule is unstable for growth with hθ ∂r/∂α ≥ 1).
+				// Far from the solution (α^m with m < 1 is infinitely steep
+				// at α = 0) the slope only misleads, so bound it; at the
+				// solution itself it means the step is too long.
+				if maxG <= newtonTolA {
+					return stepNoConverge, it
+				}
+				jaa = minJaa
 			}
-			s.di[i] -= jTa * jaT / jaa
-			s.rhs[i] += jTa * G / jaa
-			s.jaT[i], s.jaa[i], s.gA[i] = jaT, jaa, G
+			pj[i], sj[i], s.jaa[i] = -h*theta*v.rT[i]/jaa, G/jaa, jaa
+		}
+		for i := range n {
+			m := s.rho[i] * s.w[i] / h
+			cs := 0.5 * (o.cp[i] + v.cp[i])
+			dT := T[i] - T0[i]
+			F := m*cs*dT - theta*v.D[i] - (1-theta)*o.D[i] - s.heat[i]*s.w[i]*(A[i]-A0[i])/h
+			maxF = max(maxF, math.Abs(F)/(m*cs))
+			// D_i = down_i − down_{i+1}: face i has cell i below it (b),
+			// face i+1 has cell i above it (a).
+			dDT := v.fTb[i] - v.fTa[i+1]
+			dDA := v.fAb[i] - v.fAa[i+1]
+			fT := m*(cs+0.5*v.cpT[i]*dT) - theta*dDT
+			fA := m*0.5*v.cpA[i]*dT - s.heat[i]*s.w[i]/h - theta*dDA
+			s.di[i] = fT - fA*pj[i]
+			s.rhs[i] = -F + fA*sj[i]
+			if i > 0 { // ∂F_i/∂(T, α)_{i−1} through face i
+				lT, lA := -theta*v.fTa[i], -theta*v.fAa[i]
+				s.lo[i] = lT - lA*pj[i-1]
+				s.rhs[i] += lA * sj[i-1]
+			}
+			if i < n-1 { // ∂F_i/∂(T, α)_{i+1} through face i+1
+				uT, uA := theta*v.fTb[i+1], theta*v.fAb[i+1]
+				s.up[i] = uT - uA*pj[i+1]
+				s.rhs[i] += uA * sj[i+1]
+			}
 		}
 		if math.IsNaN(maxF) || math.IsNaN(maxG) {
 			return stepNoConverge, it
@@ -223,25 +269,24 @@ func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 		if !thomas(s.lo, s.di, s.up, s.rhs, s.cp) {
 			return stepNoConverge, it
 		}
-		dTmax, dAmax, Tmax := 0.0, 0.0, 0.0
+		dTmax, dAmax := 0.0, 0.0
 		for i := range n {
 			dT := s.rhs[i]
 			T[i] += dT
 			dTmax = max(dTmax, math.Abs(dT))
-			Tmax = max(Tmax, math.Abs(T[i]))
 			if s.cure[i] == nil {
 				continue
 			}
-			dA := (-s.gA[i] - s.jaT[i]*dT) / s.jaa[i]
-			a := min(max(A[i]+dA, 0), 1)
+			a := min(max(A[i]-sj[i]-pj[i]*dT, 0), 1)
 			dAmax = max(dAmax, math.Abs(a-A[i]))
 			A[i] = a
 		}
 		if math.IsNaN(dTmax) || math.IsInf(dTmax, 0) {
 			return stepNoConverge, it
 		}
-		if dTmax <= 1e-13*Tmax && dAmax <= 1e-14 {
-			// Converged to round-off: the residual cannot fall further.
+		if dTmax <= newtonTinyT && dAmax <= newtonTinyA {
+			// Converged: the residual left after so small an update is at
+			// its round-off floor (quadratic convergence).
 			s.eval(v, tn, T, A)
 			return stepOK, it + 1
 		}

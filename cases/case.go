@@ -1,0 +1,45 @@
+package cases
+
+import (
+	"cureslab/physics"
+	"cureslab/solver"
+)
+
+// Case is a validated case file resolved to SI units, ready to run.
+type Case struct {
+	File  string // path as given by the user ("<name>" for embedded text)
+	Dir   string // directory that relative paths in the case refer to
+	Title string
+
+	// Problem is the resolved model handed to solver.Run.
+	Problem *solver.Problem
+
+	Layers    []LayerInfo                  // one per [[layer]], top to bottom
+	Materials map[string]*physics.Material // every material the layers use, by name
+	Schedules map[string]physics.Schedule  // every [schedules.X], by name
+	// Replaced lists built-in material names that a [materials.X] of this
+	// case overrides (check reports them).
+	Replaced []string
+
+	OutputEvery float64 // s
+	Criteria    Criteria
+	Probes      []float64 // probe depths as given, m (also in Problem.Probes)
+
+	TopAir, BottomAir string // what drives each face as written ("oven", "23 C"), "" if none
+}
+
+// LayerInfo is one layer as the user described it.
+type LayerInfo struct {
+	Name     string
+	Material string // material name as written
+	// Builtin reports that the material came from the built-in library.
+	Builtin bool
+}
+
+// Criteria are the optional acceptance criteria of [criteria]; a NaN field
+// is not set.
+type Criteria struct {
+	MinCure        float64 // every curing cell at the end, (0, 1]
+	MaxTemperature float64 // K, anywhere, any time
+	MaxSpread      float64 // K, inside curing layers, any time
+}

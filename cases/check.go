@@ -1,0 +1,700 @@
+package cases
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"cureslab/physics"
+	"cureslab/solver"
+)
+
+// Cautions returns the cautions that cureslab shows with its results (SPEC
+// §9), one sentence per element, in plain text. check prints them; the
+// README and the report show the same list.
+func Cautions() []string {
+	return []string{
+		"A simulation does not replace a qualified trial on the real part: confirm what it predicts with measurements before relying on it.",
+		"Take resin data from the supplier's technical and safety data sheets and from your own measurements (DSC, thermal properties); the built-in values are generic handbook figures.",
+		"A large mass of reacting resin can heat itself until it smokes or catches fire: keep batch sizes, oven loads and casting thicknesses within the supplier's limits.",
+		"Microwave and dielectric heating equipment must meet the leakage limits and interlock rules that apply where it is used.",
+		"Local codes and your site's licensed practice come first wherever they differ from anything this tool suggests.",
+	}
+}
+
+// MaxNeighbourRatio is the size ratio of neighbouring cells above which
+// Check suggests grading the mesh with [mesh] growth.
+const MaxNeighbourRatio = 5
+
+// Check writes a plain-text account of c for a reader checking a case before
+// a run: the resolved stack (materials and where they come from, cells and
+// cell sizes, contact resistances), the materials, faces, schedules, time
+// and output settings and criteria, then pre-trial estimates (Biot numbers
+// of the faces, and for each curing layer the adiabatic temperature rise
+// and conduction time against reaction half-life, see Estimate), warnings,
+// and the cautions of SPEC §9.
+//
+// The only error it returns is a write error of w.
+func Check(w io.Writer, c *Case) error {
+	p := &chkPrinter{w: w}
+	chkHeader(p, c)
+	chkStack(p, c)
+	chkMaterials(p, c)
+	chkFaces(p, c)
+	chkSchedules(p, c)
+	chkTime(p, c)
+	warnings := chkEstimates(p, c)
+	warnings = append(warnings, meshWarnings(c)...)
+	p.printf("\nWarnings\n")
+	if len(warnings) == 0 {
+		p.printf("  none\n")
+	}
+	for _, s := range warnings {
+		p.printf("  - %s\n", s)
+	}
+	p.printf("\nCautions\n")
+	for _, s := range Cautions() {
+		p.printf("  - %s\n", s)
+	}
+	return p.err
+}
+
+// chkPrinter writes formatted text and keeps the first error.
+type chkPrinter struct {
+	w   io.Writer
+	err error
+}
+
+func (p *chkPrinter) printf(format string, a ...any) {
+	if p.err == nil {
+		_, p.err = fmt.Fprintf(p.w, format, a...)
+	}
+}
+
+// table returns a tabwriter on p's writer; flush it with p.flush.
+func (p *chkPrinter) table() *tabwriter.Writer {
+	return tabwriter.NewWriter(chkWriter{p}, 0, 0, 2, ' ', 0)
+}
+
+func (p *chkPrinter) flush(tw *tabwriter.Writer) {
+	if err := tw.Flush(); err != nil && p.err == nil {
+		p.err = err
+	}
+}
+
+type chkWriter struct{ p *chkPrinter }
+
+func (cw chkWriter) Write(b []byte) (int, error) {
+	if cw.p.err != nil {
+		return 0, cw.p.err
+	}
+	n, err := cw.p.w.Write(b)
+	cw.p.err = err
+	return n, err
+}
+
+func chkHeader(p *chkPrinter, c *Case) {
+	title := c.Title
+	if title == "" {
+		title = "(no title)"
+	}
+	p.printf("Case: %s\n", title)
+	if c.File != "" {
+		p.printf("File: %s\n", c.File)
+	}
+}
+
+func chkStack(p *chkPrinter, c *Case) {
+	m := c.Problem.Mesh
+	p.printf("\nStack, top to bottom (depth 0 is the top face): %s mm in %d cells\n", FormatDepth(m.Thickness()), m.Cells())
+	tw := p.table()
+	fmt.Fprintf(tw, "  layer\tmaterial\tfrom\tthickness\tdepth\tcells\tcell size\tcontact resistance\n")
+	for j, l := range m.Layers {
+		info := chkLayerInfo(c, j)
+		from := "case file"
+		if info.Builtin {
+			from = "built-in"
+		} else if chkContains(c.Replaced, info.Material) {
+			from = "case file, replaces built-in"
+		}
+		if mat := chkMaterial(c, j); mat != nil && mat.Cure != nil {
+			from += ", cures"
+		}
+		lo, hi := math.Inf(1), 0.0
+		for i := m.First[j]; i < m.First[j+1]; i++ {
+			lo, hi = min(lo, m.Widths[i]), max(hi, m.Widths[i])
+		}
+		size := chkG4(lo*1e3) + " mm"
+		if hi > lo*(1+1e-9) {
+			size = chkG4(lo*1e3) + " to " + chkG4(hi*1e3) + " mm"
+		}
+		rc := "-"
+		if l.ContactResistance > 0 {
+			rc = chkG(l.ContactResistance) + " m^2*K/W"
+		}
+		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s mm\t%s to %s mm\t%d\t%s\t%s\n", l.Name, info.Material, from,
+			FormatDepth(l.Thickness), FormatDepth(m.Faces[m.First[j]]), FormatDepth(m.Faces[m.First[j+1]]),
+			m.First[j+1]-m.First[j], size, rc)
+	}
+	p.flush(tw)
+}
+
+// chkLayerInfo returns the LayerInfo of layer j, or one built from the mesh
+// and the problem when the case carries none.
+func chkLayerInfo(c *Case, j int) LayerInfo {
+	if j < len(c.Layers) {
+		return c.Layers[j]
+	}
+	info := LayerInfo{Name: c.Problem.Mesh.Layers[j].Name}
+	if mat := chkMaterial(c, j); mat != nil {
+		info.Material = mat.Name
+	}
+	return info
+}
+
+func chkMaterial(c *Case, j int) *physics.Material {
+	if j < len(c.Problem.Materials) {
+		return c.Problem.Materials[j]
+	}
+	return nil
+}
+
+func chkContains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+func chkMaterials(p *chkPrinter, c *Case) {
+	p.printf("\nMaterials\n")
+	seen := map[*physics.Material]bool{}
+	for j := range c.Problem.Mesh.Layers {
+		mat := chkMaterial(c, j)
+		if mat == nil || seen[mat] {
+			continue
+		}
+		seen[mat] = true
+		name := mat.Name
+		if name == "" {
+			name = chkLayerInfo(c, j).Material
+		}
+		p.printf("  %s\n", name)
+		for _, line := range DescribeMaterial(mat) {
+			p.printf("    %s\n", line)
+		}
+	}
+}
+
+// DescribeMaterial returns a few plain-text lines describing m: density,
+// specific heat, conductivity (with their cured values and tables), the cure
+// model and its parameters, the dielectric properties, and the source. Used
+// by check and by the materials command.
+func DescribeMaterial(m *physics.Material) []string {
+	lines := []string{
+		"density " + chkG(m.Density) + " kg/m^3",
+		"specific heat " + chkBlend(&m.SpecificHeat, "J/kg/K"),
+		"conductivity " + chkBlend(&m.Conductivity, "W/m/K"),
+	}
+	if cu := m.Cure; cu != nil {
+		lines = append(lines, "cures: "+chkKinetics(cu.Model))
+		gel := cu.GelPoint
+		if gel == 0 {
+			gel = physics.DefaultGelPoint
+		}
+		lines = append(lines, fmt.Sprintf("total heat %s J/g, resin fraction %s, gel point %s",
+			chkG(cu.TotalHeat/1e3), chkG(cu.ResinFraction), chkG(gel)))
+		if d := cu.Diffusion; d != nil {
+			lines = append(lines, fmt.Sprintf("diffusion: C %s, alpha_c = %s + %s 1/K * T (%s at 23 C, %s at 100 C)",
+				chkG(d.C), chkG(d.Alpha0), chkG(d.AlphaT),
+				chkF(d.Alpha0+d.AlphaT*296.15, 3), chkF(d.Alpha0+d.AlphaT*373.15, 3)))
+		}
+		if g := cu.Glass; g != nil {
+			lines = append(lines, fmt.Sprintf("glass transition: Tg0 %s C, Tg_full %s C, lambda %s",
+				chkG(g.Tg0-273.15), chkG(g.TgFull-273.15), chkG(g.Lambda)))
+		}
+	}
+	if d := m.Dielectric; d != nil {
+		if d.Shield {
+			lines = append(lines, "dielectric: shield (absorbs nothing, blocks the field beyond it)")
+		} else {
+			lines = append(lines, fmt.Sprintf("dielectric: permittivity %s, loss factor %s uncured, %s cured",
+				chkG(d.Permittivity), chkG(d.LossFactor), chkG(d.LossFactorCured)))
+		}
+	}
+	if m.Source != "" {
+		lines = append(lines, "source: "+m.Source)
+	}
+	return lines
+}
+
+// chkBlend describes a property that may depend on temperature and cure.
+func chkBlend(b *physics.Blend, unit string) string {
+	s := chkProperty(b.Uncured, unit)
+	if b.HasCured {
+		return s + " uncured, " + chkProperty(b.Cured, unit) + " cured (linear in cure)"
+	}
+	return s
+}
+
+func chkProperty(p physics.Property, unit string) string {
+	t, v := p.Points()
+	if p.IsConstant() {
+		if len(v) == 0 {
+			return "0 " + unit
+		}
+		return chkG(v[0]) + " " + unit
+	}
+	lo, hi := v[0], v[0]
+	for _, x := range v {
+		lo, hi = min(lo, x), max(hi, x)
+	}
+	return fmt.Sprintf("%s to %s %s (table of %d points, %s to %s C)", chkG(lo), chkG(hi), unit,
+		len(t), chkG(t[0]-273.15), chkG(t[len(t)-1]-273.15))
+}
+
+func chkKinetics(k physics.Kinetics) string {
+	switch m := k.(type) {
+	case physics.NthOrder:
+		return fmt.Sprintf("nth-order, A %s 1/s, E %s kJ/mol, n %s", chkG(m.A), chkG(m.E/1e3), chkG(m.N))
+	case *physics.NthOrder:
+		return chkKinetics(*m)
+	case physics.Autocatalytic:
+		return fmt.Sprintf("autocatalytic, A1 %s 1/s, E1 %s kJ/mol, A2 %s 1/s, E2 %s kJ/mol, m %s, n %s",
+			chkG(m.A1), chkG(m.E1/1e3), chkG(m.A2), chkG(m.E2/1e3), chkG(m.M), chkG(m.N))
+	case *physics.Autocatalytic:
+		return chkKinetics(*m)
+	case nil:
+		return "no kinetic model"
+	}
+	return k.Name()
+}
+
+func chkFaces(p *chkPrinter, c *Case) {
+	p.printf("\nFaces\n")
+	tw := p.table()
+	for _, f := range []struct {
+		name   string
+		face   *physics.Face
+		driver string
+	}{{"top", &c.Problem.Top, c.TopAir}, {"bottom", &c.Problem.Bottom, c.BottomAir}} {
+		fmt.Fprintf(tw, "  %s\t%s\t%s\n", f.name, f.face.Kind, chkFace(f.face, f.driver))
+	}
+	p.flush(tw)
+}
+
+func chkFace(f *physics.Face, driver string) string {
+	q := func(s string) string {
+		if s == "" {
+			return "(as loaded)"
+		}
+		return strconv.Quote(s)
+	}
+	switch f.Kind {
+	case physics.Convection:
+		s := "h " + chkG(f.H) + " W/m^2/K, air " + q(driver)
+		if f.Emissivity > 0 {
+			s += ", emissivity " + chkG(f.Emissivity)
+		}
+		return s
+	case physics.Fixed:
+		return "temperature " + q(driver)
+	case physics.Flux:
+		t, v := f.Flux.Points()
+		if len(v) == 1 {
+			return "flux " + chkG(v[0]) + " W/m^2 into the part"
+		}
+		lo, hi := v[0], v[0]
+		for _, x := range v {
+			lo, hi = min(lo, x), max(hi, x)
+		}
+		return fmt.Sprintf("flux %s to %s W/m^2 into the part, %d points over %s", chkG(lo), chkG(hi), len(v), outHumanTime(t[len(t)-1]))
+	}
+	return "no heat through this face"
+}
+
+func chkSchedules(p *chkPrinter, c *Case) {
+	if len(c.Schedules) == 0 {
+		return
+	}
+	names := make([]string, 0, len(c.Schedules))
+	for n := range c.Schedules {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	p.printf("\nSchedules (temperatures held before the first and after the last point)\n")
+	for _, n := range names {
+		s := c.Schedules[n]
+		t, v := s.Points()
+		p.printf("  %s: %d points, starts at %s C, highest %s C, ends at %s with %s C\n", n, len(t),
+			chkC(v[0]), chkC(s.Max()), outHumanTime(s.End()), chkC(v[len(v)-1]))
+		pts := make([]string, 0, len(t))
+		for i := range t {
+			if len(t) > 12 && i == 5 {
+				pts = append(pts, fmt.Sprintf("... (%d more)", len(t)-10))
+			}
+			if len(t) > 12 && i >= 5 && i < len(t)-5 {
+				continue
+			}
+			pts = append(pts, outHumanTime(t[i])+" "+chkC(v[i])+" C")
+		}
+		p.printf("    %s\n", strings.Join(pts, ", "))
+	}
+}
+
+func chkTime(p *chkPrinter, c *Case) {
+	pr := c.Problem
+	p.printf("\nTime and output\n")
+	tw := p.table()
+	init := chkC(pr.InitialTemperature) + " C"
+	if chkCuring(c) {
+		init += ", cure " + chkG(pr.InitialCure) + " in curing layers"
+	}
+	fmt.Fprintf(tw, "  initial\t%s\n", init)
+	fmt.Fprintf(tw, "  end\t%s (%s s)\n", outHumanTime(pr.End), chkG(pr.End))
+	every := c.OutputEvery
+	if every == 0 {
+		every = pr.End / 100
+	}
+	n := len(pr.OutputTimes)
+	if n == 0 {
+		n = 100
+	}
+	fmt.Fprintf(tw, "  output every\t%s (%d snapshots after t = 0)\n", outHumanTime(every), n)
+	step := "none (up to the whole run)"
+	if pr.MaxStep > 0 {
+		step = outHumanTime(pr.MaxStep)
+	}
+	fmt.Fprintf(tw, "  max step\t%s\n", step)
+	tt, ct, at := pr.TemperatureTolerance, pr.CureTolerance, pr.AbortTemperature
+	dt, dc, da := "", "", ""
+	if tt == 0 {
+		tt, dt = solver.DefaultTemperatureTolerance, " (default)"
+	}
+	if ct == 0 {
+		ct, dc = solver.DefaultCureTolerance, " (default)"
+	}
+	if at == 0 {
+		at, da = solver.DefaultAbortTemperature, " (default)"
+	}
+	fmt.Fprintf(tw, "  tolerances\ttemperature %s K%s, cure %s%s per step\n", chkG(tt), dt, chkG(ct), dc)
+	fmt.Fprintf(tw, "  runaway limit\t%s C%s\n", chkG(at-273.15), da)
+	probes := make([]string, len(pr.Probes))
+	for i, d := range pr.Probes {
+		probes[i] = FormatDepth(d) + " mm"
+		if j := chkLayerAt(pr, d); j >= 0 {
+			probes[i] += " (" + pr.Mesh.Layers[j].Name + ")"
+		}
+	}
+	if len(probes) == 0 {
+		probes = []string{"none"}
+	}
+	fmt.Fprintf(tw, "  probes\t%s\n", strings.Join(probes, ", "))
+	var cr []string
+	if v := c.Criteria.MinCure; !math.IsNaN(v) {
+		cr = append(cr, "min_cure "+chkG(v))
+	}
+	if v := c.Criteria.MaxTemperature; !math.IsNaN(v) {
+		cr = append(cr, "max_temperature "+chkG(outCelsius(v))+" C")
+	}
+	if v := c.Criteria.MaxSpread; !math.IsNaN(v) {
+		cr = append(cr, "max_spread "+chkG(outRound6(v))+" K")
+	}
+	if len(cr) == 0 {
+		cr = []string{"none"}
+	}
+	fmt.Fprintf(tw, "  criteria\t%s\n", strings.Join(cr, ", "))
+	p.flush(tw)
+}
+
+// chkLayerAt returns the layer a probe at depth z reads (the upper layer on
+// a layer face), or −1 outside the stack.
+func chkLayerAt(pr *solver.Problem, z float64) int {
+	m := pr.Mesh
+	for j := range m.Layers {
+		if z <= m.Faces[m.First[j+1]] {
+			if z < 0 {
+				return -1
+			}
+			return j
+		}
+	}
+	return -1
+}
+
+func chkCuring(c *Case) bool {
+	for _, m := range c.Problem.Materials {
+		if m != nil && m.Cure != nil {
+			return true
+		}
+	}
+	return false
+}
+
+// Estimate holds the pre-trial estimates of one curing layer at the
+// reference temperature T (the highest temperature that drives the case).
+type Estimate struct {
+	Layer, Material string
+	Thickness       float64 // m
+	T               float64 // reference temperature, K
+	// AdiabaticRise is the temperature rise of the layer if none of its
+	// reaction heat left it, K.
+	AdiabaticRise float64
+	// Diffusivity is k/(ρ c_p) of the layer at T and the initial cure, m²/s.
+	Diffusivity float64
+	// ConductionTime is L²/a with L the layer thickness, s.
+	ConductionTime float64
+	// HalfLife is the isothermal time at T from the initial cure to 0.5, s;
+	// +Inf when the resin does not react from its initial cure, 0 when it
+	// starts past 0.5.
+	HalfLife float64
+}
+
+// Estimates returns the pre-trial estimates of every curing layer of c at
+// the highest temperature that drives the case (the hottest point of the
+// schedules and constants of convective and fixed faces; the initial
+// temperature when nothing drives one):
+//
+//	ΔT_ad = ∫_{α0}^{1} w·H / c_p(α) dα
+//	      = w·H / (c_c − c_u) · ln(c_c / (c_u + (c_c − c_u)·α0))
+//
+// the adiabatic rise of the capacity form of the energy equation (SPEC §10)
+// with c_p linear in cure between its uncured and cured values at T; for a
+// cure-independent c_p it is the familiar w·H·(1 − α0)/c_p (energy balance;
+// REFERENCES §9). The conduction time is L²/a with L the layer thickness
+// and a = k/(ρ c_p) uncured at T; the half-life is physics.Cure's
+// IsothermalTime from α0 to 0.5 at T.
+//
+// Cost: one isothermal quadrature per curing layer.
+func Estimates(c *Case) []Estimate {
+	pr := c.Problem
+	T, _ := DrivingMax(pr)
+	var out []Estimate
+	for j, l := range pr.Mesh.Layers {
+		mat := chkMaterial(c, j)
+		if mat == nil || mat.Cure == nil {
+			continue
+		}
+		a0 := pr.InitialCure
+		cu, _ := mat.SpecificHeat.Uncured.At(T)
+		cc := cu
+		if mat.SpecificHeat.HasCured {
+			cc, _ = mat.SpecificHeat.Cured.At(T)
+		}
+		cp, _, _ := mat.SpecificHeat.At(T, a0)
+		k, _, _ := mat.Conductivity.At(T, a0)
+		diff := k / (mat.Density * cp)
+		e := Estimate{
+			Layer:          l.Name,
+			Material:       chkLayerInfo(c, j).Material,
+			Thickness:      l.Thickness,
+			T:              T,
+			AdiabaticRise:  AdiabaticRise(mat.Cure.HeatPerMass(), cu, cc, a0),
+			Diffusivity:    diff,
+			ConductionTime: l.Thickness * l.Thickness / diff,
+			HalfLife:       mat.Cure.IsothermalTime(T, a0, 0.5),
+		}
+		out = append(out, e)
+	}
+	return out
+}
+
+// AdiabaticRise returns the temperature rise, in K, of a material that
+// releases heat q (J/kg, resin fraction × total heat) as its cure goes from
+// a0 to 1 with no heat leaving, when its specific heat is linear in cure
+// from cu (uncured) to cc (cured), both in J/(kg·K):
+//
+//	ΔT = q / (cc − cu) · ln(cc / (cu + (cc − cu)·a0)),
+//
+// which is q·(1 − a0)/cu when cc = cu (REFERENCES §9). Preconditions: cu,
+// cc > 0 and a0 in [0, 1].
+func AdiabaticRise(q, cu, cc, a0 float64) float64 {
+	c0 := cu + (cc-cu)*a0
+	d := cc - cu
+	if math.Abs(d) <= 1e-12*cu {
+		return q * (1 - a0) / c0
+	}
+	return q / d * math.Log1p(d*(1-a0)/c0)
+}
+
+// DrivingMax returns the highest temperature that drives the problem (K):
+// the largest value of the air schedule of a convective face or the set
+// schedule of a fixed face, and false with the initial temperature when no
+// face drives one.
+func DrivingMax(pr *solver.Problem) (float64, bool) {
+	T, found := math.Inf(-1), false
+	for _, f := range []*physics.Face{&pr.Top, &pr.Bottom} {
+		if s, ok := f.Driver(); ok {
+			T, found = max(T, s.Max()), true
+		}
+	}
+	if !found {
+		return pr.InitialTemperature, false
+	}
+	return T, true
+}
+
+// chkEstimates prints the Biot numbers and the curing-layer estimates and
+// returns the warnings they raise.
+func chkEstimates(p *chkPrinter, c *Case) []string {
+	pr := c.Problem
+	var warn []string
+	p.printf("\nPre-trial estimates (rough guides, not results)\n")
+
+	// Biot numbers of the whole stack.
+	m := pr.Mesh
+	T0 := pr.InitialTemperature
+	L, R := m.Thickness(), 0.0
+	for j, l := range m.Layers {
+		a := 0.0
+		mat := chkMaterial(c, j)
+		if mat == nil {
+			continue
+		}
+		if mat.Cure != nil {
+			a = pr.InitialCure
+		}
+		k, _, _ := mat.Conductivity.At(T0, a)
+		R += l.Thickness/k + l.ContactResistance
+	}
+	keff := L / R
+	p.printf("  Biot numbers Bi = h*L/k_eff, L = the whole stack (%s mm), k_eff = L / (sum of layer thickness/k\n", FormatDepth(L))
+	p.printf("  plus contact resistances) = %s W/m/K at the initial %s C:\n", chkG3(keff), chkF(T0-273.15, 1))
+	tw := p.table()
+	for _, f := range []struct {
+		name string
+		face *physics.Face
+	}{{"top", &pr.Top}, {"bottom", &pr.Bottom}} {
+		switch f.face.Kind {
+		case physics.Convection:
+			h := f.face.H
+			note := "h " + chkG(h) + " W/m^2/K"
+			if f.face.Emissivity > 0 {
+				ta := f.face.Air.Max()
+				hr := 4 * f.face.Emissivity * physics.StefanBoltzmann * ta * ta * ta
+				h += hr
+				note += fmt.Sprintf(" + radiation %s W/m^2/K (linearised at %s C)", chkG3(hr), chkF(ta-273.15, 0))
+			}
+			bi := h * R
+			fmt.Fprintf(tw, "    %s\tBi = %s\t%s: %s\n", f.name, chkG3(bi), note, biotWords(bi))
+		case physics.Fixed:
+			fmt.Fprintf(tw, "    %s\tBi infinite\tthe face follows its set temperature; the stack lags it by conduction alone\n", f.name)
+		default:
+			fmt.Fprintf(tw, "    %s\tno Biot number\t%s face\n", f.name, f.face.Kind)
+		}
+	}
+	p.flush(tw)
+
+	est := Estimates(c)
+	if len(est) == 0 {
+		p.printf("  No layer cures: the case is pure heat conduction.\n")
+		return warn
+	}
+	abort := pr.AbortTemperature
+	if abort == 0 {
+		abort = solver.DefaultAbortTemperature
+	}
+	for _, e := range est {
+		p.printf("  Layer %s (%s), at the highest driving temperature %s C:\n", e.Layer, e.Material, chkF(e.T-273.15, 1))
+		tw := p.table()
+		peak := e.T + e.AdiabaticRise
+		fmt.Fprintf(tw, "    adiabatic temperature rise\t%s K\tif no reaction heat left the layer; an adiabatic core would reach %s C\n",
+			chkF(e.AdiabaticRise, 1), chkF(peak-273.15, 0))
+		fmt.Fprintf(tw, "    conduction time L^2/a\t%s\tL = %s mm, a = k/(rho*c_p) = %s m^2/s\n",
+			outHumanTime(e.ConductionTime), FormatDepth(e.Thickness), chkG3(e.Diffusivity))
+		var half string
+		switch {
+		case e.HalfLife == 0:
+			half = "already past half cure at the start"
+		case math.IsInf(e.HalfLife, 1):
+			half = "never: the resin does not react from its initial cure at this temperature"
+		case math.IsNaN(e.HalfLife):
+			half = "unknown"
+		default:
+			half = outHumanTime(e.HalfLife) + "\tisothermal, cure " + chkG(pr.InitialCure) + " to 0.5"
+		}
+		fmt.Fprintf(tw, "    reaction half-life\t%s\n", half)
+		p.flush(tw)
+		if e.HalfLife > 0 && e.ConductionTime > e.HalfLife {
+			warn = append(warn, fmt.Sprintf("layer %s: the conduction time (%s) is longer than the reaction half-life at %s C (%s): the exotherm can run ahead of conduction: expect the core to overshoot the program.",
+				e.Layer, outHumanTime(e.ConductionTime), chkF(e.T-273.15, 0), outHumanTime(e.HalfLife)))
+		}
+		if v := c.Criteria.MaxTemperature; !math.IsNaN(v) && peak > v {
+			warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above max_temperature %s C: the criterion holds only if enough heat leaves.",
+				e.Layer, chkF(peak-273.15, 0), chkG(outCelsius(v))))
+		}
+		if peak > abort {
+			warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above the runaway limit %s C.",
+				e.Layer, chkF(peak-273.15, 0), chkG(abort-273.15)))
+		}
+	}
+	return warn
+}
+
+// biotWords says what a Biot number means for the through-thickness
+// gradient (the 0.1 threshold of the lumped-capacitance approximation,
+// Incropera 6th ed. §5.1, from memory).
+func biotWords(bi float64) string {
+	switch {
+	case bi < 0.1:
+		return "the stack heats nearly uniformly through its thickness"
+	case bi <= 1:
+		return "a moderate through-thickness gradient"
+	}
+	return "conduction-limited: a large through-thickness gradient"
+}
+
+// meshWarnings returns a warning when neighbouring cells differ in size by
+// more than MaxNeighbourRatio.
+func meshWarnings(c *Case) []string {
+	m := c.Problem.Mesh
+	worst, at, count := 0.0, 0, 0
+	for i := 0; i+1 < m.Cells(); i++ {
+		a, b := m.Widths[i], m.Widths[i+1]
+		r := max(a, b) / min(a, b)
+		if r > MaxNeighbourRatio {
+			count++
+			if r > worst {
+				worst, at = r, i
+			}
+		}
+	}
+	if count == 0 {
+		return nil
+	}
+	return []string{fmt.Sprintf("neighbouring cells at %s mm differ in size by %sx (%s mm and %s mm; %d such place(s)): set [mesh] growth = 1.2 to grade the cells.",
+		FormatDepth(m.Faces[at+1]), chkG3(worst), chkG3(m.Widths[at]*1e3), chkG3(m.Widths[at+1]*1e3), count)}
+}
+
+// chkG formats v with up to 6 significant digits, no trailing zeros.
+func chkG(v float64) string {
+	if v == 0 {
+		return "0"
+	}
+	return strconv.FormatFloat(v, 'g', 6, 64)
+}
+
+// chkC formats an absolute temperature T (K) in °C with up to 6
+// significant digits.
+func chkC(T float64) string { return chkG(outCelsius(T)) }
+
+// chkG4 formats v with 4 significant digits.
+func chkG4(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
+
+// chkG3 formats v with 3 significant digits.
+func chkG3(v float64) string { return strconv.FormatFloat(v, 'g', 3, 64) }
+
+// chkF formats v with the given decimals (no "-0").
+func chkF(v float64, decimals int) string {
+	s := strconv.FormatFloat(v, 'f', decimals, 64)
+	if strings.Trim(s, "-0.") == "" {
+		s = strings.TrimPrefix(s, "-")
+	}
+	return s
+}

@@ -1,0 +1,231 @@
+package cases
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/BurntSushi/toml"
+
+	"cureslab/mesh"
+	"cureslab/physics"
+	"cureslab/solver"
+)
+
+// topKeys are the sections and keys a case file may have at its top level.
+var topKeys = []string{"title", "initial", "time", "layer", "mesh", "materials", "schedules",
+	"top", "bottom", "volumetric", "output", "criteria", "sweep", "uncertainty"}
+
+// unsupported are the sections of SPEC §4 that this version refuses.
+var unsupported = map[string]string{
+	"volumetric":  "volumetric (dielectric) heating",
+	"sweep":       "a sweep defined in the case file",
+	"uncertainty": "declared uncertainties",
+}
+
+// Load reads, validates and resolves the case file at path (see Parse);
+// relative paths inside it are taken from its directory.
+func Load(path string) (*Case, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, ErrorList{{File: path, Err: &detail{kind: ErrFile, cause: err, msg: fmt.Sprintf("cannot read the case file: %v", err)}}}
+	}
+	return Parse(path, data, filepath.Dir(path))
+}
+
+// Parse reads, validates and resolves a case file (SPEC §4, §10) given as
+// data; name is the file name used in messages and dir the directory that
+// relative paths in the case (schedule files) refer to.
+//
+// Every value is converted to SI and checked before anything is built: an
+// unknown key, a quantity without its unit or of the wrong dimension, a
+// value out of physical range, a reference to an unknown material or
+// schedule, a required section that is missing. All problems are collected
+// and returned together as an ErrorList of *Error, each with the file, line,
+// column and key path; no partial Case is returned. The sections
+// [volumetric], [sweep] and [uncertainty] are refused as not supported yet;
+// [materials.X.dielectric] is validated into physics.Dielectric.
+//
+// Defaults: time.end is the end of the longest program the case uses (a
+// schedule that drives a face, or flux points) and is required when there is
+// none; output_every is end/100; abort_temperature is 400 C; the title is
+// the file name without its extension. Cost: linear in the size of the
+// file, plus the schedule files it reads and the mesh it builds.
+func Parse(name string, data []byte, dir string) (*Case, error) {
+	text := string(data)
+	var doc map[string]any
+	if _, err := toml.Decode(text, &doc); err != nil {
+		return nil, ErrorList{syntaxError(name, text, err)}
+	}
+	l := &loader{file: name, dir: dir, loc: newLocator(text)}
+	c := l.build(doc)
+	if err := l.errs.sortFor(name).Err(); err != nil {
+		return nil, err
+	}
+	return c, nil
+}
+
+// build reads the whole document; the Case is nil when there are errors.
+func (l *loader) build(doc map[string]any) *Case {
+	root := l.open("", doc, topKeys, nil)
+	for _, k := range sortedKeys(doc) {
+		if what, ok := unsupported[k]; ok {
+			l.add(l.loc.table(k), k, ErrUnsupported, nil, fmt.Sprintf("[%s] (%s) is not supported yet in this version", k, what)).Hint =
+				fmt.Sprintf("remove [%s] to run the case without it", k)
+		}
+	}
+	c := &Case{File: l.file, Dir: l.dir, Title: strings.TrimSuffix(filepath.Base(l.file), filepath.Ext(l.file))}
+	if s, ok := l.str(root, "title"); ok {
+		c.Title = s
+	}
+	defs, replaced := l.materials(root)
+	scheds := l.schedules(root)
+	layers, layersOK := l.layers(root, defs)
+	opt := l.meshOptions(root)
+	T0, cure0, initOK := l.initial(root)
+	top := l.face(root, "top", scheds)
+	bottom := l.face(root, "bottom", scheds)
+
+	p := &solver.Problem{InitialTemperature: T0, InitialCure: cure0}
+	programEnd := 0.0
+	for _, f := range []*faceDef{top, bottom} {
+		if f == nil {
+			programEnd = -1 // unknown: the face has errors of its own
+			break
+		}
+		programEnd = max(programEnd, f.end)
+	}
+	if !initOK {
+		T0 = 0
+	}
+	c.OutputEvery = l.timing(root, p, programEnd, T0)
+
+	total := 0.0
+	for _, d := range layers {
+		total += d.geom.Thickness
+	}
+	if !layersOK {
+		total = 0 // unknown: do not judge probe depths against it
+	}
+	p.Probes = l.probes(root, total)
+	c.Probes = p.Probes
+	c.Criteria = l.criteria(root)
+	if !math.IsNaN(c.Criteria.MinCure) {
+		p.MinCure = c.Criteria.MinCure
+	}
+	if layersOK && initOK {
+		l.checkStart(layers, defs, cure0)
+	}
+	if !layersOK || !l.checkCells(layers, opt) || len(l.errs) > 0 {
+		return nil
+	}
+
+	geom := make([]mesh.Layer, len(layers))
+	for i, d := range layers {
+		geom[i] = d.geom
+	}
+	m, err := mesh.Build(geom, opt)
+	if err != nil { // not reached: every layer was checked above
+		key := "layer"
+		var le *mesh.LayerError
+		if errors.As(err, &le) {
+			key = fmt.Sprintf("layer.%d", le.Index)
+		}
+		l.add(l.loc.table(key), key, ErrRange, err, err.Error())
+		return nil
+	}
+	p.Mesh = m
+	p.Top, p.Bottom = top.face, bottom.face
+	c.TopAir, c.BottomAir = top.driver, bottom.driver
+	c.Materials = make(map[string]*physics.Material)
+	for _, d := range layers {
+		p.Materials = append(p.Materials, d.mat)
+		c.Materials[d.info.Material] = d.mat
+		c.Layers = append(c.Layers, d.info)
+	}
+	c.Schedules = make(map[string]physics.Schedule)
+	for name, s := range scheds {
+		c.Schedules[name] = *s
+	}
+	c.Replaced = replaced
+	c.Problem = p
+	return c
+}
+
+// checkStart reports an autocatalytic resin of the case that can never start
+// to react: A1 = 0 and m > 0 with an initial cure of 0.
+func (l *loader) checkStart(layers []layerDef, defs map[string]*physics.Material, cure0 float64) {
+	if cure0 > 0 {
+		return
+	}
+	seen := make(map[string]bool)
+	for _, d := range layers {
+		name := d.info.Material
+		if d.info.Builtin || d.mat == nil || d.mat.Cure == nil || seen[name] {
+			continue
+		}
+		seen[name] = true
+		if a, ok := d.mat.Cure.Model.(physics.Autocatalytic); ok && a.A1 == 0 && a.M > 0 {
+			key := "materials." + name + ".cure.A1"
+			l.atValue(key, ErrRange, "with A1 = 0 and m > 0 the resin never starts to react from an initial cure of 0").Hint =
+				"give A1 > 0, or a small [initial] cure such as 0.01"
+		}
+	}
+}
+
+// syntaxError turns an error of the TOML parser into an *Error with the
+// parser's position and the offending line with a caret under it.
+func syntaxError(name, text string, err error) *Error {
+	var pe toml.ParseError
+	if !errors.As(err, &pe) {
+		return &Error{File: name, Err: &detail{kind: ErrSyntax, cause: err, msg: err.Error()}}
+	}
+	e := &Error{File: name, Line: pe.Position.Line, Col: pe.Position.Col, Key: lastKeyBefore(text, pe.Position.Line, pe.Position.Col),
+		Err: &detail{kind: ErrSyntax, cause: err, msg: pe.Message}}
+	if e.Key == "" {
+		e.Key = pe.LastKey
+	}
+	e.Hint = caret(text, pe.Position.Line, pe.Position.Col, pe.Position.Len)
+	return e
+}
+
+// caret returns the line of text at line (1-based) and a caret under the
+// columns col..col+n-1 (bytes; tabs are kept so the caret lines up).
+func caret(text string, line, col, n int) string {
+	lines := strings.Split(text, "\n")
+	if line < 1 || line > len(lines) {
+		return ""
+	}
+	src := strings.TrimRight(lines[line-1], "\r")
+	if col < 1 {
+		col = 1
+	}
+	pad := []byte(src[:min(col-1, len(src))])
+	for i, b := range pad {
+		if b != '\t' {
+			pad[i] = ' '
+		}
+	}
+	return fmt.Sprintf("%s\n%s%s", src, pad, strings.Repeat("^", max(1, n)))
+}
+
+// lastKeyBefore returns the path, with array indices, of the last key that
+// starts at or before line:col, found by the locator in text that is not
+// valid TOML (the parser's own last key has no indices); "" if none.
+func lastKeyBefore(text string, line, col int) string {
+	l := newLocator(text)
+	best, at := "", pos{}
+	for _, e := range l.all {
+		p := e.at
+		if _, isKey := l.keys[e.path]; !isKey || p.Line > line || p.Line == line && p.Col > col {
+			continue
+		}
+		if p.Line > at.Line || p.Line == at.Line && p.Col >= at.Col {
+			best, at = e.path, p
+		}
+	}
+	return best
+}

@@ -1,0 +1,357 @@
+package cases
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+
+	"cureslab/cases/units"
+	"cureslab/physics"
+)
+
+var (
+	materialKeys = []string{"density", "specific_heat", "conductivity", "specific_heat_cured", "conductivity_cured", "cure", "dielectric"}
+	tableKeys    = []string{"temperature", "value"}
+
+	cureCommonKeys  = []string{"model", "total_heat", "resin_fraction", "gel_point", "diffusion", "glass_transition"}
+	cureModelKeys   = map[string][]string{"nth-order": {"A1", "E1", "n"}, "autocatalytic": {"A1", "E1", "A2", "E2", "m", "n"}}
+	cureModels      = []string{"nth-order", "autocatalytic"}
+	diffusionKeys   = []string{"C", "alpha_c0", "alpha_cT"}
+	glassKeys       = []string{"Tg0", "Tg_full", "lambda"}
+	dielectricKeys  = []string{"permittivity", "loss_factor", "loss_factor_cured", "shield"}
+	allCureKeys     = append(append([]string{}, cureCommonKeys...), cureModelKeys["autocatalytic"]...)
+	nthOrderForeign = []string{"A2", "E2", "m"}
+)
+
+// materials reads every [materials.X] of the case. A material with errors
+// maps to nil, so that layers using it do not also report it as unknown.
+// Names of built-in materials that the case redefines are returned in
+// replaced, sorted.
+func (l *loader) materials(root *table) (defs map[string]*physics.Material, replaced []string) {
+	defs = make(map[string]*physics.Material)
+	if !root.has("materials") {
+		return defs, nil
+	}
+	all, ok := root.m["materials"].(map[string]any)
+	if !ok {
+		l.atValue("materials", ErrType, "must be a table of materials, got %s", kindOf(root.m["materials"])).Hint =
+			"write each material as a section: [materials.NAME]"
+		return defs, nil
+	}
+	for _, name := range sortedKeys(all) {
+		path := "materials." + name
+		defs[name] = l.material(name, path, all[name])
+		if _, builtin := physics.Builtin(name); builtin {
+			replaced = append(replaced, name)
+		}
+	}
+	return defs, replaced
+}
+
+// material reads one [materials.X]; nil if it has errors.
+func (l *loader) material(name, path string, v any) *physics.Material {
+	before := len(l.errs)
+	t := l.open(path, v, materialKeys, nil)
+	if t == nil {
+		return nil
+	}
+	l.require(t, "density", "specific_heat", "conductivity")
+	m := &physics.Material{Name: name, Source: "case file " + l.file}
+	if rho, ok := l.quantity(t, "density", units.Density); ok && !(rho > 0) {
+		l.rangeErr(t.keyPath("density"), t.m["density"], "density must be positive")
+	} else {
+		m.Density = rho
+	}
+	m.SpecificHeat = l.blend(t, "specific_heat", units.SpecificHeat)
+	m.Conductivity = l.blend(t, "conductivity", units.Conductivity)
+	if t.has("cure") {
+		m.Cure = l.cure(t)
+	} else {
+		for _, k := range []string{"specific_heat_cured", "conductivity_cured"} {
+			if t.has(k) {
+				l.atKey(t.keyPath(k), ErrUnknownKey, "%q needs a [%s.cure] section: a material that does not cure keeps its uncured value", k, path)
+			}
+		}
+	}
+	if t.has("dielectric") {
+		m.Dielectric = l.dielectric(t)
+	}
+	if len(l.errs) > before {
+		return nil
+	}
+	return m
+}
+
+// blend reads the property key and its optional key_cured variant.
+func (l *loader) blend(t *table, key string, d units.Dim) physics.Blend {
+	var b physics.Blend
+	if p, ok := l.property(t, key, d); ok {
+		b.Uncured = p
+	}
+	if t.has(key + "_cured") {
+		if p, ok := l.property(t, key+"_cured", d); ok {
+			b.Cured, b.HasCured = p, true
+		}
+	}
+	return b
+}
+
+// property reads a positive property: a constant with its unit, or a table
+// { temperature = [...], value = [...] } with at least two points and
+// strictly increasing temperatures (checked here, before physics.NewTable).
+func (l *loader) property(t *table, key string, d units.Dim) (physics.Property, bool) {
+	if !t.has(key) {
+		return physics.Property{}, false
+	}
+	path := t.keyPath(key)
+	v := t.m[key]
+	if _, isTable := v.(map[string]any); !isTable {
+		x, ok := l.quantityAt(path, v, d)
+		if !ok {
+			return physics.Property{}, false
+		}
+		if !(x > 0) {
+			l.rangeErr(path, v, "%s must be positive", key)
+			return physics.Property{}, false
+		}
+		return physics.Constant(x), true
+	}
+	tt := l.open(path, v, tableKeys, nil)
+	if tt == nil || !l.require(tt, tableKeys...) {
+		return physics.Property{}, false
+	}
+	temps, ok1 := l.quantities(tt, "temperature", units.Temperature)
+	vals, ok2 := l.quantities(tt, "value", d)
+	if !ok1 || !ok2 {
+		return physics.Property{}, false
+	}
+	ok := true
+	if len(temps) != len(vals) {
+		l.atValue(tt.keyPath("value"), ErrRange, "the table has %d temperatures but %d values", len(temps), len(vals))
+		ok = false
+	} else if len(temps) < 2 {
+		l.atValue(tt.keyPath("temperature"), ErrRange, "a table needs at least two points, got %d", len(temps)).Hint =
+			fmt.Sprintf("for one value write the constant: %s = %q", key, d.Example())
+		ok = false
+	}
+	for i := 1; i < len(temps); i++ {
+		if !(temps[i] > temps[i-1]) {
+			el := fmt.Sprintf("%s.%d", tt.keyPath("temperature"), i)
+			l.atValue(el, ErrRange, "table temperatures must be strictly increasing: %s does not come after %s", celsius(temps[i]), celsius(temps[i-1]))
+			ok = false
+			break
+		}
+	}
+	for i, x := range vals {
+		if !(x > 0) {
+			el := fmt.Sprintf("%s.%d", tt.keyPath("value"), i)
+			l.rangeErr(el, tt.m["value"].([]any)[i], "%s must be positive", key)
+			ok = false
+		}
+	}
+	if !ok {
+		return physics.Property{}, false
+	}
+	p, err := physics.NewTable(temps, vals)
+	if err != nil { // not reached: checked above
+		l.add(l.loc.value(path), path, ErrRange, err, err.Error())
+		return physics.Property{}, false
+	}
+	return p, true
+}
+
+// quantities reads the array key of t whose elements are values of
+// dimension d.
+func (l *loader) quantities(t *table, key string, d units.Dim) ([]float64, bool) {
+	arr, ok := l.array(t, key)
+	if !ok {
+		return nil, false
+	}
+	out := make([]float64, len(arr))
+	for i, v := range arr {
+		x, ok1 := l.quantityAt(fmt.Sprintf("%s.%d", t.keyPath(key), i), v, d)
+		ok = ok && ok1
+		out[i] = x
+	}
+	return out, ok
+}
+
+// cure reads [materials.X.cure]; nil if absent or invalid.
+func (l *loader) cure(mt *table) *physics.Cure {
+	path := mt.keyPath("cure")
+	raw, _ := mt.m["cure"].(map[string]any)
+	model, _ := raw["model"].(string)
+	valid := allCureKeys
+	var note func(string) string
+	if keys, known := cureModelKeys[model]; known {
+		valid = append(append([]string{}, cureCommonKeys...), keys...)
+		if model == "nth-order" {
+			note = func(k string) string {
+				if contains(nthOrderForeign, k) {
+					return fmt.Sprintf("%s belongs to the \"autocatalytic\" model; model \"nth-order\" (k1 (1-a)^n) uses A1, E1 and n", k)
+				}
+				return ""
+			}
+		}
+	}
+	t := l.open(path, mt.m["cure"], valid, note)
+	if t == nil {
+		return nil
+	}
+	before := len(l.errs)
+	l.require(t, "model")
+	if s, ok := l.str(t, "model"); ok && !contains(cureModels, s) {
+		msg := fmt.Sprintf("unknown cure model %q", s)
+		if g := Suggest(s, cureModels); g != "" {
+			msg += fmt.Sprintf("; did you mean %q?", g)
+		}
+		l.atValue(t.keyPath("model"), ErrRange, "%s", msg).Hint =
+			`the models are "nth-order" (k1 (1-a)^n) and "autocatalytic" ((k1 + k2 a^m)(1-a)^n)`
+	}
+	c := &physics.Cure{ResinFraction: 1, GelPoint: physics.DefaultGelPoint}
+	l.require(t, "total_heat", "A1", "E1", "n")
+	if model == "autocatalytic" {
+		l.require(t, "A2", "E2", "m")
+	}
+	if h, ok := l.quantity(t, "total_heat", units.EnergyPerMass); ok {
+		if !(h >= 0) {
+			l.rangeErr(t.keyPath("total_heat"), t.m["total_heat"], "total_heat must not be negative")
+		}
+		c.TotalHeat = h
+	}
+	if f, ok := l.number(t, "resin_fraction"); ok {
+		if !(f > 0 && f <= 1) {
+			l.rangeErr(t.keyPath("resin_fraction"), f, "resin_fraction must be in (0, 1]")
+		}
+		c.ResinFraction = f
+	}
+	if g, ok := l.number(t, "gel_point"); ok {
+		if !(g > 0 && g < 1) {
+			l.rangeErr(t.keyPath("gel_point"), g, "gel_point must be in (0, 1)")
+		}
+		c.GelPoint = g
+	}
+	rate := func(key string, positive bool) float64 {
+		A, ok := l.quantity(t, key, units.RateConstant)
+		switch {
+		case !ok:
+		case positive && !(A > 0):
+			l.rangeErr(t.keyPath(key), t.m[key], "%s must be positive", key)
+		case !(A >= 0):
+			l.rangeErr(t.keyPath(key), t.m[key], "%s must not be negative", key)
+		}
+		return A
+	}
+	energy := func(key string) float64 {
+		E, ok := l.quantity(t, key, units.EnergyPerMole)
+		if ok && !(E >= 0) {
+			l.rangeErr(t.keyPath(key), t.m[key], "activation energy %s must not be negative", key)
+		}
+		return E
+	}
+	order := func(key string) float64 {
+		x, ok := l.number(t, key)
+		if ok && !(x >= 0) {
+			l.rangeErr(t.keyPath(key), x, "reaction order %s must not be negative", key)
+		}
+		return x
+	}
+	switch model {
+	case "nth-order":
+		c.Model = physics.NthOrder{A: rate("A1", true), E: energy("E1"), N: order("n")}
+	case "autocatalytic":
+		a := physics.Autocatalytic{A1: rate("A1", false), E1: energy("E1"), A2: rate("A2", false), E2: energy("E2"), M: order("m"), N: order("n")}
+		if t.has("A1") && t.has("A2") && a.A1 == 0 && a.A2 == 0 && len(l.errs) == before {
+			l.atValue(t.keyPath("A2"), ErrRange, "A1 and A2 are both zero: the resin never reacts")
+		}
+		c.Model = a
+	}
+	if d := l.sub(t, "diffusion", diffusionKeys, nil); d != nil && l.require(d, diffusionKeys...) {
+		var f physics.Diffusion
+		var ok bool
+		if f.C, ok = l.number(d, "C"); ok && !(f.C > 0) {
+			l.rangeErr(d.keyPath("C"), f.C, "C must be positive")
+		}
+		f.Alpha0, _ = l.number(d, "alpha_c0")
+		f.AlphaT, _ = l.quantity(d, "alpha_cT", units.InverseTemperature)
+		c.Diffusion = &f
+	}
+	if g := l.sub(t, "glass_transition", glassKeys, nil); g != nil && l.require(g, glassKeys...) {
+		var dib physics.DiBenedetto
+		var ok0, ok1, ok bool
+		dib.Tg0, ok0 = l.quantity(g, "Tg0", units.Temperature)
+		dib.TgFull, ok1 = l.quantity(g, "Tg_full", units.Temperature)
+		if ok0 && ok1 && !(dib.TgFull > dib.Tg0) {
+			l.rangeErr(g.keyPath("Tg_full"), g.m["Tg_full"], "Tg_full must be above Tg0 (%s)", celsius(dib.Tg0))
+		}
+		if dib.Lambda, ok = l.number(g, "lambda"); ok && !(dib.Lambda > 0 && dib.Lambda <= 1) {
+			l.rangeErr(g.keyPath("lambda"), dib.Lambda, "lambda must be in (0, 1]")
+		}
+		c.Glass = &dib
+	}
+	if len(l.errs) > before {
+		return nil
+	}
+	return c
+}
+
+// dielectric reads [materials.X.dielectric]: relative permittivity ε′ ≥ 1,
+// loss factors ε″ ≥ 0 (the cured one defaults to the uncured one), and
+// shield. A shield needs nothing else. It is validated here although
+// volumetric heating itself is not supported yet.
+func (l *loader) dielectric(mt *table) *physics.Dielectric {
+	t := l.open(mt.keyPath("dielectric"), mt.m["dielectric"], dielectricKeys, nil)
+	if t == nil {
+		return nil
+	}
+	var d physics.Dielectric
+	d.Shield, _ = l.boolean(t, "shield")
+	if !d.Shield {
+		l.require(t, "permittivity", "loss_factor")
+	}
+	var ok bool
+	if d.Permittivity, ok = l.number(t, "permittivity"); ok && !(d.Permittivity >= 1) {
+		l.rangeErr(t.keyPath("permittivity"), d.Permittivity, "relative permittivity must be at least 1")
+	}
+	if d.LossFactor, ok = l.number(t, "loss_factor"); ok && !(d.LossFactor >= 0) {
+		l.rangeErr(t.keyPath("loss_factor"), d.LossFactor, "loss_factor must not be negative")
+	}
+	d.LossFactorCured = d.LossFactor
+	if d.LossFactorCured, ok = l.number(t, "loss_factor_cured"); ok && !(d.LossFactorCured >= 0) {
+		l.rangeErr(t.keyPath("loss_factor_cured"), d.LossFactorCured, "loss_factor_cured must not be negative")
+	} else if !ok {
+		d.LossFactorCured = d.LossFactor
+	}
+	return &d
+}
+
+// materialNames returns the names a layer may use: the case's own and the
+// built-in ones.
+func materialNames(defs map[string]*physics.Material) []string {
+	var names []string
+	for n := range defs {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range physics.BuiltinNames() {
+		if _, ok := defs[n]; !ok {
+			names = append(names, n)
+		}
+	}
+	return names
+}
+
+// quoteList formats names as "a", "b" and "c".
+func quoteList(names []string) string {
+	q := make([]string, len(names))
+	for i, n := range names {
+		q[i] = fmt.Sprintf("%q", n)
+	}
+	switch len(q) {
+	case 0:
+		return "none"
+	case 1:
+		return q[0]
+	}
+	return strings.Join(q[:len(q)-1], ", ") + " and " + q[len(q)-1]
+}

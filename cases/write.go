@@ -1,0 +1,245 @@
+package cases
+
+import (
+	"bufio"
+	"encoding/csv"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+
+	"cureslab/physics"
+	"cureslab/solver"
+)
+
+// Names of the files that WriteRun writes (SPEC §5).
+const (
+	FieldsFile  = "fields.csv"
+	ProbesFile  = "probes.csv"
+	SummaryFile = "summary.json"
+)
+
+// WriteFileAtomic writes the file dir/name through write, so that the file
+// is either replaced whole or left as it was.
+//
+// Method: write goes to a buffered temporary file created in dir (so the
+// rename cannot cross file systems); after write returns nil the buffer is
+// flushed, the file synced to disk, closed, given mode 0644 and renamed over
+// dir/name. On any error, from write or from the file system, the temporary
+// file is removed and an existing dir/name is left untouched.
+//
+// Preconditions: dir exists. write must not keep the writer after it
+// returns.
+func WriteFileAtomic(dir, name string, write func(io.Writer) error) (err error) {
+	f, err := os.CreateTemp(dir, "."+name+".tmp*")
+	if err != nil {
+		return err
+	}
+	tmp := f.Name()
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(tmp)
+		}
+	}()
+	bw := bufio.NewWriterSize(f, 64<<10)
+	if err = write(bw); err != nil {
+		return err
+	}
+	if err = bw.Flush(); err != nil {
+		return err
+	}
+	if err = f.Sync(); err != nil {
+		return err
+	}
+	if err = f.Chmod(0o644); err != nil {
+		return err
+	}
+	if err = f.Close(); err != nil {
+		return err
+	}
+	return os.Rename(tmp, filepath.Join(dir, name))
+}
+
+// WriteRun writes the output files of one run into dir, creating dir if it
+// does not exist: fields.csv, probes.csv and summary.json (SPEC §5, §10).
+// Each file is written with WriteFileAtomic, so an existing directory gets
+// its files replaced one by one and a failed write leaves the previous file.
+//
+// The caller must have validated c (as Load does): WriteRun is the first
+// thing that touches the output directory. r may come from a run that ended
+// early (runaway, failure); the files then hold the snapshots reached and
+// summary.json says so in its status.
+//
+// Number format: temperatures in °C and times in s are rounded to 1e-6,
+// depths in mm to 1e-9 (so 6.35 mm prints as 6.35, not 6.3500000000000005),
+// then written as the shortest decimal; cure, cure rate and heat are written
+// with 9 significant digits. A value that does not apply (NaN) is an empty
+// cell.
+func WriteRun(dir string, c *Case, r *solver.Result) error {
+	if c == nil || c.Problem == nil || c.Problem.Mesh == nil || r == nil {
+		return errors.New("cases.WriteRun: case, problem, mesh and result are required")
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return err
+	}
+	if err := WriteFileAtomic(dir, FieldsFile, func(w io.Writer) error { return writeFields(w, c, r) }); err != nil {
+		return fmt.Errorf("writing %s: %w", FieldsFile, err)
+	}
+	if err := WriteFileAtomic(dir, ProbesFile, func(w io.Writer) error { return writeProbes(w, c, r) }); err != nil {
+		return fmt.Errorf("writing %s: %w", ProbesFile, err)
+	}
+	s := Summarize(c, r)
+	if err := WriteFileAtomic(dir, SummaryFile, func(w io.Writer) error { return writeSummary(w, s) }); err != nil {
+		return fmt.Errorf("writing %s: %w", SummaryFile, err)
+	}
+	return nil
+}
+
+// fieldsHeader is the header row of fields.csv (SPEC §5).
+var fieldsHeader = []string{"time_s", "depth_mm", "layer", "temperature_C", "cure", "cure_rate_per_s", "glass_transition_C"}
+
+// writeFields writes fields.csv: one row per (output time, cell centre).
+func writeFields(w io.Writer, c *Case, r *solver.Result) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(fieldsHeader); err != nil {
+		return err
+	}
+	m := c.Problem.Mesh
+	n := m.Cells()
+	curing := make([]bool, n)
+	depth := make([]string, n)
+	layer := make([]string, n)
+	for i := range n {
+		j := m.Owner[i]
+		curing[i] = j < len(c.Problem.Materials) && c.Problem.Materials[j] != nil && c.Problem.Materials[j].Cure != nil
+		depth[i] = FormatDepth(m.Centers[i])
+		layer[i] = m.Layers[j].Name
+	}
+	row := make([]string, len(fieldsHeader))
+	for k := range r.Snapshots {
+		s := &r.Snapshots[k]
+		if len(s.T) != n {
+			return fmt.Errorf("snapshot %d has %d temperatures for %d cells", k, len(s.T), n)
+		}
+		t := outFixed(s.Time, 6)
+		for i := range n {
+			row[0], row[1], row[2] = t, depth[i], layer[i]
+			row[3] = outFixed(outKtoC(s.T[i]), 6)
+			row[4], row[5], row[6] = "", "", ""
+			if curing[i] {
+				row[4] = outSig(outAt(s.Cure, i))
+				row[5] = outSig(outAt(s.Rate, i))
+				row[6] = outFixed(outKtoC(outAt(s.Tg, i)), 6)
+			}
+			if err := cw.Write(row); err != nil {
+				return err
+			}
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// probesHeader returns the header row of probes.csv for c.
+func probesHeader(c *Case) []string {
+	p := c.Problem
+	h := []string{"time_s"}
+	for _, d := range p.Probes {
+		l := FormatDepth(d)
+		h = append(h, "T_"+l+"mm_C", "cure_"+l+"mm")
+	}
+	if p.Top.Kind == physics.Convection {
+		h = append(h, "air_top_C")
+	}
+	if p.Bottom.Kind == physics.Convection {
+		h = append(h, "air_bottom_C")
+	}
+	return append(h, "heat_in_J_per_m2")
+}
+
+// writeProbes writes probes.csv: one row per output time.
+func writeProbes(w io.Writer, c *Case, r *solver.Result) error {
+	cw := csv.NewWriter(w)
+	h := probesHeader(c)
+	if err := cw.Write(h); err != nil {
+		return err
+	}
+	p := c.Problem
+	row := make([]string, 0, len(h))
+	for k := range r.Snapshots {
+		s := &r.Snapshots[k]
+		row = append(row[:0], outFixed(s.Time, 6))
+		for i := range p.Probes {
+			row = append(row, outFixed(outKtoC(outAt(s.ProbeT, i)), 6), outSig(outAt(s.ProbeCure, i)))
+		}
+		if p.Top.Kind == physics.Convection {
+			row = append(row, outFixed(outKtoC(s.AirTop), 6))
+		}
+		if p.Bottom.Kind == physics.Convection {
+			row = append(row, outFixed(outKtoC(s.AirBottom), 6))
+		}
+		row = append(row, outSig(s.HeatIn))
+		if err := cw.Write(row); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// writeSummary writes summary.json: one indented object and a newline.
+func writeSummary(w io.Writer, s Summary) error {
+	b, err := json.MarshalIndent(s, "", "  ")
+	if err != nil {
+		return err
+	}
+	b = append(b, '\n')
+	_, err = w.Write(b)
+	return err
+}
+
+// FormatDepth formats a depth given in metres as the shortest exact decimal
+// of the depth in millimetres, after rounding to 1e-9 mm so that the binary
+// noise of the unit conversion does not show: 6.35e-3 m gives "6.35", 0 gives
+// "0", 17.4625e-3 m gives "17.4625". It names the probe columns of
+// probes.csv (T_6.35mm_C) and fills depth_mm of fields.csv.
+func FormatDepth(depth float64) string { return outFixed(depth*1e3, 9) }
+
+// fmtFixed rounds v to the given number of decimals (roundTo) and writes the
+// shortest decimal that reads back as the rounded value; NaN gives "" and −0
+// gives "0".
+func outFixed(v float64, decimals int) string {
+	if math.IsNaN(v) {
+		return ""
+	}
+	return strconv.FormatFloat(outRound(v, decimals), 'f', -1, 64)
+}
+
+// fmtSig writes v with 9 significant digits, trailing zeros dropped; NaN
+// gives "" and −0 gives "0".
+func outSig(v float64) string {
+	if math.IsNaN(v) {
+		return ""
+	}
+	if v == 0 {
+		return "0"
+	}
+	return strconv.FormatFloat(v, 'g', 9, 64)
+}
+
+// at returns s[i], or NaN when s is too short (a snapshot without that
+// quantity).
+func outAt(s []float64, i int) float64 {
+	if i < len(s) {
+		return s[i]
+	}
+	return math.NaN()
+}
+
+// kelvinToC converts an absolute temperature from K to °C.
+func outKtoC(T float64) float64 { return T - 273.15 }

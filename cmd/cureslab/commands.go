@@ -1,0 +1,235 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"strings"
+	"syscall"
+	"text/tabwriter"
+
+	"github.com/spf13/pflag"
+
+	"cureslab/cases"
+)
+
+// Exit statuses (SPEC §2).
+const (
+	exitOK       = 0 // ran, every criterion met (or none given)
+	exitCriteria = 1 // ran, a criterion failed
+	exitUsage    = 2 // bad input or usage; nothing written
+	exitFailure  = 3 // runaway or numerical failure; outputs kept
+)
+
+// exitCode maps the status of a run (summary.json) to the exit status. It
+// is the only place that does.
+func exitCode(status string) int {
+	switch status {
+	case cases.StatusOK:
+		return exitOK
+	case cases.StatusCriteriaFailed:
+		return exitCriteria
+	}
+	return exitFailure // runaway, failed, or anything unforeseen
+}
+
+// Command is one subcommand of cureslab.
+type Command struct {
+	Name    string
+	Args    string // synopsis after the name, e.g. "CASE.toml [-o DIR]"
+	Short   string // one line for the command list
+	Long    string // paragraph(s) for 'cureslab help NAME'
+	Example string // one or more example command lines
+	// Planned commands are listed in help but not available yet.
+	Planned bool
+	// Setup defines the command's flags on fs and returns the function that
+	// runs the command on the positional arguments left after parsing.
+	Setup func(fs *pflag.FlagSet) func(e *env, args []string) int
+}
+
+// commands is the command table, in the order of 'cureslab help'.
+var commands []*Command
+
+func init() {
+	commands = []*Command{
+		runCmd, checkCmd, demoCmd, exampleCmd, materialsCmd, helpCmd,
+		planned("sweep", "CASE.toml [--vary KEY=SPEC]... [-j N] [--shard I/N] [-o DIR]", "batch runs over varied inputs",
+			"cureslab sweep potting.toml --vary layer.potting.thickness=4mm,8mm,12mm -o sweep-out"),
+		planned("merge", "DIR... [-o OUT]", "merge the shard outputs of one sweep",
+			"cureslab merge shard-0 shard-1 -o merged"),
+		planned("compare", "CASE.toml CASE.toml... [-o DIR]", "run several cases and set their results side by side",
+			"cureslab compare oven.toml platen.toml -o compare-out"),
+		planned("fit", "SCAN.csv... [--model M]", "kinetic parameters from DSC scans",
+			"cureslab fit scan-2K.csv scan-5K.csv scan-10K.csv --model autocatalytic"),
+		planned("ttt", "CASE.toml --material NAME", "isothermal time-temperature-transformation table",
+			"cureslab ttt potting.toml --material potting-resin-A"),
+		planned("tune", "CASE.toml --program NAME", "the shortest program that meets the criteria",
+			"cureslab tune potting.toml --program oven"),
+	}
+}
+
+func planned(name, args, short, example string) *Command {
+	return &Command{Name: name, Args: args, Short: short, Planned: true, Example: example,
+		Long: "Planned: " + short + ". Not available yet in this version."}
+}
+
+func lookup(name string) *Command {
+	for _, c := range commands {
+		if c.Name == name {
+			return c
+		}
+	}
+	return nil
+}
+
+func commandNames() []string {
+	var out []string
+	for _, c := range commands {
+		out = append(out, c.Name)
+	}
+	return out
+}
+
+// didYouMean returns `; did you mean "x"?` for the nearest of valid, or "".
+func didYouMean(got string, valid []string) string {
+	if s := cases.Suggest(got, valid); s != "" {
+		return fmt.Sprintf("; did you mean %q?", s)
+	}
+	return ""
+}
+
+// flagSet returns a fresh flag set for c that reports errors to us (pflag
+// prints nothing itself with ContinueOnError) and has -h/--help.
+func (c *Command) flagSet(stderr io.Writer) (*pflag.FlagSet, *bool) {
+	fs := pflag.NewFlagSet("cureslab "+c.Name, pflag.ContinueOnError)
+	fs.SetOutput(stderr)
+	fs.Usage = func() {}
+	fs.SortFlags = false
+	help := new(bool)
+	fs.BoolFuncP("help", "h", "show this help", func(string) error { *help = true; return nil })
+	return fs, help
+}
+
+// run parses args with c's flags and runs c.
+func (c *Command) run(e *env, args []string) int {
+	if c.Planned {
+		for _, a := range args {
+			if a == "-h" || a == "--help" {
+				c.printHelp(e.stdout)
+				return exitOK
+			}
+		}
+		fmt.Fprintf(e.stderr, "cureslab %s: not available yet in this version\nRun 'cureslab help' for the commands available.\n", c.Name)
+		return exitUsage
+	}
+	// Ctrl-C or SIGTERM cancels the work in progress (a run keeps its
+	// outputs up to that moment) and stops what would follow.
+	ctx, stop := signal.NotifyContext(e.ctx, os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	e.ctx = ctx
+	fs, help := c.flagSet(e.stderr)
+	runner := c.Setup(fs)
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, pflag.ErrHelp) {
+			c.printHelp(e.stdout)
+			return exitOK
+		}
+		e.cmd = c
+		return e.usageError("%v", err)
+	}
+	if *help {
+		c.printHelp(e.stdout)
+		return exitOK
+	}
+	e.cmd = c
+	return runner(e, fs.Args())
+}
+
+// usageError prints a usage error of the running command with the hint and
+// returns exitUsage.
+func (e *env) usageError(format string, a ...any) int {
+	name := "help"
+	if e.cmd != nil {
+		name = e.cmd.Name
+	}
+	fmt.Fprintf(e.stderr, "cureslab %s: %s\nRun 'cureslab help %s' for usage.\n", name, fmt.Sprintf(format, a...), name)
+	return exitUsage
+}
+
+// printHelp writes the help of c: synopsis, description, flags, example.
+func (c *Command) printHelp(w io.Writer) {
+	fmt.Fprintf(w, "Usage: cureslab %s %s\n\n", c.Name, c.Args)
+	fmt.Fprintf(w, "%s\n", strings.TrimSpace(c.Long))
+	if !c.Planned {
+		fs, _ := c.flagSet(io.Discard)
+		c.Setup(fs)
+		fmt.Fprintf(w, "\nFlags:\n%s", fs.FlagUsages())
+	}
+	fmt.Fprintf(w, "\nExample:\n")
+	for _, line := range strings.Split(strings.TrimSpace(c.Example), "\n") {
+		fmt.Fprintf(w, "  %s\n", line)
+	}
+}
+
+// printUsage writes the overview of every command.
+func printUsage(w io.Writer) {
+	fmt.Fprint(w, `cureslab simulates heat and cure through the thickness of a curing thermoset
+part (bond lines, potting, coatings, laminates) in ovens, on platens or under
+lamps.
+
+Usage: cureslab COMMAND [ARGS]
+
+Commands:
+`)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	for _, c := range commands {
+		if !c.Planned {
+			fmt.Fprintf(tw, "  %s\t%s\n", c.Name, c.Short)
+		}
+	}
+	tw.Flush()
+	fmt.Fprint(w, "\nPlanned (not available yet in this version):\n")
+	for _, c := range commands {
+		if c.Planned {
+			fmt.Fprintf(tw, "  %s\t%s\n", c.Name, c.Short)
+		}
+	}
+	tw.Flush()
+	fmt.Fprint(w, `
+Run 'cureslab help COMMAND' for the flags and an example of one command.
+Start with 'cureslab demo', or 'cureslab example NAME > my.toml' for a case
+file to edit.
+
+Exit status: 0 ran and every criterion met, 1 a criterion failed, 2 bad input
+or usage (nothing written), 3 runaway or numerical failure (outputs kept).
+`)
+}
+
+var helpCmd = &Command{
+	Name:    "help",
+	Args:    "[COMMAND]",
+	Short:   "show the commands, or the flags and an example of one",
+	Long:    "Show the list of commands, or the usage, flags and an example of one command.",
+	Example: "cureslab help run",
+	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
+		return func(e *env, args []string) int {
+			switch len(args) {
+			case 0:
+				printUsage(e.stdout)
+				return exitOK
+			case 1:
+				c := lookup(args[0])
+				if c == nil {
+					fmt.Fprintf(e.stderr, "cureslab help: unknown command %q%s\nRun 'cureslab help' for the commands.\n",
+						args[0], didYouMean(args[0], commandNames()))
+					return exitUsage
+				}
+				c.printHelp(e.stdout)
+				return exitOK
+			}
+			return e.usageError("expects at most one command name, got %d arguments", len(args))
+		}
+	},
+}

@@ -1,0 +1,307 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"flag"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"cureslab/cases"
+)
+
+var update = flag.Bool("update", false, "rewrite the golden files in testdata")
+
+// cl runs the command line and returns the exit status, stdout and stderr.
+func cl(t *testing.T, args ...string) (int, string, string) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code := run(args, &out, &errb)
+	return code, out.String(), errb.String()
+}
+
+func golden(t *testing.T, name, got string) {
+	t.Helper()
+	path := filepath.Join("testdata", name)
+	if *update {
+		os.MkdirAll("testdata", 0o755)
+		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (go test -update creates it)", err)
+	}
+	if got != string(want) {
+		t.Errorf("output differs from %s (go test -update rewrites it)\ngot:\n%s\nwant:\n%s", path, got, want)
+	}
+}
+
+// chdir runs the test in a fresh temporary working directory.
+func chdir(t *testing.T) string {
+	t.Helper()
+	dir := t.TempDir()
+	t.Chdir(dir)
+	return dir
+}
+
+func TestUsage(t *testing.T) {
+	for _, tc := range []struct {
+		args     []string
+		code     int
+		inStdout string
+		inStderr string
+	}{
+		{nil, 2, "", "Usage: cureslab COMMAND"},
+		{[]string{"help"}, 0, "Usage: cureslab COMMAND", ""},
+		{[]string{"--help"}, 0, "Usage: cureslab COMMAND", ""},
+		{[]string{"-h"}, 0, "Planned (not available yet in this version)", ""},
+		{[]string{"bogus"}, 2, "", `unknown command "bogus"`},
+		{[]string{"rnu"}, 2, "", `did you mean "run"?`},
+		{[]string{"--bogus"}, 2, "", "Run 'cureslab help' for usage."},
+		{[]string{"help", "run"}, 0, "Usage: cureslab run CASE.toml [-o DIR]", ""},
+		{[]string{"help", "nope"}, 2, "", `unknown command "nope"`},
+		{[]string{"help", "a", "b"}, 2, "", "Run 'cureslab help help' for usage."},
+		{[]string{"run", "--bogus"}, 2, "", "unknown flag: --bogus\nRun 'cureslab help run' for usage.\n"},
+		{[]string{"run", "-o"}, 2, "", "Run 'cureslab help run' for usage."},
+		{[]string{"run"}, 2, "", "expects one case file, got 0 arguments"},
+		{[]string{"run", "a.toml", "b.toml"}, 2, "", "expects one case file, got 2 arguments"},
+		{[]string{"check"}, 2, "", "Run 'cureslab help check' for usage."},
+		{[]string{"demo", "extra"}, 2, "", "takes no arguments"},
+		{[]string{"example", "nope"}, 2, "", `no example named "nope"`},
+		{[]string{"materials", "alumnia"}, 2, "", `did you mean "alumina"?`},
+		{[]string{"sweep", "case.toml", "--vary", "x=1,2"}, 2, "", "cureslab sweep: not available yet in this version"},
+		{[]string{"tune", "-h"}, 0, "Not available yet in this version", ""},
+	} {
+		t.Run(strings.Join(tc.args, " "), func(t *testing.T) {
+			code, out, errs := cl(t, tc.args...)
+			if code != tc.code || !strings.Contains(out, tc.inStdout) || !strings.Contains(errs, tc.inStderr) {
+				t.Errorf("cureslab %q: exit %d, want %d\nstdout:\n%s\nstderr:\n%s\nwant stdout to contain %q and stderr %q",
+					tc.args, code, tc.code, out, errs, tc.inStdout, tc.inStderr)
+			}
+		})
+	}
+}
+
+func TestHelpGolden(t *testing.T) {
+	_, out, _ := cl(t, "help")
+	golden(t, "help.golden", out)
+	for _, c := range commands {
+		code, out, errs := cl(t, c.Name, "--help")
+		if code != 0 || errs != "" {
+			t.Errorf("%s --help: exit %d, stderr %q", c.Name, code, errs)
+		}
+		if !strings.Contains(out, "Example:\n  cureslab "+c.Name) && c.Name != "run" {
+			t.Errorf("%s --help shows no example of itself:\n%s", c.Name, out)
+		}
+		if _, short, _ := cl(t, c.Name, "-h"); short != out {
+			t.Errorf("%s: -h and --help differ", c.Name)
+		}
+		golden(t, "help_"+c.Name+".golden", out)
+	}
+}
+
+func TestExitCode(t *testing.T) {
+	// SPEC §2: 0 ok, 1 a criterion failed, 3 runaway or numerical failure.
+	for status, want := range map[string]int{
+		cases.StatusOK: 0, cases.StatusCriteriaFailed: 1, cases.StatusRunaway: 3, cases.StatusFailed: 3, "": 3,
+	} {
+		if got := exitCode(status); got != want {
+			t.Errorf("exitCode(%q) = %d, want %d", status, got, want)
+		}
+	}
+}
+
+func TestExampleCommand(t *testing.T) {
+	code, out, _ := cl(t, "example")
+	if code != 0 {
+		t.Fatalf("exit %d", code)
+	}
+	for _, name := range cases.ExampleNames() {
+		if !strings.Contains(out, name) {
+			t.Errorf("example list lacks %s:\n%s", name, out)
+		}
+		code, text, _ := cl(t, "example", name)
+		ex, _ := cases.ExampleByName(name)
+		if code != 0 || text != string(ex.Text) {
+			t.Errorf("example %s: exit %d, text differs from the embedded case", name, code)
+		}
+	}
+}
+
+func TestMaterialsCommand(t *testing.T) {
+	code, out, _ := cl(t, "materials")
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	if code != 0 || len(lines)-1 < 12 {
+		t.Fatalf("exit %d, %d materials listed, want at least 12:\n%s", code, len(lines)-1, out)
+	}
+	// Source: Incropera 6th ed. Table A.2, aluminium oxide polycrystalline
+	// at 300 K: rho 3970, cp 765, k 36.0 (confirmed, REFERENCES §7).
+	if !strings.Contains(out, "alumina             3970            765                   36 ") {
+		t.Errorf("alumina row not as published:\n%s", out)
+	}
+	code, out, _ = cl(t, "materials", "fr4")
+	// Source: Sarvar, Poole & Witting 1990, FR-4 through-plane k 0.343 (confirmed, REFERENCES §7).
+	if code != 0 || !strings.Contains(out, "conductivity 0.343 W/m/K") || !strings.Contains(out, "Sarvar") {
+		t.Errorf("materials fr4: exit %d\n%s", code, out)
+	}
+}
+
+const badCase = `title = "bad"
+[initial]
+temperature = "23 C"
+[[layer]]
+name = "a"
+material = "alumina"
+thickness = 5
+[top]
+kind = "insulated"
+[bottom]
+kind = "insulated"
+[time]
+end = "1 h"
+`
+
+func TestRunBadCaseWritesNothing(t *testing.T) {
+	dir := chdir(t)
+	if err := os.WriteFile("bad.toml", []byte(badCase), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, args := range [][]string{{"run", "bad.toml"}, {"run", "bad.toml", "-o", "out"}, {"check", "bad.toml"}} {
+		code, out, errs := cl(t, args...)
+		if code != 2 || !strings.Contains(errs, "bad.toml:7") || out != "" {
+			t.Errorf("%q: exit %d, stdout %q, stderr:\n%s\nwant exit 2 and the error with its line", args, code, out, errs)
+		}
+	}
+	entries, _ := os.ReadDir(dir)
+	if len(entries) != 1 {
+		t.Errorf("the working directory holds %d entries after refused runs, want only bad.toml", len(entries))
+	}
+	if code, _, errs := cl(t, "run", "missing.toml"); code != 2 || !strings.Contains(errs, "missing.toml") {
+		t.Errorf("missing file: exit %d, stderr %q", code, errs)
+	}
+}
+
+// writeExample writes an embedded example to name in the working directory.
+func writeExample(t *testing.T, example, name string) {
+	t.Helper()
+	ex, ok := cases.ExampleByName(example)
+	if !ok {
+		t.Fatalf("no example %s", example)
+	}
+	if err := os.WriteFile(name, ex.Text, 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func readSummary(t *testing.T, dir string) cases.Summary {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join(dir, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var s cases.Summary
+	if err := json.Unmarshal(b, &s); err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+func TestRunAndCheck(t *testing.T) {
+	chdir(t)
+	writeExample(t, "tile-on-spreader", "tile.toml")
+	code, out, errs := cl(t, "run", "tile.toml")
+	if code != exitCode(readSummary(t, "tile-out").Status) {
+		t.Errorf("exit %d does not match the status in summary.json", code)
+	}
+	if code != 0 || !strings.Contains(out, "outputs in ./tile-out") {
+		t.Errorf("run: exit %d\nstdout:\n%s\nstderr:\n%s", code, out, errs)
+	}
+	for _, f := range []string{"fields.csv", "probes.csv", "summary.json"} {
+		if _, err := os.Stat(filepath.Join("tile-out", f)); err != nil {
+			t.Error(err)
+		}
+	}
+	code, out, _ = cl(t, "check", "tile.toml")
+	if code != 0 || !strings.Contains(out, "Biot numbers") || !strings.Contains(out, "Cautions") {
+		t.Errorf("check: exit %d\n%s", code, out)
+	}
+	// An output path that is a file is refused before the run.
+	os.WriteFile("afile", nil, 0o644)
+	if code, _, errs := cl(t, "run", "tile.toml", "-o", "afile"); code != 2 || !strings.Contains(errs, "not a directory") {
+		t.Errorf("-o onto a file: exit %d, stderr %q", code, errs)
+	}
+}
+
+func TestRunaway(t *testing.T) {
+	chdir(t)
+	// The oven reaches 120 C, the abort limit is 100 C: the run stops with
+	// status runaway, exit 3, and keeps its outputs.
+	ex, _ := cases.ExampleByName("tile-on-spreader")
+	text := strings.Replace(string(ex.Text), "[time]\n", "[time]\nabort_temperature = \"100 C\"\n", 1)
+	os.WriteFile("hot.toml", []byte(text), 0o644)
+	code, out, errs := cl(t, "run", "hot.toml", "-o", "hot")
+	if code != 3 || !strings.Contains(errs, "runaway") || !strings.Contains(out, "RUNAWAY") {
+		t.Fatalf("exit %d\nstdout:\n%s\nstderr:\n%s", code, out, errs)
+	}
+	s := readSummary(t, "hot")
+	if s.Status != cases.StatusRunaway || s.Message == "" {
+		t.Errorf("summary status %q, message %q", s.Status, s.Message)
+	}
+}
+
+func TestDemo(t *testing.T) {
+	chdir(t)
+	code, out, errs := cl(t, "demo", "-o", "tmp")
+	if code != 0 && code != 1 {
+		t.Fatalf("demo: exit %d\nstdout:\n%s\nstderr:\n%s", code, out, errs)
+	}
+	worst := 0
+	for _, name := range cases.ExampleNames() {
+		dir := filepath.Join("tmp", name)
+		for _, f := range []string{"fields.csv", "probes.csv", "summary.json"} {
+			if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
+				t.Error(err)
+			}
+		}
+		worst = max(worst, exitCode(readSummary(t, dir).Status))
+		if !strings.Contains(out, "== "+name+":") {
+			t.Errorf("demo output lacks the header of %s", name)
+		}
+	}
+	if code != worst {
+		t.Errorf("demo exit %d, want the worst of the runs %d", code, worst)
+	}
+}
+
+func TestInterrupted(t *testing.T) {
+	chdir(t)
+	writeExample(t, "tile-on-spreader", "tile.toml")
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel() // as if Ctrl-C came before the work started
+
+	var out, errb bytes.Buffer
+	e := &env{ctx: ctx, stdout: &out, stderr: &errb}
+	if code := runCmd.run(e, []string{"tile.toml", "-o", "cut"}); code != 3 {
+		t.Errorf("run: exit %d, want 3\nstdout:\n%s\nstderr:\n%s", code, out.String(), errb.String())
+	}
+	// The outputs up to the interruption are kept, and say so.
+	if s := readSummary(t, "cut"); s.Status != cases.StatusFailed || s.Message == "" {
+		t.Errorf("summary status %q, message %q; want failed with a message", s.Status, s.Message)
+	}
+
+	out.Reset()
+	errb.Reset()
+	e = &env{ctx: ctx, stdout: &out, stderr: &errb}
+	if code := demoCmd.run(e, []string{"-o", "demo"}); code != 3 || !strings.Contains(errb.String(), "interrupted") {
+		t.Errorf("demo: exit %d, want 3 and a note\nstderr:\n%s", code, errb.String())
+	}
+	if _, err := os.Stat("demo"); !os.IsNotExist(err) {
+		t.Errorf("an interrupted demo created its directory: %v", err)
+	}
+}

@@ -1,0 +1,246 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/spf13/pflag"
+
+	"cureslab/cases"
+	"cureslab/physics"
+	"cureslab/solver"
+)
+
+var runCmd = &Command{
+	Name:  "run",
+	Args:  "CASE.toml [-o DIR]",
+	Short: "simulate one case, write its output files and print a summary",
+	Long: `Simulate one case and write fields.csv, probes.csv and summary.json to DIR
+(default ./CASE-out, named after the case file), then print a short summary
+with the acceptance criteria. A case with errors is refused before anything
+is written. Ctrl-C stops the run and keeps the outputs up to that moment.
+
+Exit status: 0 every criterion met (or none given), 1 a criterion failed,
+2 bad input or usage, 3 runaway or numerical failure (outputs kept).`,
+	Example: `cureslab example thick-potting-oven > potting.toml
+cureslab run potting.toml -o potting-out`,
+	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
+		out := fs.StringP("out", "o", "", "write the outputs to `DIR` (default ./CASE-out)")
+		return func(e *env, args []string) int {
+			if len(args) != 1 {
+				return e.usageError("expects one case file, got %d arguments", len(args))
+			}
+			c, err := cases.Load(args[0])
+			if err != nil {
+				fmt.Fprintln(e.stderr, err)
+				return exitUsage
+			}
+			dir := *out
+			if dir == "" {
+				dir = defaultOutDir(args[0])
+			}
+			if msg := checkOutDir(dir); msg != "" {
+				return e.usageError("%s", msg)
+			}
+			s, code := simulate(e, "run", c, dir)
+			if code == exitUsage {
+				return code
+			}
+			cases.PrintSummary(e.stdout, s)
+			fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
+			return code
+		}
+	},
+}
+
+// defaultOutDir is ./NAME-out for the case file path/NAME.toml.
+func defaultOutDir(path string) string {
+	base := filepath.Base(path)
+	return "./" + strings.TrimSuffix(base, filepath.Ext(base)) + "-out"
+}
+
+// checkOutDir returns why dir cannot be an output directory, or "".
+func checkOutDir(dir string) string {
+	if fi, err := os.Stat(dir); err == nil && !fi.IsDir() {
+		return fmt.Sprintf("the output directory %s exists and is not a directory", dir)
+	}
+	return ""
+}
+
+// simulate runs c until it ends or e.ctx is cancelled, writes its outputs
+// to dir and returns the summary and the exit status. Errors go to stderr
+// under the command name cmd.
+func simulate(e *env, cmd string, c *cases.Case, dir string) (cases.Summary, int) {
+	r, err := solver.Run(e.ctx, c.Problem)
+	if err != nil {
+		fmt.Fprintf(e.stderr, "cureslab %s: %s: %v\n", cmd, c.File, err)
+		return cases.Summary{Title: c.Title, Status: cases.StatusFailed}, exitFailure
+	}
+	s := cases.Summarize(c, r)
+	if err := cases.WriteRun(dir, c, r); err != nil {
+		fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, err)
+		return s, exitUsage
+	}
+	code := exitCode(s.Status)
+	if code == exitFailure {
+		fmt.Fprintf(e.stderr, "cureslab %s: %s: %s: %s\n", cmd, c.File, s.Status, s.Message)
+	}
+	return s, code
+}
+
+var checkCmd = &Command{
+	Name:  "check",
+	Args:  "CASE.toml",
+	Short: "validate a case and print the resolved stack and pre-trial estimates",
+	Long: `Validate a case file without running it. Print the resolved stack (layers,
+materials and where they come from, cells, contact resistances), the faces,
+schedules and settings, and pre-trial estimates: Biot numbers, the adiabatic
+temperature rise of each curing layer, and its conduction time against the
+reaction half-life at the highest program temperature. Ends with warnings and
+the cautions that go with every result.
+
+Exit status: 0 the case is valid, 2 it is not (the errors go to stderr).`,
+	Example: "cureslab check potting.toml",
+	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
+		return func(e *env, args []string) int {
+			if len(args) != 1 {
+				return e.usageError("expects one case file, got %d arguments", len(args))
+			}
+			c, err := cases.Load(args[0])
+			if err != nil {
+				fmt.Fprintln(e.stderr, err)
+				return exitUsage
+			}
+			if err := cases.Check(e.stdout, c); err != nil {
+				fmt.Fprintf(e.stderr, "cureslab check: %v\n", err)
+				return exitUsage
+			}
+			return exitOK
+		}
+	},
+}
+
+var demoCmd = &Command{
+	Name:  "demo",
+	Args:  "[-o DIR]",
+	Short: "run the embedded examples end to end",
+	Long: `Run every embedded example case (see 'cureslab example') into DIR/NAME/
+(default ./cureslab-demo) and print the summary of each. The examples use
+invented resins: they show the tool, not any real product.
+
+Exit status: the worst of the runs (0 ok, 1 a criterion failed, 3 runaway or
+numerical failure).`,
+	Example: "cureslab demo -o demo-out",
+	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
+		out := fs.StringP("out", "o", "./cureslab-demo", "write the outputs under `DIR`")
+		return func(e *env, args []string) int {
+			if len(args) != 0 {
+				return e.usageError("takes no arguments, got %d", len(args))
+			}
+			if msg := checkOutDir(*out); msg != "" {
+				return e.usageError("%s", msg)
+			}
+			worst := exitOK
+			for i, ex := range cases.Examples() {
+				if e.ctx.Err() != nil {
+					fmt.Fprintf(e.stderr, "cureslab demo: interrupted; %s and the examples after it were not run\n", ex.Name)
+					return max(worst, exitFailure)
+				}
+				if i > 0 {
+					fmt.Fprintln(e.stdout)
+				}
+				fmt.Fprintf(e.stdout, "== %s: %s\n", ex.Name, ex.Summary)
+				c, err := cases.Parse(ex.Name+".toml", ex.Text, "")
+				if err != nil {
+					fmt.Fprintf(e.stderr, "cureslab demo: embedded example %s: %v\n", ex.Name, err)
+					worst = max(worst, exitUsage)
+					continue
+				}
+				dir := filepath.Join(*out, ex.Name)
+				s, code := simulate(e, "demo", c, dir)
+				worst = max(worst, code)
+				if code == exitUsage {
+					continue
+				}
+				cases.PrintSummary(e.stdout, s)
+				fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
+			}
+			return worst
+		}
+	},
+}
+
+var exampleCmd = &Command{
+	Name:  "example",
+	Args:  "[NAME]",
+	Short: "list the embedded example cases, or print one",
+	Long: `Without NAME, list the embedded example cases. With NAME, print that case
+file to stdout as a starting point for your own. The examples use invented
+resins: replace them with your supplier's data before relying on a result.`,
+	Example: `cureslab example
+cureslab example thick-potting-oven > potting.toml`,
+	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
+		return func(e *env, args []string) int {
+			switch len(args) {
+			case 0:
+				tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', 0)
+				for _, ex := range cases.Examples() {
+					fmt.Fprintf(tw, "%s\t%s\n", ex.Name, ex.Summary)
+				}
+				tw.Flush()
+				return exitOK
+			case 1:
+				ex, ok := cases.ExampleByName(args[0])
+				if !ok {
+					return e.usageError("no example named %q%s (available: %s)", args[0],
+						didYouMean(args[0], cases.ExampleNames()), strings.Join(cases.ExampleNames(), ", "))
+				}
+				e.stdout.Write(ex.Text)
+				return exitOK
+			}
+			return e.usageError("expects at most one example name, got %d arguments", len(args))
+		}
+	},
+}
+
+var materialsCmd = &Command{
+	Name:  "materials",
+	Args:  "[NAME]",
+	Short: "list the built-in materials with the source of each value, or show one",
+	Long: `Without NAME, list the built-in material library: density, specific heat
+and conductivity at room temperature, and the published source of each
+value. With NAME, show one material in detail. A case file uses a built-in
+by its name; a [materials.NAME] section of the case replaces it.`,
+	Example: `cureslab materials
+cureslab materials fr4`,
+	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
+		return func(e *env, args []string) int {
+			switch len(args) {
+			case 0:
+				tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', 0)
+				fmt.Fprintf(tw, "name\tdensity kg/m^3\tspecific heat J/kg/K\tconductivity W/m/K\tsource\n")
+				for _, m := range physics.Library() {
+					cp, _, _ := m.SpecificHeat.At(296.15, 0)
+					k, _, _ := m.Conductivity.At(296.15, 0)
+					fmt.Fprintf(tw, "%s\t%g\t%g\t%g\t%s\n", m.Name, m.Density, cp, k, m.Source)
+				}
+				tw.Flush()
+				return exitOK
+			case 1:
+				m, ok := physics.Builtin(args[0])
+				if !ok {
+					return e.usageError("no built-in material named %q%s", args[0], didYouMean(args[0], physics.BuiltinNames()))
+				}
+				fmt.Fprintf(e.stdout, "%s\n", m.Name)
+				for _, line := range cases.DescribeMaterial(m) {
+					fmt.Fprintf(e.stdout, "  %s\n", line)
+				}
+				return exitOK
+			}
+			return e.usageError("expects at most one material name, got %d arguments", len(args))
+		}
+	},
+}
