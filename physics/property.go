@@ -3,6 +3,7 @@ package physics
 import (
 	"errors"
 	"fmt"
+	"math"
 	"sort"
 )
 
@@ -21,13 +22,18 @@ var ErrTable = errors.New("invalid property table")
 
 // NewTable returns the property interpolated linearly between the points
 // (temps[i], values[i]). temps must be strictly increasing, with at least two
-// points and matching lengths; the slices are copied.
+// points and matching lengths, and every number finite; the slices are copied.
 func NewTable(temps, values []float64) (Property, error) {
 	if len(temps) != len(values) {
 		return Property{}, fmt.Errorf("%w: %d temperatures but %d values", ErrTable, len(temps), len(values))
 	}
 	if len(temps) < 2 {
 		return Property{}, fmt.Errorf("%w: need at least two points, have %d", ErrTable, len(temps))
+	}
+	for i := range temps {
+		if math.IsNaN(temps[i]) || math.IsInf(temps[i], 0) || math.IsNaN(values[i]) || math.IsInf(values[i], 0) {
+			return Property{}, fmt.Errorf("%w: point %d is not finite", ErrTable, i+1)
+		}
 	}
 	for i := 1; i < len(temps); i++ {
 		if !(temps[i] > temps[i-1]) {

@@ -80,6 +80,8 @@ func FromSegments(start float64, segs []Segment) (Schedule, error) {
 			switch {
 			case s.Rate == 0 || math.IsNaN(s.Rate) || math.IsInf(s.Rate, 0):
 				return Schedule{}, &SegmentError{i, fmt.Errorf("%w: a ramp needs a nonzero, finite rate", ErrSchedule)}
+			case math.IsNaN(s.To) || math.IsInf(s.To, 0):
+				return Schedule{}, &SegmentError{i, fmt.Errorf("%w: a ramp needs a finite target", ErrSchedule)}
 			case s.To == cur:
 				return Schedule{}, &SegmentError{i, fmt.Errorf("%w: the ramp's target equals the temperature it starts from (%.6g K)", ErrSchedule, cur)}
 			case (s.To-cur)*s.Rate < 0:

@@ -1,0 +1,99 @@
+package physics
+
+import "sort"
+
+// builtin is one row of the material library: room-temperature density,
+// specific heat and conductivity, and where each value comes from.
+type builtin struct {
+	name   string
+	rho    float64 // kg/m³
+	cp     float64 // J/(kg·K)
+	k      float64 // W/(m·K)
+	source string
+}
+
+// incropera names the heat-transfer textbook most of the library is taken
+// from.
+const incropera = "Incropera, DeWitt, Bergman & Lavine, Fundamentals of Heat and Mass Transfer, 6th ed."
+
+// library lists the built-in materials, sorted by name. Values are at room
+// temperature (300 K where the source tabulates it); every status is the one
+// recorded in the project's reference notes: "confirmed" values were read in
+// the publication, "from memory" values were recalled and should be checked
+// against the original before they are relied on.
+var library = []builtin{
+	{"alumina", 3970, 765, 36.0,
+		incropera + ", Table A.2, aluminium oxide (polycrystalline) at 300 K: rho, cp, k confirmed"},
+	{"aluminium", 2702, 903, 237,
+		incropera + ", Table A.1, pure aluminium at 300 K: rho, cp, k confirmed"},
+	{"aluminium-2024", 2770, 875, 177,
+		incropera + ", Table A.1, aluminium alloy 2024-T6 at 300 K: rho, cp, k confirmed"},
+	{"aluminium-6061", 2700, 896, 167,
+		"aluminium alloy 6061-T6, typical handbook values: rho, cp from memory; k from a secondary table (unconfirmed)"},
+	{"borosilicate-glass", 2225, 835, 1.4,
+		incropera + ", Table A.3, Pyrex (borosilicate) glass at 300 K: rho, cp, k from memory"},
+	{"carbon-steel", 7854, 434, 60.5,
+		incropera + ", Table A.1, plain carbon steel at 300 K: rho, cp, k from memory"},
+	{"copper", 8933, 385, 401,
+		incropera + ", Table A.1, pure copper at 300 K: rho, cp, k confirmed"},
+	{"epoxy-cured", 1200, 1050, 0.20,
+		"cured unfilled epoxy: cp Callister, Materials Science and Engineering: An Introduction, Table 19.1 (confirmed); rho about 1200 and k 0.19-0.20 typical (from memory)"},
+	{"fr4", 1850, 1150, 0.343,
+		"FR-4 glass-epoxy laminate, through-plane: k Sarvar, Poole & Witting, J. Electron. Mater. 19:1345 (1990) (confirmed); rho 1850 (confirmed); cp 1100-1200 typical (from memory)"},
+	{"ptfe", 2200, 1050, 0.35,
+		incropera + ", Table A.3, Teflon at 300 K: rho, k from memory; cp Callister, Materials Science and Engineering: An Introduction, Table 19.1 (confirmed; Callister gives k 0.25)"},
+	{"silicon", 2330, 712, 148,
+		incropera + ", Table A.1, silicon at 300 K: rho, cp, k confirmed"},
+	{"soda-lime-glass", 2500, 750, 1.4,
+		incropera + ", Table A.3, plate (soda-lime) glass at 300 K: rho, cp, k from memory"},
+	{"stainless-304", 7900, 477, 14.9,
+		incropera + ", Table A.1, stainless steel AISI 304 at 300 K: rho, cp, k from memory"},
+}
+
+func (b *builtin) material() *Material {
+	return &Material{
+		Name:         b.name,
+		Density:      b.rho,
+		SpecificHeat: Inert(Constant(b.cp)),
+		Conductivity: Inert(Constant(b.k)),
+		Source:       b.source,
+	}
+}
+
+// Library returns the built-in materials, sorted by name. Each call returns
+// fresh copies that the caller may modify. The built-in materials are inert:
+// constant room-temperature properties, no cure (Cure nil) and no dielectric
+// absorption (Dielectric nil); Source gives the published source of each value
+// and whether it was confirmed or recalled from memory.
+//
+// Cost: one allocation per material.
+func Library() []*Material {
+	out := make([]*Material, len(library))
+	for i := range library {
+		out[i] = library[i].material()
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].Name < out[j].Name })
+	return out
+}
+
+// Builtin returns a fresh copy of the built-in material with the given name
+// (exact, case-sensitive match, as written in a case file), and false if
+// there is none.
+func Builtin(name string) (*Material, bool) {
+	for i := range library {
+		if library[i].name == name {
+			return library[i].material(), true
+		}
+	}
+	return nil, false
+}
+
+// BuiltinNames returns the names of the built-in materials, sorted.
+func BuiltinNames() []string {
+	out := make([]string, len(library))
+	for i := range library {
+		out[i] = library[i].name
+	}
+	sort.Strings(out)
+	return out
+}
