@@ -49,24 +49,58 @@ type Command struct {
 	Setup func(fs *pflag.FlagSet) func(e *env, args []string) int
 }
 
-// commands is the command table, in the order of 'cureslab help'.
+// commands is the command table, in the order of 'cureslab help'. It is
+// assembled once from commandOrder: a command implemented in its own file
+// registers itself with register (from that file's init); a name nobody
+// registered is listed as planned, from plannedInfo.
 var commands []*Command
 
+// commandOrder is the order of 'cureslab help'.
+var commandOrder = []string{"run", "check", "demo", "compare", "sweep", "merge", "fit", "ttt", "tune",
+	"report", "example", "materials", "help"}
+
+// registered holds the commands registered by their files' init functions.
+var registered = map[string]*Command{}
+
+// register adds an implemented command. Call it from an init function.
+func register(c *Command) { registered[c.Name] = c }
+
+// plannedInfo describes SPEC §2 commands that are not implemented yet:
+// synopsis, one-line description, example.
+var plannedInfo = map[string][3]string{
+	"sweep": {"CASE.toml [--vary KEY=SPEC]... [-j N] [--shard I/N] [-o DIR]", "batch runs over varied inputs",
+		"cureslab sweep potting.toml --vary layer.potting.thickness=4mm,8mm,12mm -o sweep-out"},
+	"merge": {"DIR... [-o OUT]", "merge the shard outputs of one sweep",
+		"cureslab merge shard-0 shard-1 -o merged"},
+	"compare": {"CASE.toml CASE.toml... [-o DIR]", "run several cases and set their results side by side",
+		"cureslab compare oven.toml platen.toml -o compare-out"},
+	"fit": {"SCAN.csv... [--model M]", "kinetic parameters from DSC scans",
+		"cureslab fit scan-2K.csv scan-5K.csv scan-10K.csv --model autocatalytic"},
+	"ttt": {"CASE.toml --material NAME", "isothermal time-temperature-transformation table",
+		"cureslab ttt potting.toml --material potting-resin-A"},
+	"tune": {"CASE.toml --program NAME", "the shortest program that meets the criteria",
+		"cureslab tune potting.toml --program oven"},
+	"report": {"DIR", "(re)draw the HTML report from the output files of a run",
+		"cureslab report potting-out"},
+}
+
 func init() {
-	commands = []*Command{
-		runCmd, checkCmd, demoCmd, exampleCmd, materialsCmd, helpCmd,
-		planned("sweep", "CASE.toml [--vary KEY=SPEC]... [-j N] [--shard I/N] [-o DIR]", "batch runs over varied inputs",
-			"cureslab sweep potting.toml --vary layer.potting.thickness=4mm,8mm,12mm -o sweep-out"),
-		planned("merge", "DIR... [-o OUT]", "merge the shard outputs of one sweep",
-			"cureslab merge shard-0 shard-1 -o merged"),
-		planned("compare", "CASE.toml CASE.toml... [-o DIR]", "run several cases and set their results side by side",
-			"cureslab compare oven.toml platen.toml -o compare-out"),
-		planned("fit", "SCAN.csv... [--model M]", "kinetic parameters from DSC scans",
-			"cureslab fit scan-2K.csv scan-5K.csv scan-10K.csv --model autocatalytic"),
-		planned("ttt", "CASE.toml --material NAME", "isothermal time-temperature-transformation table",
-			"cureslab ttt potting.toml --material potting-resin-A"),
-		planned("tune", "CASE.toml --program NAME", "the shortest program that meets the criteria",
-			"cureslab tune potting.toml --program oven"),
+	for _, c := range []*Command{runCmd, checkCmd, demoCmd, exampleCmd, materialsCmd, helpCmd} {
+		register(c)
+	}
+}
+
+// buildCommands assembles the command table; main calls it once.
+func buildCommands() {
+	if commands != nil {
+		return
+	}
+	for _, name := range commandOrder {
+		if c, ok := registered[name]; ok {
+			commands = append(commands, c)
+		} else if p, ok := plannedInfo[name]; ok {
+			commands = append(commands, planned(name, p[0], p[1], p[2]))
+		}
 	}
 }
 

@@ -19,6 +19,7 @@ type env struct {
 
 // run executes the command line args and returns the exit status.
 func run(args []string, stdout, stderr io.Writer) int {
+	buildCommands()
 	e := &env{ctx: context.Background(), stdout: stdout, stderr: stderr}
 	if len(args) == 0 {
 		printUsage(stderr)
