@@ -15,8 +15,7 @@ type Material struct {
 
 // Dielectric holds the dielectric properties of an absorbing material at the
 // working frequency. A material without one is transparent to volumetric
-// heating. (Volumetric heating is delivered by a later issue; the type is
-// declared here so materials can carry it.)
+// heating: it absorbs nothing and attenuates nothing.
 type Dielectric struct {
 	Permittivity    float64 // relative permittivity ε′
 	LossFactor      float64 // ε″ of the uncured material

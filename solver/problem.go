@@ -26,6 +26,10 @@ type Problem struct {
 
 	Probes  []float64 // depths recorded at every output time, m
 	MinCure float64   // criterion for TimeToMinCure; 0 means none
+
+	// Volumetric is the optional dielectric heating of the layers whose
+	// material has a Dielectric; nil means none.
+	Volumetric *physics.Volumetric
 }
 
 // Defaults of the step control and the runaway limit.
@@ -67,6 +71,9 @@ type Snapshot struct {
 	AirTop    float64   // K; NaN unless the top face is convective
 	AirBottom float64   // K; NaN unless the bottom face is convective
 	HeatIn    float64   // cumulative energy in through the faces and from volumetric heating, J/m²
+	// PowerFraction is the controller's output u in [0, 1] held from this
+	// time on; NaN unless volumetric heating is controlled.
+	PowerFraction float64
 }
 
 // Ledger is the energy account of a run, per unit face area (J/m²).

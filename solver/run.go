@@ -152,12 +152,25 @@ func (s *stepper) run(ctx context.Context) *Result {
 	var ledger Ledger
 	minStep := 1e-9 * max(1, p.End)
 
+	ctl := (*physics.Control)(nil)
+	if s.vol != nil {
+		ctl = s.vol.Control
+	}
+	sample := 0 // index of the controller's last sample
+	if ctl != nil {
+		s.controlUpdate(ctl)
+		res.Snapshots[0].PowerFraction = s.u
+	}
+
 	for ev < len(events) {
 		if err := ctx.Err(); err != nil {
 			res.Status, res.Err = Failed, err
 			break
 		}
 		target := events[ev]
+		if ctl != nil {
+			target = min(target, float64(sample+1)*ctl.Period)
+		}
 		hTry := min(h, p.MaxStep)
 		landing := false
 		switch rem := target - s.t; {
@@ -225,7 +238,11 @@ func (s *stepper) run(ctx context.Context) *Result {
 		}
 		tr.observe(s, hUsed)
 
-		if landing {
+		if ctl != nil && landing && s.t == float64(sample+1)*ctl.Period {
+			sample++
+			s.controlUpdate(ctl)
+		}
+		if landing && s.t == events[ev] {
 			ev++
 			for out < len(p.OutputTimes) && p.OutputTimes[out] <= s.t {
 				if p.OutputTimes[out] == s.t {
@@ -259,12 +276,23 @@ func (s *stepper) account(l *Ledger, h, theta float64) {
 	o, v := s.old, s.cur
 	l.Faces += h * (theta*(v.down[0]-v.down[s.n]) + (1-theta)*(o.down[0]-o.down[s.n]))
 	for i := range s.n {
+		l.Volumetric += h * s.w[i] * (theta*v.P[i] + (1-theta)*o.P[i])
 		cs := 0.5 * (o.cp[i] + v.cp[i])
 		l.Stored += s.rho[i] * cs * s.w[i] * (s.Tn[i] - s.T[i])
 		if s.cure[i] != nil {
 			l.Reaction += s.heat[i] * s.w[i] * (s.An[i] - s.A[i])
 		}
 	}
+}
+
+// controlUpdate samples the sensor at the accepted state, updates the
+// controller's output u, and re-evaluates the accepted level with it (u is
+// held over the steps that follow, so both time levels of the next step use
+// it).
+func (s *stepper) controlUpdate(c *physics.Control) {
+	Ts, _ := s.probe(s.old, c.Sensor)
+	s.integral, s.u = c.Update(c.Program.At(s.t)-Ts, s.integral, s.u)
+	s.eval(s.old, s.t, s.T, s.A)
 }
 
 // events returns the times the stepper must land on: output times and face

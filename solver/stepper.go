@@ -25,6 +25,8 @@ type level struct {
 	// cell n−1 (stored as a).
 	fTa, fTb, fAa, fAb []float64
 
+	P, PA []float64 // absorbed volumetric power, W/m³, and ∂P/∂α (0 where transparent)
+
 	r, rT, rA    []float64 // cure rate and its partial derivatives (0 where inert)
 	cp, cpT, cpA []float64 // specific heat and its partial derivatives
 
@@ -32,12 +34,13 @@ type level struct {
 }
 
 func newLevel(n int) *level {
-	buf := make([]float64, 16*n+5)
+	buf := make([]float64, 18*n+5)
 	take := func(m int) []float64 { s := buf[:m:m]; buf = buf[m:]; return s }
 	return &level{
 		down: take(n + 1), R: take(n), dRT: take(n), dRA: take(n), D: take(n),
 		fTa: take(n + 1), fTb: take(n + 1), fAa: take(n + 1), fAb: take(n + 1),
 		r: take(n), rT: take(n), rA: take(n), cp: take(n), cpT: take(n), cpA: take(n),
+		P: take(n), PA: take(n),
 	}
 }
 
@@ -78,6 +81,15 @@ type stepper struct {
 	predT, predA []float64
 
 	curing bool // any cell cures
+
+	// Volumetric heating: the absorbing cells' dielectrics (nil where
+	// transparent), whether any cell shields, the controller's state.
+	diel     []*physics.Dielectric
+	vol      *physics.Volumetric
+	u        float64 // power fraction, held between controller samples
+	integral float64 // controller integral, K·s
+	tauTop   []float64
+	tauBot   []float64
 }
 
 func newStepper(p *Problem) *stepper {
@@ -101,6 +113,18 @@ func newStepper(p *Problem) *stepper {
 	}
 	for j := 1; j < len(m.Layers); j++ {
 		s.rc[m.First[j]] = m.Layers[j].ContactResistance
+	}
+	if v := p.Volumetric; v != nil && v.Field > 0 {
+		s.vol = v
+		s.u = 1 // the field is on, or, under control, ...
+		if v.Control != nil {
+			s.u = 0 // ... the controller starts from off.
+		}
+		s.diel = make([]*physics.Dielectric, n)
+		for i := range n {
+			s.diel[i] = p.Materials[m.Owner[i]].Dielectric
+		}
+		s.tauTop, s.tauBot = f(), f()
 	}
 	s.T, s.A, s.Tn, s.An = f(), f(), f(), f()
 	s.lo, s.di, s.up, s.rhs, s.cp = f(), f(), f(), f(), f()
@@ -156,6 +180,87 @@ func (s *stepper) eval(lv *level, t float64, T, A []float64) {
 	for i := range n {
 		lv.D[i] = lv.down[i] - lv.down[i+1]
 	}
+	if s.vol != nil {
+		s.power(lv, A)
+	}
+}
+
+// power fills lv.P and lv.PA with the absorbed power density at cure A.
+//
+// Uniform field: P = 2π f ε0 ε″ E² (physics.PowerDensity) with E² = u·E_max².
+// Attenuated field: the power surviving to depth z is exp(−∫₀ᶻ dz′/D_p),
+// D_p from each cell's ε′ and current ε″ (physics.PenetrationDepth); each
+// cell absorbs its exact share, P_i = P_0,i e^{−τ_i} (1 − e^{−w_i/D_i}) D_i/w_i
+// with τ_i the optical depth above it, which is second-order accurate and
+// conserves the power that enters. A shield absorbs nothing and blocks the
+// field beyond it. ∂P/∂α is kept for the cell's own ε″ only: the attenuation
+// of the cells above enters the residual exactly but not the Jacobian.
+func (s *stepper) power(lv *level, A []float64) {
+	v, n := s.vol, s.n
+	e2 := s.u * v.Field * v.Field
+	for i := range n {
+		lv.P[i], lv.PA[i] = 0, 0
+		if d := s.diel[i]; d != nil && !d.Shield {
+			eps2, deps2 := d.Loss(A[i])
+			lv.P[i] = physics.PowerDensity(v.Frequency, eps2, 1) * e2
+			lv.PA[i] = physics.PowerDensity(v.Frequency, deps2, 1) * e2
+		}
+	}
+	if v.Attenuation == physics.Uniform {
+		for i := range n {
+			if d := s.diel[i]; d != nil && d.Shield {
+				// A shield in a uniform field still blocks nothing around it;
+				// it only absorbs nothing.
+				lv.P[i], lv.PA[i] = 0, 0
+			}
+		}
+		return
+	}
+	// Optical depth through each cell: w/D_p (0 when transparent, +Inf for a shield).
+	cellTau := func(i int) float64 {
+		d := s.diel[i]
+		switch {
+		case d == nil:
+			return 0
+		case d.Shield:
+			return math.Inf(1)
+		}
+		eps2, _ := d.Loss(A[i])
+		return s.w[i] / physics.PenetrationDepth(v.Frequency, d.Permittivity, eps2)
+	}
+	// tauTop[i]: optical depth from the top face to the top of cell i;
+	// tauBot[i]: from the bottom face to the bottom of cell i.
+	acc := 0.0
+	for i := range n {
+		s.tauTop[i] = acc
+		acc += cellTau(i)
+	}
+	acc = 0
+	for i := n - 1; i >= 0; i-- {
+		s.tauBot[i] = acc
+		acc += cellTau(i)
+	}
+	for i := range n {
+		if lv.P[i] == 0 && lv.PA[i] == 0 {
+			continue
+		}
+		ti := cellTau(i)
+		share := 1.0 // (1 − e^{−τ_cell})/τ_cell, the cell-average of the decay
+		if ti > 1e-8 {
+			share = -math.Expm1(-ti) / ti
+		}
+		var f float64
+		switch v.Attenuation {
+		case physics.FromTop:
+			f = math.Exp(-s.tauTop[i])
+		case physics.FromBottom:
+			f = math.Exp(-s.tauBot[i])
+		default:
+			f = 0.5 * (math.Exp(-s.tauTop[i]) + math.Exp(-s.tauBot[i]))
+		}
+		lv.P[i] *= f * share
+		lv.PA[i] *= f * share
+	}
 }
 
 // stepOutcome says how a step attempt ended.
@@ -188,7 +293,7 @@ const (
 //
 // The residuals are, per cell i of width w and with c* = ½(c_p⁰ + c_p),
 //
-//	F_i = ρ w c* (T_i − T_i⁰)/h − θ D_i − (1−θ) D_i⁰ − ρ w_r H w (α_i − α_i⁰)/h
+//	F_i = ρ w c* (T_i − T_i⁰)/h − θ D_i − (1−θ) D_i⁰ − ρ w_r H w (α_i − α_i⁰)/h − w (θ P_i + (1−θ) P_i⁰)
 //	G_i = α_i − α_i⁰ − h [θ r(T_i, α_i) + (1−θ) r(T_i⁰, α_i⁰)].
 //
 // G_i involves cell i alone, so δα_j = −s_j − p_j δT_j with
@@ -236,14 +341,15 @@ func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 			m := s.rho[i] * s.w[i] / h
 			cs := 0.5 * (o.cp[i] + v.cp[i])
 			dT := T[i] - T0[i]
-			F := m*cs*dT - theta*v.D[i] - (1-theta)*o.D[i] - s.heat[i]*s.w[i]*(A[i]-A0[i])/h
+			F := m*cs*dT - theta*v.D[i] - (1-theta)*o.D[i] - s.heat[i]*s.w[i]*(A[i]-A0[i])/h -
+				s.w[i]*(theta*v.P[i]+(1-theta)*o.P[i])
 			maxF = max(maxF, math.Abs(F)/(m*cs))
 			// D_i = down_i − down_{i+1}: face i has cell i below it (b),
 			// face i+1 has cell i above it (a).
 			dDT := v.fTb[i] - v.fTa[i+1]
 			dDA := v.fAb[i] - v.fAa[i+1]
 			fT := m*(cs+0.5*v.cpT[i]*dT) - theta*dDT
-			fA := m*0.5*v.cpA[i]*dT - s.heat[i]*s.w[i]/h - theta*dDA
+			fA := m*0.5*v.cpA[i]*dT - s.heat[i]*s.w[i]/h - theta*dDA - theta*s.w[i]*v.PA[i]
 			s.di[i] = fT - fA*pj[i]
 			s.rhs[i] = -F + fA*sj[i]
 			if i > 0 { // ∂F_i/∂(T, α)_{i−1} through face i

@@ -30,6 +30,9 @@ func (s *stepper) newTracker() *tracker {
 			tr.drivers = append(tr.drivers, d)
 		}
 	}
+	if s.vol != nil && s.vol.Control != nil {
+		tr.drivers = append(tr.drivers, &s.vol.Control.Program)
+	}
 	tr.prevMinA = math.NaN()
 	return tr
 }
@@ -145,7 +148,10 @@ func (s *stepper) snapshot(lv *level, heatIn float64) Snapshot {
 		Time: s.t,
 		T:    append([]float64(nil), s.T...),
 		Cure: make([]float64, n), Rate: make([]float64, n), Tg: make([]float64, n),
-		AirTop: nan, AirBottom: nan, HeatIn: heatIn,
+		AirTop: nan, AirBottom: nan, HeatIn: heatIn, PowerFraction: nan,
+	}
+	if s.vol != nil && s.vol.Control != nil {
+		snap.PowerFraction = s.u
 	}
 	for i, c := range s.cure {
 		snap.Cure[i], snap.Rate[i], snap.Tg[i] = nan, nan, nan
