@@ -639,7 +639,7 @@ func chkEstimates(p *chkPrinter, c *Case) []string {
 
 // biotWords says what a Biot number means for the through-thickness
 // gradient (the 0.1 threshold of the lumped-capacitance approximation,
-// Incropera 6th ed. §5.1, from memory).
+// Incropera §5.1, from memory).
 func biotWords(bi float64) string {
 	switch {
 	case bi < 0.1:

@@ -92,7 +92,7 @@ func chkOutput(t *testing.T, c *Case) string {
 }
 
 func TestCheckBiot(t *testing.T) {
-	// Source: definition Bi = h·L/k (Incropera 6th ed. §5.1, from memory);
+	// Source: definition Bi = h·L/k (Incropera §5.1, from memory);
 	// 10 W/m²K × 0.01 m / 0.2 W/m/K = 0.5 (analytic).
 	one := chkSlab(t, []mesh.Layer{{Name: "a", Thickness: 0.01}}, []*physics.Material{chkInert("m", 1000, 1000, 0.2)}, 10, 300)
 	if out := chkOutput(t, one); !strings.Contains(out, "top     Bi = 0.5 ") || !strings.Contains(out, "bottom  Bi = 0.5 ") {

@@ -14,7 +14,7 @@ type builtin struct {
 
 // incropera names the heat-transfer textbook most of the library is taken
 // from.
-const incropera = "Incropera, DeWitt, Bergman & Lavine, Fundamentals of Heat and Mass Transfer, 6th ed."
+const incropera = "Incropera, DeWitt, Bergman & Lavine, Fundamentals of Heat and Mass Transfer, Appendix A"
 
 // library lists the built-in materials, sorted by name. Values are at room
 // temperature (300 K where the source tabulates it); every status is the one
@@ -23,31 +23,31 @@ const incropera = "Incropera, DeWitt, Bergman & Lavine, Fundamentals of Heat and
 // against the original before they are relied on.
 var library = []builtin{
 	{"alumina", 3970, 765, 36.0,
-		incropera + ", Table A.2, aluminium oxide (polycrystalline) at 300 K: rho, cp, k confirmed"},
+		incropera + " (Table A.2, table number from memory), aluminium oxide (polycrystalline) at 300 K: rho, cp, k confirmed"},
 	{"aluminium", 2702, 903, 237,
-		incropera + ", Table A.1, pure aluminium at 300 K: rho, cp, k confirmed"},
+		incropera + " (Table A.1, table number from memory), pure aluminium at 300 K: rho, cp, k confirmed"},
 	{"aluminium-2024", 2770, 875, 177,
-		incropera + ", Table A.1, aluminium alloy 2024-T6 at 300 K: rho, cp, k confirmed"},
+		incropera + " (Table A.1, table number from memory), aluminium alloy 2024-T6 at 300 K: rho, cp, k confirmed"},
 	{"aluminium-6061", 2700, 896, 167,
 		"aluminium alloy 6061-T6, typical handbook values: rho, cp from memory; k from a secondary table (unconfirmed)"},
 	{"borosilicate-glass", 2225, 835, 1.4,
-		incropera + ", Table A.3, Pyrex (borosilicate) glass at 300 K: rho, cp, k from memory"},
+		incropera + " (Table A.3, table number from memory), Pyrex (borosilicate) glass at 300 K: rho, cp, k from memory"},
 	{"carbon-steel", 7854, 434, 60.5,
-		incropera + ", Table A.1, plain carbon steel at 300 K: rho, cp, k from memory"},
+		incropera + " (Table A.1, table number from memory), plain carbon steel at 300 K: rho, cp, k from memory"},
 	{"copper", 8933, 385, 401,
-		incropera + ", Table A.1, pure copper at 300 K: rho, cp, k confirmed"},
+		incropera + " (Table A.1, table number from memory), pure copper at 300 K: rho, cp, k confirmed"},
 	{"epoxy-cured", 1200, 1050, 0.20,
 		"cured unfilled epoxy: cp Callister, Materials Science and Engineering: An Introduction, Table 19.1 (confirmed); rho about 1200 and k 0.19-0.20 typical (from memory)"},
 	{"fr4", 1850, 1150, 0.343,
 		"FR-4 glass-epoxy laminate, through-plane: k Sarvar, Poole & Witting, J. Electron. Mater. 19:1345 (1990) (confirmed); rho 1850 (confirmed); cp 1100-1200 typical (from memory)"},
 	{"ptfe", 2200, 1050, 0.35,
-		incropera + ", Table A.3, Teflon at 300 K: rho, k from memory; cp Callister, Materials Science and Engineering: An Introduction, Table 19.1 (confirmed; Callister gives k 0.25)"},
+		incropera + " (Table A.3, table number from memory), Teflon at 300 K: rho, k from memory; cp Callister, Materials Science and Engineering: An Introduction, Table 19.1 (confirmed; Callister gives k 0.25)"},
 	{"silicon", 2330, 712, 148,
-		incropera + ", Table A.1, silicon at 300 K: rho, cp, k confirmed"},
+		incropera + " (Table A.1, table number from memory), silicon at 300 K: rho, cp, k confirmed"},
 	{"soda-lime-glass", 2500, 750, 1.4,
-		incropera + ", Table A.3, plate (soda-lime) glass at 300 K: rho, cp, k from memory"},
+		incropera + " (Table A.3, table number from memory), plate (soda-lime) glass at 300 K: rho, cp, k from memory"},
 	{"stainless-304", 7900, 477, 14.9,
-		incropera + ", Table A.1, stainless steel AISI 304 at 300 K: rho, cp, k from memory"},
+		incropera + " (Table A.1, table number from memory), stainless steel AISI 304 at 300 K: rho, cp, k from memory"},
 }
 
 func (b *builtin) material() *Material {

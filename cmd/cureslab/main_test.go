@@ -140,7 +140,7 @@ func TestMaterialsCommand(t *testing.T) {
 	if code != 0 || len(lines)-1 < 12 {
 		t.Fatalf("exit %d, %d materials listed, want at least 12:\n%s", code, len(lines)-1, out)
 	}
-	// Source: Incropera 6th ed. Table A.2, aluminium oxide polycrystalline
+	// Source: Incropera Table A.2, aluminium oxide polycrystalline
 	// at 300 K: rho 3970, cp 765, k 36.0 (confirmed, REFERENCES §7).
 	if !strings.Contains(out, "alumina             3970            765                   36 ") {
 		t.Errorf("alumina row not as published:\n%s", out)

@@ -1,0 +1,30 @@
+# cureslab — common tasks. `make test` is what CI runs (.ci/run).
+GO ?= go
+FUZZTIME ?= 10m
+
+.PHONY: build test vet bench demo fuzz e2e clean
+
+build:
+	$(GO) build ./...
+
+test:
+	$(GO) test ./...
+
+vet:
+	$(GO) vet ./...
+	@test -z "$$(gofmt -l . | grep -v '^testdata/')" || (gofmt -l .; exit 1)
+
+# Speed figures for the README (see "Performance").
+bench:
+	$(GO) test -run '^$$' -bench . -benchmem -count 5 ./solver/ ./cases/
+
+demo:
+	$(GO) run ./cmd/cureslab demo -o cureslab-demo
+
+# Long fuzzing, one target at a time (not part of CI, which runs the seeds).
+fuzz:
+	$(GO) test ./cases/units -run '^$$' -fuzz FuzzParse -fuzztime $(FUZZTIME)
+	$(GO) test ./cases -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME)
+
+clean:
+	rm -rf cureslab-demo
