@@ -74,6 +74,12 @@ func (m NthOrder) Rate(T, a float64) (r, drdT, drda float64) {
 	if a >= 1 {
 		return 0, 0, 0
 	}
+	if a >= 0 {
+		// k (1−α)^n as one exponential of a sum of logarithms.
+		rt := GasConstant * T
+		r = m.A * math.Exp(-m.E/rt+m.N*math.Log1p(-a))
+		return r, r * m.E / (rt * T), -m.N * r / (1 - a)
+	}
 	k, dk := Arrhenius(m.A, m.E, T)
 	f, df := powDeriv(1-a, m.N)
 	return k * f, dk * f, -k * df
@@ -98,6 +104,17 @@ func (Autocatalytic) Name() string { return "autocatalytic" }
 func (m Autocatalytic) Rate(T, a float64) (r, drdT, drda float64) {
 	if a >= 1 {
 		return 0, 0, 0
+	}
+	if a > slopeFloor {
+		// Interior: two exponentials and two logarithms in all,
+		//	r = A1 e^{−E1/RT} (1−α)^n + A2 e^{−E2/RT} α^m (1−α)^n,
+		// each term one exp of a sum of logarithms.
+		inv := 1 / (GasConstant * T)
+		l1 := math.Log1p(-a)
+		t1 := m.A1 * math.Exp(-m.E1*inv+m.N*l1)
+		t2 := m.A2 * math.Exp(-m.E2*inv+m.M*math.Log(a)+m.N*l1)
+		r = t1 + t2
+		return r, (t1*m.E1 + t2*m.E2) * inv / T, t2*m.M/a - m.N*r/(1-a)
 	}
 	a = max(a, 0)
 	k1, dk1 := Arrhenius(m.A1, m.E1, T)

@@ -147,10 +147,9 @@ func (s *stepper) run(ctx context.Context) *Result {
 	events := s.events()
 	ev := 0
 	out := 0 // next output time index
-	h := s.initialStep(events[0])
-	startup := 2 // implicit Euler steps left
-	var ledger Ledger
-	minStep := 1e-9 * max(1, p.End)
+	s.h = s.initialStep(events[0])
+	s.startup = 2 // implicit Euler steps after t = 0
+	s.tr = tr
 
 	ctl := (*physics.Control)(nil)
 	if s.vol != nil {
@@ -171,83 +170,23 @@ func (s *stepper) run(ctx context.Context) *Result {
 		if ctl != nil {
 			target = min(target, float64(sample+1)*ctl.Period)
 		}
-		hTry := min(h, p.MaxStep)
-		landing := false
-		switch rem := target - s.t; {
-		case hTry*1.1 >= rem:
-			hTry, landing = rem, true
-		case hTry*2 > rem:
-			hTry = rem / 2
+		accepted, err := s.advance(target)
+		if err != nil {
+			res.Status, res.Err = Failed, err
+			break
 		}
-		theta := 0.5
-		if startup > 0 {
-			theta = 1
-		}
-		tNew := s.t + hTry
-		if landing {
-			tNew = target
-		}
-		s.predict(tNew)
-		copy(s.Tn, s.predT)
-		copy(s.An, s.predA)
-		outcome, its := s.solve(tNew-s.t, theta)
-		tr.sum.NewtonIterations += its + 1
-		tr.sum.MaxNewtonIterations = max(tr.sum.MaxNewtonIterations, its+1)
-		if outcome != stepOK {
-			tr.sum.RejectedSteps++
-			h = hTry / 4
-			if h < minStep {
-				res.Status = Failed
-				res.Err = &StepError{Time: s.t, Step: hTry, Reason: "Newton's iteration did not converge even for tiny steps"}
-				break
-			}
+		if !accepted {
 			continue
 		}
-		ratio, order := s.errorRatio(tNew-s.t, theta == 0.5)
-		if ratio > 1 {
-			tr.sum.RejectedSteps++
-			h = hTry * max(0.2, 0.9*math.Pow(ratio, -1/order))
-			if h < minStep {
-				res.Status = Failed
-				res.Err = &StepError{Time: s.t, Step: hTry, Reason: "the error estimate cannot be met"}
-				break
-			}
-			continue
-		}
-		// Accept.
-		hUsed := tNew - s.t
-		s.account(&ledger, hUsed, theta)
-		s.t = tNew
-		copy(s.T, s.Tn)
-		copy(s.A, s.An)
-		s.old, s.cur = s.cur, s.old
-		s.pushHistory()
-		tr.sum.Steps++
-		if startup > 0 {
-			startup--
-		}
-		grow := 5.0
-		if ratio > 0 {
-			grow = min(5, max(0.2, 0.9*math.Pow(ratio, -1/order)))
-		}
-		if hNext := hUsed * grow; !landing || hUsed >= min(h, p.MaxStep) {
-			h = hNext
-		} else {
-			// Landing shortened the step: keep the controller's proposal.
-			h = max(hNext, h)
-		}
-		tr.observe(s, hUsed)
-
-		if ctl != nil && landing && s.t == float64(sample+1)*ctl.Period {
+		if ctl != nil && s.t == float64(sample+1)*ctl.Period {
 			sample++
 			s.controlUpdate(ctl)
 		}
-		if landing && s.t == events[ev] {
+		if s.t == events[ev] {
 			ev++
 			for out < len(p.OutputTimes) && p.OutputTimes[out] <= s.t {
 				if p.OutputTimes[out] == s.t {
-					snap := s.snapshot(s.old, ledger.Faces+ledger.Volumetric)
-					res.Snapshots = append(res.Snapshots, snap)
+					res.Snapshots = append(res.Snapshots, s.snapshot(s.old, s.ledger.Faces+s.ledger.Volumetric))
 				}
 				out++
 			}
@@ -261,14 +200,88 @@ func (s *stepper) run(ctx context.Context) *Result {
 	if res.Status != OK {
 		last := res.Snapshots[len(res.Snapshots)-1]
 		if last.Time != s.t {
-			res.Snapshots = append(res.Snapshots, s.snapshot(s.old, ledger.Faces+ledger.Volumetric))
+			res.Snapshots = append(res.Snapshots, s.snapshot(s.old, s.ledger.Faces+s.ledger.Volumetric))
 		}
 	}
-	res.Ledger = ledger
+	res.Ledger = s.ledger
 	res.EndTime = s.t
-	tr.finish(s, &ledger)
+	tr.finish(s, &s.ledger)
 	res.Summary = tr.sum
 	return res
+}
+
+// advance makes one step attempt from s.t toward target, never past it. It
+// reports whether the step was accepted (s.t, s.T, s.A, s.old and the
+// ledger then hold the new state; s.t == target exactly when the step
+// landed on it). A rejected step shrinks s.h for the next attempt; the error
+// is non-nil when the step size fell below the smallest usable step.
+// advance allocates nothing.
+func (s *stepper) advance(target float64) (bool, error) {
+	p, tr := s.p, s.tr
+	minStep := 1e-9 * max(1, p.End)
+	hTry := min(s.h, p.MaxStep)
+	landing := false
+	switch rem := target - s.t; {
+	case hTry*1.1 >= rem:
+		hTry, landing = rem, true
+	case hTry*2 > rem:
+		hTry = rem / 2
+	}
+	theta := 0.5
+	if s.startup > 0 {
+		theta = 1
+	}
+	tNew := s.t + hTry
+	if landing {
+		tNew = target
+	}
+	s.predict(tNew)
+	copy(s.Tn, s.predT)
+	copy(s.An, s.predA)
+	outcome, its := s.solve(tNew-s.t, theta)
+	tr.sum.NewtonIterations += its + 1
+	tr.sum.MaxNewtonIterations = max(tr.sum.MaxNewtonIterations, its+1)
+	if outcome != stepOK {
+		tr.sum.RejectedSteps++
+		s.h = hTry / 4
+		if s.h < minStep {
+			return false, &StepError{Time: s.t, Step: hTry, Reason: "Newton's iteration did not converge even for tiny steps"}
+		}
+		return false, nil
+	}
+	ratio, order := s.errorRatio(tNew-s.t, theta == 0.5)
+	if ratio > 1 {
+		tr.sum.RejectedSteps++
+		s.h = hTry * max(0.2, 0.9*math.Pow(ratio, -1/order))
+		if s.h < minStep {
+			return false, &StepError{Time: s.t, Step: hTry, Reason: "the error estimate cannot be met"}
+		}
+		return false, nil
+	}
+	// Accept.
+	hUsed := tNew - s.t
+	s.account(&s.ledger, hUsed, theta)
+	s.t = tNew
+	copy(s.T, s.Tn)
+	copy(s.A, s.An)
+	s.old, s.cur = s.cur, s.old
+	s.pushHistory()
+	tr.sum.Steps++
+	if s.startup > 0 {
+		s.startup--
+	}
+	grow := 5.0
+	if ratio > 0 {
+		grow = min(5, max(0.2, 0.9*math.Pow(ratio, -1/order)))
+	}
+	if hNext := hUsed * grow; !landing || hUsed >= min(s.h, p.MaxStep) {
+		s.h = hNext
+	} else {
+		// Landing shortened the step: keep the controller's proposal.
+		s.h = max(hNext, s.h)
+	}
+	tr.observe(s, hUsed)
+	return true, nil
 }
 
 // account adds the accepted step to the ledger.

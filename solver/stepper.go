@@ -58,6 +58,12 @@ type stepper struct {
 	heat []float64           // ρ · resin fraction · total heat, J/m³ (0 where inert)
 	rc   []float64           // contact resistance at the face above each cell, m²K/W
 
+	// Step control and accounting.
+	h       float64 // the step the controller proposes next, s
+	startup int     // implicit Euler steps left
+	ledger  Ledger
+	tr      *tracker
+
 	// Accepted state and its level.
 	t    float64
 	T, A []float64
@@ -285,6 +291,7 @@ const (
 	newtonTinyT = 1e-9  // K
 	newtonTinyA = 1e-11 // degree of cure
 	minJaa      = 0.05  // smallest ∂G/∂α allowed in the elimination
+	eps         = 0x1p-52
 )
 
 // solve runs Newton's method for one step of size h with weight theta from
@@ -343,10 +350,14 @@ func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 			dT := T[i] - T0[i]
 			F := m*cs*dT - theta*v.D[i] - (1-theta)*o.D[i] - s.heat[i]*s.w[i]*(A[i]-A0[i])/h -
 				s.w[i]*(theta*v.P[i]+(1-theta)*o.P[i])
-			maxF = max(maxF, math.Abs(F)/(m*cs))
 			// D_i = down_i − down_{i+1}: face i has cell i below it (b),
 			// face i+1 has cell i above it (a).
 			dDT := v.fTb[i] - v.fTa[i+1]
+			// The residual, scaled to kelvin, cannot fall below its
+			// round-off floor, about ε|T| (1 + θ|∂D/∂T|/(m c*)).
+			mc := m * cs
+			floor := 4 * eps * math.Abs(T[i]) * (1 + theta*math.Abs(dDT)/mc)
+			maxF = max(maxF, math.Abs(F)/mc-floor)
 			dDA := v.fAb[i] - v.fAa[i+1]
 			fT := m*(cs+0.5*v.cpT[i]*dT) - theta*dDT
 			fA := m*0.5*v.cpA[i]*dT - s.heat[i]*s.w[i]/h - theta*dDA - theta*s.w[i]*v.PA[i]

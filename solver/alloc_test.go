@@ -1,0 +1,62 @@
+package solver
+
+import (
+	"testing"
+
+	"cureslab/physics"
+)
+
+// TestStepAllocatesNothing checks that, after start-up, a coupled step
+// (Newton, tridiagonal solve, error estimate, ledger, tracking) allocates
+// nothing, with volumetric heating under control as well as without.
+// Source: STYLE.md habit 9 (deterministic allocation count, not a timing).
+func TestStepAllocatesNothing(t *testing.T) {
+	for _, name := range []string{"oven", "controlled volumetric"} {
+		t.Run(name, func(t *testing.T) {
+			p := thickPotting(t, 60)
+			if name != "oven" {
+				p.Materials[0].Dielectric = &physics.Dielectric{Permittivity: 4, LossFactor: 0.4, LossFactorCured: 0.05}
+				prog, err := physics.FromSegments(296.15, []physics.Segment{{Rate: 2.0 / 60, To: 343.15}, {Hold: 3600}})
+				if err != nil {
+					t.Fatal(err)
+				}
+				p.Volumetric = &physics.Volumetric{Frequency: 2.45e9, Field: 3000, Attenuation: physics.FromTop,
+					Control: &physics.Control{Sensor: 0.01, Program: prog, Period: 1, Gain: 0.2, IntegralTime: 60}}
+			}
+			q, err := normalise(p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			s := newStepper(q)
+			for i := range s.n {
+				s.T[i] = q.InitialTemperature
+				if s.cure[i] != nil {
+					s.A[i] = q.InitialCure
+				}
+			}
+			s.eval(s.old, 0, s.T, s.A)
+			s.pushHistory()
+			s.tr = s.newTracker()
+			s.h, s.startup = 1, 2
+			if s.vol != nil {
+				s.controlUpdate(s.vol.Control)
+			}
+			target := 1e9
+			step := func() {
+				if _, err := s.advance(target); err != nil {
+					t.Fatal(err)
+				}
+				if s.vol != nil {
+					s.controlUpdate(s.vol.Control)
+				}
+			}
+			for range 10 { // past the start-up steps
+				step()
+			}
+			if a := testing.AllocsPerRun(200, step); a != 0 {
+				t.Errorf("%g allocations per step, want 0", a)
+			}
+			t.Logf("t = %.0f s after %d steps", s.t, s.tr.sum.Steps)
+		})
+	}
+}
