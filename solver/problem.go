@@ -34,8 +34,8 @@ type Problem struct {
 
 // Defaults of the step control and the runaway limit.
 const (
-	DefaultTemperatureTolerance = 0.05   // K
-	DefaultCureTolerance        = 0.002  // degree of cure
+	DefaultTemperatureTolerance = 0.02   // K
+	DefaultCureTolerance        = 0.001  // degree of cure
 	DefaultAbortTemperature     = 673.15 // K (400 °C)
 )
 
