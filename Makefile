@@ -28,3 +28,8 @@ fuzz:
 
 clean:
 	rm -rf cureslab-demo
+
+# The HTML reports rendered in headless Chromium (installs Debian's chromium
+# as root when missing). CI runs it from .ci/run.
+e2e:
+	bash .ci/e2e.sh

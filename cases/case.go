@@ -26,6 +26,10 @@ type Case struct {
 	Probes      []float64 // probe depths as given, m (also in Problem.Probes)
 
 	TopAir, BottomAir string // what drives each face as written ("oven", "23 C"), "" if none
+
+	// Volumetric describes [volumetric] as written, nil without one; the
+	// resolved heating is Problem.Volumetric.
+	Volumetric *VolumetricInfo
 }
 
 // LayerInfo is one layer as the user described it.

@@ -32,8 +32,9 @@ const MaxNeighbourRatio = 5
 
 // Check writes a plain-text account of c for a reader checking a case before
 // a run: the resolved stack (materials and where they come from, cells and
-// cell sizes, contact resistances), the materials, faces, schedules, time
-// and output settings and criteria, then pre-trial estimates (Biot numbers
+// cell sizes, contact resistances), the materials, faces, volumetric heating
+// (chkVolumetric), schedules, time and output settings and criteria, then
+// pre-trial estimates (Biot numbers
 // of the faces, and for each curing layer the adiabatic temperature rise
 // and conduction time against reaction half-life, see Estimate), warnings,
 // and the cautions of SPEC §9.
@@ -45,9 +46,11 @@ func Check(w io.Writer, c *Case) error {
 	chkStack(p, c)
 	chkMaterials(p, c)
 	chkFaces(p, c)
+	volWarnings := chkVolumetric(p, c)
 	chkSchedules(p, c)
 	chkTime(p, c)
 	warnings := chkEstimates(p, c)
+	warnings = append(warnings, volWarnings...)
 	warnings = append(warnings, meshWarnings(c)...)
 	p.printf("\nWarnings\n")
 	if len(warnings) == 0 {
@@ -454,7 +457,24 @@ type Estimate struct {
 	// +Inf when the resin does not react from its initial cure, 0 when it
 	// starts past 0.5.
 	HalfLife float64
+	// PeakRate is the largest isothermal cure rate at T over cure from the
+	// initial cure to 1, 1/s, reached at PeakCure.
+	PeakRate, PeakCure float64
+	// ApparentE is R T² ∂ln r/∂T at the peak rate, J/mol.
+	ApparentE float64
+	// FK is the Frank-Kamenetskii parameter of the layer at the peak rate,
+	//	δ = E/(R T²) · q̇ · a² / k,  q̇ = ρ · w_r · H · r_max,
+	// with a = the layer thickness as the half-width (conservative: a slab
+	// that sheds heat through one face only), NaN when the rate is zero.
+	FK float64
 }
+
+// CriticalFK is the critical Frank-Kamenetskii parameter of a slab with
+// walls held at the surrounding temperature, 0.8785 (Frank-Kamenetskii,
+// Diffusion and Heat Exchange in Chemical Kinetics, 1955/1969; the value
+// confirmed by Boddington, Gray & Wake, Proc. R. Soc. A, 1977). Above it no
+// steady state exists while the reaction runs at that rate.
+const CriticalFK = 0.8785
 
 // Estimates returns the pre-trial estimates of every curing layer of c at
 // the highest temperature that drives the case (the hottest point of the
@@ -499,6 +519,20 @@ func Estimates(c *Case) []Estimate {
 			Diffusivity:    diff,
 			ConductionTime: l.Thickness * l.Thickness / diff,
 			HalfLife:       mat.Cure.IsothermalTime(T, a0, 0.5),
+			FK:             math.NaN(),
+		}
+		// The peak isothermal rate, on a grid of 400 cures from α0 to 1.
+		for i := range 400 {
+			a := a0 + (1-a0)*float64(i)/400
+			if r, _, _ := mat.Cure.Rate(T, a); r > e.PeakRate {
+				e.PeakRate, e.PeakCure = r, a
+			}
+		}
+		if e.PeakRate > 0 {
+			r, rT, _ := mat.Cure.Rate(T, e.PeakCure)
+			e.ApparentE = physics.GasConstant * T * T * rT / r
+			qdot := mat.Density * mat.Cure.HeatPerMass() * r
+			e.FK = e.ApparentE / (physics.GasConstant * T * T) * qdot * l.Thickness * l.Thickness / k
 		}
 		out = append(out, e)
 	}
@@ -524,15 +558,18 @@ func AdiabaticRise(q, cu, cc, a0 float64) float64 {
 }
 
 // DrivingMax returns the highest temperature that drives the problem (K):
-// the largest value of the air schedule of a convective face or the set
-// schedule of a fixed face, and false with the initial temperature when no
-// face drives one.
+// the largest value of the air schedule of a convective face, the set
+// schedule of a fixed face and the program of controlled volumetric
+// heating, and false with the initial temperature when none drives it.
 func DrivingMax(pr *solver.Problem) (float64, bool) {
 	T, found := math.Inf(-1), false
 	for _, f := range []*physics.Face{&pr.Top, &pr.Bottom} {
 		if s, ok := f.Driver(); ok {
 			T, found = max(T, s.Max()), true
 		}
+	}
+	if controlled(pr) {
+		T, found = max(T, pr.Volumetric.Control.Program.Max()), true
 	}
 	if !found {
 		return pr.InitialTemperature, false
@@ -620,7 +657,17 @@ func chkEstimates(p *chkPrinter, c *Case) []string {
 			half = outHumanTime(e.HalfLife) + "\tisothermal, cure " + chkG(pr.InitialCure) + " to 0.5"
 		}
 		fmt.Fprintf(tw, "    reaction half-life\t%s\n", half)
+		if e.PeakRate > 0 {
+			fmt.Fprintf(tw, "    peak reaction rate\t%s 1/s\tisothermal, at cure %s; apparent activation energy %s kJ/mol\n",
+				chkG3(e.PeakRate), chkF(e.PeakCure, 2), chkF(e.ApparentE/1e3, 1))
+			fmt.Fprintf(tw, "    Frank-Kamenetskii delta\t%s\tE/(R T^2) * heat release at the peak rate * L^2 / k; critical %s for a slab\n",
+				chkG3(e.FK), chkG(CriticalFK))
+		}
 		p.flush(tw)
+		if e.FK > CriticalFK {
+			warn = append(warn, fmt.Sprintf("layer %s: the Frank-Kamenetskii parameter %s at %s C exceeds the critical %s: at its peak rate the reaction releases heat faster than conduction through %s mm can remove it: expect a strong exotherm (a runaway if the resin did not run out).",
+				e.Layer, chkG3(e.FK), chkF(e.T-273.15, 0), chkG(CriticalFK), FormatDepth(e.Thickness)))
+		}
 		if e.HalfLife > 0 && e.ConductionTime > e.HalfLife {
 			warn = append(warn, fmt.Sprintf("layer %s: the conduction time (%s) is longer than the reaction half-life at %s C (%s): the exotherm can run ahead of conduction: expect the core to overshoot the program.",
 				e.Layer, outHumanTime(e.ConductionTime), chkF(e.T-273.15, 0), outHumanTime(e.HalfLife)))
@@ -697,4 +744,149 @@ func chkF(v float64, decimals int) string {
 		s = strings.TrimPrefix(s, "-")
 	}
 	return s
+}
+
+// chkVolumetric prints the volumetric heating of c, if any: frequency, field
+// and attenuation; for every absorbing layer ε′, ε″ uncured and cured, the
+// power density P = 2π f ε0 ε″ E² at the full field
+// (physics.PowerDensity), the heating rate P/(ρ c_p) it would give with no
+// heat lost (c_p at the initial temperature, uncured), and the penetration
+// depth D_p (physics.PenetrationDepth); the layers that absorb nothing; and
+// the controller's settings with their defaults marked. It returns the
+// warnings: a frequency outside the ISM bands, a field that control does not
+// use, and a program ramp faster than the full field can heat any absorbing
+// layer.
+func chkVolumetric(p *chkPrinter, c *Case) []string {
+	v := c.Problem.Volumetric
+	if v == nil {
+		return nil
+	}
+	var warn []string
+	info := c.Volumetric
+	if info == nil {
+		info = &VolumetricInfo{}
+	}
+	pr := c.Problem
+	p.printf("\nVolumetric heating\n")
+	tw := p.table()
+	band := "an ISM band"
+	if note := frequencyNote(v.Frequency); note != "" {
+		band = "not an ISM band"
+		warn = append(warn, note)
+	}
+	fmt.Fprintf(tw, "  frequency\t%s (%s)\n", formatFrequency(v.Frequency), band)
+	if v.Control != nil {
+		fmt.Fprintf(tw, "  field\t%s kV/m rms at full power (max_field); the controller sets max_field * sqrt(power fraction)\n", chkG(v.Field/1e3))
+		if info.FieldUnused {
+			warn = append(warn, "[volumetric] field is not used: under [volumetric.control] the field at full power is max_field.")
+		}
+	} else {
+		fmt.Fprintf(tw, "  field\t%s kV/m rms, on from start to end\n", chkG(v.Field/1e3))
+	}
+	att := map[physics.Attenuation]string{
+		physics.Uniform:    "none: the same field in every layer",
+		physics.FromTop:    "top: the field enters through the top face and decays with the penetration depth",
+		physics.FromBottom: "bottom: the field enters through the bottom face and decays with the penetration depth",
+		physics.FromBoth:   "both: the mean of the field entering through the top and through the bottom",
+	}[v.Attenuation]
+	fmt.Fprintf(tw, "  attenuation\t%s\n", att)
+	p.flush(tw)
+
+	p.printf("  Absorbing layers, at the full field (uncured -> cured; heating rate with no heat lost):\n")
+	tw = p.table()
+	fmt.Fprintf(tw, "    layer\tmaterial\teps'\teps''\tpower density\theating rate\tpenetration depth\n")
+	fastest := 0.0 // fastest full-field heating rate of an absorbing layer, K/s
+	var others []string
+	for j, l := range pr.Mesh.Layers {
+		mat := chkMaterial(c, j)
+		info := chkLayerInfo(c, j)
+		if mat == nil {
+			continue
+		}
+		d := mat.Dielectric
+		switch {
+		case d == nil:
+			others = append(others, l.Name+" ("+info.Material+"): transparent, absorbs nothing")
+			continue
+		case d.Shield:
+			others = append(others, l.Name+" ("+info.Material+"): shield, absorbs nothing and blocks the field beyond it")
+			continue
+		}
+		pu := physics.PowerDensity(v.Frequency, d.LossFactor, v.Field)
+		pc := physics.PowerDensity(v.Frequency, d.LossFactorCured, v.Field)
+		a := 0.0
+		if mat.Cure != nil {
+			a = pr.InitialCure
+		}
+		cp, _, _ := mat.SpecificHeat.At(pr.InitialTemperature, a)
+		rate := pu / (mat.Density * cp)
+		fastest = max(fastest, rate)
+		scale, unit := 1.0, "W/m^3"
+		switch m := max(pu, pc); {
+		case m >= 1e6:
+			scale, unit = 1e6, "MW/m^3"
+		case m >= 1e3:
+			scale, unit = 1e3, "kW/m^3"
+		}
+		fmt.Fprintf(tw, "    %s\t%s\t%s\t%s -> %s\t%s -> %s %s\t%s K/min\t%s -> %s mm\n", l.Name, info.Material,
+			chkG(d.Permittivity), chkG(d.LossFactor), chkG(d.LossFactorCured), chkG3(pu/scale), chkG3(pc/scale), unit,
+			chkG3(rate*60), chkDepth(physics.PenetrationDepth(v.Frequency, d.Permittivity, d.LossFactor)),
+			chkDepth(physics.PenetrationDepth(v.Frequency, d.Permittivity, d.LossFactorCured)))
+	}
+	p.flush(tw)
+	for _, o := range others {
+		p.printf("    %s\n", o)
+	}
+
+	ctl := v.Control
+	if ctl == nil {
+		return warn
+	}
+	def := func(key string) string {
+		if chkContains(info.Defaults, key) {
+			return " (default)"
+		}
+		return ""
+	}
+	p.printf("  Control (PI, sampled; the power fraction stays in [0, 1])\n")
+	tw = p.table()
+	where := ""
+	if j := chkLayerAt(pr, ctl.Sensor); j >= 0 {
+		where = " (" + pr.Mesh.Layers[j].Name + ")"
+	}
+	fmt.Fprintf(tw, "    sensor\t%s mm%s\n", FormatDepth(ctl.Sensor), where)
+	prog := strconv.Quote(info.Program)
+	if info.Program == "" {
+		prog = "(as loaded)"
+	}
+	fmt.Fprintf(tw, "    program\t%s, highest %s C\n", prog, chkC(ctl.Program.Max()))
+	fmt.Fprintf(tw, "    period\t%s s%s\n", chkG(ctl.Period), def("period"))
+	fmt.Fprintf(tw, "    gain\t%s 1/K%s\n", chkG(ctl.Gain), def("gain"))
+	fmt.Fprintf(tw, "    integral time\t%s s%s\n", chkG(ctl.IntegralTime), def("integral_time"))
+	p.flush(tw)
+	if ramp := chkFastestRamp(ctl.Program); ramp > fastest {
+		warn = append(warn, fmt.Sprintf("the control program ramps at up to %s K/min, faster than the full field heats any absorbing layer (%s K/min with no heat lost): the sensor will lag the program; raise max_field or slow the ramp.",
+			chkG3(ramp*60), chkG3(fastest*60)))
+	}
+	return warn
+}
+
+// chkFastestRamp returns the steepest rise of s between its points, K/s
+// (0 when it never rises).
+func chkFastestRamp(s physics.Schedule) float64 {
+	t, v := s.Points()
+	r := 0.0
+	for i := 1; i < len(t); i++ {
+		r = max(r, (v[i]-v[i-1])/(t[i]-t[i-1]))
+	}
+	return r
+}
+
+// chkDepth formats a penetration depth (m) in mm, "infinite" for a lossless
+// material.
+func chkDepth(d float64) string {
+	if math.IsInf(d, 1) {
+		return "infinite"
+	}
+	return chkG3(d * 1e3)
 }

@@ -128,6 +128,13 @@ func TestEstimates(t *testing.T) {
 	if want := 6.35e-3 * 6.35e-3 * 1100 * 1500 / 0.2; math.Abs(e.ConductionTime-want) > 1e-12*want {
 		t.Errorf("conduction time %.12g s, want %.12g s", e.ConductionTime, want)
 	}
+	// Frank-Kamenetskii parameter (REFERENCES §2): a first-order rate peaks
+	// at α = 0 with r = k and apparent activation energy E, so
+	// δ = E/(R T²) · ρ w H k · L² / k_th (analytic), with the layer thickness
+	// as the half-width.
+	if want := 60e3 / (physics.GasConstant * 343.15 * 343.15) * 1100 * 400e3 * k * 6.35e-3 * 6.35e-3 / 0.2; math.Abs(e.FK-want) > 1e-9*want || e.PeakCure != 0 {
+		t.Errorf("Frank-Kamenetskii δ = %.12g at cure %g, want %.12g at 0", e.FK, e.PeakCure, want)
+	}
 	if want := AdiabaticRise(400e3, 1500, 1300, 0); e.AdiabaticRise != want {
 		t.Errorf("adiabatic rise %g K, want %g K", e.AdiabaticRise, want)
 	}

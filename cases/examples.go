@@ -20,8 +20,9 @@ type Example struct {
 // exampleSummaries lists the embedded examples, each stored as
 // examples/<name>.toml; a test checks that the two agree.
 var exampleSummaries = map[string]string{
-	"thick-potting-oven": "12 mm of an invented potting epoxy in an aluminium cup cured at 65 C: exotherm overshoot, lagging bottom",
-	"tile-on-spreader":   "alumina tile bonded to an aluminium spreader warming in an oven: pure conduction, no cure",
+	"thick-potting-microwave": "the same potting cured by controlled microwave heating, the bottom of the resin held on a 65 C program",
+	"thick-potting-oven":      "12 mm of an invented potting epoxy in an aluminium cup cured at 65 C: exotherm overshoot, lagging bottom",
+	"tile-on-spreader":        "alumina tile bonded to an aluminium spreader warming in an oven: pure conduction, no cure",
 }
 
 // Examples returns the embedded examples sorted by name. Each call returns

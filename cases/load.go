@@ -20,11 +20,7 @@ var topKeys = []string{"title", "initial", "time", "layer", "mesh", "materials",
 	"top", "bottom", "volumetric", "output", "criteria", "sweep", "uncertainty"}
 
 // unsupported are the sections of SPEC §4 that this version refuses.
-var unsupported = map[string]string{
-	"volumetric":  "volumetric (dielectric) heating",
-	"sweep":       "a sweep defined in the case file",
-	"uncertainty": "declared uncertainties",
-}
+var unsupported = map[string]string{}
 
 // Load reads, validates and resolves the case file at path (see Parse);
 // relative paths inside it are taken from its directory.
@@ -45,13 +41,15 @@ func Load(path string) (*Case, error) {
 // value out of physical range, a reference to an unknown material or
 // schedule, a required section that is missing. All problems are collected
 // and returned together as an ErrorList of *Error, each with the file, line,
-// column and key path; no partial Case is returned. The sections
-// [volumetric], [sweep] and [uncertainty] are refused as not supported yet;
-// [materials.X.dielectric] is validated into physics.Dielectric.
+// column and key path; no partial Case is returned. [sweep] is validated
+// (NewSweep reads it) but does not change the case; so is [uncertainty]
+// (uncertaintySection; Uncertain and Tune read it). [volumetric] becomes
+// Problem.Volumetric (see validate_volumetric.go) and
+// [materials.X.dielectric] physics.Dielectric.
 //
 // Defaults: time.end is the end of the longest program the case uses (a
-// schedule that drives a face, or flux points) and is required when there is
-// none; output_every is end/100; abort_temperature is 400 C; the title is
+// schedule that drives a face or the volumetric control, or flux points) and
+// is required when there is none; output_every is end/100; abort_temperature is 400 C; the title is
 // the file name without its extension. Cost: linear in the size of the
 // file, plus the schedule files it reads and the mesh it builds.
 func Parse(name string, data []byte, dir string) (*Case, error) {
@@ -60,6 +58,13 @@ func Parse(name string, data []byte, dir string) (*Case, error) {
 	if _, err := toml.Decode(text, &doc); err != nil {
 		return nil, ErrorList{syntaxError(name, text, err)}
 	}
+	return parseTree(name, text, doc, dir)
+}
+
+// parseTree is Parse of the document doc decoded from text, which a sweep
+// run has changed in place of some values; positions still come from text.
+// doc is only read.
+func parseTree(name, text string, doc map[string]any, dir string) (*Case, error) {
 	l := &loader{file: name, dir: dir, loc: newLocator(text)}
 	c := l.build(doc)
 	if err := l.errs.sortFor(name).Err(); err != nil {
@@ -89,6 +94,8 @@ func (l *loader) build(doc map[string]any) *Case {
 	top := l.face(root, "top", scheds)
 	bottom := l.face(root, "bottom", scheds)
 
+	vol, volOK := l.volumetric(root, scheds, layers, layersOK)
+
 	p := &solver.Problem{InitialTemperature: T0, InitialCure: cure0}
 	programEnd := 0.0
 	for _, f := range []*faceDef{top, bottom} {
@@ -98,10 +105,18 @@ func (l *loader) build(doc map[string]any) *Case {
 		}
 		programEnd = max(programEnd, f.end)
 	}
+	if !volOK {
+		programEnd = -1 // unknown: [volumetric] has errors of its own
+	} else if vol != nil && programEnd >= 0 {
+		programEnd = max(programEnd, vol.end)
+	}
 	if !initOK {
 		T0 = 0
 	}
 	c.OutputEvery = l.timing(root, p, programEnd, T0)
+	if vol != nil {
+		l.checkControlSamples(vol.vol.Control, p.End)
+	}
 
 	total := 0.0
 	for _, d := range layers {
@@ -111,8 +126,13 @@ func (l *loader) build(doc map[string]any) *Case {
 		total = 0 // unknown: do not judge probe depths against it
 	}
 	p.Probes = l.probes(root, total)
+	if vol != nil && vol.vol.Control != nil && sensorProbe(p.Probes, vol.vol.Control.Sensor) < 0 {
+		p.Probes = append(p.Probes, vol.vol.Control.Sensor) // probes.csv records the controlled temperature
+	}
 	c.Probes = p.Probes
 	c.Criteria = l.criteria(root)
+	l.sweepSection(root)
+	l.uncertaintySection(root)
 	if !math.IsNaN(c.Criteria.MinCure) {
 		p.MinCure = c.Criteria.MinCure
 	}
@@ -151,6 +171,9 @@ func (l *loader) build(doc map[string]any) *Case {
 		c.Schedules[name] = *s
 	}
 	c.Replaced = replaced
+	if vol != nil {
+		p.Volumetric, c.Volumetric = vol.vol, vol.info
+	}
 	c.Problem = p
 	return c
 }

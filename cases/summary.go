@@ -187,8 +187,11 @@ func (vs *Verdicts) UnmarshalJSON(b []byte) error {
 // dimensionless values).
 //
 // Beyond SPEC §5 it carries end_time_s (the time the run reached, which is
-// less than the case's end after a runaway or failure) and message (why the
-// run stopped early; omitted when it ran to the end).
+// less than the case's end after a runaway or failure), message (why the
+// run stopped early; omitted when it ran to the end) and, under closed-loop
+// volumetric heating only, control_max_error_K (ControlError), and
+// gel_point, the degree of cure at gelation of each curing layer by name
+// (omitted without curing layers; the report draws the gel front from it).
 type Summary struct {
 	Title                    string   `json:"title"`
 	Status                   string   `json:"status"`
@@ -209,6 +212,11 @@ type Summary struct {
 	Criteria                 Verdicts `json:"criteria"`
 	EndTimeS                 Float    `json:"end_time_s"`
 	Message                  string   `json:"message,omitempty"`
+	// ControlMaxErrorK is set only under closed-loop volumetric heating
+	// (see ControlError); omitted otherwise.
+	ControlMaxErrorK *Float `json:"control_max_error_K,omitempty"`
+	// GelPoint is the gel point of each curing layer, by layer name.
+	GelPoint map[string]float64 `json:"gel_point,omitempty"`
 }
 
 // Summarize returns the summary of a run of c: the solver's summary in the
@@ -243,6 +251,21 @@ func Summarize(c *Case, r *solver.Result) Summary {
 	if !math.IsNaN(c.Criteria.MinCure) {
 		out.TimeToMinCureS = Float(outRound6(s.TimeToMinCure))
 	}
+	for j, l := range c.Problem.Mesh.Layers {
+		if j >= len(c.Problem.Materials) || c.Problem.Materials[j] == nil {
+			continue
+		}
+		if cu := c.Problem.Materials[j].Cure; cu != nil {
+			if out.GelPoint == nil {
+				out.GelPoint = map[string]float64{}
+			}
+			out.GelPoint[l.Name] = cu.GelPoint
+		}
+	}
+	if controlled(c.Problem) {
+		e := Float(outRound6(ControlError(c, r)))
+		out.ControlMaxErrorK = &e
+	}
 	if r.Status != solver.OK {
 		msg := "the run stopped early"
 		if r.Err != nil {
@@ -272,6 +295,9 @@ func PrintSummary(w io.Writer, s Summary) error {
 	}
 	if outOK(s.MaxSpreadK) {
 		row("max spread", "%.1f K (curing layers)", float64(s.MaxSpreadK))
+	}
+	if s.ControlMaxErrorK != nil && outOK(*s.ControlMaxErrorK) {
+		row("control", "sensor within %.2f K of its program at every output time", float64(*s.ControlMaxErrorK))
 	}
 	if outOK(s.MinFinalCure) {
 		row("final cure", "min %s at %s mm, mean %s", outCure(s.MinFinalCure), outDepth(s.MinFinalCureDepthMM), outCure(s.MeanFinalCure))

@@ -297,8 +297,7 @@ func (l *loader) cure(mt *table) *physics.Cure {
 
 // dielectric reads [materials.X.dielectric]: relative permittivity ε′ ≥ 1,
 // loss factors ε″ ≥ 0 (the cured one defaults to the uncured one), and
-// shield. A shield needs nothing else. It is validated here although
-// volumetric heating itself is not supported yet.
+// shield. A shield needs nothing else.
 func (l *loader) dielectric(mt *table) *physics.Dielectric {
 	t := l.open(mt.keyPath("dielectric"), mt.m["dielectric"], dielectricKeys, nil)
 	if t == nil {

@@ -159,7 +159,16 @@ func probesHeader(c *Case) []string {
 	if p.Bottom.Kind == physics.Convection {
 		h = append(h, "air_bottom_C")
 	}
+	if controlled(p) {
+		h = append(h, "power_fraction")
+	}
 	return append(h, "heat_in_J_per_m2")
+}
+
+// controlled reports whether p's volumetric heating is under closed-loop
+// control (probes.csv then has a power_fraction column).
+func controlled(p *solver.Problem) bool {
+	return p.Volumetric != nil && p.Volumetric.Control != nil
 }
 
 // writeProbes writes probes.csv: one row per output time.
@@ -182,6 +191,9 @@ func writeProbes(w io.Writer, c *Case, r *solver.Result) error {
 		}
 		if p.Bottom.Kind == physics.Convection {
 			row = append(row, outFixed(outKtoC(s.AirBottom), 6))
+		}
+		if controlled(p) {
+			row = append(row, outSig(s.PowerFraction))
 		}
 		row = append(row, outSig(s.HeatIn))
 		if err := cw.Write(row); err != nil {

@@ -80,8 +80,6 @@ var plannedInfo = map[string][3]string{
 		"cureslab ttt potting.toml --material potting-resin-A"},
 	"tune": {"CASE.toml --program NAME", "the shortest program that meets the criteria",
 		"cureslab tune potting.toml --program oven"},
-	"report": {"DIR", "(re)draw the HTML report from the output files of a run",
-		"cureslab report potting-out"},
 }
 
 func init() {
@@ -224,10 +222,11 @@ Commands:
 		}
 	}
 	tw.Flush()
-	fmt.Fprint(w, "\nPlanned (not available yet in this version):\n")
+	header := "\nPlanned (not available yet in this version):\n"
 	for _, c := range commands {
 		if c.Planned {
-			fmt.Fprintf(tw, "  %s\t%s\n", c.Name, c.Short)
+			fmt.Fprintf(tw, "%s  %s\t%s\n", header, c.Name, c.Short)
+			header = ""
 		}
 	}
 	tw.Flush()

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -18,9 +19,10 @@ var runCmd = &Command{
 	Name:  "run",
 	Args:  "CASE.toml [-o DIR]",
 	Short: "simulate one case, write its output files and print a summary",
-	Long: `Simulate one case and write fields.csv, probes.csv and summary.json to DIR
-(default ./CASE-out, named after the case file), then print a short summary
-with the acceptance criteria. A case with errors is refused before anything
+	Long: `Simulate one case and write fields.csv, probes.csv, summary.json and
+report.html (the plots; skip it with --no-report) to DIR (default
+./CASE-out, named after the case file), then print a short summary with the
+acceptance criteria. A case with errors is refused before anything
 is written. Ctrl-C stops the run and keeps the outputs up to that moment.
 
 Exit status: 0 every criterion met (or none given), 1 a criterion failed,
@@ -56,6 +58,33 @@ cureslab run potting.toml -o potting-out`,
 	},
 }
 
+// noReportKey marks, in the context of a command, that --no-report was
+// given: simulate then writes no report.html.
+type noReportKey struct{}
+
+// withReportFlag gives the command c the flag --no-report, which the runs
+// that c makes through simulate obey. It wraps c.Setup, so the command's own
+// file needs no change; call it from an init function.
+func withReportFlag(c *Command) {
+	setup := c.Setup
+	c.Setup = func(fs *pflag.FlagSet) func(*env, []string) int {
+		runner := setup(fs)
+		off := fs.Bool("no-report", false, "do not write "+cases.ReportFile)
+		return func(e *env, args []string) int {
+			if *off {
+				e.ctx = context.WithValue(e.ctx, noReportKey{}, true)
+			}
+			return runner(e, args)
+		}
+	}
+}
+
+// reportOff reports whether the running command was given --no-report.
+func reportOff(e *env) bool {
+	off, _ := e.ctx.Value(noReportKey{}).(bool)
+	return off
+}
+
 // defaultOutDir is ./NAME-out for the case file path/NAME.toml.
 func defaultOutDir(path string) string {
 	base := filepath.Base(path)
@@ -71,24 +100,38 @@ func checkOutDir(dir string) string {
 }
 
 // simulate runs c until it ends or e.ctx is cancelled, writes its outputs
-// to dir and returns the summary and the exit status. Errors go to stderr
-// under the command name cmd.
+// to dir (report.html too, unless the command was given --no-report, see
+// withReportFlag) and returns the summary and the exit status. Errors go to
+// stderr under the command name cmd.
 func simulate(e *env, cmd string, c *cases.Case, dir string) (cases.Summary, int) {
+	s, _, code := simulateResult(e, cmd, c, dir)
+	return s, code
+}
+
+// simulateResult is simulate that also returns the solver's result (nil
+// when the solver refused to start).
+func simulateResult(e *env, cmd string, c *cases.Case, dir string) (cases.Summary, *solver.Result, int) {
 	r, err := solver.Run(e.ctx, c.Problem)
 	if err != nil {
 		fmt.Fprintf(e.stderr, "cureslab %s: %s: %v\n", cmd, c.File, err)
-		return cases.Summary{Title: c.Title, Status: cases.StatusFailed}, exitFailure
+		return cases.Summary{Title: c.Title, Status: cases.StatusFailed}, nil, exitFailure
 	}
 	s := cases.Summarize(c, r)
 	if err := cases.WriteRun(dir, c, r); err != nil {
 		fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, err)
-		return s, exitUsage
+		return s, r, exitUsage
+	}
+	if !reportOff(e) {
+		if err := cases.WriteReport(dir, c, r); err != nil {
+			fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, err)
+			return s, r, exitUsage
+		}
 	}
 	code := exitCode(s.Status)
 	if code == exitFailure {
 		fmt.Fprintf(e.stderr, "cureslab %s: %s: %s: %s\n", cmd, c.File, s.Status, s.Message)
 	}
-	return s, code
+	return s, r, code
 }
 
 var checkCmd = &Command{

@@ -1,0 +1,48 @@
+package cases
+
+import (
+	"context"
+	"os"
+	"strconv"
+	"testing"
+)
+
+// BenchmarkSweepDemoPotting runs sweeps of the embedded thick-potting-oven
+// example (8 runs per operation, top.h from 10 to 24 W/m^2/K) with 1 and 2
+// workers, every run committed to the journal as in a real sweep, and
+// reports the throughput in runs/s:
+//
+//	go test ./cases -run '^$' -bench SweepDemoPotting -benchtime 20x
+func BenchmarkSweepDemoPotting(b *testing.B) {
+	ex, ok := ExampleByName("thick-potting-oven")
+	if !ok {
+		b.Fatal("no thick-potting-oven example")
+	}
+	const runs = 8
+	v, err := ParseVary("top.h=10W/m^2/K:24W/m^2/K:" + strconv.Itoa(runs))
+	if err != nil {
+		b.Fatal(err)
+	}
+	s, err := NewSweep("thick-potting-oven.toml", ex.Text, "", SweepSettings{Vary: []Vary{v}})
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, jobs := range []int{1, 2} {
+		b.Run("j"+strconv.Itoa(jobs), func(b *testing.B) {
+			root := b.TempDir()
+			done := 0
+			for b.Loop() {
+				dir, err := os.MkdirTemp(root, "sweep")
+				if err != nil {
+					b.Fatal(err)
+				}
+				rep, err := s.Run(context.Background(), dir, SweepOptions{Jobs: jobs})
+				if err != nil || rep.Done != runs {
+					b.Fatalf("sweep: %v, %+v", err, rep)
+				}
+				done += rep.Done
+			}
+			b.ReportMetric(float64(done)/b.Elapsed().Seconds(), "runs/s")
+		})
+	}
+}

@@ -1,0 +1,650 @@
+package cases
+
+import (
+	"bytes"
+	"context"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"hash/crc32"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"runtime"
+	"slices"
+	"strconv"
+	"strings"
+	"sync"
+	"time"
+
+	"cureslab/solver"
+)
+
+// Files of a sweep directory.
+const (
+	// SweepSummaryFile is the table of every run (SPEC §6, §10).
+	SweepSummaryFile = "summary.csv"
+	// SweepDefinitionFile records what the sweep is; resuming or merging
+	// checks it.
+	SweepDefinitionFile = "sweep.json"
+	// SweepJournalFile holds the committed rows, one appended (and synced)
+	// per finished run, in the order they finished.
+	SweepJournalFile = "journal.csv"
+	// SweepLogFile records when, where and how long each run ran.
+	SweepLogFile = "sweep.log"
+	// SweepRunsDir holds the output files of each run with KeepFields,
+	// in RUNS/NNNNN/.
+	SweepRunsDir = "runs"
+)
+
+// sweepColumns are the summary columns of summary.csv after the varied
+// keys, named like the keys of summary.json, in this order. Criteria come
+// next as min_cure_pass, max_temperature_pass, max_spread_pass ("true",
+// "false", or empty when the case does not set the criterion), then status
+// and error.
+var sweepColumns = []struct {
+	name string
+	get  func(*Summary) string
+}{
+	{"peak_temperature_C", func(s *Summary) string { return csvFloat(s.PeakTemperatureC) }},
+	{"peak_time_s", func(s *Summary) string { return csvFloat(s.PeakTimeS) }},
+	{"peak_depth_mm", func(s *Summary) string { return csvFloat(s.PeakDepthMM) }},
+	{"overshoot_K", func(s *Summary) string { return csvFloat(s.OvershootK) }},
+	{"max_spread_K", func(s *Summary) string { return csvFloat(s.MaxSpreadK) }},
+	{"min_final_cure", func(s *Summary) string { return csvFloat(s.MinFinalCure) }},
+	{"min_final_cure_depth_mm", func(s *Summary) string { return csvFloat(s.MinFinalCureDepthMM) }},
+	{"mean_final_cure", func(s *Summary) string { return csvFloat(s.MeanFinalCure) }},
+	{"time_to_min_cure_s", func(s *Summary) string { return csvFloat(s.TimeToMinCureS) }},
+	{"gel_time_first_s", func(s *Summary) string { return csvFloat(s.GelTimeFirstS) }},
+	{"gel_time_last_s", func(s *Summary) string { return csvFloat(s.GelTimeLastS) }},
+	{"min_final_glass_transition_C", func(s *Summary) string { return csvFloat(s.MinFinalGlassTransitionC) }},
+	{"energy_balance_error", func(s *Summary) string { return csvFloat(s.EnergyBalanceError) }},
+	{"steps", func(s *Summary) string { return strconv.Itoa(s.Steps) }},
+	{"end_time_s", func(s *Summary) string { return csvFloat(s.EndTimeS) }},
+}
+
+// sweepCriteria are the criteria columns, in order.
+var sweepCriteria = []string{CriterionMinCure, CriterionMaxTemperature, CriterionMaxSpread}
+
+// csvFloat writes a summary value as summary.json does; null is empty.
+func csvFloat(f Float) string {
+	b, err := f.MarshalJSON()
+	if err != nil || string(b) == "null" {
+		return ""
+	}
+	return string(b)
+}
+
+// sweepHeader is the header of summary.csv for the varied keys.
+func sweepHeader(keys []string) []string {
+	h := append([]string{"run"}, keys...)
+	for _, c := range sweepColumns {
+		h = append(h, c.name)
+	}
+	for _, c := range sweepCriteria {
+		h = append(h, c+"_pass")
+	}
+	return append(h, "status", "error")
+}
+
+// SweepOptions say how to run a sweep. The zero value runs every run on
+// all cores, without per-run outputs and without progress.
+type SweepOptions struct {
+	// Jobs is the number of runs at a time; 0 means runtime.NumCPU().
+	Jobs int
+	// Shard and Shards select the runs whose index is ≡ Shard mod Shards
+	// (0 ≤ Shard < Shards); Shards 0 means 1 (every run).
+	Shard, Shards int
+	// KeepFields writes each run's output files (as `run` does) into
+	// DIR/runs/NNNNN/.
+	KeepFields bool
+	// Progress, when not nil, gets one line updated in place (\r): runs
+	// done of total, failures, rate and time left. Pass a terminal only.
+	Progress io.Writer
+
+	// afterCommit, when not nil, is called after each commit with the
+	// number of runs done (tests use it to interrupt a sweep part-way).
+	afterCommit func(done int)
+}
+
+// SweepReport is the outcome of Sweep.Run over the runs of its shard.
+type SweepReport struct {
+	Runs    int // runs of the shard
+	Done    int // of them, committed in the directory (including Resumed)
+	Resumed int // of Done, committed by an earlier run of the same sweep
+	// Statuses of the committed runs (SPEC §5): they add up to Done.
+	OK, CriteriaFailed, Runaway, Failed int
+	// Repaired reports that the journal ended in a record cut short (a
+	// crash while committing) or damaged: it was cut off and its runs are
+	// done again.
+	Repaired bool
+	// Interrupted reports that ctx was cancelled before every run was done.
+	Interrupted bool
+}
+
+// Run runs the sweep, or the runs of one shard of it, into dir, skipping
+// the runs that dir already holds, and writes dir/summary.csv.
+//
+// Layout of dir: sweep.json (the definition; an existing one must match,
+// else an error wrapping ErrSweepMismatch and nothing is touched),
+// journal.csv (the committed rows), summary.csv (every committed row in run
+// order, rewritten at the end), sweep.log (start, each run with its wall
+// time, end, host), and with KeepFields runs/NNNNN/ (the files of `run`).
+//
+// Method: opt.Jobs workers take the runs in index order; each builds its own
+// copy of the case with the run's values (Sweep.Case), validates it, runs
+// solver.Run, and writes its outputs when asked; one collector appends the
+// run's row to the journal and syncs it before counting the run as done. A
+// run whose case is invalid, or which fails numerically or runs away, is a
+// row with that status and its error; the sweep goes on. A torn record at
+// the end of the journal (a crash while appending) is dropped and its run
+// done again, so the journal never holds half a row.
+//
+// Cancelling ctx stops handing out runs; the runs in progress are dropped
+// (not committed), summary.csv is written from what was committed, and the
+// report says Interrupted: running the same sweep into dir again finishes
+// it, and summary.csv is then byte-identical to that of an uninterrupted
+// sweep. The journal is synced once per batch of runs that finished
+// together (group commit). The error is for problems with dir (cannot write, another sweep)
+// and bad options; a failed run is not an error.
+func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepReport, error) {
+	var rep SweepReport
+	shards := opt.Shards
+	if shards == 0 {
+		shards = 1
+	}
+	if shards < 1 || opt.Shard < 0 || opt.Shard >= shards {
+		return rep, &sweepError{msg: fmt.Sprintf("shard %d/%d: want 0 <= I < N", opt.Shard, opt.Shards)}
+	}
+	jobs := opt.Jobs
+	if jobs == 0 {
+		jobs = runtime.NumCPU()
+	}
+	if jobs < 1 {
+		return rep, &sweepError{msg: fmt.Sprintf("-j %d: want at least 1 job", opt.Jobs)}
+	}
+	if err := claimSweepDir(dir, s.def); err != nil {
+		return rep, err
+	}
+	header := sweepHeader(s.Keys)
+	j, err := openJournal(dir, header, s.Runs)
+	if err != nil {
+		return rep, err
+	}
+	defer j.close()
+	rep.Repaired = j.repaired
+
+	statusCol := len(header) - 2
+	count := func(rec []string) {
+		switch rec[statusCol] {
+		case StatusOK:
+			rep.OK++
+		case StatusCriteriaFailed:
+			rep.CriteriaFailed++
+		case StatusRunaway:
+			rep.Runaway++
+		default:
+			rep.Failed++
+		}
+	}
+	var todo []int
+	for r := opt.Shard; r < s.Runs; r += shards {
+		rep.Runs++
+		if rec, ok := j.rows[r]; ok {
+			rep.Done++
+			rep.Resumed++
+			count(rec)
+		} else {
+			todo = append(todo, r)
+		}
+	}
+	width := max(5, len(strconv.Itoa(s.Runs-1)))
+	log := openSweepLog(dir)
+	defer log.close()
+	host, _ := os.Hostname()
+	log.printf("start case=%s sha256=%x host=%s pid=%d shard=%d/%d jobs=%d runs=%d done=%d todo=%d repaired=%v",
+		s.Name, s.hash[:6], host, os.Getpid(), opt.Shard, shards, jobs, rep.Runs, rep.Done, len(todo), j.repaired)
+
+	prog := &sweepProgress{w: opt.Progress, start: time.Now(), total: rep.Runs, done: rep.Done,
+		bad: rep.Failed + rep.Runaway, crit: rep.CriteriaFailed}
+	ictx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	work := make(chan int)
+	results := make(chan sweepResult, jobs)
+	go func() {
+		defer close(work)
+		for _, r := range todo {
+			select {
+			case work <- r:
+			case <-ictx.Done():
+				return
+			}
+		}
+	}()
+	var wg sync.WaitGroup
+	for range min(jobs, len(todo)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for r := range work {
+				if ictx.Err() != nil {
+					continue
+				}
+				res := s.runOne(ictx, r, dir, opt.KeepFields, width)
+				if ictx.Err() != nil && res.err == nil {
+					continue // cut short: not committed, run again on resume
+				}
+				results <- res
+			}
+		}()
+	}
+	go func() {
+		wg.Wait()
+		close(results)
+	}()
+	var firstErr error
+	var batch []sweepResult
+	for res := range results {
+		// Group commit: take every result that is ready, write them in one
+		// call and sync once (a sync costs milliseconds on a disk).
+		batch = append(batch[:0], res)
+	drain:
+		for {
+			select {
+			case r, ok := <-results:
+				if !ok {
+					break drain
+				}
+				batch = append(batch, r)
+			default:
+				break drain
+			}
+		}
+		if firstErr != nil {
+			continue
+		}
+		recs := make([][]string, 0, len(batch))
+		for _, r := range batch {
+			if r.err != nil {
+				firstErr = r.err
+				break
+			}
+			recs = append(recs, r.rec)
+		}
+		if firstErr == nil {
+			firstErr = j.append(recs)
+		}
+		if firstErr != nil {
+			cancel()
+			continue
+		}
+		for _, r := range batch {
+			rep.Done++
+			count(r.rec)
+			prog.record(r.rec[statusCol])
+			log.printf("run %0*d %s %.3fs", width, r.run, r.rec[statusCol], r.wall.Seconds())
+		}
+		if opt.afterCommit != nil {
+			opt.afterCommit(rep.Done)
+		}
+	}
+	prog.finish()
+	rep.Interrupted = ctx.Err() != nil && rep.Done < rep.Runs
+	if firstErr != nil {
+		log.printf("stop error=%q done=%d/%d", firstErr.Error(), rep.Done, rep.Runs)
+		return rep, firstErr
+	}
+	if err := writeSweepSummary(dir, header, j.rows); err != nil {
+		return rep, fmt.Errorf("writing %s: %w", filepath.Join(dir, SweepSummaryFile), err)
+	}
+	log.printf("stop done=%d/%d ok=%d criteria-failed=%d runaway=%d failed=%d interrupted=%v",
+		rep.Done, rep.Runs, rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed, rep.Interrupted)
+	return rep, nil
+}
+
+// sweepResult is one finished run on its way to the collector.
+type sweepResult struct {
+	run  int
+	rec  []string // the row of summary.csv
+	wall time.Duration
+	err  error // writing its outputs failed: stops the sweep
+}
+
+// runOne runs run r and returns its row.
+func (s *Sweep) runOne(ctx context.Context, r int, dir string, keep bool, width int) sweepResult {
+	start := time.Now()
+	shown, vals := s.point(r)
+	rec := make([]string, 0, 1+len(shown)+len(sweepColumns)+len(sweepCriteria)+2)
+	rec = append(rec, strconv.Itoa(r))
+	rec = append(rec, shown...)
+	failed := func(msg string) sweepResult {
+		for range len(sweepColumns) + len(sweepCriteria) {
+			rec = append(rec, "")
+		}
+		rec = append(rec, StatusFailed, oneLine(msg))
+		return sweepResult{run: r, rec: rec, wall: time.Since(start)}
+	}
+	c, err := s.caseOf(vals)
+	if err != nil {
+		return failed(flattenErrors(err))
+	}
+	res, err := solver.Run(ctx, c.Problem)
+	if err != nil {
+		return failed(err.Error())
+	}
+	sum := Summarize(c, res)
+	if keep {
+		out := filepath.Join(dir, SweepRunsDir, fmt.Sprintf("%0*d", width, r))
+		if err := WriteRun(out, c, res); err != nil {
+			return sweepResult{run: r, err: fmt.Errorf("run %d: writing its outputs to %s: %w", r, out, err)}
+		}
+	}
+	for _, col := range sweepColumns {
+		rec = append(rec, col.get(&sum))
+	}
+	for _, name := range sweepCriteria {
+		pass := ""
+		for _, v := range sum.Criteria {
+			if v.Name == name {
+				pass = strconv.FormatBool(v.Pass)
+			}
+		}
+		rec = append(rec, pass)
+	}
+	msg := ""
+	if res.Status != solver.OK {
+		msg = "the run stopped early"
+		if res.Err != nil {
+			msg = res.Err.Error()
+		}
+	}
+	rec = append(rec, sum.Status, oneLine(msg))
+	return sweepResult{run: r, rec: rec, wall: time.Since(start)}
+}
+
+// flattenErrors writes the errors of a case on one line: each as
+// "file:line:col: key: message", without hints, joined by "; ".
+func flattenErrors(err error) string {
+	var list ErrorList
+	if !errors.As(err, &list) {
+		return err.Error()
+	}
+	parts := make([]string, len(list))
+	for i, e := range list {
+		c := *e
+		c.Hint = ""
+		parts[i] = c.Error()
+	}
+	return strings.Join(parts, "; ")
+}
+
+func oneLine(s string) string {
+	return strings.Join(strings.Fields(s), " ")
+}
+
+// claimSweepDir creates dir if needed and checks or writes its sweep.json.
+func claimSweepDir(dir string, def []byte) error {
+	if fi, err := os.Stat(dir); err == nil && !fi.IsDir() {
+		return &sweepError{msg: fmt.Sprintf("%s exists and is not a directory", dir)}
+	}
+	old, err := os.ReadFile(filepath.Join(dir, SweepDefinitionFile))
+	switch {
+	case err == nil:
+		if !bytes.Equal(old, def) {
+			return &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+				"%s holds another sweep: %s; give another output directory (-o), or remove %s to start over",
+				dir, defDiff(old, def), dir)}
+		}
+		return nil
+	case !errors.Is(err, fs.ErrNotExist):
+		return err
+	}
+	if _, err := os.Stat(filepath.Join(dir, SweepJournalFile)); err == nil {
+		return &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+			"%s has a %s but no %s: it is not a sweep directory this version can resume", dir, SweepJournalFile, SweepDefinitionFile)}
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return err
+	}
+	if err := WriteFileAtomic(dir, SweepDefinitionFile, func(w io.Writer) error { _, err := w.Write(def); return err }); err != nil {
+		return err
+	}
+	syncDir(dir)
+	return nil
+}
+
+// syncDir flushes the directory entry of a new or renamed file to disk,
+// where the system supports it.
+func syncDir(dir string) {
+	if d, err := os.Open(dir); err == nil {
+		d.Sync()
+		d.Close()
+	}
+}
+
+// journal is the append-only file of committed rows: a header record, then
+// one CSV record per finished run — its row of summary.csv plus the CRC-32
+// (IEEE) of the row's fields joined by U+001F, as 8 hex digits.
+type journal struct {
+	f        *os.File
+	rows     map[int][]string
+	repaired bool // a torn or damaged tail was cut off
+	buf      bytes.Buffer
+}
+
+// readJournal reads the rows of the journal at path. A record that does not
+// check (wrong field count, CRC, run index) ends the reading: it and what
+// follows are left out, and good is the byte offset where they start. A
+// header that differs from header is an error (ErrSweepMismatch).
+func readJournal(path string, header []string, runs int) (rows map[int][]string, good int64, err error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, 0, err
+	}
+	defer f.Close()
+	r := csv.NewReader(f)
+	r.FieldsPerRecord = -1
+	h, err := r.Read()
+	if err != nil || !slices.Equal(h, append(slices.Clip(header), "crc32")) {
+		return nil, 0, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+			"%s does not have the columns of this sweep (written by another version?)", path)}
+	}
+	good = r.InputOffset()
+	rows = make(map[int][]string)
+	for {
+		rec, err := r.Read()
+		if err != nil || !checkRecord(rec, len(header), runs) {
+			break // io.EOF, or a torn or damaged record
+		}
+		good = r.InputOffset()
+		n, _ := strconv.Atoi(rec[0])
+		if _, ok := rows[n]; !ok {
+			rows[n] = rec[:len(header)]
+		}
+	}
+	return rows, good, nil
+}
+
+// checkRecord reports whether rec is a whole journal record.
+func checkRecord(rec []string, n, runs int) bool {
+	if len(rec) != n+1 {
+		return false
+	}
+	r, err := strconv.Atoi(rec[0])
+	if err != nil || r < 0 || r >= runs || strconv.Itoa(r) != rec[0] {
+		return false
+	}
+	return rec[n] == recordCRC(rec[:n])
+}
+
+func recordCRC(fields []string) string {
+	return fmt.Sprintf("%08x", crc32.ChecksumIEEE([]byte(strings.Join(fields, "\x1f"))))
+}
+
+// openJournal opens dir's journal for appending, creating it with its
+// header, and cuts off a torn tail.
+func openJournal(dir string, header []string, runs int) (*journal, error) {
+	path := filepath.Join(dir, SweepJournalFile)
+	if _, err := os.Stat(path); errors.Is(err, fs.ErrNotExist) {
+		err := WriteFileAtomic(dir, SweepJournalFile, func(w io.Writer) error {
+			cw := csv.NewWriter(w)
+			cw.Write(append(slices.Clip(header), "crc32"))
+			cw.Flush()
+			return cw.Error()
+		})
+		if err != nil {
+			return nil, err
+		}
+		syncDir(dir)
+	}
+	rows, good, err := readJournal(path, header, runs)
+	if err != nil {
+		return nil, err
+	}
+	fi, err := os.Stat(path)
+	if err != nil {
+		return nil, err
+	}
+	repaired := fi.Size() > good
+	if repaired {
+		if err := os.Truncate(path, good); err != nil {
+			return nil, err
+		}
+	}
+	f, err := os.OpenFile(path, os.O_RDWR|os.O_APPEND, 0)
+	if err != nil {
+		return nil, err
+	}
+	// A last record without its newline (cut just before it) is whole:
+	// end its line before appending.
+	last := make([]byte, 1)
+	if good > 0 {
+		if _, err := f.ReadAt(last, good-1); err == nil && last[0] != '\n' {
+			if _, err := f.Write([]byte("\n")); err != nil {
+				f.Close()
+				return nil, err
+			}
+		}
+	}
+	return &journal{f: f, rows: rows, repaired: repaired}, nil
+}
+
+// append commits rows: written in one call and synced; they count as
+// committed only when the sync has returned.
+func (j *journal) append(recs [][]string) error {
+	j.buf.Reset()
+	cw := csv.NewWriter(&j.buf)
+	for _, rec := range recs {
+		cw.Write(append(slices.Clip(rec), recordCRC(rec)))
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return err
+	}
+	if _, err := j.f.Write(j.buf.Bytes()); err != nil {
+		return fmt.Errorf("committing runs to %s: %w", j.f.Name(), err)
+	}
+	if err := j.f.Sync(); err != nil {
+		return fmt.Errorf("committing runs to %s: %w", j.f.Name(), err)
+	}
+	for _, rec := range recs {
+		n, _ := strconv.Atoi(rec[0])
+		j.rows[n] = rec
+	}
+	return nil
+}
+
+func (j *journal) close() { j.f.Close() }
+
+// writeSweepSummary writes dir/summary.csv: the header and the rows in run
+// order.
+func writeSweepSummary(dir string, header []string, rows map[int][]string) error {
+	runs := make([]int, 0, len(rows))
+	for r := range rows {
+		runs = append(runs, r)
+	}
+	slices.Sort(runs)
+	return WriteFileAtomic(dir, SweepSummaryFile, func(w io.Writer) error {
+		cw := csv.NewWriter(w)
+		cw.Write(header)
+		for _, r := range runs {
+			cw.Write(rows[r])
+		}
+		cw.Flush()
+		return cw.Error()
+	})
+}
+
+// sweepLog appends lines to dir/sweep.log; a log that cannot be opened is
+// skipped (it is informative only).
+type sweepLog struct{ f *os.File }
+
+func openSweepLog(dir string) *sweepLog {
+	f, err := os.OpenFile(filepath.Join(dir, SweepLogFile), os.O_WRONLY|os.O_APPEND|os.O_CREATE, 0o644)
+	if err != nil {
+		return &sweepLog{}
+	}
+	return &sweepLog{f: f}
+}
+
+func (l *sweepLog) printf(format string, a ...any) {
+	if l.f == nil {
+		return
+	}
+	fmt.Fprintf(l.f, "%s %s\n", time.Now().UTC().Format(time.RFC3339), fmt.Sprintf(format, a...))
+}
+
+func (l *sweepLog) close() {
+	if l.f != nil {
+		l.f.Close()
+	}
+}
+
+// sweepProgress draws the progress line.
+type sweepProgress struct {
+	w               io.Writer
+	start, last     time.Time
+	total, done     int
+	bad, crit       int
+	session, length int
+}
+
+func (p *sweepProgress) record(status string) {
+	p.done++
+	p.session++
+	switch status {
+	case StatusOK:
+	case StatusCriteriaFailed:
+		p.crit++
+	default:
+		p.bad++
+	}
+	if now := time.Now(); now.Sub(p.last) >= 100*time.Millisecond || p.done == p.total {
+		p.last = now
+		p.draw()
+	}
+}
+
+func (p *sweepProgress) draw() {
+	if p.w == nil {
+		return
+	}
+	line := fmt.Sprintf("%d/%d runs, %d failed, %d criteria-failed", p.done, p.total, p.bad, p.crit)
+	if el := time.Since(p.start).Seconds(); p.session > 0 && el > 0 {
+		rate := float64(p.session) / el
+		left := time.Duration(float64(p.total-p.done) / rate * float64(time.Second)).Round(time.Second)
+		line += fmt.Sprintf(", %.3g runs/s, %v left", rate, left)
+	}
+	pad := max(0, p.length-len(line))
+	p.length = len(line)
+	fmt.Fprintf(p.w, "\r%s%s", line, strings.Repeat(" ", pad))
+}
+
+func (p *sweepProgress) finish() {
+	if p.w == nil {
+		return
+	}
+	p.draw()
+	fmt.Fprintln(p.w)
+}

@@ -1,0 +1,411 @@
+package cases
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+	"unicode"
+
+	"github.com/BurntSushi/toml"
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"cureslab/cases/units"
+)
+
+// The distributions of an uncertain input (SPEC §11).
+const (
+	DistUniform = "uniform" // the value is spread evenly over nominal ± spread
+	DistNormal  = "normal"  // Gaussian, the spread is 2σ
+)
+
+// DefaultShare is the share of samples that must meet the criteria when
+// [uncertainty] gives no share.
+const DefaultShare = 0.95
+
+var (
+	uncertaintyEntryKeys = []string{"spread", "distribution"}
+	distributions        = []string{DistUniform, DistNormal}
+)
+
+// Uncertainty is the [uncertainty] section of a case (SPEC §11): the inputs
+// whose values are not known exactly, and the share of samples that must
+// meet the criteria.
+type Uncertainty struct {
+	Inputs []UncertainInput // in the order of the case file
+	Share  float64          // in (0, 1]; DefaultShare when not given
+}
+
+// UncertainInput is one uncertain value of a case: the value at Key (a key
+// path as in sweeps, such as "top.h" or "layer.potting.thickness") is
+//
+//	uniform: nominal + w·(2u − 1)
+//	normal:  nominal + (w/2)·Φ⁻¹(u)
+//
+// for a sample u in (0, 1), with the half-width w = Abs (SI units of the
+// key) or w = Rel·|nominal| (a percentage). For an absolute temperature the
+// spread is a temperature difference and a percentage is refused.
+type UncertainInput struct {
+	Key          string  // as written in [uncertainty]
+	Spread       string  // as written: "±20 %", "±1.5 kJ/mol"
+	Distribution string  // DistUniform or DistNormal
+	Abs, Rel     float64 // half-width: Abs in SI (Rel = 0), or Rel as a fraction (Abs = 0)
+
+	path []string // resolved path in the decoded case (layer names become indices)
+}
+
+// uncertaintySection reads and checks [uncertainty] (SPEC §11) of the
+// decoded case root: every key path must lead to a number or a quantity of
+// the case (as sweep keys do, resolveKey), each spread must be a spread of
+// that quantity's dimension (units.ParseSpread), the distribution uniform
+// or normal, share in (0, 1]. A nested table that is not an entry
+// ({ spread, distribution }) is a group of dotted keys: top.h = "±20 %"
+// written without quotes is the same as "top.h" = "±20 %". It returns nil
+// when the case has no [uncertainty] or it has errors (reported in l).
+func (l *loader) uncertaintySection(root *table) *Uncertainty {
+	if !root.has("uncertainty") {
+		return nil
+	}
+	m, ok := root.m["uncertainty"].(map[string]any)
+	if !ok {
+		l.atValue("uncertainty", ErrType, "must be a table, got %s", kindOf(root.m["uncertainty"])).Hint =
+			"write it as a section:\n[uncertainty]\n\"top.h\" = \"±20 %\""
+		return nil
+	}
+	before := len(l.errs)
+	u := &Uncertainty{Share: DefaultShare}
+	type placed struct {
+		in UncertainInput
+		at pos
+	}
+	var found []placed
+	seen := make(map[string]string) // resolved path -> key as written
+	var walk func(prefix string, m map[string]any)
+	walk = func(prefix string, m map[string]any) {
+		for _, k := range sortedKeys(m) {
+			key := join(prefix, k)
+			lp := "uncertainty." + key // the loader's key path, for positions
+			if prefix == "" && k == "share" {
+				if s, ok := l.numberAt(lp, m[k]); ok {
+					if !(s > 0 && s <= 1) {
+						l.rangeErr(lp, m[k], "share must be in (0, 1]")
+					}
+					u.Share = s
+				}
+				continue
+			}
+			spread, dist := "", DistUniform
+			switch x := m[k].(type) {
+			case string:
+				spread = x
+			case map[string]any:
+				_, hasSpread := x["spread"]
+				_, hasDist := x["distribution"]
+				if !hasSpread && !hasDist {
+					if len(x) == 0 {
+						l.atValue(lp, ErrMissing, "an uncertain input needs a spread").Hint = uncertaintyHint
+						continue
+					}
+					walk(key, x) // a group of dotted keys
+					continue
+				}
+				t := l.open(lp, x, uncertaintyEntryKeys, nil)
+				if !l.require(t, "spread") {
+					continue
+				}
+				s, ok := l.str(t, "spread")
+				if !ok {
+					continue
+				}
+				spread = s
+				if d, ok := l.str(t, "distribution"); ok {
+					if !contains(distributions, d) {
+						e := l.rangeErr(t.keyPath("distribution"), d, "distribution must be %q or %q", DistUniform, DistNormal)
+						if g := Suggest(d, distributions); g != "" {
+							e.Hint = fmt.Sprintf("did you mean distribution = %q?", g)
+						}
+						continue
+					}
+					dist = d
+				} else if t.has("distribution") {
+					continue
+				}
+				lp = t.keyPath("spread")
+			default:
+				l.atValue(lp, ErrType, "expected a spread such as \"±20 %%\", got %s", kindOf(m[k])).Hint = uncertaintyHint
+				continue
+			}
+			in, ok := l.uncertainInput(root, key, lp, spread, dist)
+			if !ok {
+				continue
+			}
+			p := strings.Join(in.path, ".")
+			if prev, dup := seen[p]; dup {
+				l.atKey("uncertainty."+key, ErrDuplicate, "%q is the same value as %q, which is already uncertain", key, prev)
+				continue
+			}
+			seen[p] = key
+			found = append(found, placed{in, l.loc.key("uncertainty." + key)})
+		}
+	}
+	walk("", m)
+	if len(l.errs) > before {
+		return nil
+	}
+	sort.SliceStable(found, func(i, j int) bool {
+		a, b := found[i].at, found[j].at
+		if a.Line != b.Line {
+			return a.Line < b.Line
+		}
+		return a.Col < b.Col
+	})
+	for _, f := range found {
+		u.Inputs = append(u.Inputs, f.in)
+	}
+	return u
+}
+
+const uncertaintyHint = "for example:\n[uncertainty]\n\"top.h\" = \"±20 %\"\n\"layer.potting.thickness\" = { spread = \"±0.3 mm\", distribution = \"normal\" }"
+
+// uncertainInput checks one entry: key (a sweep key path) with the spread
+// written at the loader key path lp.
+func (l *loader) uncertainInput(root *table, key, lp, spread, dist string) (UncertainInput, bool) {
+	in := UncertainInput{Key: key, Spread: spread, Distribution: dist}
+	path, exists, err := resolveKey(root.m, key)
+	if err != nil {
+		l.atKey("uncertainty."+key, ErrReference, "%v", err)
+		return in, false
+	}
+	if !exists {
+		hint := ""
+		if m, ok := leaf(root.m, path[:len(path)-1]).(map[string]any); ok {
+			hint = didYouMeanKey(path[len(path)-1], sortedKeys(m))
+		}
+		l.atKey("uncertainty."+key, ErrReference, "the case has no value at %s to be uncertain%s", key, hint).Hint =
+			"only a value written in the case can be uncertain: set it in the case first"
+		return in, false
+	}
+	if path[len(path)-1] == "cells" {
+		l.atKey("uncertainty."+key, ErrType, "%s is a number of cells, which cannot be uncertain", key)
+		return in, false
+	}
+	in.path = path
+	switch old := leaf(root.m, path).(type) {
+	case string:
+		d := dimOf(old)
+		if d == 0 {
+			l.atKey("uncertainty."+key, ErrType, "%s is %q, not a quantity with a unit: only numbers and quantities can be uncertain", key, old)
+			return in, false
+		}
+		abs, rel, err := units.ParseSpread(spread, d)
+		if err != nil {
+			l.add(l.loc.value(lp), lp, ErrUnit, err, fmt.Sprintf("%v (%s is %s: %q)", err, key, article(d), old))
+			return in, false
+		}
+		in.Abs, in.Rel = abs, rel
+	case int64, float64:
+		abs, rel, err := uncPlainSpread(spread)
+		if err != nil {
+			l.atValue(lp, ErrUnit, "%q %v (%s is the plain number %s)", spread, err, key, written(old))
+			return in, false
+		}
+		in.Abs, in.Rel = abs, rel
+	default:
+		l.atKey("uncertainty."+key, ErrType, "%s is %s: only numbers and quantities can be uncertain", key, kindOf(old))
+		return in, false
+	}
+	return in, true
+}
+
+// uncPlainSpread reads the spread of a dimensionless value: "±20 %" (rel) or
+// "±0.05" (abs), with "+/-" or "+-" for "±".
+func uncPlainSpread(s string) (abs, rel float64, err error) {
+	text := strings.TrimFunc(s, unicode.IsSpace)
+	rest, ok := "", false
+	for _, pm := range []string{"±", "+/-", "+-"} {
+		if r, found := strings.CutPrefix(text, pm); found {
+			rest, ok = strings.TrimFunc(r, unicode.IsSpace), true
+			break
+		}
+	}
+	if !ok {
+		return 0, 0, errors.New(`is not a spread; write it like "±0.05" or "±20 %"`)
+	}
+	num, pct := strings.CutSuffix(rest, "%")
+	num = strings.TrimFunc(num, unicode.IsSpace)
+	x, perr := strconv.ParseFloat(num, 64)
+	if n, r := splitNumber(num); perr != nil || n == "" || r != "" || math.IsInf(x, 0) {
+		return 0, 0, errors.New(`needs a plain number after "±"; write it like "±0.05" or "±20 %"`)
+	}
+	if x < 0 {
+		return 0, 0, errors.New(`is negative; a spread is a size, write it like "±0.05"`)
+	}
+	if pct {
+		return 0, x / 100, nil
+	}
+	return x, 0, nil
+}
+
+// readUncertainty returns the [uncertainty] of the case text (decoded as
+// doc), nil when it has none, or the errors of that section.
+func readUncertainty(name, text string, doc map[string]any) (*Uncertainty, error) {
+	l := &loader{file: name, loc: newLocator(text)}
+	u := l.uncertaintySection(&table{m: doc})
+	if err := l.errs.sortFor(name).Err(); err != nil {
+		return nil, err
+	}
+	return u, nil
+}
+
+// halfWidth returns w for the nominal value v (SI).
+func (in *UncertainInput) halfWidth(v float64) float64 {
+	if in.Rel != 0 {
+		return in.Rel * math.Abs(v)
+	}
+	return in.Abs
+}
+
+// uncClampU keeps a sample inside (0, 1), so that Φ⁻¹ stays finite (|z| < 6).
+func uncClampU(u float64) float64 { return min(max(u, 1e-9), 1-1e-9) }
+
+// offset returns the change of the value for the sample u in [0, 1) and the
+// half-width w: uniform w·(2u − 1), normal (w/2)·Φ⁻¹(u).
+func (in *UncertainInput) offset(u, w float64) float64 {
+	if in.Distribution == DistNormal {
+		return w / 2 * distuv.UnitNormal.Quantile(uncClampU(u))
+	}
+	return w * (2*u - 1)
+}
+
+// perturb returns the value cur (as found in a decoded case) moved by the
+// sample u, as shown in uncertainty.csv and as it goes into the case. A
+// quantity keeps the unit it is written in (the change is made in SI and
+// converted back exactly, also for the affine temperature scales); a plain
+// number stays a number. A zero half-width returns cur unchanged.
+func (in *UncertainInput) perturb(cur any, u float64) (shown string, value any, err error) {
+	switch x := cur.(type) {
+	case string:
+		d := dimOf(x)
+		if d == 0 {
+			return "", nil, fmt.Errorf("%s is %q, not a quantity", in.Key, x)
+		}
+		v, err := units.Parse(x, d)
+		if err != nil {
+			return "", nil, fmt.Errorf("%s: %v", in.Key, err)
+		}
+		w := in.halfWidth(v)
+		if w == 0 {
+			return x, x, nil
+		}
+		_, unit := splitNumber(strings.TrimSpace(x))
+		unit = strings.TrimSpace(unit)
+		off, err0 := units.Parse("0 "+unit, d)
+		one, err1 := units.Parse("1 "+unit, d)
+		if err0 != nil || err1 != nil || one == off {
+			return "", nil, fmt.Errorf("%s: cannot write a value in the unit %q of %q", in.Key, unit, x)
+		}
+		y := (v + in.offset(u, w) - off) / (one - off)
+		s := strconv.FormatFloat(y, 'g', 10, 64) + " " + unit
+		return s, s, nil
+	case int64, float64:
+		v, _ := plainNumber(x)
+		w := in.halfWidth(v)
+		if w == 0 {
+			return written(x), x, nil
+		}
+		y, _ := strconv.ParseFloat(strconv.FormatFloat(v+in.offset(u, w), 'g', 10, 64), 64)
+		return strconv.FormatFloat(y, 'g', -1, 64), y, nil
+	}
+	return "", nil, fmt.Errorf("%s is %s, not a number", in.Key, kindOf(cur))
+}
+
+// caseVariant is a case file whose decoded values can be replaced before the
+// normal loader validates it again, as a sweep run does: positions in
+// messages still come from the text.
+type caseVariant struct {
+	name, text, dir string
+	doc             map[string]any // only read
+}
+
+// newCaseVariant decodes the case text data; the case itself must be valid.
+func newCaseVariant(name string, data []byte, dir string) (*caseVariant, *Case, error) {
+	text := string(data)
+	var doc map[string]any
+	if _, err := toml.Decode(text, &doc); err != nil {
+		return nil, nil, ErrorList{syntaxError(name, text, err)}
+	}
+	c, err := parseTree(name, text, doc, dir)
+	if err != nil {
+		return nil, nil, err
+	}
+	return &caseVariant{name: name, text: text, dir: dir, doc: doc}, c, nil
+}
+
+// valueSetting is one replaced value: a path found by resolveKey and the value.
+type valueSetting struct {
+	path  []string
+	value any
+}
+
+// tree returns a deep copy of the decoded case with sets applied in order;
+// a valueSetting of time.end creates [time] when the case has none.
+func (v *caseVariant) tree(sets []valueSetting) map[string]any {
+	t := cloneTree(v.doc).(map[string]any)
+	for _, s := range sets {
+		if len(s.path) == 2 && s.path[0] == "time" {
+			if _, ok := t["time"].(map[string]any); !ok {
+				t["time"] = map[string]any{}
+			}
+		}
+		setPath(t, s.path, s.value)
+	}
+	return t
+}
+
+// parse validates the tree t (from tree). A probe of [output] that the
+// values put below the stack (a thinner layer) is dropped rather than
+// failing the case, as in a sweep run: probes do not enter the summary.
+func (v *caseVariant) parse(t map[string]any) (*Case, error) {
+	c, err := parseTree(v.name, v.text, t, v.dir)
+	var list ErrorList
+	if err == nil || !errors.As(err, &list) {
+		return c, err
+	}
+	out, _ := t["output"].(map[string]any)
+	probes, _ := out["probes"].([]any)
+	drop := make(map[int]bool)
+	for _, e := range list {
+		rest, ok := strings.CutPrefix(e.Key, "output.probes.")
+		i, aerr := strconv.Atoi(rest)
+		if !ok || aerr != nil || i < 0 || i >= len(probes) || !errors.Is(e, ErrRange) {
+			return nil, err
+		}
+		drop[i] = true
+	}
+	kept := make([]any, 0, len(probes))
+	for i, p := range probes {
+		if !drop[i] {
+			kept = append(kept, p)
+		}
+	}
+	out["probes"] = kept
+	return parseTree(v.name, v.text, t, v.dir)
+}
+
+// sample applies the uncertain inputs of u at the sample point us (one u in
+// [0, 1) per input) to the tree t in place, and returns the values as shown.
+func (u *Uncertainty) sample(t map[string]any, us []float64) ([]string, error) {
+	shown := make([]string, len(u.Inputs))
+	for k := range u.Inputs {
+		in := &u.Inputs[k]
+		s, val, err := in.perturb(leaf(t, in.path), us[k])
+		if err != nil {
+			return nil, err
+		}
+		setPath(t, in.path, val)
+		shown[k] = s
+	}
+	return shown, nil
+}

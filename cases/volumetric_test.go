@@ -1,0 +1,332 @@
+package cases
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"reflect"
+	"strings"
+	"testing"
+
+	"cureslab/mesh"
+	"cureslab/physics"
+	"cureslab/solver"
+)
+
+// TestGoodVolumetricControlled checks the resolved [volumetric] and
+// [volumetric.control] of a case that sets every key but period.
+func TestGoodVolumetricControlled(t *testing.T) {
+	c := loadGood(t, "volumetric-controlled.toml")
+	p := c.Problem
+	v := p.Volumetric
+	if v == nil || v.Control == nil {
+		t.Fatalf("Volumetric = %+v, want controlled heating", v)
+	}
+	// Source: SPEC §3 units, 915 MHz = 9.15e8 Hz.
+	checkNear(t, "Frequency", v.Frequency, 915e6)
+	// Source: SPEC §10, under control E = max_field·√u: the field at full
+	// power is max_field (3 kV/m), not field (1.5 kV/m).
+	checkNear(t, "Field", v.Field, 3000)
+	if v.Attenuation != physics.FromBoth {
+		t.Errorf("Attenuation = %v, want both", v.Attenuation)
+	}
+	ctl := v.Control
+	// Source: SPEC §3, 5 mm = 0.005 m; 0.08 1/K; 2 min = 120 s.
+	checkNear(t, "Sensor", ctl.Sensor, 0.005)
+	checkNear(t, "Gain", ctl.Gain, 0.08)
+	checkNear(t, "IntegralTime", ctl.IntegralTime, 120)
+	// Source: SPEC §10, period defaults to 1 s.
+	checkNear(t, "Period", ctl.Period, 1)
+	// Source: analytic, 20 C + 30 min × 1 C/min = 50 C on the program's ramp.
+	checkNear(t, "program at 30 min", ctl.Program.At(1800), 323.15)
+	// Source: SPEC §10, time.end defaults to the end of the longest schedule
+	// the case uses: the control program, 60 min of ramp + 90 min of hold
+	// (the face's "room" schedule ends at 30 min).
+	checkNear(t, "End", p.End, 9000)
+	// The sensor, at no probe, is recorded as one more probe.
+	checkSlice(t, "Probes", p.Probes, []float64{0, 0.006, 0.005})
+	want := &VolumetricInfo{Program: "cure", FieldUnused: true, Defaults: []string{"period"}}
+	if !reflect.DeepEqual(c.Volumetric, want) {
+		t.Errorf("Case.Volumetric = %+v, want %+v", c.Volumetric, want)
+	}
+	// The glass layer has no dielectric section: it absorbs nothing.
+	if p.Materials[1].Dielectric != nil {
+		t.Errorf("glass has a dielectric: %+v", p.Materials[1].Dielectric)
+	}
+}
+
+// TestGoodVolumetricOpenLoop checks a constant field with the default
+// attenuation and a shield given by shield = true alone.
+func TestGoodVolumetricOpenLoop(t *testing.T) {
+	c := loadGood(t, "volumetric-open-loop.toml")
+	p := c.Problem
+	v := p.Volumetric
+	if v == nil || v.Control != nil {
+		t.Fatalf("Volumetric = %+v, want open-loop heating", v)
+	}
+	// Source: SPEC §3 units: 27.12 MHz, 20 kV/m.
+	checkNear(t, "Frequency", v.Frequency, 27.12e6)
+	checkNear(t, "Field", v.Field, 20e3)
+	// Source: SPEC §4, attenuation defaults to "none", a uniform field.
+	if v.Attenuation != physics.Uniform {
+		t.Errorf("Attenuation = %v, want none", v.Attenuation)
+	}
+	coat, plate := p.Materials[0].Dielectric, p.Materials[1].Dielectric
+	// Source: SPEC §4, loss_factor_cured defaults to loss_factor.
+	if coat == nil || coat.Shield || !near(coat.LossFactor, 0.2) || !near(coat.LossFactorCured, 0.2) {
+		t.Errorf("coat dielectric = %+v", coat)
+	}
+	if plate == nil || !plate.Shield {
+		t.Errorf("plate dielectric = %+v, want a shield", plate)
+	}
+	checkSlice(t, "Probes", p.Probes, []float64{0, 0.001})
+	if c.Volumetric == nil || c.Volumetric.Program != "" || c.Volumetric.FieldUnused {
+		t.Errorf("Case.Volumetric = %+v", c.Volumetric)
+	}
+	if h := probesHeader(c); contains(h, "power_fraction") {
+		t.Errorf("probes.csv header %v has power_fraction without control", h)
+	}
+}
+
+// volCase is a small case with volumetric heating for check and output
+// tests: one layer of material mat under still air, the [volumetric] and
+// extra text given.
+func volCase(t *testing.T, dielectric, volumetric string) *Case {
+	t.Helper()
+	src := `title = "volumetric check"
+[initial]
+temperature = "20 C"
+[time]
+end = "30 min"
+[[layer]]
+name = "wet"
+material = "wet"
+thickness = "10 mm"
+[materials.wet]
+density = "1000 kg/m^3"
+specific_heat = "4180 J/kg/K"
+conductivity = "0.6 W/m/K"
+[materials.wet.dielectric]
+` + dielectric + `
+[schedules.cure]
+start = "20 C"
+segments = [{ ramp = "5 C/min", to = "60 C" }, { hold = "20 min" }]
+[top]
+kind = "convection"
+h = "5 W/m^2/K"
+air = "20 C"
+[bottom]
+kind = "insulated"
+` + volumetric
+	c, err := Parse("vol.toml", []byte(src), "")
+	if err != nil {
+		t.Fatalf("Parse: %v", err)
+	}
+	return c
+}
+
+// TestCheckVolumetric checks the volumetric section of check against the
+// published water figures.
+func TestCheckVolumetric(t *testing.T) {
+	c := volCase(t, "permittivity = 78\nloss_factor = 10", "[volumetric]\nfrequency = \"2.45 GHz\"\nfield = \"1 kV/m\"\nattenuation = \"top\"\n")
+	out := chkOutput(t, c)
+	for _, want := range []string{
+		"frequency    2.45 GHz (an ISM band)",
+		"field        1 kV/m rms, on from start to end",
+		"attenuation  top: the field enters through the top face",
+		// Source: REFERENCES §8 (derived from Metaxas & Meredith 1983): water
+		// ε′ 78, ε″ 10 at 2.45 GHz, E = 1 kV/m: P = 1.36 MW/m³, D_p = 1.72 cm.
+		"1.36 -> 1.36 MW/m^3",
+		"17.2 -> 17.2 mm",
+		// Source: analytic, P/(ρ c_p) = 1.3627e6 W/m³ / (1000 kg/m³ × 4180
+		// J/kg/K) = 0.326 K/s = 19.6 K/min.
+		"19.6 K/min",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("check output lacks %q:\n%s", want, out)
+		}
+	}
+	if strings.Contains(out, "not an ISM band") || strings.Contains(out, "Control (PI") {
+		t.Errorf("check output notes an ISM problem or a controller that is not there:\n%s", out)
+	}
+
+	// Not an ISM frequency (REFERENCES §8: 13.56, 27.12, 40.68 MHz, 915,
+	// 2450, 5800 MHz); control with its defaults; a field that control
+	// does not use; a 5 C/min ramp faster than the full field heats.
+	c = volCase(t, "permittivity = 78\nloss_factor = 10",
+		"[volumetric]\nfrequency = \"1 GHz\"\nfield = \"1 kV/m\"\n[volumetric.control]\nsensor = \"10 mm\"\nprogram = \"cure\"\nmax_field = \"0.5 kV/m\"\n")
+	out = chkOutput(t, c)
+	for _, want := range []string{
+		"1 GHz (not an ISM band)",
+		"lies outside the ISM bands",
+		"field is not used",
+		"sensor         10 mm (wet)",
+		`program        "cure", highest 60 C`,
+		"period         1 s (default)",
+		"gain           0.2 1/K (default)",
+		"integral time  60 s (default)",
+		// Source: analytic, 2π f ε0 ε″ E² / (ρ c_p) at 1 GHz, 0.5 kV/m:
+		// 5.5633e-11 × 1e9 × 10 × 2.5e5 / 4.18e6 = 0.0333 K/s = 2.0 K/min,
+		// below the program's 5 C/min.
+		"ramps at up to 5 K/min, faster than the full field heats any absorbing layer (2 K/min",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("check output lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+// TestControlledProbesAndSummary runs a short controlled case: probes.csv
+// has power_fraction after the air columns (SPEC §5) with values in [0, 1],
+// and summary.json carries control_max_error_K.
+func TestControlledProbesAndSummary(t *testing.T) {
+	c := volCase(t, "permittivity = 20\nloss_factor = 5",
+		"[volumetric]\nfrequency = \"2.45 GHz\"\n[volumetric.control]\nsensor = \"5 mm\"\nprogram = \"cure\"\nmax_field = \"2 kV/m\"\n[output]\nprobes = [\"0 mm\"]\n")
+	c.Problem.End = 600
+	c.Problem.OutputTimes = []float64{120, 240, 360, 480, 600}
+	r, err := solver.Run(context.Background(), c.Problem)
+	if err != nil || r.Status != solver.OK {
+		t.Fatalf("run: %v %v", err, r.Err)
+	}
+	dir := t.TempDir()
+	if err := WriteRun(dir, c, r); err != nil {
+		t.Fatal(err)
+	}
+	rows := readCSV(t, filepath.Join(dir, ProbesFile))
+	// Source: SPEC §5 column order; the sensor at 5 mm is added as a probe.
+	want := []string{"time_s", "T_0mm_C", "cure_0mm", "T_5mm_C", "cure_5mm", "air_top_C", "power_fraction", "heat_in_J_per_m2"}
+	if !reflect.DeepEqual(rows[0], want) {
+		t.Fatalf("probes.csv header %v, want %v", rows[0], want)
+	}
+	for _, row := range rows[1:] {
+		u := parseF(t, row[6])
+		if !(u >= 0 && u <= 1) {
+			t.Errorf("t = %s s: power_fraction %g outside [0, 1]", row[0], u)
+		}
+	}
+	b, err := os.ReadFile(filepath.Join(dir, SummaryFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var s map[string]any
+	if err := json.Unmarshal(b, &s); err != nil {
+		t.Fatal(err)
+	}
+	e, ok := s["control_max_error_K"].(float64)
+	if !ok || math.Abs(e-ControlError(c, r)) > 1e-6 {
+		t.Errorf("control_max_error_K = %v, want %g", s["control_max_error_K"], ControlError(c, r))
+	}
+}
+
+func parseF(t *testing.T, s string) float64 {
+	t.Helper()
+	var f Float
+	if err := json.Unmarshal([]byte(s), &f); err != nil {
+		t.Fatalf("%q: %v", s, err)
+	}
+	return float64(f)
+}
+
+// TestControlError checks the largest deviation of the sensor from its
+// program on hand-made snapshots (analytic).
+func TestControlError(t *testing.T) {
+	m, err := mesh.Build([]mesh.Layer{{Name: "a", Thickness: 0.01, Cells: 4}}, mesh.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	prog, _ := physics.NewSchedule([]float64{0, 100}, []float64{300, 310})
+	p := &solver.Problem{Mesh: m, Probes: []float64{0, 0.004},
+		Volumetric: &physics.Volumetric{Frequency: 2.45e9, Field: 1000,
+			Control: &physics.Control{Sensor: 0.004, Program: prog, Period: 1, Gain: 0.2, IntegralTime: 60}}}
+	c := &Case{Problem: p}
+	r := &solver.Result{Snapshots: []solver.Snapshot{
+		{Time: 0, ProbeT: []float64{290, 300}},
+		{Time: 50, ProbeT: []float64{290, 304.2}},  // program 305: 0.8 K low
+		{Time: 200, ProbeT: []float64{290, 310.5}}, // program 310: 0.5 K high
+	}}
+	if got := ControlError(c, r); math.Abs(got-0.8) > 1e-12 {
+		t.Errorf("ControlError = %.15g, want 0.8", got)
+	}
+	p.Volumetric.Control = nil
+	if got := ControlError(c, r); !math.IsNaN(got) {
+		t.Errorf("ControlError without control = %g, want NaN", got)
+	}
+	if s := Summarize(&Case{Problem: p, Criteria: Criteria{math.NaN(), math.NaN(), math.NaN()}}, r); s.ControlMaxErrorK != nil {
+		t.Errorf("control_max_error_K = %v without control, want it left out", *s.ControlMaxErrorK)
+	}
+}
+
+// TestFrequencyNote checks the ISM bands of REFERENCES §8 (ITU Radio
+// Regulations 5.138, 5.150, 5.280: 13.56, 27.12, 40.68 MHz, 915 MHz,
+// 2450 MHz, 5800 MHz, confirmed).
+func TestFrequencyNote(t *testing.T) {
+	for _, f := range []float64{13.56e6, 27.12e6, 40.68e6, 915e6, 2450e6, 5800e6} {
+		if note := frequencyNote(f); note != "" {
+			t.Errorf("%g Hz is an ISM centre frequency, got the note %q", f, note)
+		}
+	}
+	for _, f := range []float64{1e6, 100e6, 1e9, 3e9, 10e9} {
+		if note := frequencyNote(f); note == "" {
+			t.Errorf("%g Hz is not in an ISM band, got no note", f)
+		}
+	}
+}
+
+// TestVolumetricOneError checks problems that have no file of their own in
+// testdata/bad: each gives exactly one error at the right key.
+func TestVolumetricOneError(t *testing.T) {
+	base := string(mustRead(t, filepath.Join(goodDir, "volumetric-controlled.toml")))
+	for _, tc := range []struct {
+		name, old, new, key string
+		kind                error
+	}{
+		// A field beside max_field is not used, but a bad one is still an error.
+		{"bare field beside max_field", `field = "1.5 kV/m"`, `field = 1500`, "volumetric.field", ErrUnit},
+		{"control not a table", "[volumetric.control]\nsensor = \"5 mm\"\nprogram = \"cure\"\nmax_field = \"3 kV/m\"\ngain = \"0.08 1/K\"\nintegral_time = \"2 min\"\n",
+			"", "volumetric.control", ErrType},
+		{"negative sensor", `sensor = "5 mm"`, `sensor = "-1 mm"`, "volumetric.control.sensor", ErrRange},
+		{"zero integral time", `integral_time = "2 min"`, `integral_time = "0 s"`, "volumetric.control.integral_time", ErrRange},
+		{"period in a wrong unit", `gain = "0.08 1/K"`, "gain = \"0.08 1/K\"\nperiod = \"1 mm\"", "volumetric.control.period", ErrUnit},
+		{"too many samples", `gain = "0.08 1/K"`, "gain = \"0.08 1/K\"\nperiod = \"1 ms\"", "volumetric.control.period", ErrRange},
+		{"unknown key", `attenuation = "both"`, "attenuation = \"both\"\nfeild = \"1 kV/m\"", "volumetric.feild", ErrUnknownKey},
+	} {
+		src := strings.Replace(base, tc.old, tc.new, 1)
+		if tc.name == "control not a table" {
+			src = strings.Replace(src, `attenuation = "both"`, "attenuation = \"both\"\ncontrol = 3", 1)
+		}
+		if src == base {
+			t.Fatalf("%s: the replacement changed nothing", tc.name)
+		}
+		_, err := Parse("v.toml", []byte(src), goodDir)
+		var list ErrorList
+		if !errors.As(err, &list) || len(list) != 1 || list[0].Key != tc.key || !errors.Is(err, tc.kind) {
+			t.Errorf("%s: want one %v error at %s, got:\n%v", tc.name, tc.kind, tc.key, err)
+		}
+	}
+
+	// A constant program is accepted (like a face's air) and sets no end:
+	// time.end is then the end of the face's "room" schedule, 30 min
+	// (SPEC §10: the longest schedule the case uses).
+	src := strings.Replace(base, `program = "cure"`, `program = "60 C"`, 1)
+	c, err := Parse("v.toml", []byte(src), goodDir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkNear(t, "End with a constant program", c.Problem.End, 1800)
+	checkNear(t, "constant program", c.Problem.Volumetric.Control.Program.At(1234), 333.15)
+	if c.Volumetric.Program != "60 C" {
+		t.Errorf("Program as written = %q", c.Volumetric.Program)
+	}
+}
+
+func mustRead(t *testing.T, path string) []byte {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
+}

@@ -1,0 +1,186 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strings"
+
+	"github.com/spf13/pflag"
+
+	"cureslab/cases"
+	"cureslab/cases/units"
+	"cureslab/physics/dsc"
+)
+
+var fitCmd = &Command{
+	Name:  "fit",
+	Args:  "SCAN.csv... [--model M] [--diffusion] [--name NAME] [-o FILE]",
+	Short: "kinetic parameters from DSC scans",
+	Long: `Read DSC scans (CSV with the header time_s,temperature_C,heat_flow_W_per_g,
+heat flow exothermic positive), one file per scan: dynamic scans at several
+heating rates and/or isothermal scans; each is recognised from its
+temperature program. Subtract a baseline (linear between the onset and the
+end of the exotherm, detected or given with --onset/--end; or sigmoidal),
+integrate to the total heat and the degree of cure, and report:
+  - the activation energy by Kissinger (ASTM E698) and Ozawa-Flynn-Wall
+    (ASTM E1641, Doyle factor iterated), with standard errors;
+  - Friedman's isoconversional activation energy for alpha = 0.05 to 0.95;
+  - a least-squares fit of the model to all scans at once, started from the
+    isoconversional estimate, with standard errors and the fit quality;
+  - warnings where the scans fall short of the ICTAC Kinetics Committee
+    recommendations (at least 3 heating rates spanning about a factor 10;
+    an activation energy that varies with alpha);
+  - the [materials.NAME.cure] block, ready to paste into a case file.
+With a single temperature program no model is fitted (exit status 2), but
+everything else is reported. --diffusion needs isothermal scans at two or
+more temperatures that stop short of full cure (vitrification).
+
+Exit status: 0 fitted, 2 bad input, or no model could be fitted.`,
+	Example: `cureslab fit scan-2K.csv scan-5K.csv scan-10K.csv scan-20K.csv --model autocatalytic
+cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`,
+	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
+		model := fs.String("model", dsc.Autocatalytic, "cure law to fit: `M` = nth-order or autocatalytic")
+		diffusion := fs.Bool("diffusion", false, "also fit the diffusion factor (needs isothermal scans that vitrify)")
+		name := fs.String("name", "fitted-resin", "material `NAME` in the printed block")
+		baseline := fs.String("baseline", "linear", "baseline `KIND`: linear or sigmoidal")
+		onset := fs.String("onset", "", "start of the integration window of dynamic scans, a temperature `T` such as \"40 C\" (default: detected)")
+		end := fs.String("end", "", "end of the integration window of dynamic scans, a temperature `T` (default: detected)")
+		out := fs.StringP("out", "o", "", "also write the [materials.NAME.cure] block to `FILE`")
+		return func(e *env, args []string) int {
+			if len(args) == 0 {
+				return e.usageError("expects one or more scan files, got none")
+			}
+			opt := dsc.Options{Model: *model, Diffusion: *diffusion}
+			switch *model {
+			case dsc.NthOrder, dsc.Autocatalytic:
+			default:
+				return e.usageError("unknown model %q%s (the models are nth-order and autocatalytic)", *model,
+					didYouMean(*model, []string{dsc.NthOrder, dsc.Autocatalytic}))
+			}
+			switch *baseline {
+			case "linear":
+			case "sigmoidal":
+				opt.Baseline = dsc.SigmoidalBaseline
+			default:
+				return e.usageError("unknown baseline %q%s (linear or sigmoidal)", *baseline, didYouMean(*baseline, []string{"linear", "sigmoidal"}))
+			}
+			var err error
+			if opt.Window.Onset, err = flagTemperature("onset", *onset); err != nil {
+				return e.usageError("%v", err)
+			}
+			if opt.Window.End, err = flagTemperature("end", *end); err != nil {
+				return e.usageError("%v", err)
+			}
+			if opt.Window.Onset != 0 && opt.Window.End != 0 && !(opt.Window.End > opt.Window.Onset) {
+				return e.usageError("--end must be above --onset")
+			}
+			if !materialName.MatchString(*name) {
+				return e.usageError("--name %q: a material name is letters, digits, - and _ (it becomes a TOML key)", *name)
+			}
+			if *out != "" {
+				if msg := checkOutFile(*out); msg != "" {
+					return e.usageError("%s", msg)
+				}
+			}
+			var scans []*dsc.Scan
+			var bad []string
+			for _, path := range args {
+				s, err := cases.ReadScan(path)
+				if err != nil {
+					bad = append(bad, err.Error())
+					continue
+				}
+				scans = append(scans, s)
+			}
+			if len(bad) > 0 {
+				fmt.Fprintln(e.stderr, strings.Join(bad, "\n"))
+				return exitUsage
+			}
+			if fitTerminal(e.stderr) {
+				opt.Progress = func(it int, rms float64) {
+					fmt.Fprintf(e.stderr, "\rfit: iteration %d, RMS residual %.3g %% ", it, 100*rms)
+				}
+			}
+			an, err := dsc.Analyze(scans, opt)
+			if opt.Progress != nil {
+				fmt.Fprintln(e.stderr)
+			}
+			if err != nil {
+				for _, one := range unjoin(err) {
+					fmt.Fprintf(e.stderr, "%v\n", one)
+				}
+				return exitUsage
+			}
+			if err := cases.PrintFit(e.stdout, an, *name); err != nil {
+				fmt.Fprintf(e.stderr, "cureslab fit: %v\n", err)
+				return exitUsage
+			}
+			if an.FitRefused != "" {
+				fmt.Fprintf(e.stderr, "cureslab fit: no model fitted: %s\n", an.FitRefused)
+				return exitUsage
+			}
+			if *out != "" {
+				block := cases.CureBlock(an, *name)
+				err := cases.WriteFileAtomic(filepath.Dir(*out), filepath.Base(*out), func(w io.Writer) error {
+					_, err := io.WriteString(w, block)
+					return err
+				})
+				if err != nil {
+					fmt.Fprintf(e.stderr, "cureslab fit: %v\n", err)
+					return exitUsage
+				}
+				fmt.Fprintf(e.stdout, "\nblock written to %s\n", *out)
+			}
+			return exitOK
+		}
+	},
+}
+
+func init() { register(fitCmd) }
+
+// materialName is what --name accepts: a TOML bare key.
+var materialName = regexp.MustCompile(`^[A-Za-z0-9_-]+$`)
+
+// flagTemperature reads the temperature flag --name; "" gives 0.
+func flagTemperature(name, s string) (float64, error) {
+	if s == "" {
+		return 0, nil
+	}
+	T, err := units.Parse(s, units.Temperature)
+	if err != nil {
+		return 0, fmt.Errorf("--%s: %v", name, err)
+	}
+	return T, nil
+}
+
+// checkOutFile returns why path cannot be written as an output file, or "".
+func checkOutFile(path string) string {
+	if fi, err := os.Stat(path); err == nil && fi.IsDir() {
+		return fmt.Sprintf("the output %s is a directory; give a file name", path)
+	}
+	if fi, err := os.Stat(filepath.Dir(path)); err != nil || !fi.IsDir() {
+		return fmt.Sprintf("the directory of the output %s does not exist", path)
+	}
+	return ""
+}
+
+// fitTerminal reports whether w is a terminal (for progress output).
+func fitTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	fi, err := f.Stat()
+	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+}
+
+// unjoin returns the errors joined in err (errors.Join), or err alone.
+func unjoin(err error) []error {
+	if j, ok := err.(interface{ Unwrap() []error }); ok {
+		return j.Unwrap()
+	}
+	return []error{err}
+}

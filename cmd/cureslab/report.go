@@ -1,0 +1,51 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+
+	"github.com/spf13/pflag"
+
+	"cureslab/cases"
+)
+
+var reportCmd = &Command{
+	Name:  "report",
+	Args:  "DIR",
+	Short: "(re)draw the HTML report from the output files of a run",
+	Long: `Read fields.csv, probes.csv and summary.json in DIR, the output directory
+of 'cureslab run', and write DIR/report.html from them: the page that run
+writes at the end (depth–time maps of temperature and cure, profiles, probe
+histories, the summary and the criteria, the cautions). No case file is
+needed. Use it after a run with --no-report, or to redraw the report of an
+older run.
+
+Exit status: 0 the report was written, 2 DIR does not hold the outputs of a
+run or one of them is malformed (the message gives the file and line;
+nothing is written).`,
+	Example: "cureslab report potting-out",
+	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
+		return func(e *env, args []string) int {
+			if len(args) != 1 {
+				return e.usageError("expects one output directory, got %d arguments", len(args))
+			}
+			dir := args[0]
+			if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
+				return e.usageError("%s is not a directory (give the output directory of 'cureslab run')", dir)
+			}
+			if err := cases.RedrawReport(dir); err != nil {
+				fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
+				return exitUsage
+			}
+			fmt.Fprintf(e.stdout, "wrote %s\n", filepath.Join(dir, cases.ReportFile))
+			return exitOK
+		}
+	},
+}
+
+func init() {
+	register(reportCmd)
+	withReportFlag(runCmd)
+	withReportFlag(demoCmd)
+}

@@ -1,0 +1,130 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+func TestParseShard(t *testing.T) {
+	env := func(kv ...string) func(string) string {
+		m := map[string]string{}
+		for i := 0; i+1 < len(kv); i += 2 {
+			m[kv[i]] = kv[i+1]
+		}
+		return func(k string) string { return m[k] }
+	}
+	for _, tc := range []struct {
+		name      string
+		spec      string
+		shards    int
+		shardsSet bool
+		env       func(string) string
+		i, n      int
+		inErr     string
+	}{
+		{name: "none", env: env(), i: 0, n: 1},
+		{name: "1/3", spec: "1/3", env: env(), i: 1, n: 3},
+		{name: "3/3", spec: "3/3", env: env(), inErr: "not in 0 to N-1"},
+		{name: "-1/3", spec: "-1/3", env: env(), inErr: "not in 0 to N-1"},
+		{name: "x", spec: "x", env: env(), inErr: "want I/N"},
+		{name: "slurm", spec: "slurm", env: env("SLURM_ARRAY_TASK_ID", "2", "SLURM_ARRAY_TASK_COUNT", "4"), i: 2, n: 4},
+		{name: "slurm from 1", spec: "slurm", env: env("SLURM_ARRAY_TASK_ID", "4", "SLURM_ARRAY_TASK_COUNT", "4", "SLURM_ARRAY_TASK_MIN", "1"), i: 3, n: 4},
+		{name: "slurm step", spec: "slurm", env: env("SLURM_ARRAY_TASK_ID", "2", "SLURM_ARRAY_TASK_COUNT", "4", "SLURM_ARRAY_TASK_STEP", "2"), inErr: "step of 2"},
+		{name: "slurm unset", spec: "slurm", env: env(), inErr: "SLURM_ARRAY_TASK_ID is not set"},
+		{name: "k8s", spec: "k8s", shards: 5, shardsSet: true, env: env("JOB_COMPLETION_INDEX", "4"), i: 4, n: 5},
+		{name: "k8s without shards", spec: "k8s", env: env("JOB_COMPLETION_INDEX", "4"), inErr: "needs --shards"},
+		{name: "k8s bad index", spec: "k8s", shards: 2, shardsSet: true, env: env("JOB_COMPLETION_INDEX", "x"), inErr: "not a whole number"},
+		{name: "shards without k8s", spec: "1/2", shards: 2, shardsSet: true, env: env(), inErr: "--shards goes with --shard k8s"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			i, n, err := parseShard(tc.spec, tc.shards, tc.shardsSet, tc.env)
+			if tc.inErr != "" {
+				if err == nil || !strings.Contains(err.Error(), tc.inErr) {
+					t.Errorf("got %d/%d, %v; want an error containing %q", i, n, err, tc.inErr)
+				}
+				return
+			}
+			if err != nil || i != tc.i || n != tc.n {
+				t.Errorf("got %d/%d, %v; want %d/%d", i, n, err, tc.i, tc.n)
+			}
+		})
+	}
+}
+
+// TestSweepCommand runs the commands end to end on the tiny test case:
+// exit statuses, three shards merged against the whole sweep, usage errors.
+func TestSweepCommand(t *testing.T) {
+	caseFile, err := filepath.Abs("../../testdata/sweep/tiny.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := chdir(t)
+	vary := []string{"--vary", "layer.resin.thickness=1mm,2mm,4mm", "--vary", "top.h=10W/m^2/K:30W/m^2/K:3"}
+
+	code, out, errs := cl(t, append([]string{"sweep", caseFile, "-j", "2"}, vary...)...)
+	// The 4 mm runs fail min_cure (see the case), none runs away: exit 1.
+	if code != exitCriteria || !strings.Contains(out, "9 of 9 runs done") || errs != "" {
+		t.Fatalf("sweep: exit %d\nstdout:\n%s\nstderr:\n%s", code, out, errs)
+	}
+	whole := filepath.Join(dir, "tiny-sweep", "summary.csv")
+	want, err := os.ReadFile(whole)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var shards []string
+	for i := range 3 {
+		d := "shard-" + string(rune('0'+i))
+		code, _, errs := cl(t, append([]string{"sweep", caseFile, "--shard", string(rune('0'+i)) + "/3", "-o", d}, vary...)...)
+		if code == exitUsage {
+			t.Fatalf("shard %d: %s", i, errs)
+		}
+		shards = append(shards, d)
+	}
+	code, out, errs = cl(t, append([]string{"merge", "-o", "merged"}, shards...)...)
+	if code != exitCriteria || !strings.Contains(out, "9 of 9 runs merged") {
+		t.Fatalf("merge: exit %d\n%s%s", code, out, errs)
+	}
+	got, _ := os.ReadFile(filepath.Join("merged", "summary.csv"))
+	if !bytes.Equal(got, want) {
+		t.Errorf("merged summary.csv differs:\n%s\nwant:\n%s", got, want)
+	}
+	code, _, errs = cl(t, "merge", "-o", "part", shards[0], shards[1])
+	if code != exitUsage || !strings.Contains(errs, "3 of 9 runs are missing (2, 5, 8)") {
+		t.Errorf("merge with a shard missing: exit %d\n%s", code, errs)
+	}
+	code, _, errs = cl(t, "merge", "-o", "part", "--allow-missing", shards[0], shards[1])
+	if code != exitFailure || !strings.Contains(errs, "3 runs missing: 2, 5, 8") {
+		t.Errorf("merge --allow-missing: exit %d\n%s", code, errs)
+	}
+
+	// A runaway makes the exit status 3.
+	code, out, errs = cl(t, "sweep", caseFile, "--vary", "materials.tiny-resin.cure.total_heat=300J/g,100000J/g", "-o", "hot")
+	if code != exitFailure || !strings.Contains(out, "1 runaway") {
+		t.Errorf("sweep with a runaway: exit %d\n%s%s", code, out, errs)
+	}
+
+	for _, tc := range []struct {
+		args  []string
+		inErr string
+	}{
+		{[]string{"sweep"}, "expects one case file"},
+		{[]string{"sweep", caseFile}, "nothing to vary"},
+		{[]string{"sweep", caseFile, "--vary", "top.hh=1W/m^2/K"}, `did you mean "h"?`},
+		{[]string{"sweep", caseFile, "--vary", "top.h"}, "want KEY=V1,V2"},
+		{[]string{"sweep", caseFile, "--vary", "top.h=1W/m^2/K", "--shard", "3/3"}, "not in 0 to N-1"},
+		{[]string{"sweep", caseFile, "--vary", "top.h=1W/m^2/K", "-j", "0"}, "-j wants at least 1"},
+		{[]string{"sweep", caseFile, "--vary", "top.h=1W/m^2/K", "--samples", "3"}, "--samples goes with"},
+		{[]string{"sweep", caseFile, "--vary", "layer.resin.thickness=1mm,2mm"}, "holds another sweep"},
+		{[]string{"sweep", "missing.toml", "--vary", "top.h=1W/m^2/K"}, "cannot read the case file"},
+		{[]string{"merge"}, "expects at least one sweep directory"},
+		{[]string{"merge", "nowhere"}, "not a sweep directory"},
+	} {
+		code, _, errs := cl(t, tc.args...)
+		if code != exitUsage || !strings.Contains(errs, tc.inErr) {
+			t.Errorf("cureslab %q: exit %d, want 2 with %q in\n%s", tc.args, code, tc.inErr, errs)
+		}
+	}
+}
