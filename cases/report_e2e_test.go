@@ -46,7 +46,8 @@ func TestE2EReportsInBrowser(t *testing.T) {
 		name, dir := e.Name(), filepath.Join(root, e.Name())
 		console := consoleMessages(t, filepath.Join(dir, "stderr.log"))
 		requests := pageRequests(t, filepath.Join(dir, "netlog.json"))
-		blank, share := blankReason(t, filepath.Join(dir, "screenshot.png"))
+		// The comparison page overlays line plots and draws no map.
+		blank, share := blankReason(t, filepath.Join(dir, "screenshot.png"), !strings.HasPrefix(name, "compare"))
 		switch name {
 		case "control-bad":
 			if len(console) == 0 {
@@ -145,11 +146,11 @@ func pageRequests(t *testing.T, path string) []string {
 }
 
 // blankReason returns why a screenshot looks blank, or "", and the share of
-// its pixels in map colours: it must have
-// more than one colour, and at least 2 % of its pixels must be colours of
-// the blue or yellow part of the map palette (so the raster maps rendered,
-// at their size).
-func blankReason(t *testing.T, path string) (string, float64) {
+// its pixels in map colours: it must have more than one colour; a page with
+// maps must have at least 2 % of its pixels in colours of the blue or yellow
+// part of the map palette (so the raster maps rendered, at their size), and
+// a page without must have at least 1 % of its pixels inked (not near white).
+func blankReason(t *testing.T, path string, wantMap bool) (string, float64) {
 	t.Helper()
 	f, err := os.Open(path)
 	if err != nil {
@@ -166,9 +167,12 @@ func blankReason(t *testing.T, path string) (string, float64) {
 	onMap := mapPaletteSet()
 	first := [3]uint8{rgb.Pix[0], rgb.Pix[1], rgb.Pix[2]}
 	single := true
-	mapPixels := 0
+	mapPixels, inked := 0, 0
 	for i := 0; i+3 < len(rgb.Pix); i += 4 {
 		r, g, bl := rgb.Pix[i], rgb.Pix[i+1], rgb.Pix[i+2]
+		if min(r, g, bl) < 235 {
+			inked++
+		}
 		if single && [3]uint8{r, g, bl} != first {
 			single = false
 		}
@@ -181,6 +185,10 @@ func blankReason(t *testing.T, path string) (string, float64) {
 	switch {
 	case single:
 		return "the screenshot is a single colour", share
+	case !wantMap:
+		if float64(inked) < 0.01*float64(b.Dx()*b.Dy()) {
+			return "nearly blank: " + strconv.Itoa(inked) + " inked pixels", share
+		}
 	case share < 0.02:
 		return "no map drawn: " + strconv.Itoa(mapPixels) + " of " + strconv.Itoa(b.Dx()*b.Dy()) + " pixels have map colours", share
 	}
