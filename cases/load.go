@@ -206,6 +206,14 @@ func syntaxError(name, text string, err error) *Error {
 	if !errors.As(err, &pe) {
 		return &Error{File: name, Err: &detail{kind: ErrSyntax, cause: err, msg: err.Error()}}
 	}
+	if pe.Position.Line < 1 {
+		// The TOML library reports some lexer errors (a newline inside a
+		// string on the first line) at line 0: place them from the byte
+		// offset instead.
+		off := min(max(pe.Position.Start, 0), len(text))
+		pe.Position.Line = 1 + strings.Count(text[:off], "\n")
+		pe.Position.Col = 1 + off - (strings.LastIndexByte(text[:off], '\n') + 1)
+	}
 	e := &Error{File: name, Line: pe.Position.Line, Col: pe.Position.Col, Key: lastKeyBefore(text, pe.Position.Line, pe.Position.Col),
 		Err: &detail{kind: ErrSyntax, cause: err, msg: pe.Message}}
 	if e.Key == "" {

@@ -133,6 +133,10 @@ type Candidate struct {
 	// Criteria are in the order min_cure, max_temperature, max_spread
 	// (those the case sets).
 	Criteria []Margin
+	// Critical is the criterion that decides whether the candidate is
+	// feasible: the one with the smallest margin (relative to its scale)
+	// in the run at the required share (the only run without Robust).
+	Critical Margin
 	ShareMet float64 // share of the runs meeting every criterion
 	Feasible bool    // ShareMet ≥ the required share
 	Status   string  // "ok" if every run met the criteria, else the worst status met
@@ -158,12 +162,13 @@ type TuneResult struct {
 	// (nil when none is feasible), Closest the candidate nearest to
 	// feasible when none is (nil otherwise).
 	Own, Best, Closest *Candidate
-	// Limiting lists the criteria at their limit at Best: those whose
-	// margin is within a tenth of their scale (0.001 of cure, 0.1 K), or
-	// else the one with the smallest margin relative to its scale; nil
-	// without Best. Active reports that the first of them is within that
-	// tenth. AtBound lists the free values of Best at the end of their
-	// range that a shorter cycle would cross.
+	// Limiting lists the criteria that limit a shorter cycle at Best:
+	// first Best.Critical, then, when Active, every other criterion whose
+	// margin is within a tenth of its scale (0.001 of cure, 0.1 K); nil
+	// without Best. Active reports that Best.Critical is within that
+	// tenth of its limit (else the ranges limit the program). AtBound lists
+	// the free values of Best at the end of their range that a shorter
+	// cycle would cross.
 	Limiting []string
 	Active   bool
 	AtBound  []string
@@ -275,12 +280,12 @@ type tuner struct {
 	sem     chan struct{}
 	ctx     context.Context
 
-	mu    sync.Mutex
-	cache map[string]*tuneEntry
-	cyc   map[string]float64 // program end by written values, for the polish
-	runs  int
-	prog2 *uncProgress
-	best  float64
+	mu       sync.Mutex
+	cache    map[string]*tuneEntry
+	cyc      map[string]float64 // program end by written values, for the polish
+	runs     int
+	progress *uncProgress
+	best     float64
 }
 
 type tuneEntry struct {
@@ -301,7 +306,7 @@ func newTuner(name string, data []byte, dir string, opt TuneOptions) (*tuner, er
 		return nil, tuneFail("the case has no [schedules.%s]%s (it has %s)", opt.Program,
 			didYouMeanKey(opt.Program, sortedScheduleNames(c)), strings.Join(sortedScheduleNames(c), ", "))
 	}
-	if !drives(c, opt.Program) {
+	if !tuneDrives(c, opt.Program) {
 		return nil, tuneFail("[schedules.%s] drives nothing in the case: no face air, platen or volumetric control uses it", opt.Program)
 	}
 	for _, m := range criteriaOf(c) {
@@ -354,6 +359,9 @@ func newTuner(name string, data []byte, dir string, opt TuneOptions) (*tuner, er
 	}
 	s := c.Schedules[opt.Program]
 	t.cRef = s.End()
+	if !(t.cRef > 0) {
+		return nil, tuneFail("[schedules.%s] has no length (a steady value): nothing to shorten", opt.Program)
+	}
 	if tm, ok := v.doc["time"].(map[string]any); ok {
 		if _, ok := tm["end"]; ok {
 			t.endSet = true
@@ -403,8 +411,8 @@ func sortedScheduleNames(c *Case) []string {
 	return out
 }
 
-// drives reports whether the schedule prog drives a face or the control.
-func drives(c *Case, prog string) bool {
+// tuneDrives reports whether the schedule prog drives a face or the control.
+func tuneDrives(c *Case, prog string) bool {
 	if c.TopAir == prog || c.BottomAir == prog {
 		return true
 	}
@@ -465,7 +473,7 @@ func (t *tuner) defaultFree() error {
 					one, _ := units.Parse("1 "+unit, units.Temperature)
 					p := (prev - off) / (one - off)
 					half := 0.5 * math.Abs(a-p)
-					if err := t.addVar(key+".to", fmtNum(a-half)+" "+unit, fmtNum(a+half)+" "+unit); err != nil {
+					if err := t.addVar(key+".to", tuneFmtNum(a-half)+" "+unit, tuneFmtNum(a+half)+" "+unit); err != nil {
 						return err
 					}
 				}
@@ -479,7 +487,7 @@ func (t *tuner) defaultFree() error {
 	return nil
 }
 
-func fmtNum(x float64) string { return strconv.FormatFloat(x, 'g', 12, 64) }
+func tuneFmtNum(x float64) string { return strconv.FormatFloat(x, 'g', 12, 64) }
 
 // addScaled adds the free value at key with the range lo·v .. hi·v of the
 // value v written as val.
@@ -490,7 +498,7 @@ func (t *tuner) addScaled(key, val string, lo, hi float64) error {
 		return tuneFail("%s: cannot read %q", key, val)
 	}
 	unit = strings.TrimSpace(unit)
-	return t.addVar(key, fmtNum(lo*a)+" "+unit, fmtNum(hi*a)+" "+unit)
+	return t.addVar(key, tuneFmtNum(lo*a)+" "+unit, tuneFmtNum(hi*a)+" "+unit)
 }
 
 // addVar resolves and adds one free value with the range from..to.
@@ -519,7 +527,7 @@ func (t *tuner) addVar(key string, from, to any) error {
 	fv.From, _ = sp.at(0)
 	fv.To, _ = sp.at(1)
 	fv.own = 0.5
-	if x, ok := inUnit(old, sp.unit); ok {
+	if x, ok := tuneInUnit(old, sp.unit); ok {
 		fv.own = (x - sp.from) / (sp.to - sp.from)
 	}
 	for _, o := range t.vars {
@@ -531,8 +539,8 @@ func (t *tuner) addVar(key string, from, to any) error {
 	return nil
 }
 
-// inUnit returns the value v (a quantity string or a number) in unit.
-func inUnit(v any, unit string) (float64, bool) {
+// tuneInUnit returns the value v (a quantity string or a number) in unit.
+func tuneInUnit(v any, unit string) (float64, bool) {
 	switch x := v.(type) {
 	case int64, float64:
 		return plainNumber(x)
@@ -604,7 +612,7 @@ func (t *tuner) evaluate(x []float64, phase string, order [3]int) *Candidate {
 	t.mu.Lock()
 	e, ok := t.cache[key]
 	if ok {
-		if less(order, e.c.order) {
+		if tuneOrderLess(order, e.c.order) {
 			e.c.order, e.c.Phase = order, phase
 		}
 		t.mu.Unlock()
@@ -635,7 +643,7 @@ func (t *tuner) evaluate(x []float64, phase string, order [3]int) *Candidate {
 		extra += ", best feasible cycle " + outHumanTime(t.best)
 	}
 	t.mu.Unlock()
-	t.prog2.addWith(1, extra)
+	t.progress.addWith(1, extra)
 	close(e.done)
 	return c
 }
@@ -660,7 +668,7 @@ func (t *tuner) ownX() []float64 {
 	return x
 }
 
-func less(a, b [3]int) bool {
+func tuneOrderLess(a, b [3]int) bool {
 	for i := range a {
 		if a[i] != b[i] {
 			return a[i] < b[i]
@@ -777,9 +785,22 @@ func (t *tuner) run1(c *Candidate, vals []any) {
 	}
 	c.ShareMet = float64(met) / float64(n)
 	c.Feasible = met >= t.need
-	ws := slices.Clone(worst)
-	slices.Sort(ws)
-	c.worst = max(ws[k], tuneBad)
+	idx := make([]int, n)
+	for i := range idx {
+		idx[i] = i
+	}
+	slices.SortStableFunc(idx, func(a, b int) int { return tuneCmp(worst[a], worst[b]) })
+	c.worst = max(worst[idx[k]], tuneBad)
+	crit := outs[idx[k]]
+	jc := 0
+	for j := range crit.norm {
+		if crit.norm[j] < crit.norm[jc] {
+			jc = j
+		}
+	}
+	c.Critical = t.crit[jc]
+	c.Critical.Margin, c.Critical.norm = crit.margin[jc], crit.norm[jc]
+	c.Critical.Value = criterionValue(c.Critical)
 	pen := 0.0
 	c.Criteria = make([]Margin, len(t.crit))
 	for j, m := range t.crit {
@@ -790,24 +811,27 @@ func (t *tuner) run1(c *Candidate, vals []any) {
 		slices.Sort(ns)
 		slices.Sort(ms)
 		m.norm, m.Margin = max(ns[k], tuneBad), ms[k]
-		switch {
-		case math.IsInf(m.Margin, -1):
-			m.Value = math.NaN()
-		case math.IsInf(m.Margin, 1):
-			m.Value = math.NaN() // the quantity does not exist (no curing layer)
-		case m.Name == CriterionMinCure:
-			m.Value = m.Limit + m.Margin
-		default:
-			m.Value = m.Limit - m.Margin
-		}
+		m.Value = criterionValue(m)
 		c.Criteria[j] = m
-		pen += sq(min(0, m.norm))
+		pen += tuneSq(min(0, m.norm))
 	}
-	pen += sq(min(0, c.worst))
+	pen += tuneSq(min(0, c.worst))
 	c.f = c.Cycle/t.cRef + pen
 }
 
-func sq(x float64) float64 { return x * x }
+func tuneSq(x float64) float64 { return x * x }
+
+// criterionValue returns the value of a criterion from its limit and
+// margin; NaN when the run ran away or the quantity does not exist.
+func criterionValue(m Margin) float64 {
+	switch {
+	case math.IsInf(m.Margin, 0):
+		return math.NaN()
+	case m.Name == CriterionMinCure:
+		return m.Limit + m.Margin
+	}
+	return m.Limit - m.Margin
+}
 
 func (t *tuner) emptyMargins() []Margin {
 	out := make([]Margin, len(t.crit))
@@ -878,8 +902,8 @@ func (t *tuner) cycleAt(x []float64) float64 {
 // run carries out the method of Tune.
 func (t *tuner) run(ctx context.Context) (*TuneResult, error) {
 	t.ctx = ctx
-	t.prog2 = &uncProgress{w: t.opt.Progress, what: "candidates"}
-	defer t.prog2.finish()
+	t.progress = &uncProgress{w: t.opt.Progress, what: "candidates"}
+	defer t.progress.finish()
 	k := len(t.vars)
 	res := t.res
 
@@ -914,7 +938,7 @@ func (t *tuner) run(ctx context.Context) (*TuneResult, error) {
 
 	// 2. Nelder–Mead from the best distinct starts.
 	order := slices.Clone(cands)
-	slices.SortStableFunc(order, func(a, b *Candidate) int { return cmpF(a.f, b.f) })
+	slices.SortStableFunc(order, func(a, b *Candidate) int { return tuneCmp(a.f, b.f) })
 	var picked []*Candidate
 	for _, c := range order {
 		if len(picked) == t.opt.Starts {
@@ -943,7 +967,7 @@ func (t *tuner) run(ctx context.Context) (*TuneResult, error) {
 	return t.finish(), ctx.Err()
 }
 
-func cmpF(a, b float64) int {
+func tuneCmp(a, b float64) int {
 	switch {
 	case a < b:
 		return -1
@@ -1004,9 +1028,9 @@ func (t *tuner) sorted() []*Candidate {
 	t.mu.Unlock()
 	slices.SortFunc(out, func(a, b *Candidate) int {
 		switch {
-		case less(a.order, b.order):
+		case tuneOrderLess(a.order, b.order):
 			return -1
-		case less(b.order, a.order):
+		case tuneOrderLess(b.order, a.order):
 			return 1
 		}
 		return 0
@@ -1092,18 +1116,14 @@ func (t *tuner) finish() *TuneResult {
 		return res
 	}
 	b := res.Best
-	lim, smallest := math.Inf(1), ""
-	for _, m := range b.Criteria {
-		if m.norm <= tuneActive {
-			res.Limiting = append(res.Limiting, m.Name)
+	res.Active = b.worst <= tuneActive
+	res.Limiting = []string{b.Critical.Name}
+	if res.Active {
+		for _, m := range b.Criteria {
+			if m.norm <= tuneActive && m.Name != b.Critical.Name {
+				res.Limiting = append(res.Limiting, m.Name)
+			}
 		}
-		if m.norm < lim {
-			lim, smallest = m.norm, m.Name
-		}
-	}
-	res.Active = len(res.Limiting) > 0
-	if !res.Active {
-		res.Limiting = []string{smallest}
 	}
 	for j, fv := range t.vars {
 		lo, hi := slices.Clone(b.x), slices.Clone(b.x)

@@ -301,18 +301,23 @@ func PrintTune(w io.Writer, r *TuneResult) error {
 	fmt.Fprintln(w)
 	printMargins(w, r.Best)
 	if len(r.Limiting) > 0 {
-		var parts []string
-		for _, name := range r.Limiting {
-			for _, m := range r.Best.Criteria {
-				if m.Name == name {
-					parts = append(parts, fmt.Sprintf("%s (margin %s)", name, marginText(m)))
+		at := ""
+		if r.Robust > 0 {
+			at = fmt.Sprintf(" in the sample at the required share, %s", marginValue(r.Best.Critical.Name, r.Best.Critical.Value))
+		}
+		first := fmt.Sprintf("%s (margin %s%s)", r.Best.Critical.Name, marginText(r.Best.Critical), at)
+		if r.Active {
+			parts := []string{first}
+			for _, name := range r.Limiting[1:] {
+				for _, m := range r.Best.Criteria {
+					if m.Name == name {
+						parts = append(parts, fmt.Sprintf("%s (margin %s)", name, marginText(m)))
+					}
 				}
 			}
-		}
-		if r.Active {
 			fmt.Fprintf(w, "limiting criterion: %s\n", strings.Join(parts, ", "))
 		} else {
-			fmt.Fprintf(w, "no criterion is at its limit (smallest margin: %s)", parts[0])
+			fmt.Fprintf(w, "no criterion is at its limit (closest: %s)", first)
 			if len(r.AtBound) > 0 {
 				fmt.Fprintf(w, ": the ranges limit the program (%s)", strings.Join(r.AtBound, ", "))
 			}

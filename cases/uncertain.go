@@ -1,14 +1,18 @@
 package cases
 
 import (
+	"bytes"
 	"context"
 	"encoding/csv"
 	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
 	"math/rand/v2"
+	"os"
+	"path/filepath"
 	"runtime"
 	"slices"
 	"strconv"
@@ -127,22 +131,43 @@ func lhsPoints(n, k int, seed uint64) *mat.Dense {
 // large. Cancelling ctx stops the runs and returns ctx's error. Cost: N
 // solver runs.
 func Uncertain(ctx context.Context, c *Case, data []byte, opt UncertainOptions) (*UncertainReport, error) {
+	return uncertain(ctx, c, data, opt)
+}
+
+// CheckUncertain returns the error Uncertain would return for c (loaded from
+// data) before running anything: no [uncertainty], or a bad one. Commands
+// call it before they write outputs.
+func CheckUncertain(c *Case, data []byte) error {
+	_, _, err := uncertainOf(c, data)
+	return err
+}
+
+// uncertainOf returns the case variant of data and its declared spreads.
+func uncertainOf(c *Case, data []byte) (*caseVariant, *Uncertainty, error) {
+	v, _, err := newCaseVariant(c.File, data, c.Dir)
+	if err != nil {
+		return nil, nil, err
+	}
+	unc, err := readUncertainty(v.name, v.text, v.doc)
+	if err != nil {
+		return nil, nil, err
+	}
+	if unc == nil || len(unc.Inputs) == 0 {
+		return nil, nil, fmt.Errorf("%s: %w: add one, for example\n[uncertainty]\n\"top.h\" = \"±20 %%\"", c.File, ErrNoUncertainty)
+	}
+	return v, unc, nil
+}
+
+func uncertain(ctx context.Context, c *Case, data []byte, opt UncertainOptions) (*UncertainReport, error) {
 	if opt.Samples < 1 || opt.Samples > maxUncertainSamples {
 		return nil, fmt.Errorf("--uncertain wants between 1 and %d samples, got %d", maxUncertainSamples, opt.Samples)
 	}
 	if opt.Jobs < 0 {
 		return nil, fmt.Errorf("-j %d: want at least 1 job", opt.Jobs)
 	}
-	v, _, err := newCaseVariant(c.File, data, c.Dir)
+	v, unc, err := uncertainOf(c, data)
 	if err != nil {
 		return nil, err
-	}
-	unc, err := readUncertainty(v.name, v.text, v.doc)
-	if err != nil {
-		return nil, err
-	}
-	if unc == nil || len(unc.Inputs) == 0 {
-		return nil, fmt.Errorf("%s: %w: add one, for example\n[uncertainty]\n\"top.h\" = \"±20 %%\"", c.File, ErrNoUncertainty)
 	}
 	seed := opt.Seed
 	if seed == 0 {
@@ -413,28 +438,79 @@ func (r *UncertainReport) jsonObject() uncertaintyJSON {
 // summary field its p5, p50 and p95 values and the number of samples they
 // come from, for each criterion its limit and the share of samples that met
 // it, all_criteria_share, share_required, pass, and the numbers of runaway
-// and failed samples. Both files are written atomically (WriteFileAtomic);
-// dir must exist.
+// and failed samples. The summary.json that the nominal run wrote in dir is
+// kept as it is, key for key, with "uncertainty" added at the end; without
+// one, nominal is written. Both files are written atomically
+// (WriteFileAtomic); dir must exist.
 func WriteUncertainty(dir string, nominal Summary, rep *UncertainReport) error {
 	if err := WriteFileAtomic(dir, UncertaintyFile, func(w io.Writer) error { return writeUncertaintyCSV(w, rep) }); err != nil {
 		return fmt.Errorf("writing %s: %w", UncertaintyFile, err)
 	}
-	doc := struct {
-		Summary
-		Uncertainty uncertaintyJSON `json:"uncertainty"`
-	}{nominal, rep.jsonObject()}
-	err := WriteFileAtomic(dir, SummaryFile, func(w io.Writer) error {
-		b, err := json.MarshalIndent(doc, "", "  ")
-		if err != nil {
-			return err
-		}
-		_, err = w.Write(append(b, '\n'))
-		return err
-	})
+	b, err := summaryWithUncertainty(filepath.Join(dir, SummaryFile), nominal, rep.jsonObject())
+	if err == nil {
+		err = WriteFileAtomic(dir, SummaryFile, func(w io.Writer) error { _, err := w.Write(b); return err })
+	}
 	if err != nil {
 		return fmt.Errorf("writing %s: %w", SummaryFile, err)
 	}
 	return nil
+}
+
+// summaryWithUncertainty returns summary.json with the key "uncertainty"
+// set to u: the file at path as the run wrote it, keys and their order
+// kept (an earlier "uncertainty" is replaced), or, when there is no such
+// file, nominal.
+func summaryWithUncertainty(path string, nominal Summary, u uncertaintyJSON) ([]byte, error) {
+	type member struct {
+		key string
+		raw json.RawMessage
+	}
+	var members []member
+	data, err := os.ReadFile(path)
+	if errors.Is(err, fs.ErrNotExist) {
+		if data, err = json.Marshal(nominal); err != nil {
+			return nil, err
+		}
+	} else if err != nil {
+		return nil, err
+	}
+	dec := json.NewDecoder(bytes.NewReader(data))
+	if tok, err := dec.Token(); err != nil || tok != json.Delim('{') {
+		return nil, fmt.Errorf("%s is not a JSON object", path)
+	}
+	for dec.More() {
+		tok, err := dec.Token()
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", path, err)
+		}
+		var raw json.RawMessage
+		if err := dec.Decode(&raw); err != nil {
+			return nil, fmt.Errorf("%s: %w", path, err)
+		}
+		if k, _ := tok.(string); k != "uncertainty" {
+			members = append(members, member{k, raw})
+		}
+	}
+	raw, err := json.Marshal(u)
+	if err != nil {
+		return nil, err
+	}
+	members = append(members, member{"uncertainty", raw})
+	var out bytes.Buffer
+	out.WriteString("{\n")
+	for i, m := range members {
+		k, _ := json.Marshal(m.key)
+		fmt.Fprintf(&out, "  %s: ", k)
+		if err := json.Indent(&out, m.raw, "  ", "  "); err != nil {
+			return nil, err
+		}
+		if i < len(members)-1 {
+			out.WriteByte(',')
+		}
+		out.WriteByte('\n')
+	}
+	out.WriteString("}\n")
+	return out.Bytes(), nil
 }
 
 // writeUncertaintyCSV writes uncertainty.csv.

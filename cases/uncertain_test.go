@@ -361,8 +361,32 @@ func TestWriteUncertainty(t *testing.T) {
 	if err := WriteRun(dir, c, r); err != nil {
 		t.Fatal(err)
 	}
+	before, err := os.ReadFile(filepath.Join(dir, SummaryFile))
+	if err != nil {
+		t.Fatal(err)
+	}
 	if err := WriteUncertainty(dir, Summarize(c, r), rep); err != nil {
 		t.Fatal(err)
+	}
+	once, _ := os.ReadFile(filepath.Join(dir, SummaryFile))
+	if err := WriteUncertainty(dir, Summarize(c, r), rep); err != nil {
+		t.Fatal(err)
+	}
+	twice, _ := os.ReadFile(filepath.Join(dir, SummaryFile))
+	if string(once) != string(twice) {
+		t.Errorf("writing the uncertainty twice changes summary.json:\n%s\n%s", once, twice)
+	}
+	// The run's summary.json is kept key for key.
+	var a, b0 map[string]any
+	if err := json.Unmarshal(before, &a); err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(once, &b0); err != nil {
+		t.Fatal(err)
+	}
+	delete(b0, "uncertainty")
+	if ja, jb := mustJSON(t, a), mustJSON(t, b0); ja != jb {
+		t.Errorf("summary.json changed beyond the uncertainty:\n%s\n%s", ja, jb)
 	}
 	f, err := os.Open(filepath.Join(dir, UncertaintyFile))
 	if err != nil {
@@ -409,4 +433,13 @@ func TestWriteUncertainty(t *testing.T) {
 			t.Errorf("summary.json has no %s", k)
 		}
 	}
+}
+
+func mustJSON(t *testing.T, v any) string {
+	t.Helper()
+	b, err := json.Marshal(v)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
 }

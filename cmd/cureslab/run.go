@@ -17,7 +17,7 @@ import (
 
 var runCmd = &Command{
 	Name:  "run",
-	Args:  "CASE.toml [-o DIR]",
+	Args:  "CASE.toml [-o DIR] [--uncertain N [--seed S]]",
 	Short: "simulate one case, write its output files and print a summary",
 	Long: `Simulate one case and write fields.csv, probes.csv, summary.json and
 report.html (the plots; skip it with --no-report) to DIR (default
@@ -25,20 +25,42 @@ report.html (the plots; skip it with --no-report) to DIR (default
 acceptance criteria. A case with errors is refused before anything
 is written. Ctrl-C stops the run and keeps the outputs up to that moment.
 
+With --uncertain N, also run N Latin-hypercube samples of the spreads declared
+in [uncertainty] and write uncertainty.csv (one row per sample) and, in
+summary.json, the 5, 50 and 95 % values of every summary field and the share
+of samples that meet each criterion; a share below [uncertainty] share counts
+as a failed criterion.
+
 Exit status: 0 every criterion met (or none given), 1 a criterion failed,
 2 bad input or usage, 3 runaway or numerical failure (outputs kept).`,
 	Example: `cureslab example thick-potting-oven > potting.toml
 cureslab run potting.toml -o potting-out`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		out := fs.StringP("out", "o", "", "write the outputs to `DIR` (default ./CASE-out)")
+		uncertain := fs.Int("uncertain", 0, "also run `N` Latin-hypercube samples of [uncertainty] (uncertainty.csv)")
+		seed := fs.Uint64("seed", 1, "seed `S` of the --uncertain samples")
+		jobs := fs.IntP("jobs", "j", 0, "with --uncertain, `N` runs at a time (default: all cores)")
 		return func(e *env, args []string) int {
 			if len(args) != 1 {
 				return e.usageError("expects one case file, got %d arguments", len(args))
+			}
+			if *uncertain < 0 || *jobs < 0 {
+				return e.usageError("--uncertain and --jobs take a positive count")
 			}
 			c, err := cases.Load(args[0])
 			if err != nil {
 				fmt.Fprintln(e.stderr, err)
 				return exitUsage
+			}
+			var text []byte
+			if *uncertain > 0 {
+				if text, err = os.ReadFile(args[0]); err == nil {
+					err = cases.CheckUncertain(c, text)
+				}
+				if err != nil {
+					fmt.Fprintf(e.stderr, "cureslab run: --uncertain: %v\n", err)
+					return exitUsage
+				}
 			}
 			dir := *out
 			if dir == "" {
@@ -52,6 +74,25 @@ cureslab run potting.toml -o potting-out`,
 				return code
 			}
 			cases.PrintSummary(e.stdout, s)
+			if *uncertain > 0 {
+				opt := cases.UncertainOptions{Samples: *uncertain, Seed: *seed, Jobs: *jobs}
+				if isTerminal(e.stderr) {
+					opt.Progress = e.stderr
+				}
+				rep, err := cases.Uncertain(e.ctx, c, text, opt)
+				if err == nil {
+					err = cases.WriteUncertainty(dir, s, rep)
+				}
+				if err != nil {
+					fmt.Fprintf(e.stderr, "cureslab run: --uncertain: %v\n", err)
+					return exitUsage
+				}
+				fmt.Fprintln(e.stdout)
+				cases.PrintUncertainty(e.stdout, rep)
+				if !rep.Pass() {
+					code = max(code, exitCriteria)
+				}
+			}
 			fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
 			return code
 		}
