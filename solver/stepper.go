@@ -344,23 +344,26 @@ func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 			}
 			pj[i], sj[i], s.jaa[i] = -h*theta*v.rT[i]/jaa, G/jaa, jaa
 		}
+		invh := 1 / h
 		for i := range n {
-			m := s.rho[i] * s.w[i] / h
+			m := s.rho[i] * s.w[i] * invh
+			hw := s.heat[i] * s.w[i] * invh
 			cs := 0.5 * (o.cp[i] + v.cp[i])
 			dT := T[i] - T0[i]
-			F := m*cs*dT - theta*v.D[i] - (1-theta)*o.D[i] - s.heat[i]*s.w[i]*(A[i]-A0[i])/h -
+			F := m*cs*dT - theta*v.D[i] - (1-theta)*o.D[i] - hw*(A[i]-A0[i]) -
 				s.w[i]*(theta*v.P[i]+(1-theta)*o.P[i])
 			// D_i = down_i − down_{i+1}: face i has cell i below it (b),
 			// face i+1 has cell i above it (a).
 			dDT := v.fTb[i] - v.fTa[i+1]
-			// The residual, scaled to kelvin, cannot fall below its
-			// round-off floor, about ε|T| (1 + θ|∂D/∂T|/(m c*)).
+			// The residual, scaled to kelvin by m c*, cannot fall below
+			// its round-off floor, about ε|T| (1 + θ|∂D/∂T|/(m c*)).
 			mc := m * cs
-			floor := 4 * eps * math.Abs(T[i]) * (1 + theta*math.Abs(dDT)/mc)
-			maxF = max(maxF, math.Abs(F)/mc-floor)
+			if e := math.Abs(F) - 4*eps*math.Abs(T[i])*(mc+theta*math.Abs(dDT)); e > maxF*mc || F != F {
+				maxF = e / mc
+			}
 			dDA := v.fAb[i] - v.fAa[i+1]
 			fT := m*(cs+0.5*v.cpT[i]*dT) - theta*dDT
-			fA := m*0.5*v.cpA[i]*dT - s.heat[i]*s.w[i]/h - theta*dDA - theta*s.w[i]*v.PA[i]
+			fA := m*0.5*v.cpA[i]*dT - hw - theta*dDA - theta*s.w[i]*v.PA[i]
 			s.di[i] = fT - fA*pj[i]
 			s.rhs[i] = -F + fA*sj[i]
 			if i > 0 { // ∂F_i/∂(T, α)_{i−1} through face i
