@@ -362,8 +362,17 @@ func (s *Sweep) Case(r int) (*Case, error) {
 // the stack (a thinner layer) is dropped from that run, rather than failing
 // it: probes do not enter the summary.
 func (s *Sweep) caseOf(vals []any) (*Case, error) {
-	t := s.tree(vals)
-	c, err := parseTree(s.Name, s.text, t, s.dir)
+	return parseDroppingProbes(s.Name, s.text, s.dir, s.tree(vals), s.varied)
+}
+
+// parseDroppingProbes validates the case tree t (of the file name with the
+// source text, for positions) with parseTree. When the only errors are
+// [output] probes below the stack, and keep does not claim them (a varied
+// probe must fail its run), those probes are dropped from t and the tree is
+// parsed again: a probe that a thinner sample puts outside the stack does not
+// enter the summary, so the run goes on without it.
+func parseDroppingProbes(name, text, dir string, t map[string]any, keep func(path string) bool) (*Case, error) {
+	c, err := parseTree(name, text, t, dir)
 	var list ErrorList
 	if err == nil || !errors.As(err, &list) {
 		return c, err
@@ -374,7 +383,7 @@ func (s *Sweep) caseOf(vals []any) (*Case, error) {
 	for _, e := range list {
 		rest, ok := strings.CutPrefix(e.Key, "output.probes.")
 		i, aerr := strconv.Atoi(rest)
-		if !ok || aerr != nil || i < 0 || i >= len(probes) || !errors.Is(e, ErrRange) || s.varied("output.probes."+rest) {
+		if !ok || aerr != nil || i < 0 || i >= len(probes) || !errors.Is(e, ErrRange) || keep("output.probes."+rest) {
 			return nil, err
 		}
 		drop[i] = true
@@ -386,7 +395,7 @@ func (s *Sweep) caseOf(vals []any) (*Case, error) {
 		}
 	}
 	out["probes"] = kept
-	return parseTree(s.Name, s.text, t, s.dir)
+	return parseTree(name, text, t, dir)
 }
 
 // varied reports whether the loader key path p is varied.

@@ -368,30 +368,7 @@ func (v *caseVariant) tree(sets []valueSetting) map[string]any {
 // values put below the stack (a thinner layer) is dropped rather than
 // failing the case, as in a sweep run: probes do not enter the summary.
 func (v *caseVariant) parse(t map[string]any) (*Case, error) {
-	c, err := parseTree(v.name, v.text, t, v.dir)
-	var list ErrorList
-	if err == nil || !errors.As(err, &list) {
-		return c, err
-	}
-	out, _ := t["output"].(map[string]any)
-	probes, _ := out["probes"].([]any)
-	drop := make(map[int]bool)
-	for _, e := range list {
-		rest, ok := strings.CutPrefix(e.Key, "output.probes.")
-		i, aerr := strconv.Atoi(rest)
-		if !ok || aerr != nil || i < 0 || i >= len(probes) || !errors.Is(e, ErrRange) {
-			return nil, err
-		}
-		drop[i] = true
-	}
-	kept := make([]any, 0, len(probes))
-	for i, p := range probes {
-		if !drop[i] {
-			kept = append(kept, p)
-		}
-	}
-	out["probes"] = kept
-	return parseTree(v.name, v.text, t, v.dir)
+	return parseDroppingProbes(v.name, v.text, v.dir, t, func(string) bool { return false })
 }
 
 // sample applies the uncertain inputs of u at the sample point us (one u in
