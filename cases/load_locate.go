@@ -283,6 +283,7 @@ func (s *scanner) quotedKey() string {
 		}
 		s.i++
 	}
+	s.i = min(s.i, len(s.src)) // a backslash at the very end skipped past it
 	if s.eof() || s.src[s.i] != q {
 		return s.src[start+1 : s.i]
 	}

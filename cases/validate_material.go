@@ -2,6 +2,7 @@ package cases
 
 import (
 	"fmt"
+	"slices"
 	"sort"
 	"strings"
 
@@ -312,16 +313,75 @@ func (l *loader) dielectric(mt *table) *physics.Dielectric {
 	if d.Permittivity, ok = l.number(t, "permittivity"); ok && !(d.Permittivity >= 1) {
 		l.rangeErr(t.keyPath("permittivity"), d.Permittivity, "relative permittivity must be at least 1")
 	}
-	if d.LossFactor, ok = l.number(t, "loss_factor"); ok && !(d.LossFactor >= 0) {
-		l.rangeErr(t.keyPath("loss_factor"), d.LossFactor, "loss_factor must not be negative")
-	}
-	d.LossFactorCured = d.LossFactor
-	if d.LossFactorCured, ok = l.number(t, "loss_factor_cured"); ok && !(d.LossFactorCured >= 0) {
-		l.rangeErr(t.keyPath("loss_factor_cured"), d.LossFactorCured, "loss_factor_cured must not be negative")
-	} else if !ok {
-		d.LossFactorCured = d.LossFactor
+	d.LossFactor, d.LossTable, _ = l.lossFactor(t, "loss_factor")
+	if d.LossFactorCured, d.LossTableCured, ok = l.lossFactor(t, "loss_factor_cured"); !ok {
+		d.LossFactorCured, d.LossTableCured = d.LossFactor, d.LossTable
 	}
 	return &d
+}
+
+// lossFactor reads a loss factor ε″: a plain number ≥ 0, or a table
+// { temperature = ["20 C", "150 C"], value = [0.6, 0.4] } of plain numbers
+// ≥ 0 at strictly increasing temperatures (at least two points). For a table
+// it returns its largest value and the table.
+func (l *loader) lossFactor(t *table, key string) (float64, *physics.Property, bool) {
+	if !t.has(key) {
+		return 0, nil, false
+	}
+	path := t.keyPath(key)
+	v := t.m[key]
+	if _, isTable := v.(map[string]any); !isTable {
+		x, ok := l.number(t, key)
+		if ok && !(x >= 0) {
+			l.rangeErr(path, x, "%s must not be negative", key)
+			return 0, nil, false
+		}
+		return x, nil, ok
+	}
+	tt := l.open(path, v, tableKeys, nil)
+	if tt == nil || !l.require(tt, tableKeys...) {
+		return 0, nil, false
+	}
+	temps, ok := l.quantities(tt, "temperature", units.Temperature)
+	arr, ok2 := l.array(tt, "value")
+	if !ok || !ok2 {
+		return 0, nil, false
+	}
+	vals := make([]float64, len(arr))
+	for i, x := range arr {
+		el := fmt.Sprintf("%s.%d", tt.keyPath("value"), i)
+		f, ok1 := l.numberAt(el, x)
+		if ok1 && !(f >= 0) {
+			l.rangeErr(el, x, "%s must not be negative", key)
+			ok1 = false
+		}
+		ok = ok && ok1
+		vals[i] = f
+	}
+	switch {
+	case !ok:
+		return 0, nil, false
+	case len(temps) != len(vals):
+		l.atValue(tt.keyPath("value"), ErrRange, "the table has %d temperatures but %d values", len(temps), len(vals))
+		return 0, nil, false
+	case len(temps) < 2:
+		l.atValue(tt.keyPath("temperature"), ErrRange, "a table needs at least two points, got %d", len(temps)).Hint =
+			fmt.Sprintf("for one value write the number: %s = 0.4", key)
+		return 0, nil, false
+	}
+	for i := 1; i < len(temps); i++ {
+		if !(temps[i] > temps[i-1]) {
+			el := fmt.Sprintf("%s.%d", tt.keyPath("temperature"), i)
+			l.atValue(el, ErrRange, "table temperatures must be strictly increasing: %s does not come after %s", celsius(temps[i]), celsius(temps[i-1]))
+			return 0, nil, false
+		}
+	}
+	p, err := physics.NewTable(temps, vals)
+	if err != nil { // not reached: checked above
+		l.add(l.loc.value(path), path, ErrRange, err, err.Error())
+		return 0, nil, false
+	}
+	return slices.Max(vals), &p, true
 }
 
 // materialNames returns the names a layer may use: the case's own and the

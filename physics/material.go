@@ -21,4 +21,9 @@ type Dielectric struct {
 	LossFactor      float64 // ε″ of the uncured material
 	LossFactorCured float64 // ε″ at full cure (linear in α between)
 	Shield          bool    // absorbs nothing and blocks the field beyond it
+	// LossTable and LossTableCured, when set, make ε″ of the uncured and
+	// cured material depend on temperature (piecewise linear, held beyond
+	// the ends); LossFactor and LossFactorCured then hold their largest
+	// values, for estimates.
+	LossTable, LossTableCured *Property
 }

@@ -8,11 +8,19 @@ const VacuumPermittivity = 8.8541878128e-12
 // SpeedOfLight is c in m/s (exact).
 const SpeedOfLight = 299792458.0
 
-// Loss returns the loss factor ε″ at cure α, linear in cure between the
-// uncured and cured values, and its derivative with respect to α.
-func (d *Dielectric) Loss(a float64) (eps2, deps2da float64) {
-	s := d.LossFactorCured - d.LossFactor
-	return d.LossFactor + a*s, s
+// Loss returns the loss factor ε″ at temperature T (K) and cure α, linear
+// in cure between the uncured and cured values (each a constant or a table
+// in temperature), and its partial derivatives with respect to T and α.
+func (d *Dielectric) Loss(T, a float64) (eps2, deps2dT, deps2da float64) {
+	u, du := d.LossFactor, 0.0
+	if d.LossTable != nil {
+		u, du = d.LossTable.At(T)
+	}
+	c, dc := d.LossFactorCured, 0.0
+	if d.LossTableCured != nil {
+		c, dc = d.LossTableCured.At(T)
+	}
+	return u + a*(c-u), du + a*(dc-du), c - u
 }
 
 // PowerDensity returns the power absorbed per unit volume, in W/m³, by a

@@ -326,14 +326,15 @@ func (s *stepper) events() []float64 {
 	return slices.Compact(ev)
 }
 
-// initialStep picks the first step from the initial rates of change: small
-// enough that no cell's temperature moves by more than the tolerance and no
-// cell's cure by more than the cure tolerance.
+// initialStep picks the first step from the initial rates of change (by
+// conduction, reaction and absorbed power): small enough that no cell's
+// temperature moves by more than the tolerance and no cell's cure by more
+// than the cure tolerance. The first step has no error estimate of its own.
 func (s *stepper) initialStep(firstEvent float64) float64 {
 	p := s.p
 	h := min(firstEvent, p.MaxStep, 60.0)
 	for i := range s.n {
-		rate := math.Abs(s.old.D[i]+s.heat[i]*s.w[i]*s.old.r[i]) / (s.rho[i] * s.old.cp[i] * s.w[i])
+		rate := math.Abs(s.old.D[i]+s.heat[i]*s.w[i]*s.old.r[i]+s.w[i]*s.old.P[i]) / (s.rho[i] * s.old.cp[i] * s.w[i])
 		if rate > 0 {
 			h = min(h, p.TemperatureTolerance/rate)
 		}

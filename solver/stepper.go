@@ -25,7 +25,7 @@ type level struct {
 	// cell n−1 (stored as a).
 	fTa, fTb, fAa, fAb []float64
 
-	P, PA []float64 // absorbed volumetric power, W/m³, and ∂P/∂α (0 where transparent)
+	P, PA, PT []float64 // absorbed volumetric power, W/m³, ∂P/∂α and ∂P/∂T (0 where transparent)
 
 	r, rT, rA    []float64 // cure rate and its partial derivatives (0 where inert)
 	cp, cpT, cpA []float64 // specific heat and its partial derivatives
@@ -34,13 +34,13 @@ type level struct {
 }
 
 func newLevel(n int) *level {
-	buf := make([]float64, 18*n+5)
+	buf := make([]float64, 19*n+5)
 	take := func(m int) []float64 { s := buf[:m:m]; buf = buf[m:]; return s }
 	return &level{
 		down: take(n + 1), R: take(n), dRT: take(n), dRA: take(n), D: take(n),
 		fTa: take(n + 1), fTb: take(n + 1), fAa: take(n + 1), fAb: take(n + 1),
 		r: take(n), rT: take(n), rA: take(n), cp: take(n), cpT: take(n), cpA: take(n),
-		P: take(n), PA: take(n),
+		P: take(n), PA: take(n), PT: take(n),
 	}
 }
 
@@ -187,11 +187,12 @@ func (s *stepper) eval(lv *level, t float64, T, A []float64) {
 		lv.D[i] = lv.down[i] - lv.down[i+1]
 	}
 	if s.vol != nil {
-		s.power(lv, A)
+		s.power(lv, T, A)
 	}
 }
 
-// power fills lv.P and lv.PA with the absorbed power density at cure A.
+// power fills lv.P, lv.PA and lv.PT with the absorbed power density at
+// temperatures T and cure A and its derivatives.
 //
 // Uniform field: P = 2π f ε0 ε″ E² (physics.PowerDensity) with E² = u·E_max².
 // Attenuated field: the power surviving to depth z is exp(−∫₀ᶻ dz′/D_p),
@@ -201,15 +202,15 @@ func (s *stepper) eval(lv *level, t float64, T, A []float64) {
 // conserves the power that enters. A shield absorbs nothing and blocks the
 // field beyond it. ∂P/∂α is kept for the cell's own ε″ only: the attenuation
 // of the cells above enters the residual exactly but not the Jacobian.
-func (s *stepper) power(lv *level, A []float64) {
+func (s *stepper) power(lv *level, T, A []float64) {
 	v, n := s.vol, s.n
 	e2 := s.u * v.Field * v.Field
 	for i := range n {
-		lv.P[i], lv.PA[i] = 0, 0
+		lv.P[i], lv.PA[i], lv.PT[i] = 0, 0, 0
 		if d := s.diel[i]; d != nil && !d.Shield {
-			eps2, deps2 := d.Loss(A[i])
-			lv.P[i] = physics.PowerDensity(v.Frequency, eps2, 1) * e2
-			lv.PA[i] = physics.PowerDensity(v.Frequency, deps2, 1) * e2
+			eps2, dT, dA := d.Loss(T[i], A[i])
+			unit := physics.PowerDensity(v.Frequency, 1, 1) * e2
+			lv.P[i], lv.PT[i], lv.PA[i] = unit*eps2, unit*dT, unit*dA
 		}
 	}
 	if v.Attenuation == physics.Uniform {
@@ -217,7 +218,7 @@ func (s *stepper) power(lv *level, A []float64) {
 			if d := s.diel[i]; d != nil && d.Shield {
 				// A shield in a uniform field still blocks nothing around it;
 				// it only absorbs nothing.
-				lv.P[i], lv.PA[i] = 0, 0
+				lv.P[i], lv.PA[i], lv.PT[i] = 0, 0, 0
 			}
 		}
 		return
@@ -231,7 +232,7 @@ func (s *stepper) power(lv *level, A []float64) {
 		case d.Shield:
 			return math.Inf(1)
 		}
-		eps2, _ := d.Loss(A[i])
+		eps2, _, _ := d.Loss(T[i], A[i])
 		return s.w[i] / physics.PenetrationDepth(v.Frequency, d.Permittivity, eps2)
 	}
 	// tauTop[i]: optical depth from the top face to the top of cell i;
@@ -247,7 +248,7 @@ func (s *stepper) power(lv *level, A []float64) {
 		acc += cellTau(i)
 	}
 	for i := range n {
-		if lv.P[i] == 0 && lv.PA[i] == 0 {
+		if lv.P[i] == 0 && lv.PA[i] == 0 && lv.PT[i] == 0 {
 			continue
 		}
 		ti := cellTau(i)
@@ -266,6 +267,7 @@ func (s *stepper) power(lv *level, A []float64) {
 		}
 		lv.P[i] *= f * share
 		lv.PA[i] *= f * share
+		lv.PT[i] *= f * share
 	}
 }
 
@@ -284,7 +286,7 @@ const (
 // need only be far below the cure tolerance.
 const (
 	maxNewton  = 10
-	newtonTolT = 1e-10 // K: scaled heat residual
+	newtonTolT = 1e-12 // K: scaled heat residual (above its round-off floor)
 	newtonTolA = 1e-10 // degree of cure: cure residual
 	// An update this small means the iterate sits at the residual's
 	// round-off floor (about ε·T·h/τ_cell for cells of diffusion time τ_cell).
@@ -362,7 +364,7 @@ func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 				maxF = e / mc
 			}
 			dDA := v.fAb[i] - v.fAa[i+1]
-			fT := m*(cs+0.5*v.cpT[i]*dT) - theta*dDT
+			fT := m*(cs+0.5*v.cpT[i]*dT) - theta*dDT - theta*s.w[i]*v.PT[i]
 			fA := m*0.5*v.cpA[i]*dT - hw - theta*dDA - theta*s.w[i]*v.PA[i]
 			s.di[i] = fT - fA*pj[i]
 			s.rhs[i] = -F + fA*sj[i]
