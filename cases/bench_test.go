@@ -38,6 +38,7 @@ func benchRun(b *testing.B, name string) {
 
 func BenchmarkBenchConduction(b *testing.B) { benchRun(b, "conduction.toml") }
 func BenchmarkBenchPotting(b *testing.B)    { benchRun(b, "potting.toml") }
+func BenchmarkBenchVolumetric(b *testing.B) { benchRun(b, "volumetric.toml") }
 
 // TestWorkPrecision runs the coupled bench case at tolerances from loose to
 // tight against a very fine reference run on the same mesh and prints the

@@ -96,6 +96,7 @@ type stepper struct {
 	integral float64 // controller integral, K·s
 	tauTop   []float64
 	tauBot   []float64
+	tauCell  []float64
 }
 
 func newStepper(p *Problem) *stepper {
@@ -130,7 +131,7 @@ func newStepper(p *Problem) *stepper {
 		for i := range n {
 			s.diel[i] = p.Materials[m.Owner[i]].Dielectric
 		}
-		s.tauTop, s.tauBot = f(), f()
+		s.tauTop, s.tauBot, s.tauCell = f(), f(), f()
 	}
 	s.T, s.A, s.Tn, s.An = f(), f(), f(), f()
 	s.lo, s.di, s.up, s.rhs, s.cp = f(), f(), f(), f(), f()
@@ -236,22 +237,24 @@ func (s *stepper) power(lv *level, T, A []float64) {
 		return s.w[i] / physics.PenetrationDepth(v.Frequency, d.Permittivity, eps2)
 	}
 	// tauTop[i]: optical depth from the top face to the top of cell i;
-	// tauBot[i]: from the bottom face to the bottom of cell i.
+	// tauBot[i]: from the bottom face to the bottom of cell i; tauCell[i]:
+	// through cell i.
 	acc := 0.0
 	for i := range n {
+		s.tauCell[i] = cellTau(i)
 		s.tauTop[i] = acc
-		acc += cellTau(i)
+		acc += s.tauCell[i]
 	}
 	acc = 0
 	for i := n - 1; i >= 0; i-- {
 		s.tauBot[i] = acc
-		acc += cellTau(i)
+		acc += s.tauCell[i]
 	}
 	for i := range n {
 		if lv.P[i] == 0 && lv.PA[i] == 0 && lv.PT[i] == 0 {
 			continue
 		}
-		ti := cellTau(i)
+		ti := s.tauCell[i]
 		share := 1.0 // (1 − e^{−τ_cell})/τ_cell, the cell-average of the decay
 		if ti > 1e-8 {
 			share = -math.Expm1(-ti) / ti
