@@ -17,7 +17,7 @@ import (
 
 var fitCmd = &Command{
 	Name:  "fit",
-	Args:  "SCAN.csv... [--model M] [--diffusion] [--name NAME] [-o FILE]",
+	Args:  "SCAN.csv... [--model M] [--diffusion] [--name NAME] [-o FILE] [--plot FILE.html]",
 	Short: "kinetic parameters from DSC scans",
 	Long: `Read DSC scans (CSV with the header time_s,temperature_C,heat_flow_W_per_g,
 heat flow exothermic positive), one file per scan: dynamic scans at several
@@ -33,7 +33,9 @@ integrate to the total heat and the degree of cure, and report:
   - warnings where the scans fall short of the ICTAC Kinetics Committee
     recommendations (at least 3 heating rates spanning about a factor 10;
     an activation energy that varies with alpha);
-  - the [materials.NAME.cure] block, ready to paste into a case file.
+  - the [materials.NAME.cure] block, ready to paste into a case file;
+  - with --plot FILE.html, a page with the measured and fitted rates of
+    cure of every scan and Friedman's activation energy against alpha.
 With a single temperature program no model is fitted (exit status 2), but
 everything else is reported. --diffusion needs isothermal scans at two or
 more temperatures that stop short of full cure (vitrification).
@@ -49,6 +51,7 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 		onset := fs.String("onset", "", "start of the integration window of dynamic scans, a temperature `T` such as \"40 C\" (default: detected)")
 		end := fs.String("end", "", "end of the integration window of dynamic scans, a temperature `T` (default: detected)")
 		out := fs.StringP("out", "o", "", "also write the [materials.NAME.cure] block to `FILE`")
+		plotFile := fs.String("plot", "", "also write a page of the measured and fitted rates and E(alpha) to `FILE.html`")
 		return func(e *env, args []string) int {
 			if len(args) == 0 {
 				return e.usageError("expects one or more scan files, got none")
@@ -85,6 +88,11 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 					return e.usageError("%s", msg)
 				}
 			}
+			if *plotFile != "" {
+				if msg := checkOutFile(*plotFile); msg != "" {
+					return e.usageError("%s", msg)
+				}
+			}
 			var scans []*dsc.Scan
 			var bad []string
 			for _, path := range args {
@@ -117,6 +125,13 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 			if err := cases.PrintFit(e.stdout, an, *name); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab fit: %v\n", err)
 				return exitUsage
+			}
+			if *plotFile != "" {
+				if err := cases.WriteFitPlot(*plotFile, an, *name); err != nil {
+					fmt.Fprintf(e.stderr, "cureslab fit: %v\n", err)
+					return exitUsage
+				}
+				fmt.Fprintf(e.stdout, "\nplot written to %s\n", *plotFile)
 			}
 			if an.FitRefused != "" {
 				fmt.Fprintf(e.stderr, "cureslab fit: no model fitted: %s\n", an.FitRefused)

@@ -45,6 +45,12 @@ the finished runs; the final summary.csv is byte-identical to that of an
 uninterrupted sweep. DIR/sweep.json records the sweep; a different sweep into
 the same DIR is refused. Wall times and hosts go to DIR/sweep.log only.
 
+Report: DIR/report.html (unless --no-report) shows, for two keys of a grid,
+process-window maps of min_final_cure and peak_temperature_C with the runs
+that did not pass crossed; for one key, both against it; otherwise a table
+of the runs, the smallest criterion margin first. A shard's report shows
+its own runs.
+
 Clusters: --shard I/N runs the runs whose index is I mod N (I from 0), one
 shard per array task, each into its own DIR; --shard slurm reads
 SLURM_ARRAY_TASK_ID and SLURM_ARRAY_TASK_COUNT, --shard k8s reads
@@ -70,6 +76,7 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 		shard := fs.String("shard", "", "run one shard: `I/N` (0-based), slurm, or k8s (with --shards)")
 		shards := fs.Int("shards", 0, "`N` shards, with --shard k8s")
 		keep := fs.Bool("keep-fields", false, "also write each run's output files to DIR/runs/NNNNN/")
+		noReport := fs.Bool("no-report", false, "do not write DIR/report.html")
 		out := fs.StringP("out", "o", "", "write the sweep to `DIR` (default ./CASE-sweep)")
 		return func(e *env, args []string) int {
 			if len(args) != 1 {
@@ -128,6 +135,13 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 			fmt.Fprintf(e.stdout, ": %d ok, %d criteria-failed, %d runaway, %d failed\n",
 				rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed)
 			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(dir, cases.SweepSummaryFile))
+			if !*noReport && !rep.Interrupted {
+				if err := cases.WriteSweepReport(dir, "Sweep of "+s.Name, sweepCriteria(s)); err != nil {
+					fmt.Fprintf(e.stderr, "cureslab sweep: report: %v\n", err)
+				} else {
+					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(dir, cases.SweepReportFile))
+				}
+			}
 			if rep.Repaired {
 				fmt.Fprintf(e.stderr, "cureslab sweep: the last record of %s was cut short (a crash?); that run was done again\n",
 					filepath.Join(dir, cases.SweepJournalFile))
@@ -141,6 +155,17 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 			return sweepExit(rep.Done < rep.Runs, rep.CriteriaFailed, rep.Runaway+rep.Failed)
 		}
 	},
+}
+
+// sweepCriteria returns the criteria of the first run whose case is valid,
+// for the order of the report's tables; nil when no run's case is.
+func sweepCriteria(s *cases.Sweep) *cases.Criteria {
+	for r := range s.Runs {
+		if c, err := s.Case(r); err == nil {
+			return &c.Criteria
+		}
+	}
+	return nil
 }
 
 // exitInterrupted is the exit status of a sweep stopped by Ctrl-C or
