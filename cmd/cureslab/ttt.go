@@ -14,7 +14,7 @@ import (
 
 var tttCmd = &Command{
 	Name:  "ttt",
-	Args:  "CASE.toml --material NAME [--from T --to T --step DT] [--cure X] [-o FILE]",
+	Args:  "CASE.toml --material NAME [--from T --to T --step DT] [--cure X] [-o FILE] [--plot FILE.html]",
 	Short: "isothermal time-temperature-transformation table",
 	Long: `For each isothermal cure temperature, the time from the case's initial cure
 to gelation (gel_point), to vitrification (the glass transition Tg(alpha) of
@@ -23,7 +23,10 @@ the DiBenedetto relation reaching the cure temperature; needs a
 default criteria.min_cure of the case, else 0.95), with the material's
 diffusion factor. Prints the table and writes it as CSV with the columns
 temperature_C,gel_time_s,vitrification_time_s,time_to_<cure>_s to FILE
-(default ./CASE-ttt.csv); a state never reached is an empty field.
+(default ./CASE-ttt.csv); a state never reached is an empty field. With
+--plot FILE.html, also a self-contained page with the TTT diagram: cure
+temperature against time on a log axis, a curve for each state, the states
+never reached left out.
 
 The default temperatures run from max(Tg0, 20 C) to Tg_full + 20 K, or
 around the hottest temperature of the case's programs without a glass
@@ -31,7 +34,8 @@ transition.
 
 Exit status: 0 written, 2 bad input.`,
 	Example: `cureslab ttt potting.toml --material potting-resin-A
-cureslab ttt potting.toml --material potting-resin-A --from 40C --to 160C --step 10K --cure 0.9 -o ttt.csv`,
+cureslab ttt potting.toml --material potting-resin-A --from 40C --to 160C --step 10K --cure 0.9 -o ttt.csv
+cureslab ttt potting.toml --material potting-resin-A --plot ttt.html`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		material := fs.String("material", "", "the curing material `NAME` (required)")
 		from := fs.String("from", "", "lowest cure temperature `T`, such as \"60 C\"")
@@ -39,6 +43,7 @@ cureslab ttt potting.toml --material potting-resin-A --from 40C --to 160C --step
 		step := fs.String("step", "", "temperature step `DT`, such as \"5 K\"")
 		target := fs.Float64("cure", 0, "target degree of cure `X` in (0, 1] (default criteria.min_cure, else 0.95)")
 		out := fs.StringP("out", "o", "", "write the CSV table to `FILE` (default ./CASE-ttt.csv)")
+		plotFile := fs.String("plot", "", "also write a page with the TTT diagram to `FILE.html`")
 		return func(e *env, args []string) int {
 			if len(args) != 1 {
 				return e.usageError("expects one case file, got %d arguments", len(args))
@@ -74,6 +79,11 @@ cureslab ttt potting.toml --material potting-resin-A --from 40C --to 160C --step
 			if msg := checkOutFile(path); msg != "" {
 				return e.usageError("%s", msg)
 			}
+			if *plotFile != "" {
+				if msg := checkOutFile(*plotFile); msg != "" {
+					return e.usageError("%s", msg)
+				}
+			}
 			c, err := cases.Load(args[0])
 			if err != nil {
 				fmt.Fprintln(e.stderr, err)
@@ -95,6 +105,13 @@ cureslab ttt potting.toml --material potting-resin-A --from 40C --to 160C --step
 				return exitUsage
 			}
 			fmt.Fprintf(e.stdout, "table written to %s\n", path)
+			if *plotFile != "" {
+				if err := cases.WriteTTTPlot(*plotFile, t); err != nil {
+					fmt.Fprintf(e.stderr, "cureslab ttt: %v\n", err)
+					return exitUsage
+				}
+				fmt.Fprintf(e.stdout, "plot written to %s\n", *plotFile)
+			}
 			return exitOK
 		}
 	},
