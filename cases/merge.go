@@ -21,7 +21,7 @@ type MergeReport struct {
 	Rows    int   // runs found in the directories
 	Missing []int // runs found in none, in order
 	// Statuses of the rows found: they add up to Rows.
-	OK, CriteriaFailed, Runaway, Failed int
+	StatusCounts
 	// Conflicts counts runs committed in several directories with rows
 	// that differ (the first directory given wins). Runs of one sweep are
 	// deterministic on one machine; a conflict means the shards ran on
@@ -97,16 +97,7 @@ func MergeSweeps(out string, dirs []string, allowMissing bool) (MergeReport, err
 			rep.Missing = append(rep.Missing, r)
 			continue
 		}
-		switch rec[statusCol] {
-		case StatusOK:
-			rep.OK++
-		case StatusCriteriaFailed:
-			rep.CriteriaFailed++
-		case StatusRunaway:
-			rep.Runaway++
-		default:
-			rep.Failed++
-		}
+		rep.add(rec[statusCol])
 	}
 	if len(rep.Missing) > 0 && !allowMissing {
 		return rep, &sweepError{kind: ErrSweepIncomplete, msg: fmt.Sprintf(

@@ -108,13 +108,32 @@ type SweepOptions struct {
 	afterCommit func(done int)
 }
 
+// StatusCounts counts runs by status (SPEC §5).
+type StatusCounts struct {
+	OK, CriteriaFailed, Runaway, Failed int
+}
+
+// add counts one run of the given status; anything unforeseen is a failure.
+func (c *StatusCounts) add(status string) {
+	switch status {
+	case StatusOK:
+		c.OK++
+	case StatusCriteriaFailed:
+		c.CriteriaFailed++
+	case StatusRunaway:
+		c.Runaway++
+	default:
+		c.Failed++
+	}
+}
+
 // SweepReport is the outcome of Sweep.Run over the runs of its shard.
 type SweepReport struct {
 	Runs    int // runs of the shard
 	Done    int // of them, committed in the directory (including Resumed)
 	Resumed int // of Done, committed by an earlier run of the same sweep
 	// Statuses of the committed runs (SPEC §5): they add up to Done.
-	OK, CriteriaFailed, Runaway, Failed int
+	StatusCounts
 	// Repaired reports that the journal ended in a record cut short (a
 	// crash while committing) or damaged: it was cut off and its runs are
 	// done again.
@@ -176,18 +195,7 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 	rep.Repaired = j.repaired
 
 	statusCol := len(header) - 2
-	count := func(rec []string) {
-		switch rec[statusCol] {
-		case StatusOK:
-			rep.OK++
-		case StatusCriteriaFailed:
-			rep.CriteriaFailed++
-		case StatusRunaway:
-			rep.Runaway++
-		default:
-			rep.Failed++
-		}
-	}
+	count := func(rec []string) { rep.add(rec[statusCol]) }
 	var todo []int
 	for r := opt.Shard; r < s.Runs; r += shards {
 		rep.Runs++
