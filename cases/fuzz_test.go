@@ -7,6 +7,7 @@ package cases
 //	FuzzUnitsRoundTrip  units.Parse against formatting in SI and other units
 //	FuzzScheduleCSV     the schedule-log CSV reader, through Parse
 //	FuzzScanCSV         the DSC scan reader (ParseScan), with a WriteScan round trip
+//	FuzzCaseValues      the values of a valid case: ranges, and the solver behind them
 //
 // `go test` runs the seeds (the files below testdata/good, testdata/bad,
 // cases/examples and cases/testdata/fuzz/<Target>/); long runs are
@@ -20,6 +21,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -345,12 +347,9 @@ func fzCheckSnapshots(t testing.TB, c *Case, r *solver.Result) {
 	}
 }
 
-// fzKnownFailures reports whether the properties that known failures
-// (reported to the lead, see the adversarial tests) break are checked too:
-// set CURESLAB_KNOWN_FAILURES=1. Off by default, so that CI runs the seeds
-// green and long fuzzing runs look for new failures instead of stopping at
-// the known ones.
-func fzKnownFailures() bool { return os.Getenv("CURESLAB_KNOWN_FAILURES") != "" }
+// fzKnownFailures reports whether the properties that once-known failures
+// broke are checked: always, since those failures were fixed.
+func fzKnownFailures() bool { return true }
 
 // fzHangLimit is the wall time one fuzz input may take before the fzWatchdog
 // declares a hang. Go's fuzzing engine has no limit of its own: a hung
@@ -867,5 +866,94 @@ func FuzzScanCSV(f *testing.F) {
 					i, s.Time[i], s.Temp[i], s.HeatFlow[i], s2.Time[i], s2.Temp[i], s2.HeatFlow[i])
 			}
 		}
+	})
+}
+
+// fzValuesCase is a valid two-layer case (a curing resin on a plate, oven
+// above, platen below) whose numbers FuzzCaseValues replaces; the units
+// stay, so that almost every input is well formed.
+const fzValuesCase = `[initial]
+temperature = "%v C"
+cure = %v
+
+[time]
+end = "%v s"
+
+[[layer]]
+name = "resin"
+material = "fz-resin"
+thickness = "%v mm"
+
+[[layer]]
+name = "plate"
+material = "aluminium"
+thickness = "%v mm"
+contact_resistance = "%v m^2*K/W"
+
+[materials.fz-resin]
+density = "1150 kg/m^3"
+specific_heat = "1500 J/kg/K"
+conductivity = "%v W/m/K"
+
+[materials.fz-resin.cure]
+model = "autocatalytic"
+total_heat = "%v J/g"
+A1 = "%v 1/s"
+E1 = "%v kJ/mol"
+A2 = "6e5 1/s"
+E2 = "58 kJ/mol"
+m = 0.45
+n = %v
+
+[schedules.oven]
+start = "23 C"
+segments = [{ ramp = "%v C/min", to = "150 C" }, { hold = "30 min" }]
+
+[top]
+kind = "convection"
+h = "%v W/m^2/K"
+air = "oven"
+
+[bottom]
+kind = "fixed"
+temperature = "%v C"
+
+[output]
+probes = ["%v mm"]
+`
+
+// FuzzCaseValues fuzzes the numbers, not the structure, of a valid case:
+// each of the 15 numbers of fzValuesCase (temperatures, times, thicknesses,
+// conductivity, contact resistance, kinetics, ramp, h, probe depth) is a
+// fuzzed float64 written with its unit, so that almost every input reaches
+// the range checks and every accepted one the solver. Properties as
+// FuzzParseResolved: a rejection is positioned; an accepted case is
+// consistent and deterministic, passes Check, and a 20 ms run keeps every
+// value finite.
+func FuzzCaseValues(f *testing.F) {
+	f.Add(23.0, 0.0, 10800.0, 4.0, 2.0, 2e-4, 0.2, 400.0, 2e4, 62.0, 1.6, 2.0, 20.0, 23.0, 4.0)
+	f.Add(23.0, 0.999, 5.0, 0.001, 50.0, 1.0, 0.004, 420.0, 3.3e9, 50.0, 0.0, 1000.0, 1e6, 180.0, 0.001)
+	f.Add(126.85, 0.5, 360000.0, 10.0, 0.1, 0.0, 401.0, 0.0, 1e-30, 0.0, 3.0, 0.01, 1e-3, -273.0, 10.1)
+	f.Fuzz(func(t *testing.T, T0, cure, end, th1, th2, rc, k, heat, A1, E1, n, ramp, h, Tbot, probe float64) {
+		data := []byte(fmt.Sprintf(fzValuesCase, T0, cure, end, th1, th2, rc, k, heat, A1, E1, n, ramp, h, Tbot, probe))
+		defer fzWatchdog(fzHangLimit, data)()
+		c, err := Parse("values.toml", data, "")
+		if err != nil {
+			list := fzCheckErrors(t, err, "values.toml", data, nil)
+			fzCheckUnknownKeyLines(t, list, data)
+			return
+		}
+		fzCheckResolved(t, c)
+		c2, err := Parse("values.toml", data, "")
+		if err != nil {
+			t.Fatalf("second parse fails: %v", err)
+		}
+		if ok, where := fzSameModel(reflect.ValueOf(c), reflect.ValueOf(c2), "Case"); !ok {
+			t.Fatalf("second parse resolves a different model at %s", where)
+		}
+		if err := Check(io.Discard, c); err != nil {
+			t.Fatalf("Check: %v", err)
+		}
+		fzShortRun(t, c, 20*time.Millisecond)
 	})
 }

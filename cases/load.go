@@ -158,6 +158,17 @@ func (l *loader) build(doc map[string]any) *Case {
 		return nil
 	}
 	p.Mesh = m
+	{
+		// A depth typed as a layer face ("0.4 mm") may differ by rounding
+		// from the face the mesh built by adding thicknesses: put it on the
+		// face, so that it reads the upper layer's side (SPEC §10).
+		for i, z := range p.Probes {
+			p.Probes[i] = snapToLayerFace(p.Mesh, z)
+		}
+		if vol != nil && vol.vol.Control != nil {
+			vol.vol.Control.Sensor = snapToLayerFace(p.Mesh, vol.vol.Control.Sensor)
+		}
+	}
 	p.Top, p.Bottom = top.face, bottom.face
 	c.TopAir, c.BottomAir = top.driver, bottom.driver
 	c.Materials = make(map[string]*physics.Material)
@@ -259,4 +270,16 @@ func lastKeyBefore(text string, line, col int) string {
 		}
 	}
 	return best
+}
+
+// snapToLayerFace returns the depth of the layer face of m within rounding
+// (1e-9 of the thinner neighbouring cell) of z, or z itself.
+func snapToLayerFace(m *mesh.Mesh, z float64) float64 {
+	for j := 1; j < len(m.Layers); j++ {
+		f := m.First[j]
+		if math.Abs(z-m.Faces[f]) <= 1e-9*min(m.Widths[f-1], m.Widths[f]) {
+			return m.Faces[f]
+		}
+	}
+	return z
 }

@@ -37,7 +37,22 @@ func (l *loader) atValue(key string, kind error, format string, args ...any) *Er
 
 // atKey records an error positioned at the key path key.
 func (l *loader) atKey(key string, kind error, format string, args ...any) *Error {
-	return l.add(l.loc.key(key), key, kind, nil, fmt.Sprintf(format, args...))
+	at := l.loc.key(key)
+	if at.Line == 0 {
+		// The locator keeps no position for some keys (an empty table
+		// name, [""]): take the first entry in the text whose path ends in
+		// the same last segment, or the first entry at all.
+		last := lastKey(key)
+		for _, e := range l.loc.all {
+			if at.Line == 0 || lastKey(e.path) == last {
+				at = e.at
+				if lastKey(e.path) == last {
+					break
+				}
+			}
+		}
+	}
+	return l.add(at, key, kind, nil, fmt.Sprintf(format, args...))
 }
 
 // table is a TOML table of the case being read.

@@ -155,23 +155,36 @@ func (l *loader) meshOptions(root *table) mesh.Options {
 
 // checkCells reports a mesh too large to hold, before it is built.
 func (l *loader) checkCells(layers []layerDef, opt mesh.Options) bool {
-	total := 0.0
-	for _, d := range layers {
-		if d.geom.Cells > 0 {
-			total += float64(d.geom.Cells)
-			continue
+	total, most, biggest := 0.0, 0.0, 0
+	for j, d := range layers {
+		n := float64(d.geom.Cells)
+		if d.geom.Cells <= 0 {
+			maxCell := opt.MaxCell
+			if maxCell <= 0 {
+				maxCell = mesh.DefaultMaxCell
+			}
+			n = max(4, math.Ceil(d.geom.Thickness/maxCell))
 		}
-		maxCell := opt.MaxCell
-		if maxCell <= 0 {
-			maxCell = mesh.DefaultMaxCell
+		total += n
+		if n > most {
+			most, biggest = n, j
 		}
-		total += max(4, math.Ceil(d.geom.Thickness/maxCell))
 	}
 	if total <= maxCells {
 		return true
 	}
+	// Point at what asks for the cells: [mesh] max_cell when the case sets
+	// it, else the layer with the most cells (its cells or thickness).
 	key := "mesh.max_cell"
-	l.add(l.loc.value(key), key, ErrRange, nil, fmt.Sprintf("the mesh would have %.0f cells; at most %d", total, maxCells)).Hint =
+	at := l.loc.value(key)
+	if at.Line == 0 {
+		key = fmt.Sprintf("layer.%d.cells", biggest)
+		if at = l.loc.value(key); at.Line == 0 {
+			key = fmt.Sprintf("layer.%d.thickness", biggest)
+			at = l.loc.value(key)
+		}
+	}
+	l.add(at, key, ErrRange, nil, fmt.Sprintf("the mesh would have %.0f cells; at most %d", total, maxCells)).Hint =
 		"give a larger [mesh] max_cell or fewer cells per layer"
 	return false
 }
@@ -241,6 +254,10 @@ func (l *loader) timing(root *table, p *solver.Problem, programEnd, T0 float64) 
 			l.rangeErr(t.keyPath("abort_temperature"), t.m["abort_temperature"], "abort_temperature must be above the initial temperature (%s)", celsius(T0))
 		}
 		p.AbortTemperature = a
+	} else if T0 >= p.AbortTemperature {
+		at := "initial.temperature"
+		l.add(l.loc.value(at), at, ErrRange, nil, fmt.Sprintf("the initial temperature %s is at or above the runaway limit %s (the default of time.abort_temperature)",
+			celsius(T0), celsius(p.AbortTemperature))).Hint = "set [time] abort_temperature above the initial temperature, for example abort_temperature = \"500 C\""
 	}
 	if !hasEnd {
 		return 0

@@ -81,6 +81,19 @@ func normalise(p *Problem) (*Problem, error) {
 	if !(p.InitialCure >= 0 && p.InitialCure < 1) {
 		return nil, fmt.Errorf("%w: initial cure %g outside [0, 1)", ErrProblem, p.InitialCure)
 	}
+	for _, f := range []*physics.Face{&p.Top, &p.Bottom} {
+		if !finite(f.H) || f.H < 0 || !(f.Emissivity >= 0 && f.Emissivity <= 1) {
+			return nil, fmt.Errorf("%w: face coefficient h = %g, emissivity %g", ErrProblem, f.H, f.Emissivity)
+		}
+		for _, sch := range []*physics.Schedule{&f.Air, &f.Set, &f.Flux} {
+			ts, vs := sch.Points()
+			for k := range ts {
+				if !finite(ts[k]) || !finite(vs[k]) {
+					return nil, fmt.Errorf("%w: a %s face's program has a point that is not finite (%g s, %g)", ErrProblem, f.Kind, ts[k], vs[k])
+				}
+			}
+		}
+	}
 	q := *p
 	if q.TemperatureTolerance == 0 {
 		q.TemperatureTolerance = DefaultTemperatureTolerance
@@ -218,7 +231,8 @@ func (s *stepper) run(ctx context.Context) *Result {
 // advance allocates nothing.
 func (s *stepper) advance(target float64) (bool, error) {
 	p, tr := s.p, s.tr
-	minStep := 1e-9 * max(1, p.End)
+	// The smallest usable step: a few rounding units of the time itself.
+	minStep := 64 * eps * max(s.t, 1)
 	hTry := min(s.h, p.MaxStep)
 	landing := false
 	switch rem := target - s.t; {
@@ -248,6 +262,25 @@ func (s *stepper) advance(target float64) (bool, error) {
 			return false, &StepError{Time: s.t, Step: hTry, Reason: "Newton's iteration did not converge even for tiny steps"}
 		}
 		return false, nil
+	}
+	// Only an imposed heat flux can pull heat out without limit: a case
+	// that asks for more cooling than the part holds ends here, with the
+	// last physical state kept (cells and face temperatures above 1 K).
+	cold, where := math.Min(s.cur.tfTop, s.cur.tfBot), -1.0
+	if s.cur.tfTop < s.cur.tfBot {
+		where = 0
+	} else {
+		where = p.Mesh.Thickness()
+	}
+	for i, T := range s.Tn {
+		if T < cold || T != T {
+			cold, where = T, p.Mesh.Centers[i]
+		}
+	}
+	if !(cold > minTemperature) {
+		return false, &StepError{Time: s.t, Step: hTry, Reason: fmt.Sprintf(
+			"the temperature at depth %.6g mm would fall to %.6g K, near or below absolute zero: the heat drawn out (an imposed flux?) exceeds what the part holds",
+			where*1e3, cold)}
 	}
 	ratio, order := s.errorRatio(tNew-s.t, theta == 0.5)
 	if ratio > 1 {
@@ -333,6 +366,16 @@ func (s *stepper) events() []float64 {
 func (s *stepper) initialStep(firstEvent float64) float64 {
 	p := s.p
 	h := min(firstEvent, p.MaxStep, 60.0)
+	// A ramping air or platen temperature moves the face cells even when
+	// nothing moves at t = 0: bound the step by the drivers' initial slopes.
+	for _, f := range []*physics.Face{&p.Top, &p.Bottom} {
+		if d, ok := f.Driver(); ok {
+			dt := 1e-9 * max(p.End, 1)
+			if slope := math.Abs(d.At(dt)-d.At(0)) / dt; slope > 0 {
+				h = min(h, p.TemperatureTolerance/slope)
+			}
+		}
+	}
 	for i := range s.n {
 		rate := math.Abs(s.old.D[i]+s.heat[i]*s.w[i]*s.old.r[i]+s.w[i]*s.old.P[i]) / (s.rho[i] * s.old.cp[i] * s.w[i])
 		if rate > 0 {
@@ -342,7 +385,7 @@ func (s *stepper) initialStep(firstEvent float64) float64 {
 			h = min(h, p.CureTolerance/s.old.r[i])
 		}
 	}
-	return max(h, 1e-6)
+	return max(h, 64*eps)
 }
 
 func maxAt(x []float64) (float64, int) {
@@ -354,3 +397,9 @@ func maxAt(x []float64) (float64, int) {
 	}
 	return m, k
 }
+
+// minTemperature is the lowest temperature a run accepts, K: below it the
+// case asks for the impossible (material data end far above it anyway).
+const minTemperature = 1.0
+
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
