@@ -23,8 +23,10 @@ demo:
 
 # Long fuzzing, one target at a time (not part of CI, which runs the seeds).
 fuzz:
-	$(GO) test ./cases/units -run '^$$' -fuzz FuzzParse -fuzztime $(FUZZTIME)
-	$(GO) test ./cases -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME)
+	$(GO) test ./cases/units -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME)
+	for t in FuzzParseResolved FuzzCaseValues FuzzScheduleCSV FuzzScanCSV FuzzUnitsRoundTrip FuzzParseScan FuzzFieldsRoundTrip; do \
+		$(GO) test ./cases -run '^$$' -fuzz "^$$t\$$" -fuzztime $(FUZZTIME) -parallel 1 || exit 1; \
+	done
 
 clean:
 	rm -rf cureslab-demo
