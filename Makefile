@@ -25,7 +25,7 @@ demo:
 fuzz:
 	$(GO) test ./cases/units -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME)
 	for t in FuzzParseResolved FuzzCaseValues FuzzScheduleCSV FuzzScanCSV FuzzUnitsRoundTrip FuzzParseScan FuzzFieldsRoundTrip; do \
-		$(GO) test ./cases -run '^$$' -fuzz "^$$t\$$" -fuzztime $(FUZZTIME) -parallel 1 || exit 1; \
+		$(GO) test ./cases -run '^$$' -fuzz "^$$t\$$" -fuzztime $(FUZZTIME) -fuzzminimizetime 10s -parallel 1 || exit 1; \
 	done
 
 clean:

@@ -800,3 +800,33 @@ func TestAdversarialCasesEmptyTableName(t *testing.T) {
 		}
 	}
 }
+
+// TestAdversarialCasesTooManyCells: a 28 m layer (a unit slip: "28000 mm"
+// for 28 mm) needs 112 000 cells at the default 0.25 mm. The loader refuses
+// it — and must say where: on the thickness that asks for the cells, since
+// the case has no [mesh] section to point at (found by FuzzCaseValues).
+func TestAdversarialCasesTooManyCells(t *testing.T) {
+	advKnown(t, "\"the mesh would have N cells\" has no position when the case has no [mesh] section")
+	text := `
+[initial]
+temperature = "23 C"
+[time]
+end = "1 h"
+[[layer]]
+name = "slab"
+material = "epoxy-cured"
+thickness = "28000 mm"
+[top]
+kind = "insulated"
+[bottom]
+kind = "insulated"
+`
+	_, err := Parse("big.toml", []byte(text), "")
+	var list ErrorList
+	if !errors.As(err, &list) || len(list) == 0 {
+		t.Fatalf("a 28 m layer at 0.25 mm cells was accepted: %v", err)
+	}
+	if e := list[0]; e.Line < 1 || !errors.Is(e, ErrRange) {
+		t.Errorf("refused without a position: %v (line %d)", e, e.Line)
+	}
+}

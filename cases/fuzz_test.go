@@ -101,9 +101,6 @@ func fzCheckErrors(t *testing.T, err error, name string, data []byte, other map[
 			t.Errorf("negative position: %#v", e)
 		case e.Line > lines:
 			t.Errorf("line %d beyond the %d lines of %s: %v", e.Line, lines, e.File, e)
-		case e.Line == 0 && e.Key == "" && errors.Is(e, ErrUnknownKey) && !fzKnownFailures():
-			// Known failure, reported to the lead: a table named "" ([""],
-			// [[""]]) is reported without a position.
 		case e.Line == 0 && !errors.Is(e, ErrMissing) && !(e.File != name && strings.Contains(e.Err.Error(), "more errors")):
 			t.Errorf("error without a position (only missing sections may have none): %v", e)
 		}
@@ -282,9 +279,7 @@ func fzCheckResolved(t *testing.T, c *Case) {
 	if !(p.InitialTemperature > 0) || !(p.InitialCure >= 0 && p.InitialCure < 1) {
 		t.Errorf("initial state %g K, cure %g", p.InitialTemperature, p.InitialCure)
 	}
-	if !(p.AbortTemperature > p.InitialTemperature) && fzKnownFailures() {
-		// Known failure, reported to the lead: an initial temperature above
-		// the default abort temperature (400 C) is accepted.
+	if !(p.AbortTemperature > p.InitialTemperature) {
 		t.Errorf("abort temperature %g K is not above the initial temperature %g K: the run would stop at its first step", p.AbortTemperature, p.InitialTemperature)
 	}
 	if !(p.MaxStep >= 0) || !(p.TemperatureTolerance >= 0) || !(p.CureTolerance >= 0 && p.CureTolerance < 1) {
@@ -328,9 +323,7 @@ func fzCheckSnapshots(t testing.TB, c *Case, r *solver.Result) {
 	m := c.Problem.Mesh
 	for _, s := range r.Snapshots {
 		for i, T := range s.T {
-			// Known failure, reported to the lead: a cooling flux drives
-			// temperatures below 0 K (checked only with CURESLAB_KNOWN_FAILURES).
-			if math.IsNaN(T) || math.IsInf(T, 0) || T <= 0 && fzKnownFailures() {
+			if math.IsNaN(T) || math.IsInf(T, 0) || T <= 0 {
 				t.Fatalf("t = %g s, cell %d: T = %g K (status %v, %v)", s.Time, i, T, r.Status, r.Err)
 			}
 			curing := c.Problem.Materials[m.Owner[i]].Cure != nil
@@ -346,10 +339,6 @@ func fzCheckSnapshots(t testing.TB, c *Case, r *solver.Result) {
 		}
 	}
 }
-
-// fzKnownFailures reports whether the properties that once-known failures
-// broke are checked: always, since those failures were fixed.
-func fzKnownFailures() bool { return true }
 
 // fzHangLimit is the wall time one fuzz input may take before the fzWatchdog
 // declares a hang. Go's fuzzing engine has no limit of its own: a hung

@@ -135,7 +135,11 @@ func crossing(t, h float64, prev []float64, i int, a, level float64) float64 {
 // finish fills the end-of-run fields of the summary.
 func (tr *tracker) finish(s *stepper, l *Ledger) {
 	sum := &tr.sum
-	sum.EnergyBalanceError = l.BalanceError()
+	capacity := 0.0 // J/(m²·K), at the final state
+	for i := range s.n {
+		capacity += s.rho[i] * s.old.cp[i] * s.w[i]
+	}
+	sum.EnergyBalanceError = l.BalanceError(capacity * 1e-3)
 	if !s.curing {
 		return
 	}
