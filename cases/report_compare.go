@@ -346,17 +346,9 @@ func compareProfileFigure(names []string, ds []*runData) (string, error) {
 		}
 	}
 	return svgFigure(figWidth, profileHeight, "comparison of final profiles", func(dc draw.Canvas) error {
-		pT := newPlot("temperature (°C)", "depth (mm)")
-		invertDepth(pT, L)
-		addGrid(pT)
-		plots := []*plot.Plot{pT}
-		var pA *plot.Plot
-		if withCure {
-			pA = newPlot("degree of cure (–)", "depth (mm)")
-			invertDepth(pA, L)
-			addGrid(pA)
+		pT, pA, plots := profilePlots(L, withCure)
+		if pA != nil {
 			pA.X.Min, pA.X.Max = 0, 1
-			plots = append(plots, pA)
 		}
 		leg := newLegend()
 		var lines [][]float64

@@ -426,17 +426,7 @@ func profileFigure(d *runData, ts timeScale) (string, string, error) {
 	caption += " through the thickness at five output times spread evenly over the run, and at the output time nearest the peak (thick line). " +
 		"Depth 0 is the top face; dotted lines: faces between layers."
 	svg, err := svgFigure(figWidth, profileHeight, "profiles through the thickness", func(dc draw.Canvas) error {
-		pT := newPlot("temperature (°C)", "depth (mm)")
-		invertDepth(pT, L)
-		addGrid(pT)
-		plots := []*plot.Plot{pT}
-		var pA *plot.Plot
-		if withCure {
-			pA = newPlot("degree of cure (–)", "depth (mm)")
-			invertDepth(pA, L)
-			addGrid(pA)
-			plots = append(plots, pA)
-		}
+		pT, pA, plots := profilePlots(L, withCure)
 		var sel [][]float64
 		for _, k := range idx {
 			sel = append(sel, d.T[k])
@@ -669,4 +659,21 @@ func (t *limitTag) Plot(c draw.Canvas, p *plot.Plot) {
 		tg.YAlign, tg.DY = draw.YBottom, vg.Points(3)
 	}
 	tg.Plot(c, p)
+}
+
+// profilePlots returns the empty plots of profiles through a stack of
+// thickness L (mm): temperature, and degree of cure when withCure (else nil),
+// depth downward, with grids; plots lists them left to right.
+func profilePlots(L float64, withCure bool) (pT, pA *plot.Plot, plots []*plot.Plot) {
+	pT = newPlot("temperature (°C)", "depth (mm)")
+	invertDepth(pT, L)
+	addGrid(pT)
+	plots = []*plot.Plot{pT}
+	if withCure {
+		pA = newPlot("degree of cure (–)", "depth (mm)")
+		invertDepth(pA, L)
+		addGrid(pA)
+		plots = append(plots, pA)
+	}
+	return pT, pA, plots
 }
