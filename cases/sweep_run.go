@@ -337,6 +337,8 @@ func (s *Sweep) runOne(ctx context.Context, r int, dir string, keep bool, width 
 	if err != nil {
 		return failed(flattenErrors(err))
 	}
+	// Without kept fields the row needs only the summary.
+	c.Problem.NoFields = !keep
 	res, err := solver.Run(ctx, c.Problem)
 	if err != nil {
 		return failed(err.Error())

@@ -736,6 +736,7 @@ func (t *tuner) run1(c *Candidate, vals []any) {
 					return
 				}
 			}
+			sc.Problem.NoFields = true // judged on the summary alone
 			r, err := solver.Run(t.ctx, sc.Problem)
 			if err != nil {
 				outs[i] = out{status: StatusFailed, err: err.Error()}

@@ -201,6 +201,7 @@ func runSample(ctx context.Context, v *caseVariant, unc *Uncertainty, us []float
 		msg := flattenErrors(err)
 		return UncertainSample{Values: shown, Summary: Summary{Status: StatusFailed, Message: msg}, Err: msg}
 	}
+	c.Problem.NoFields = true // the sample needs its summary only
 	r, err := solver.Run(ctx, c.Problem)
 	if err != nil {
 		return UncertainSample{Values: shown, Summary: Summary{Title: c.Title, Status: StatusFailed, Message: err.Error()}, Err: err.Error()}

@@ -22,7 +22,7 @@ type Kinetics interface {
 //
 // and its derivative dk/dT = k·E/(R·T²). A in 1/s, E in J/mol, T in K.
 func Arrhenius(A, E, T float64) (k, dkdT float64) {
-	k = A * math.Exp(-E/(GasConstant*T))
+	k = A * fexp(-E/(GasConstant*T))
 	return k, k * E / (GasConstant * T * T)
 }
 
@@ -77,7 +77,7 @@ func (m NthOrder) Rate(T, a float64) (r, drdT, drda float64) {
 	if a >= 0 {
 		// k (1−α)^n as one exponential of a sum of logarithms.
 		rt := GasConstant * T
-		r = m.A * math.Exp(-m.E/rt+m.N*math.Log1p(-a))
+		r = m.A * fexp(-m.E/rt+m.N*flog(1-a))
 		return r, r * m.E / (rt * T), -m.N * r / (1 - a)
 	}
 	k, dk := Arrhenius(m.A, m.E, T)
@@ -109,12 +109,15 @@ func (m Autocatalytic) Rate(T, a float64) (r, drdT, drda float64) {
 		// Interior: two exponentials and two logarithms in all,
 		//	r = A1 e^{−E1/RT} (1−α)^n + A2 e^{−E2/RT} α^m (1−α)^n,
 		// each term one exp of a sum of logarithms.
-		inv := 1 / (GasConstant * T)
-		l1 := math.Log1p(-a)
-		t1 := m.A1 * math.Exp(-m.E1*inv+m.N*l1)
-		t2 := m.A2 * math.Exp(-m.E2*inv+m.M*math.Log(a)+m.N*l1)
+		// One division serves 1/T, another both 1/α and 1/(1−α).
+		iT := 1 / T
+		inv := iT * (1 / GasConstant)
+		l1 := flog(1 - a)
+		t1 := m.A1 * fexp(-m.E1*inv+m.N*l1)
+		t2 := m.A2 * fexp(-m.E2*inv+m.M*flog(a)+m.N*l1)
 		r = t1 + t2
-		return r, (t1*m.E1 + t2*m.E2) * inv / T, t2*m.M/a - m.N*r/(1-a)
+		q := 1 / (a * (1 - a))
+		return r, (t1*m.E1 + t2*m.E2) * inv * iT, t2*m.M*(1-a)*q - m.N*r*a*q
 	}
 	a = max(a, 0)
 	k1, dk1 := Arrhenius(m.A1, m.E1, T)
@@ -143,7 +146,7 @@ func (d *Diffusion) Factor(T, a float64) (f, dfdT, dfda float64) {
 	if x > 700 {
 		return 0, 0, 0
 	}
-	e := math.Exp(x)
+	e := fexp(x)
 	f = 1 / (1 + e)
 	s := -f * f * e // df/dx
 	return f, s * (-d.C * d.AlphaT), s * d.C
@@ -199,7 +202,16 @@ type Cure struct {
 // partial derivatives. α is clamped to [0, 1]; the rate is zero at α = 1.
 func (c *Cure) Rate(T, a float64) (r, drdT, drda float64) {
 	a = min(max(a, 0), 1)
-	r, drdT, drda = c.Model.Rate(T, a)
+	// The built-in laws are called directly (no interface dispatch in the
+	// solver's innermost loop); any other Kinetics through the interface.
+	switch m := c.Model.(type) {
+	case Autocatalytic:
+		r, drdT, drda = m.Rate(T, a)
+	case NthOrder:
+		r, drdT, drda = m.Rate(T, a)
+	default:
+		r, drdT, drda = c.Model.Rate(T, a)
+	}
 	if c.Diffusion != nil {
 		f, fT, fa := c.Diffusion.Factor(T, a)
 		r, drdT, drda = r*f, drdT*f+r*fT, drda*f+r*fa

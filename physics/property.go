@@ -107,6 +107,23 @@ func (b *Blend) At(T, a float64) (v, dvdT, dvda float64) {
 	return u + a*(c-u), du + a*(dc-du), c - u
 }
 
+// Linear reports whether the blend does not depend on temperature, and then
+// returns it as p(α) = v0 + α·slope (slope 0 without a cured value). The
+// solver uses it to skip the table lookups of At for such materials.
+func (b *Blend) Linear() (v0, slope float64, ok bool) {
+	if !b.Uncured.IsConstant() || len(b.Uncured.v) == 0 {
+		return 0, 0, false
+	}
+	v0 = b.Uncured.v[0]
+	if !b.HasCured {
+		return v0, 0, true
+	}
+	if !b.Cured.IsConstant() || len(b.Cured.v) == 0 {
+		return 0, 0, false
+	}
+	return v0, b.Cured.v[0] - v0, true
+}
+
 // Min returns the smallest value the blend takes over all T and α.
 func (b *Blend) Min() float64 {
 	if !b.HasCured {

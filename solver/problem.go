@@ -24,8 +24,12 @@ type Problem struct {
 	CureTolerance        float64 // local error target per step; 0 means DefaultCureTolerance
 	AbortTemperature     float64 // K; 0 means DefaultAbortTemperature
 
-	Probes  []float64 // depths recorded at every output time, m
-	MinCure float64   // criterion for TimeToMinCure; 0 means none
+	Probes []float64 // depths recorded at every output time, m
+	// NoFields leaves the per-cell fields of the snapshots (T, Cure, Rate,
+	// Tg) nil, keeping times, probes and the scalars: for batch runs that
+	// read only the summary, it saves most of a run's memory traffic.
+	NoFields bool
+	MinCure  float64 // criterion for TimeToMinCure; 0 means none
 
 	// Volumetric is the optional dielectric heating of the layers whose
 	// material has a Dielectric; nil means none.
@@ -62,6 +66,7 @@ func (s Status) String() string {
 type Snapshot struct {
 	Time float64   // s
 	T    []float64 // K, per cell
+	// Cure, Rate and Tg are nil when no cell of the stack cures.
 	Cure []float64 // per cell; NaN for cells that do not cure
 	Rate []float64 // dα/dt, 1/s, per cell; NaN for cells that do not cure
 	Tg   []float64 // glass transition, K, per cell; NaN where not defined

@@ -153,6 +153,20 @@ func (s *stepper) run(ctx context.Context) *Result {
 	s.histLen = 0
 	s.pushHistory()
 
+	// One block for every snapshot of the run: the output times, t = 0 and
+	// an early stop.
+	shots := len(p.OutputTimes) + 2
+	per := 2 * len(p.Probes)
+	switch {
+	case p.NoFields:
+	case s.curing:
+		per += 4 * n
+	default:
+		per += n
+	}
+	s.store.block = min(shots*per, max(per, 3072))
+	res.Snapshots = make([]Snapshot, 0, shots)
+
 	tr := s.newTracker()
 	tr.observe(s, 0)
 	res.Snapshots = append(res.Snapshots, s.snapshot(s.old, 0))
@@ -204,9 +218,9 @@ func (s *stepper) run(ctx context.Context) *Result {
 				out++
 			}
 		}
-		if hot, i := maxAt(s.T); hot > p.AbortTemperature {
+		if tr.hot > p.AbortTemperature {
 			res.Status = Runaway
-			res.Err = &RunawayError{Time: s.t, Depth: p.Mesh.Centers[i], Temperature: hot, Limit: p.AbortTemperature}
+			res.Err = &RunawayError{Time: s.t, Depth: p.Mesh.Centers[tr.hotCell], Temperature: tr.hot, Limit: p.AbortTemperature}
 			break
 		}
 	}
@@ -249,9 +263,9 @@ func (s *stepper) advance(target float64) (bool, error) {
 	if landing {
 		tNew = target
 	}
-	s.predict(tNew)
-	copy(s.Tn, s.predT)
-	copy(s.An, s.predA)
+	if !s.linear { // solveLinear needs no starting point
+		s.predict(tNew, s.Tn, s.An)
+	}
 	outcome, its := s.solve(tNew-s.t, theta)
 	tr.sum.NewtonIterations += its + 1
 	tr.sum.MaxNewtonIterations = max(tr.sum.MaxNewtonIterations, its+1)
@@ -282,7 +296,7 @@ func (s *stepper) advance(target float64) (bool, error) {
 			"the temperature at depth %.6g mm would fall to %.6g K, near or below absolute zero: the heat drawn out (an imposed flux?) exceeds what the part holds",
 			where*1e3, cold)}
 	}
-	ratio, order := s.errorRatio(tNew-s.t, theta == 0.5)
+	ratio, order := s.errorRatio(tNew, theta == 0.5)
 	if ratio > 1 {
 		tr.sum.RejectedSteps++
 		s.h = hTry * max(0.2, 0.9*math.Pow(ratio, -1/order))
@@ -321,13 +335,27 @@ func (s *stepper) advance(target float64) (bool, error) {
 func (s *stepper) account(l *Ledger, h, theta float64) {
 	o, v := s.old, s.cur
 	l.Faces += h * (theta*(v.down[0]-v.down[s.n]) + (1-theta)*(o.down[0]-o.down[s.n]))
+	stored := 0.0
 	for i := range s.n {
-		l.Volumetric += h * s.w[i] * (theta*v.P[i] + (1-theta)*o.P[i])
 		cs := 0.5 * (o.cp[i] + v.cp[i])
-		l.Stored += s.rho[i] * cs * s.w[i] * (s.Tn[i] - s.T[i])
-		if s.cure[i] != nil {
-			l.Reaction += s.heat[i] * s.w[i] * (s.An[i] - s.A[i])
+		stored += s.rho[i] * cs * s.w[i] * (s.Tn[i] - s.T[i])
+	}
+	l.Stored += stored
+	if s.vol != nil {
+		vol := 0.0
+		for i := range s.n {
+			vol += s.w[i] * (theta*v.P[i] + (1-theta)*o.P[i])
 		}
+		l.Volumetric += h * vol
+	}
+	if s.curing {
+		reaction := 0.0
+		for i, c := range s.cure {
+			if c != nil {
+				reaction += s.heat[i] * s.w[i] * (s.An[i] - s.A[i])
+			}
+		}
+		l.Reaction += reaction
 	}
 }
 
@@ -386,16 +414,6 @@ func (s *stepper) initialStep(firstEvent float64) float64 {
 		}
 	}
 	return max(h, 64*eps)
-}
-
-func maxAt(x []float64) (float64, int) {
-	m, k := x[0], 0
-	for i, v := range x {
-		if v > m {
-			m, k = v, i
-		}
-	}
-	return m, k
 }
 
 // minTemperature is the lowest temperature a run accepts, K: below it the

@@ -74,8 +74,8 @@ type stepper struct {
 	cur    *level
 
 	// Tridiagonal system and elimination scratch.
-	lo, di, up, rhs, cp []float64
-	jaT, jaa, gA        []float64
+	lo, di, up, rhs, cp, inv []float64
+	jaT, jaa, gA             []float64
 
 	// History of accepted states for the predictor and the error estimate:
 	// histT[0] is the newest. histLen counts the valid entries.
@@ -83,10 +83,30 @@ type stepper struct {
 	histA   [3][]float64
 	histTim [3]float64
 	histLen int
-	// Predictor output.
-	predT, predA []float64
 
-	curing bool // any cell cures
+	curing bool  // any cell cures
+	store  store // the snapshots' slices
+
+	// Property fast paths (set by classify): a cell whose conductivity or
+	// specific heat does not depend on temperature has it as v0 + α·v1
+	// (v1 = 0 where the cell does not cure, since α stays 0 there).
+	kLin, cpLin      []bool
+	k0, k1, cp0, cp1 []float64
+	// kFixed (cpFixed): no cell's conductivity (specific heat) changes
+	// during the run, so the levels hold those terms from the start and
+	// eval skips them; gFix holds the interior face conductances then.
+	kFixed, cpFixed bool
+	gFix            []float64
+	// linear: the heat residual is linear in T (fixed properties, no cure,
+	// no volumetric heating, no radiation), so Newton's first update,
+	// with its exact Jacobian, solves a step to round-off, and the
+	// Jacobian depends on the step size and θ alone (see solveLinear).
+	linear bool
+	mc     []float64 // ρ w c_p per cell when linear, J/(m²·K)
+	// The factors of the last linear Jacobian: c and the inverse pivots of
+	// the Thomas algorithm, for step size luH and weight luTheta.
+	luC, luInv   []float64
+	luH, luTheta float64
 
 	// Volumetric heating: the absorbing cells' dielectrics (nil where
 	// transparent), whether any cell shields, the controller's state.
@@ -134,14 +154,75 @@ func newStepper(p *Problem) *stepper {
 		s.tauTop, s.tauBot, s.tauCell = f(), f(), f()
 	}
 	s.T, s.A, s.Tn, s.An = f(), f(), f(), f()
-	s.lo, s.di, s.up, s.rhs, s.cp = f(), f(), f(), f(), f()
+	s.lo, s.di, s.up, s.rhs, s.cp, s.inv = f(), f(), f(), f(), f(), f()
 	s.jaT, s.jaa, s.gA = f(), f(), f()
 	for k := range 3 {
 		s.histT[k], s.histA[k] = f(), f()
 	}
-	s.predT, s.predA = f(), f()
 	s.old, s.cur = newLevel(n), newLevel(n)
+	s.classify()
 	return s
+}
+
+// classify finds the cells whose properties need no table lookup, fills
+// the levels with whatever does not change during the run, and decides
+// whether the problem is linear (see the stepper's fields).
+func (s *stepper) classify() {
+	n := s.n
+	f := func() []float64 { return make([]float64, n) }
+	s.kLin, s.cpLin = make([]bool, n), make([]bool, n)
+	s.k0, s.k1, s.cp0, s.cp1 = f(), f(), f(), f()
+	s.kFixed, s.cpFixed = true, true
+	for i, mt := range s.mat {
+		if v0, v1, ok := mt.Conductivity.Linear(); ok {
+			if s.cure[i] == nil {
+				v1 = 0
+			}
+			s.kLin[i], s.k0[i], s.k1[i] = true, v0, v1
+			s.kFixed = s.kFixed && v1 == 0
+		} else {
+			s.kFixed = false
+		}
+		if v0, v1, ok := mt.SpecificHeat.Linear(); ok {
+			if s.cure[i] == nil {
+				v1 = 0
+			}
+			s.cpLin[i], s.cp0[i], s.cp1[i] = true, v0, v1
+			s.cpFixed = s.cpFixed && v1 == 0
+		} else {
+			s.cpFixed = false
+		}
+	}
+	for _, lv := range []*level{s.old, s.cur} {
+		if s.kFixed {
+			for i := range n {
+				lv.R[i], lv.dRT[i], lv.dRA[i] = s.w[i]/(2*s.k0[i]), 0, 0
+			}
+			s.gFix = f()
+			for fc := 1; fc < n; fc++ {
+				g := 1 / (lv.R[fc-1] + s.rc[fc] + lv.R[fc])
+				s.gFix[fc] = g
+				lv.fTa[fc], lv.fTb[fc], lv.fAa[fc], lv.fAb[fc] = g, -g, 0, 0
+			}
+		}
+		if s.cpFixed {
+			for i := range n {
+				lv.cp[i], lv.cpT[i], lv.cpA[i] = s.cp0[i], 0, 0
+			}
+		}
+	}
+	linearFace := func(fc *physics.Face) bool {
+		return fc.Kind != physics.Convection || fc.Emissivity == 0
+	}
+	s.linear = s.kFixed && s.cpFixed && !s.curing && s.vol == nil &&
+		linearFace(&s.p.Top) && linearFace(&s.p.Bottom)
+	if s.linear {
+		s.mc, s.luC, s.luInv = f(), f(), f()
+		for i := range n {
+			s.mc[i] = s.rho[i] * s.w[i] * s.cp0[i]
+		}
+		s.luH = math.NaN() // nothing factored yet
+	}
 }
 
 // eval fills lv with everything at time t and state (T, A), including the
@@ -149,15 +230,41 @@ func newStepper(p *Problem) *stepper {
 func (s *stepper) eval(lv *level, t float64, T, A []float64) {
 	n := s.n
 	lv.t = t
-	for i := range n {
-		mt := s.mat[i]
-		k, kT, kA := mt.Conductivity.At(T[i], A[i])
-		lv.R[i] = s.w[i] / (2 * k)
-		c := -s.w[i] / (2 * k * k)
-		lv.dRT[i], lv.dRA[i] = c*kT, c*kA
-		lv.cp[i], lv.cpT[i], lv.cpA[i] = mt.SpecificHeat.At(T[i], A[i])
-		if cu := s.cure[i]; cu != nil {
-			lv.r[i], lv.rT[i], lv.rA[i] = cu.Rate(T[i], A[i])
+	T, A = T[:n], A[:n]
+	w := s.w[:n]
+	R, dRT, dRA := lv.R[:n], lv.dRT[:n], lv.dRA[:n]
+	if !s.kFixed {
+		kLin, k0, k1 := s.kLin[:n], s.k0[:n], s.k1[:n]
+		for i := range n {
+			var k, kT, kA float64
+			if kLin[i] {
+				k, kA = k0[i]+A[i]*k1[i], k1[i]
+			} else {
+				k, kT, kA = s.mat[i].Conductivity.At(T[i], A[i])
+			}
+			ik := 1 / k
+			r := 0.5 * w[i] * ik
+			c := -r * ik // ∂R/∂k
+			R[i], dRT[i], dRA[i] = r, c*kT, c*kA
+		}
+	}
+	if !s.cpFixed {
+		cpLin, cp0, cp1 := s.cpLin[:n], s.cp0[:n], s.cp1[:n]
+		cp, cpT, cpA := lv.cp[:n], lv.cpT[:n], lv.cpA[:n]
+		for i := range n {
+			if cpLin[i] {
+				cp[i], cpT[i], cpA[i] = cp0[i]+A[i]*cp1[i], 0, cp1[i]
+			} else {
+				cp[i], cpT[i], cpA[i] = s.mat[i].SpecificHeat.At(T[i], A[i])
+			}
+		}
+	}
+	if s.curing {
+		r, rT, rA := lv.r[:n], lv.rT[:n], lv.rA[:n]
+		for i, cu := range s.cure[:n] {
+			if cu != nil {
+				r[i], rT[i], rA[i] = cu.Rate(T[i], A[i])
+			}
 		}
 	}
 	// Internal faces: conductance g from the two half-cells in series plus
@@ -165,14 +272,25 @@ func (s *stepper) eval(lv *level, t float64, T, A []float64) {
 	// ∂g/∂R = −g², the derivatives
 	//	∂d/∂T_a = g − d g ∂R_a/∂T_a,  ∂d/∂T_b = −g − d g ∂R_b/∂T_b,
 	//	∂d/∂α_a = −d g ∂R_a/∂α_a,     ∂d/∂α_b = −d g ∂R_b/∂α_b.
-	for f := 1; f < n; f++ {
-		a, b := f-1, f
-		g := 1 / (lv.R[a] + s.rc[f] + lv.R[b])
-		d := g * (T[a] - T[b])
-		dg := d * g
-		lv.down[f] = d
-		lv.fTa[f], lv.fTb[f] = g-dg*lv.dRT[a], -g-dg*lv.dRT[b]
-		lv.fAa[f], lv.fAb[f] = -dg*lv.dRA[a], -dg*lv.dRA[b]
+	// With fixed conductivities g and the derivatives never change.
+	down := lv.down[:n+1]
+	if s.kFixed {
+		gFix := s.gFix[:n]
+		for f := 1; f < n; f++ {
+			down[f] = gFix[f] * (T[f-1] - T[f])
+		}
+	} else {
+		rc := s.rc[:n]
+		fTa, fTb, fAa, fAb := lv.fTa[:n], lv.fTb[:n], lv.fAa[:n], lv.fAb[:n]
+		for f := 1; f < n; f++ {
+			a, b := f-1, f
+			g := 1 / (R[a] + rc[f] + R[b])
+			d := g * (T[a] - T[b])
+			dg := d * g
+			down[f] = d
+			fTa[f], fTb[f] = g-dg*dRT[a], -g-dg*dRT[b]
+			fAa[f], fAb[f] = -dg*dRA[a], -dg*dRA[b]
+		}
 	}
 	// Outer faces. For every face kind ∂q/∂R = q ∂q/∂T_c (differentiate
 	// the face balance implicitly), so the derivatives through R follow.
@@ -184,8 +302,9 @@ func (s *stepper) eval(lv *level, t float64, T, A []float64) {
 	lv.down[n], lv.tfBot = -q, tf
 	lv.fTa[n], lv.fAa[n] = -(dq + q*dq*lv.dRT[n-1]), -q*dq*lv.dRA[n-1]
 	lv.fTb[n], lv.fAb[n] = 0, 0
+	D := lv.D[:n]
 	for i := range n {
-		lv.D[i] = lv.down[i] - lv.down[i+1]
+		D[i] = down[i] - down[i+1]
 	}
 	if s.vol != nil {
 		s.power(lv, T, A)
@@ -313,74 +432,18 @@ const (
 // the linearised F leaves one tridiagonal system for δT. The Jacobian is
 // exact except for the capped slope of α^m near α = 0 (see physics).
 func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
+	if s.linear {
+		return s.solveLinear(h, theta)
+	}
 	n := s.n
-	T0, A0, o := s.T, s.A, s.old
 	T, A, v := s.Tn, s.An, s.cur
 	tn := s.t + h
 	pj, sj := s.jaT, s.gA // p_j and s_j of the elimination
 	for it := 0; ; it++ {
 		s.eval(v, tn, T, A)
-		maxF, maxG := 0.0, 0.0
-		// Cure rows first: p_j and s_j are needed by the neighbours' rows.
-		for i := range n {
-			pj[i], sj[i], s.jaa[i] = 0, 0, 1
-			if s.cure[i] == nil {
-				continue
-			}
-			G := A[i] - A0[i] - h*(theta*v.r[i]+(1-theta)*o.r[i])
-			if A[i] >= 1 && G <= 0 {
-				// The step would carry the cell past full cure: α = 1 stands
-				// (the rate is zero there) and the cell's cure is not an
-				// unknown of this iteration.
-				continue
-			}
-			maxG = max(maxG, math.Abs(G))
-			jaa := 1 - h*theta*v.rA[i]
-			if jaa < minJaa {
-				// Autocatalysis faster than the step can follow (the
-				// trapezoidal rule is unstable for growth with hθ ∂r/∂α ≥ 1).
-				// Far from the solution (α^m with m < 1 is infinitely steep
-				// at α = 0) the slope only misleads, so bound it; at the
-				// solution itself it means the step is too long.
-				if maxG <= newtonTolA {
-					return stepNoConverge, it
-				}
-				jaa = minJaa
-			}
-			pj[i], sj[i], s.jaa[i] = -h*theta*v.rT[i]/jaa, G/jaa, jaa
-		}
-		invh := 1 / h
-		for i := range n {
-			m := s.rho[i] * s.w[i] * invh
-			hw := s.heat[i] * s.w[i] * invh
-			cs := 0.5 * (o.cp[i] + v.cp[i])
-			dT := T[i] - T0[i]
-			F := m*cs*dT - theta*v.D[i] - (1-theta)*o.D[i] - hw*(A[i]-A0[i]) -
-				s.w[i]*(theta*v.P[i]+(1-theta)*o.P[i])
-			// D_i = down_i − down_{i+1}: face i has cell i below it (b),
-			// face i+1 has cell i above it (a).
-			dDT := v.fTb[i] - v.fTa[i+1]
-			// The residual, scaled to kelvin by m c*, cannot fall below
-			// its round-off floor, about ε|T| (1 + θ|∂D/∂T|/(m c*)).
-			mc := m * cs
-			if e := math.Abs(F) - 4*eps*math.Abs(T[i])*(mc+theta*math.Abs(dDT)); e > maxF*mc || F != F {
-				maxF = e / mc
-			}
-			dDA := v.fAb[i] - v.fAa[i+1]
-			fT := m*(cs+0.5*v.cpT[i]*dT) - theta*dDT - theta*s.w[i]*v.PT[i]
-			fA := m*0.5*v.cpA[i]*dT - hw - theta*dDA - theta*s.w[i]*v.PA[i]
-			s.di[i] = fT - fA*pj[i]
-			s.rhs[i] = -F + fA*sj[i]
-			if i > 0 { // ∂F_i/∂(T, α)_{i−1} through face i
-				lT, lA := -theta*v.fTa[i], -theta*v.fAa[i]
-				s.lo[i] = lT - lA*pj[i-1]
-				s.rhs[i] += lA * sj[i-1]
-			}
-			if i < n-1 { // ∂F_i/∂(T, α)_{i+1} through face i+1
-				uT, uA := theta*v.fTb[i+1], theta*v.fAb[i+1]
-				s.up[i] = uT - uA*pj[i+1]
-				s.rhs[i] += uA * sj[i+1]
-			}
+		maxF, maxG, ok := s.assemble(h, theta)
+		if !ok {
+			return stepNoConverge, it
 		}
 		if math.IsNaN(maxF) || math.IsNaN(maxG) {
 			return stepNoConverge, it
@@ -391,9 +454,10 @@ func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 		if it == maxNewton {
 			return stepNoConverge, it
 		}
-		if !thomas(s.lo, s.di, s.up, s.rhs, s.cp) {
+		if !factor(s.lo, s.di, s.up, s.cp, s.inv) {
 			return stepNoConverge, it
 		}
+		substitute(s.lo, s.up, s.cp, s.inv, s.rhs)
 		dTmax, dAmax := 0.0, 0.0
 		for i := range n {
 			dT := s.rhs[i]
@@ -418,71 +482,186 @@ func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 	}
 }
 
-// thomas solves the tridiagonal system with sub-diagonal lo (lo[0] unused),
-// diagonal di and super-diagonal up (up[n−1] unused), overwriting rhs with
-// the solution; c is scratch. The Thomas algorithm without pivoting is stable
-// for the diagonally dominant matrices of implicit conduction (Golub & Van
-// Loan, Matrix Computations, 4th ed., §4.3). It reports false on a zero pivot.
-// O(n), no allocation.
-func thomas(lo, di, up, rhs, c []float64) bool {
-	n := len(di)
-	b := di[0]
-	if b == 0 {
-		return false
+// assemble fills the tridiagonal system of one Newton iteration (lo, di,
+// up, rhs) from the iterate's level s.cur and the accepted level s.old, with
+// the cure eliminated (p_j in s.jaT, s_j in s.gA), and returns the largest
+// scaled heat residual and cure residual. It reports false when the
+// iteration cannot go on: autocatalysis faster than the step can follow at
+// a converged cure residual (see below).
+func (s *stepper) assemble(h, theta float64) (maxF, maxG float64, ok bool) {
+	n := s.n
+	o, v := s.old, s.cur
+	// Every slice at its exact length, so that the loops carry no bounds
+	// checks.
+	T, A, T0, A0 := s.Tn[:n], s.An[:n], s.T[:n], s.A[:n]
+	pj, sj, jaa := s.jaT[:n], s.gA[:n], s.jaa[:n]
+	cure := s.cure[:n]
+	r, r0, rT, rA := v.r[:n], o.r[:n], v.rT[:n], v.rA[:n]
+	// Cure rows first: p_j and s_j are needed by the neighbours' rows.
+	for i := range n {
+		pj[i], sj[i], jaa[i] = 0, 0, 1
+		if cure[i] == nil {
+			continue
+		}
+		G := A[i] - A0[i] - h*(theta*r[i]+(1-theta)*r0[i])
+		if A[i] >= 1 && G <= 0 {
+			// The step would carry the cell past full cure: α = 1 stands
+			// (the rate is zero there) and the cell's cure is not an
+			// unknown of this iteration.
+			continue
+		}
+		maxG = max(maxG, math.Abs(G))
+		ja := 1 - h*theta*rA[i]
+		if ja < minJaa {
+			// Autocatalysis faster than the step can follow (the
+			// trapezoidal rule is unstable for growth with hθ ∂r/∂α ≥ 1).
+			// Far from the solution (α^m with m < 1 is infinitely steep
+			// at α = 0) the slope only misleads, so bound it; at the
+			// solution itself it means the step is too long.
+			if maxG <= newtonTolA {
+				return maxF, maxG, false
+			}
+			ja = minJaa
+		}
+		ij := 1 / ja
+		pj[i], sj[i], jaa[i] = -h*theta*rT[i]*ij, G*ij, ja
 	}
-	c[0] = up[0] / b
-	rhs[0] /= b
+	invh := 1 / h
+	rho, w, heat := s.rho[:n], s.w[:n], s.heat[:n]
+	cp0, cp, cpT, cpA := o.cp[:n], v.cp[:n], v.cpT[:n], v.cpA[:n]
+	D, D0 := v.D[:n], o.D[:n]
+	P, P0, PT, PA := v.P[:n], o.P[:n], v.PT[:n], v.PA[:n]
+	fTa, fTb, fAa, fAb := v.fTa[:n+1], v.fTb[:n+1], v.fAa[:n+1], v.fAb[:n+1]
+	lo, di, up, rhs := s.lo[:n], s.di[:n], s.up[:n], s.rhs[:n]
+	for i := range n {
+		m := rho[i] * w[i] * invh
+		hw := heat[i] * w[i] * invh
+		cs := 0.5 * (cp0[i] + cp[i])
+		dT := T[i] - T0[i]
+		F := m*cs*dT - theta*D[i] - (1-theta)*D0[i] - hw*(A[i]-A0[i]) -
+			w[i]*(theta*P[i]+(1-theta)*P0[i])
+		// D_i = down_i − down_{i+1}: face i has cell i below it (b),
+		// face i+1 has cell i above it (a).
+		dDT := fTb[i] - fTa[i+1]
+		// The residual, scaled to kelvin by m c*, cannot fall below
+		// its round-off floor, about ε|T| (1 + θ|∂D/∂T|/(m c*)).
+		mc := m * cs
+		if e := math.Abs(F) - 4*eps*math.Abs(T[i])*(mc+theta*math.Abs(dDT)); e > maxF*mc || F != F {
+			maxF = e / mc
+		}
+		dDA := fAb[i] - fAa[i+1]
+		fT := m*(cs+0.5*cpT[i]*dT) - theta*dDT - theta*w[i]*PT[i]
+		fA := m*0.5*cpA[i]*dT - hw - theta*dDA - theta*w[i]*PA[i]
+		di[i] = fT - fA*pj[i]
+		rhs[i] = -F + fA*sj[i]
+	}
+	// Couplings through the faces: ∂F_i/∂(T, α)_{i−1} through face i and
+	// ∂F_i/∂(T, α)_{i+1} through face i+1.
 	for i := 1; i < n; i++ {
-		b = di[i] - lo[i]*c[i-1]
-		if b == 0 {
-			return false
-		}
-		if i < n-1 {
-			c[i] = up[i] / b
-		}
-		rhs[i] = (rhs[i] - lo[i]*rhs[i-1]) / b
+		lT, lA := -theta*fTa[i], -theta*fAa[i]
+		lo[i] = lT - lA*pj[i-1]
+		rhs[i] += lA * sj[i-1]
+		uT, uA := theta*fTb[i], theta*fAb[i]
+		up[i-1] = uT - uA*pj[i]
+		rhs[i-1] += uA * sj[i]
 	}
-	for i := n - 2; i >= 0; i-- {
-		rhs[i] -= c[i] * rhs[i+1]
-	}
-	return true
+	return maxF, maxG, true
 }
 
-// predict fills (predT, predA) with the polynomial extrapolation of the
-// history to time t: constant, linear or quadratic with 1, 2 or 3 points.
-func (s *stepper) predict(t float64) {
+// solveLinear takes one step of size h with weight θ for a linear problem
+// (s.linear). The residual of the heat equation is affine in T with a
+// Jacobian J that depends on h and θ alone (fixed properties and linear
+// faces), so a single Newton update from the accepted state T⁰ is exact:
+//
+//	J δ = −F(T⁰),  −F_i(T⁰) = D_i⁰ + θ (D_i(T⁰, t+h) − D_i⁰),
+//
+// where D(T⁰, t+h) differs from D⁰ only through the outer faces (their
+// air, set point or flux at the new time). J is factored once per
+// distinct (h, θ) and the factors reused while the step size repeats (most
+// steps land on equally spaced output times). The new level is then
+// evaluated once. It cannot fail short of a non-finite result.
+func (s *stepper) solveLinear(h, theta float64) (stepOutcome, int) {
+	n := s.n
+	o, v := s.old, s.cur
+	T0, T := s.T, s.Tn
+	tn := s.t + h
+	invh := 1 / h
+	if h != s.luH || theta != s.luTheta {
+		// Rows as in solve with c* = c_p, no cure and no power:
+		// diagonal m c_p − θ ∂D_i/∂T_i, off-diagonals −θ fTa_i and θ fTb_{i+1}.
+		for i := range n {
+			s.di[i] = s.mc[i]*invh - theta*(o.fTb[i]-o.fTa[i+1])
+			s.lo[i] = -theta * o.fTa[i]
+			s.up[i] = 0
+			if i < n-1 {
+				s.up[i] = theta * o.fTb[i+1]
+			}
+		}
+		if !factor(s.lo, s.di, s.up, s.luC, s.luInv) {
+			s.luH = math.NaN()
+			return stepNoConverge, 0
+		}
+		s.luH, s.luTheta = h, theta
+	}
+	for i := range n {
+		s.rhs[i] = o.D[i]
+	}
+	// The outer faces at the new time with the old temperatures: the top
+	// flux enters D_0 as down[0] = q, the bottom one D_{n−1} as
+	// −down[n] = q.
+	q, _, _ := s.p.Top.HeatIn(tn, T0[0], o.R[0])
+	s.rhs[0] += theta * (q - o.down[0])
+	q, _, _ = s.p.Bottom.HeatIn(tn, T0[n-1], o.R[n-1])
+	s.rhs[n-1] += theta * (q + o.down[n])
+	substitute(s.lo, s.up, s.luC, s.luInv, s.rhs)
+	for i := range n {
+		T[i] = T0[i] + s.rhs[i]
+		if T[i]-T[i] != 0 { // NaN or ±Inf
+			return stepNoConverge, 0
+		}
+	}
+	s.eval(v, tn, T, s.An)
+	return stepOK, 0 // one residual evaluation
+}
+
+// predWeights returns the weights of the polynomial extrapolation of the
+// history to time t: constant, linear or quadratic through 1, 2 or 3
+// points (Lagrange form; the weights of missing points are 0).
+func (s *stepper) predWeights(t float64) (l0, l1, l2 float64) {
 	switch s.histLen {
 	case 1:
-		copy(s.predT, s.histT[0])
-		copy(s.predA, s.histA[0])
+		return 1, 0, 0
 	case 2:
 		t0, t1 := s.histTim[0], s.histTim[1]
-		l0 := (t - t1) / (t0 - t1)
-		l1 := 1 - l0
-		for i := range s.n {
-			s.predT[i] = l0*s.histT[0][i] + l1*s.histT[1][i]
-			s.predA[i] = l0*s.histA[0][i] + l1*s.histA[1][i]
-		}
-	default:
-		t0, t1, t2 := s.histTim[0], s.histTim[1], s.histTim[2]
-		l0 := (t - t1) * (t - t2) / ((t0 - t1) * (t0 - t2))
-		l1 := (t - t0) * (t - t2) / ((t1 - t0) * (t1 - t2))
-		l2 := (t - t0) * (t - t1) / ((t2 - t0) * (t2 - t1))
-		for i := range s.n {
-			s.predT[i] = l0*s.histT[0][i] + l1*s.histT[1][i] + l2*s.histT[2][i]
-			s.predA[i] = l0*s.histA[0][i] + l1*s.histA[1][i] + l2*s.histA[2][i]
-		}
+		l0 = (t - t1) / (t0 - t1)
+		return l0, 1 - l0, 0
 	}
+	t0, t1, t2 := s.histTim[0], s.histTim[1], s.histTim[2]
+	l0 = (t - t1) * (t - t2) / ((t0 - t1) * (t0 - t2))
+	l1 = (t - t0) * (t - t2) / ((t1 - t0) * (t1 - t2))
+	l2 = (t - t0) * (t - t1) / ((t2 - t0) * (t2 - t1))
+	return l0, l1, l2
+}
+
+// predict fills (T, A) with the predictor at time t, Newton's starting
+// point. Cure never decreases, nor passes 1.
+func (s *stepper) predict(t float64, T, A []float64) {
+	l0, l1, l2 := s.predWeights(t)
+	h0, h1, h2 := s.histT[0], s.histT[1], s.histT[2]
+	a0, a1, a2 := s.histA[0], s.histA[1], s.histA[2]
 	for i := range s.n {
-		s.predA[i] = min(max(s.predA[i], s.A[i]), 1) // cure never decreases
+		T[i] = l0*h0[i] + l1*h1[i] + l2*h2[i]
+		A[i] = min(max(l0*a0[i]+l1*a1[i]+l2*a2[i], s.A[i]), 1)
 	}
 }
 
-// errorRatio estimates the local error of the step just solved, relative to
-// the tolerances (≤ 1 means acceptable), from the difference between the
-// corrector (Tn, An) and the predictor. With three history points and
-// Crank–Nicolson, the quadratic predictor's error is y”'/6·h(h+h1)(h+h1+h2)
-// and the trapezoidal rule's local error is h³y”'/12, so
+// errorRatio estimates the local error of the step just solved (from s.t
+// to tNew, size h), relative to the tolerances (≤ 1 means acceptable), from the
+// difference between the corrector (Tn, An) and the predictor, which it
+// recomputes (the same arithmetic as predict). With three history points
+// and Crank–Nicolson, the quadratic predictor's error is
+// y”'/6·h(h+h1)(h+h1+h2) and the trapezoidal rule's local error is
+// h³y”'/12, so
 //
 //	LTE ≈ |y_C − y_P| · h² / (2 (h+h1)(h+h1+h2)).
 //
@@ -490,7 +669,8 @@ func (s *stepper) predict(t float64) {
 // error is y”/2·h(h+h1) against implicit Euler's h²y”/2, so
 // LTE ≈ |y_C − y_P| · h/(h+h1). With one point there is no estimate (0).
 // The second return value is the order p of the error in h (LTE ∝ h^p).
-func (s *stepper) errorRatio(h float64, cn bool) (ratio, order float64) {
+func (s *stepper) errorRatio(tNew float64, cn bool) (ratio, order float64) {
+	h := tNew - s.t
 	var fac float64
 	switch {
 	case s.histLen >= 3 && cn:
@@ -506,13 +686,30 @@ func (s *stepper) errorRatio(h float64, cn bool) (ratio, order float64) {
 	default:
 		return 0, 2
 	}
-	tolT, tolA := s.p.TemperatureTolerance, s.p.CureTolerance
-	worst := 0.0
-	for i := range s.n {
-		worst = max(worst, math.Abs(s.Tn[i]-s.predT[i])/tolT)
-		if s.cure[i] != nil {
-			worst = max(worst, math.Abs(s.An[i]-s.predA[i])/tolA)
+	l0, l1, l2 := s.predWeights(tNew)
+	h0, h1, h2 := s.histT[0], s.histT[1], s.histT[2]
+	// Two running maxima each, to shorten the dependency chain.
+	var wT0, wT1 float64
+	n2 := s.n &^ 1
+	for i := 0; i < n2; i += 2 {
+		wT0 = max(wT0, math.Abs(s.Tn[i]-(l0*h0[i]+l1*h1[i]+l2*h2[i])))
+		j := i + 1
+		wT1 = max(wT1, math.Abs(s.Tn[j]-(l0*h0[j]+l1*h1[j]+l2*h2[j])))
+	}
+	for i := n2; i < s.n; i++ {
+		wT0 = max(wT0, math.Abs(s.Tn[i]-(l0*h0[i]+l1*h1[i]+l2*h2[i])))
+	}
+	worst := max(wT0, wT1) / s.p.TemperatureTolerance
+	if s.curing {
+		a0, a1, a2 := s.histA[0], s.histA[1], s.histA[2]
+		wA := 0.0
+		for i, c := range s.cure {
+			if c != nil {
+				pa := min(max(l0*a0[i]+l1*a1[i]+l2*a2[i], s.A[i]), 1)
+				wA = max(wA, math.Abs(s.An[i]-pa))
+			}
 		}
+		worst = max(worst, wA/s.p.CureTolerance)
 	}
 	return worst * fac, order
 }

@@ -12,6 +12,8 @@ type tracker struct {
 	gel      []float64 // gel time per cell, NaN until gelled
 	drivers  []*physics.Schedule
 	prevMinA float64
+	hot      float64 // the hottest cell of the state last observed, K
+	hotCell  int
 }
 
 func (s *stepper) newTracker() *tracker {
@@ -44,12 +46,15 @@ func (s *stepper) newTracker() *tracker {
 func (tr *tracker) observe(s *stepper, h float64) {
 	t := s.t
 	sum := &tr.sum
-	hot := math.Inf(-1)
+	hot, at := s.T[0], 0
 	for i, T := range s.T {
-		if T > sum.PeakTemperature { // strict: earliest time, shallowest cell on ties
-			sum.PeakTemperature, sum.PeakTime, sum.PeakDepth = T, t, s.p.Mesh.Centers[i]
+		if T > hot { // strict: the shallowest cell on ties
+			hot, at = T, i
 		}
-		hot = max(hot, T)
+	}
+	tr.hot, tr.hotCell = hot, at
+	if hot > sum.PeakTemperature { // strict: the earliest time on ties
+		sum.PeakTemperature, sum.PeakTime, sum.PeakDepth = hot, t, s.p.Mesh.Centers[at]
 	}
 	if s.histLen == 3 {
 		tr.peakBetweenSteps(s)
@@ -178,27 +183,32 @@ func (tr *tracker) finish(s *stepper, l *Ledger) {
 }
 
 // snapshot records the accepted state held by lv (at s.t) and the
-// cumulative heat in.
+// cumulative heat in. Its slices come from s.store.
 func (s *stepper) snapshot(lv *level, heatIn float64) Snapshot {
 	n := s.n
 	nan := math.NaN()
 	snap := Snapshot{
-		Time: s.t,
-		T:    append([]float64(nil), s.T...),
-		Cure: make([]float64, n), Rate: make([]float64, n), Tg: make([]float64, n),
+		Time:   s.t,
 		AirTop: nan, AirBottom: nan, HeatIn: heatIn, PowerFraction: nan,
 	}
 	if s.vol != nil && s.vol.Control != nil {
 		snap.PowerFraction = s.u
 	}
-	for i, c := range s.cure {
-		snap.Cure[i], snap.Rate[i], snap.Tg[i] = nan, nan, nan
-		if c == nil {
-			continue
-		}
-		snap.Cure[i], snap.Rate[i] = s.A[i], lv.r[i]
-		if c.Glass != nil {
-			snap.Tg[i] = c.Glass.Tg(s.A[i])
+	if !s.p.NoFields {
+		snap.T = s.store.take(n)
+		copy(snap.T, s.T)
+	}
+	if !s.p.NoFields && s.curing {
+		snap.Cure, snap.Rate, snap.Tg = s.store.take(n), s.store.take(n), s.store.take(n)
+		for i, c := range s.cure {
+			snap.Cure[i], snap.Rate[i], snap.Tg[i] = nan, nan, nan
+			if c == nil {
+				continue
+			}
+			snap.Cure[i], snap.Rate[i] = s.A[i], lv.r[i]
+			if c.Glass != nil {
+				snap.Tg[i] = c.Glass.Tg(s.A[i])
+			}
 		}
 	}
 	if s.p.Top.Kind == physics.Convection {
@@ -207,12 +217,30 @@ func (s *stepper) snapshot(lv *level, heatIn float64) Snapshot {
 	if s.p.Bottom.Kind == physics.Convection {
 		snap.AirBottom = s.p.Bottom.Air.At(s.t)
 	}
-	for _, z := range s.p.Probes {
-		T, a := s.probe(lv, z)
-		snap.ProbeT = append(snap.ProbeT, T)
-		snap.ProbeCure = append(snap.ProbeCure, a)
+	if np := len(s.p.Probes); np > 0 {
+		snap.ProbeT, snap.ProbeCure = s.store.take(np), s.store.take(np)
+		for k, z := range s.p.Probes {
+			snap.ProbeT[k], snap.ProbeCure[k] = s.probe(lv, z)
+		}
 	}
 	return snap
+}
+
+// store hands out the snapshots' slices from large blocks, so that the
+// outputs of a whole run cost a few allocations instead of a few per
+// output time. Each slice has its own capacity (appending to one copies).
+type store struct {
+	buf   []float64
+	block int // floats per block
+}
+
+func (st *store) take(m int) []float64 {
+	if len(st.buf) < m {
+		st.buf = make([]float64, max(st.block, m))
+	}
+	s := st.buf[:m:m]
+	st.buf = st.buf[m:]
+	return s
 }
 
 // probe returns temperature and cure at depth z: linear through the cell
