@@ -106,7 +106,17 @@ type SweepOptions struct {
 	// afterCommit, when not nil, is called after each commit with the
 	// number of runs done (tests use it to interrupt a sweep part-way).
 	afterCommit func(done int)
+	// commitEvery replaces sweepCommitEvery when not 0 (tests that
+	// interrupt after a number of commits use a nanosecond).
+	commitEvery time.Duration
 }
+
+// The collector commits finished runs at most sweepCommitEvery apart (the
+// first at once), or as soon as sweepCommitMax are waiting.
+const (
+	sweepCommitEvery = 200 * time.Millisecond
+	sweepCommitMax   = 1024
+)
 
 // StatusCounts counts runs by status (SPEC §5).
 type StatusCounts struct {
@@ -164,9 +174,11 @@ type SweepReport struct {
 // (not committed), summary.csv is written from what was committed, and the
 // report says Interrupted: running the same sweep into dir again finishes
 // it, and summary.csv is then byte-identical to that of an uninterrupted
-// sweep. The journal is synced once per batch of runs that finished
-// together (group commit). The error is for problems with dir (cannot write, another sweep)
-// and bad options; a failed run is not an error.
+// sweep. Commits are grouped: the runs that finish within 0.2 s of the
+// last sync are written in one call and synced once (sweepCommitEvery), so
+// a crash costs at most the runs of that window, run again on resume. The
+// error is for problems with dir (cannot write, another sweep) and bad
+// options; a failed run is not an error.
 func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepReport, error) {
 	var rep SweepReport
 	shards := opt.Shards
@@ -253,24 +265,15 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 	}()
 	var firstErr error
 	var batch []sweepResult
-	for res := range results {
-		// Group commit: take every result that is ready, write them in one
-		// call and sync once (a sync costs milliseconds on a disk).
-		batch = append(batch[:0], res)
-	drain:
-		for {
-			select {
-			case r, ok := <-results:
-				if !ok {
-					break drain
-				}
-				batch = append(batch, r)
-			default:
-				break drain
-			}
-		}
-		if firstErr != nil {
-			continue
+	every := opt.commitEvery
+	if every == 0 {
+		every = sweepCommitEvery
+	}
+	// commit writes the batch in one call and syncs once.
+	commit := func() {
+		if len(batch) == 0 || firstErr != nil {
+			batch = batch[:0]
+			return
 		}
 		recs := make([][]string, 0, len(batch))
 		for _, r := range batch {
@@ -285,7 +288,8 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 		}
 		if firstErr != nil {
 			cancel()
-			continue
+			batch = batch[:0]
+			return
 		}
 		for _, r := range batch {
 			rep.Done++
@@ -293,10 +297,36 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 			prog.record(r.rec[statusCol])
 			log.printf("run %0*d %s %.3fs", width, r.run, r.rec[statusCol], r.wall.Seconds())
 		}
+		batch = batch[:0]
 		if opt.afterCommit != nil {
 			opt.afterCommit(rep.Done)
 		}
 	}
+	// Group commit: a finished run waits at most `every` for the next sync,
+	// so that a sweep of millisecond runs syncs a few times a second, not
+	// once per run (a sync stalls the workers' processor time too).
+	var last time.Time
+	var due <-chan time.Time
+	for results != nil {
+		select {
+		case r, ok := <-results:
+			if !ok {
+				results = nil
+				break
+			}
+			batch = append(batch, r)
+			if wait := every - time.Since(last); wait <= 0 || len(batch) >= sweepCommitMax {
+				commit()
+				last, due = time.Now(), nil
+			} else if due == nil {
+				due = time.After(wait)
+			}
+		case <-due:
+			commit()
+			last, due = time.Now(), nil
+		}
+	}
+	commit()
 	prog.finish()
 	rep.Interrupted = ctx.Err() != nil && rep.Done < rep.Runs
 	if firstErr != nil {

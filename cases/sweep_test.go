@@ -14,6 +14,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"cureslab/solver"
 )
@@ -522,7 +523,7 @@ func TestSweepResume(t *testing.T) {
 	const k = 5
 	ctx, cancel := context.WithCancel(context.Background())
 	defer cancel()
-	rep, err := s.Run(ctx, dir, SweepOptions{Jobs: 2, afterCommit: func(done int) {
+	rep, err := s.Run(ctx, dir, SweepOptions{Jobs: 2, commitEvery: time.Nanosecond, afterCommit: func(done int) {
 		if done >= k {
 			cancel()
 		}
@@ -698,7 +699,7 @@ func TestSweepJournalNoNewline(t *testing.T) {
 	dir := filepath.Join(root, "cut")
 	ctx, cancel := context.WithCancel(context.Background())
 	defer cancel()
-	rep, err := s.Run(ctx, dir, SweepOptions{Jobs: 1, afterCommit: func(done int) {
+	rep, err := s.Run(ctx, dir, SweepOptions{Jobs: 1, commitEvery: time.Nanosecond, afterCommit: func(done int) {
 		if done >= 3 {
 			cancel()
 		}
@@ -722,5 +723,31 @@ func TestSweepJournalNoNewline(t *testing.T) {
 	rows, _, err := readJournal(path, sweepHeader(s.Keys), s.Runs)
 	if err != nil || len(rows) != 18 {
 		t.Errorf("journal after resume: %d rows, %v", len(rows), err)
+	}
+}
+
+// TestSweepGroupCommit: with a commit window longer than the sweep, the
+// first finished run is committed at once and every other one in a single
+// final commit; the journal and summary.csv are those of a sweep that
+// commits run by run.
+func TestSweepGroupCommit(t *testing.T) {
+	s := tinyGrid(t)
+	root := t.TempDir()
+	each := filepath.Join(root, "each")
+	runSweep(t, s, each, SweepOptions{Jobs: 2, commitEvery: time.Nanosecond})
+	grouped := filepath.Join(root, "grouped")
+	var commits []int
+	rep := runSweep(t, s, grouped, SweepOptions{Jobs: 2, commitEvery: time.Hour, afterCommit: func(done int) {
+		commits = append(commits, done)
+	}})
+	if rep.Done != 18 || len(commits) != 2 || commits[0] != 1 || commits[1] != 18 {
+		t.Errorf("done %d, commits after %v runs; want 18 done in two commits (1, then 18)", rep.Done, commits)
+	}
+	if a, b := readFile(t, filepath.Join(each, SweepSummaryFile)), readFile(t, filepath.Join(grouped, SweepSummaryFile)); !bytes.Equal(a, b) {
+		t.Errorf("summary.csv differs between grouped and run-by-run commits")
+	}
+	rows, _, err := readJournal(filepath.Join(grouped, SweepJournalFile), sweepHeader(s.Keys), s.Runs)
+	if err != nil || len(rows) != 18 {
+		t.Errorf("journal: %d rows, %v", len(rows), err)
 	}
 }
