@@ -49,6 +49,10 @@ type expEntry struct {
 	tail   float64
 }
 
+// Exp returns e^x with the accuracy of fexp (≤ 0.53 ulp) at about half the
+// cost of math.Exp: for the solver's loops outside this package.
+func Exp(x float64) float64 { return fexp(x) }
+
 // fexp returns e^x for any double x.
 //
 //	e^x = 2^m · 2^(j/64) · e^r,   k = round(64x/ln2) = 64m + j,

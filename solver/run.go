@@ -360,13 +360,13 @@ func (s *stepper) account(l *Ledger, h, theta float64) {
 }
 
 // controlUpdate samples the sensor at the accepted state, updates the
-// controller's output u, and re-evaluates the accepted level with it (u is
-// held over the steps that follow, so both time levels of the next step use
-// it).
+// controller's output u, and re-evaluates the accepted level's absorbed
+// power with it, the only part of a level that depends on u (u is held over
+// the steps that follow, so both time levels of the next step use it).
 func (s *stepper) controlUpdate(c *physics.Control) {
 	Ts, _ := s.probe(s.old, c.Sensor)
 	s.integral, s.u = c.Update(c.Program.At(s.t)-Ts, s.integral, s.u)
-	s.eval(s.old, s.t, s.T, s.A)
+	s.power(s.old, s.T, s.A)
 }
 
 // events returns the times the stepper must land on: output times and face

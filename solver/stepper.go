@@ -324,43 +324,35 @@ func (s *stepper) eval(lv *level, t float64, T, A []float64) {
 // of the cells above enters the residual exactly but not the Jacobian.
 func (s *stepper) power(lv *level, T, A []float64) {
 	v, n := s.vol, s.n
-	e2 := s.u * v.Field * v.Field
-	for i := range n {
+	unit := physics.PowerDensity(v.Frequency, 1, 1) * s.u * v.Field * v.Field
+	uniform := v.Attenuation == physics.Uniform
+	// Per cell: the power and its derivatives before attenuation, and the
+	// optical depth w/D_p through the cell (0 when transparent, +Inf for a
+	// shield, which also absorbs nothing).
+	for i, d := range s.diel[:n] {
 		lv.P[i], lv.PA[i], lv.PT[i] = 0, 0, 0
-		if d := s.diel[i]; d != nil && !d.Shield {
-			eps2, dT, dA := d.Loss(T[i], A[i])
-			unit := physics.PowerDensity(v.Frequency, 1, 1) * e2
-			lv.P[i], lv.PT[i], lv.PA[i] = unit*eps2, unit*dT, unit*dA
-		}
-	}
-	if v.Attenuation == physics.Uniform {
-		for i := range n {
-			if d := s.diel[i]; d != nil && d.Shield {
-				// A shield in a uniform field still blocks nothing around it;
-				// it only absorbs nothing.
-				lv.P[i], lv.PA[i], lv.PT[i] = 0, 0, 0
-			}
-		}
-		return
-	}
-	// Optical depth through each cell: w/D_p (0 when transparent, +Inf for a shield).
-	cellTau := func(i int) float64 {
-		d := s.diel[i]
 		switch {
 		case d == nil:
-			return 0
+			s.tauCell[i] = 0
 		case d.Shield:
-			return math.Inf(1)
+			s.tauCell[i] = math.Inf(1)
+		default:
+			eps2, dT, dA := d.Loss(T[i], A[i])
+			lv.P[i], lv.PT[i], lv.PA[i] = unit*eps2, unit*dT, unit*dA
+			if !uniform {
+				s.tauCell[i] = s.w[i] / physics.PenetrationDepth(v.Frequency, d.Permittivity, eps2)
+			}
 		}
-		eps2, _, _ := d.Loss(T[i], A[i])
-		return s.w[i] / physics.PenetrationDepth(v.Frequency, d.Permittivity, eps2)
+	}
+	if uniform {
+		// A shield in a uniform field blocks nothing around it; it only
+		// absorbs nothing.
+		return
 	}
 	// tauTop[i]: optical depth from the top face to the top of cell i;
-	// tauBot[i]: from the bottom face to the bottom of cell i; tauCell[i]:
-	// through cell i.
+	// tauBot[i]: from the bottom face to the bottom of cell i.
 	acc := 0.0
 	for i := range n {
-		s.tauCell[i] = cellTau(i)
 		s.tauTop[i] = acc
 		acc += s.tauCell[i]
 	}
@@ -381,11 +373,11 @@ func (s *stepper) power(lv *level, T, A []float64) {
 		var f float64
 		switch v.Attenuation {
 		case physics.FromTop:
-			f = math.Exp(-s.tauTop[i])
+			f = physics.Exp(-s.tauTop[i])
 		case physics.FromBottom:
-			f = math.Exp(-s.tauBot[i])
+			f = physics.Exp(-s.tauBot[i])
 		default:
-			f = 0.5 * (math.Exp(-s.tauTop[i]) + math.Exp(-s.tauBot[i]))
+			f = 0.5 * (physics.Exp(-s.tauTop[i]) + physics.Exp(-s.tauBot[i]))
 		}
 		lv.P[i] *= f * share
 		lv.PA[i] *= f * share
