@@ -2,7 +2,7 @@
 GO ?= go
 FUZZTIME ?= 10m
 
-.PHONY: build test vet bench demo fuzz e2e clean
+.PHONY: build test vet bench bench-scaling demo fuzz e2e clean
 
 build:
 	$(GO) build ./...
@@ -17,6 +17,18 @@ vet:
 # Speed figures for the README (see "Performance").
 bench:
 	$(GO) test -run '^$$' -bench . -benchmem -count 5 ./solver/ ./cases/
+
+# Sweep scaling from -j 1 to -j 2: eight alternating pairs of 1000-run
+# sweeps of the coupled bench case, one ratio per pair (shared machines are
+# noisy; read the median).
+bench-scaling:
+	$(GO) test -c -o cases.test ./cases
+	cd cases && for k in 1 2 3 4 5 6 7 8; do \
+		a=$$(../cases.test -test.run '^$$' -test.bench 'SweepBench1000/j1$$' -test.benchtime 1x | awk '/runs\/s/{print $$5}'); \
+		b=$$(../cases.test -test.run '^$$' -test.bench 'SweepBench1000/j2$$' -test.benchtime 1x | awk '/runs\/s/{print $$5}'); \
+		echo "j1 $$a runs/s  j2 $$b runs/s  ratio $$(awk "BEGIN{printf \"%.2f\", $$b/$$a}")"; \
+	done
+	rm -f cases.test
 
 demo:
 	$(GO) run ./cmd/cureslab demo -o cureslab-demo

@@ -51,16 +51,22 @@ func TestWorkPrecision(t *testing.T) {
 		t.Skip("work–precision study")
 	}
 	c := loadBench(t, "potting.toml")
+	// The time per run is the fastest of five (single runs are noisy).
 	run := func(tolT, tolA float64) (*solver.Result, time.Duration) {
 		p := *c.Problem
 		p.TemperatureTolerance, p.CureTolerance = tolT, tolA
-		start := time.Now()
-		r, err := solver.Run(context.Background(), &p)
-		d := time.Since(start)
-		if err != nil || r.Status != solver.OK {
-			t.Fatalf("tolerance %g K: %v %v", tolT, err, r.Err)
+		var r *solver.Result
+		best := time.Duration(math.MaxInt64)
+		for range 5 {
+			start := time.Now()
+			var err error
+			r, err = solver.Run(context.Background(), &p)
+			best = min(best, time.Since(start))
+			if err != nil || r.Status != solver.OK {
+				t.Fatalf("tolerance %g K: %v %v", tolT, err, r.Err)
+			}
 		}
-		return r, d
+		return r, best
 	}
 	ref, _ := run(1e-5, 4e-7)
 	rs := ref.Summary
