@@ -8,13 +8,18 @@ import (
 
 // TestStepAllocatesNothing checks that, after start-up, a coupled step
 // (Newton, tridiagonal solve, error estimate, ledger, tracking) allocates
-// nothing, with volumetric heating under control as well as without.
+// nothing, with volumetric heating under control as well as without, and
+// that a step of a linear problem (solveLinear) allocates nothing either.
 // Source: STYLE.md habit 9 (deterministic allocation count, not a timing).
 func TestStepAllocatesNothing(t *testing.T) {
-	for _, name := range []string{"oven", "controlled volumetric"} {
+	for _, name := range []string{"oven", "controlled volumetric", "linear conduction"} {
 		t.Run(name, func(t *testing.T) {
 			p := thickPotting(t, 60)
-			if name != "oven" {
+			if name == "linear conduction" {
+				p.Materials[0] = inert(2000, 900, 1.2)
+				p.Top.Emissivity = 0
+			}
+			if name == "controlled volumetric" {
 				p.Materials[0].Dielectric = &physics.Dielectric{Permittivity: 4, LossFactor: 0.4, LossFactorCured: 0.05}
 				prog, err := physics.FromSegments(296.15, []physics.Segment{{Rate: 2.0 / 60, To: 343.15}, {Hold: 3600}})
 				if err != nil {
@@ -28,6 +33,9 @@ func TestStepAllocatesNothing(t *testing.T) {
 				t.Fatal(err)
 			}
 			s := newStepper(q)
+			if s.linear != (name == "linear conduction") {
+				t.Fatalf("linear = %v", s.linear)
+			}
 			for i := range s.n {
 				s.T[i] = q.InitialTemperature
 				if s.cure[i] != nil {
