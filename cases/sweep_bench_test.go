@@ -28,24 +28,7 @@ func BenchmarkSweepDemoPotting(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	for _, jobs := range []int{1, 2} {
-		b.Run("j"+strconv.Itoa(jobs), func(b *testing.B) {
-			root := b.TempDir()
-			done := 0
-			for b.Loop() {
-				dir, err := os.MkdirTemp(root, "sweep")
-				if err != nil {
-					b.Fatal(err)
-				}
-				rep, err := s.Run(context.Background(), dir, SweepOptions{Jobs: jobs})
-				if err != nil || rep.Done != runs {
-					b.Fatalf("sweep: %v, %+v", err, rep)
-				}
-				done += rep.Done
-			}
-			b.ReportMetric(float64(done)/b.Elapsed().Seconds(), "runs/s")
-		})
-	}
+	benchSweep(b, s, runs)
 }
 
 // BenchmarkSweepBench1000 is the sweep of issue 8's targets: 1000 runs of
@@ -70,6 +53,12 @@ func BenchmarkSweepBench1000(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
+	benchSweep(b, s, runs)
+}
+
+// benchSweep runs sweep s (of runs runs) into a fresh directory per
+// operation with 1 and 2 workers and reports the throughput.
+func benchSweep(b *testing.B, s *Sweep, runs int) {
 	for _, jobs := range []int{1, 2} {
 		b.Run("j"+strconv.Itoa(jobs), func(b *testing.B) {
 			root := b.TempDir()

@@ -173,25 +173,22 @@ func (s *stepper) classify() {
 	s.kLin, s.cpLin = make([]bool, n), make([]bool, n)
 	s.k0, s.k1, s.cp0, s.cp1 = f(), f(), f(), f()
 	s.kFixed, s.cpFixed = true, true
+	// linear records cell i's property b in (lin, v0, v1) and reports
+	// whether it stays fixed during the run.
+	linear := func(b *physics.Blend, i int, lin []bool, v0, v1 []float64) bool {
+		a, slope, ok := b.Linear()
+		if !ok {
+			return false
+		}
+		if s.cure[i] == nil {
+			slope = 0 // α stays 0
+		}
+		lin[i], v0[i], v1[i] = true, a, slope
+		return slope == 0
+	}
 	for i, mt := range s.mat {
-		if v0, v1, ok := mt.Conductivity.Linear(); ok {
-			if s.cure[i] == nil {
-				v1 = 0
-			}
-			s.kLin[i], s.k0[i], s.k1[i] = true, v0, v1
-			s.kFixed = s.kFixed && v1 == 0
-		} else {
-			s.kFixed = false
-		}
-		if v0, v1, ok := mt.SpecificHeat.Linear(); ok {
-			if s.cure[i] == nil {
-				v1 = 0
-			}
-			s.cpLin[i], s.cp0[i], s.cp1[i] = true, v0, v1
-			s.cpFixed = s.cpFixed && v1 == 0
-		} else {
-			s.cpFixed = false
-		}
+		s.kFixed = linear(&mt.Conductivity, i, s.kLin, s.k0, s.k1) && s.kFixed
+		s.cpFixed = linear(&mt.SpecificHeat, i, s.cpLin, s.cp0, s.cp1) && s.cpFixed
 	}
 	for _, lv := range []*level{s.old, s.cur} {
 		if s.kFixed {
