@@ -13,7 +13,7 @@ import (
 var reportCmd = &Command{
 	Name:  "report",
 	Args:  "DIR",
-	Short: "(re)draw the HTML report from the output files of a run",
+	Short: "(re)draw the HTML report from the output files of a run or a sweep",
 	Long: `Read fields.csv, probes.csv and summary.json in DIR, the output directory
 of 'cureslab run', and write DIR/report.html from them: the page that run
 writes at the end (depth–time maps of temperature and cure, profiles, probe
@@ -21,10 +21,15 @@ histories, the summary and the criteria, the cautions). No case file is
 needed. Use it after a run with --no-report, or to redraw the report of an
 older run.
 
+A sweep directory (one with sweep.json, from 'cureslab sweep' or 'cureslab
+merge') gets its sweep page redrawn from summary.csv and sweep.json; without
+the case file its tables are ordered by status, then least cure, not by
+margin over the criteria.
+
 Exit status: 0 the report was written, 2 DIR does not hold the outputs of a
-run or one of them is malformed (the message gives the file and line;
-nothing is written).`,
-	Example: "cureslab report potting-out",
+run or a sweep, or one of them is malformed (the message gives the file and
+line; nothing is written).`,
+	Example: "cureslab report potting-out\ncureslab report sweep-merged",
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		return func(e *env, args []string) int {
 			if len(args) != 1 {
@@ -33,6 +38,14 @@ nothing is written).`,
 			dir := args[0]
 			if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
 				return e.usageError("%s is not a directory (give the output directory of 'cureslab run')", dir)
+			}
+			if _, err := os.Stat(filepath.Join(dir, cases.SweepDefinitionFile)); err == nil {
+				if err := cases.WriteSweepReport(dir, "", nil); err != nil {
+					fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
+					return exitUsage
+				}
+				fmt.Fprintf(e.stdout, "wrote %s\n", filepath.Join(dir, cases.SweepReportFile))
+				return exitOK
 			}
 			if err := cases.RedrawReport(dir); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)

@@ -279,6 +279,9 @@ and seed); otherwise nothing is written. When runs are missing (a shard that
 did not finish), merge lists them and writes nothing, unless --allow-missing:
 then it writes the rows it has, and running the sweep into OUT does the rest.
 Per-run output files (--keep-fields) stay in the shard directories.
+OUT/report.html is drawn from the merged summary (without the case file its
+tables are ordered by status, then least cure, not by margin); --no-report
+leaves it out.
 
 Exit status: 0 every run ok, 1 some run failed a criterion (none worse),
 2 bad input, different sweeps, or runs missing without --allow-missing
@@ -289,6 +292,7 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		out := fs.StringP("out", "o", "./merged", "write the merged sweep to `OUT`")
 		allow := fs.Bool("allow-missing", false, "write the rows found even when runs are missing")
+		noReport := fs.Bool("no-report", false, "do not write OUT/report.html")
 		return func(e *env, args []string) int {
 			if len(args) == 0 {
 				return e.usageError("expects at least one sweep directory")
@@ -304,6 +308,13 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 			fmt.Fprintf(e.stdout, "%d of %d runs merged from %d directories: %d ok, %d criteria-failed, %d runaway, %d failed\n",
 				rep.Rows, rep.Runs, len(args), rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed)
 			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(*out, cases.SweepSummaryFile))
+			if !*noReport {
+				if err := cases.WriteSweepReport(*out, "", nil); err != nil {
+					fmt.Fprintf(e.stderr, "cureslab merge: report: %v\n", err)
+				} else {
+					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(*out, cases.SweepReportFile))
+				}
+			}
 			if rep.Conflicts > 0 {
 				fmt.Fprintf(e.stderr, "cureslab merge: %d runs have different rows in different directories (kept the first); did the shards run different versions?\n", rep.Conflicts)
 			}

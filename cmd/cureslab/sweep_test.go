@@ -91,6 +91,21 @@ func TestSweepCommand(t *testing.T) {
 	if !bytes.Equal(got, want) {
 		t.Errorf("merged summary.csv differs:\n%s\nwant:\n%s", got, want)
 	}
+	// merge draws the sweep page; report redraws it (and a run's page is
+	// not attempted in a sweep directory).
+	page, err := os.ReadFile(filepath.Join("merged", "report.html"))
+	if err != nil || !strings.Contains(out, "report in merged") || !bytes.Contains(page, []byte("<svg")) {
+		t.Errorf("merge wrote no sweep report (%v):\n%s", err, out)
+	}
+	os.Remove(filepath.Join("merged", "report.html"))
+	code, out, errs = cl(t, "report", "merged")
+	if page, err := os.ReadFile(filepath.Join("merged", "report.html")); code != exitOK || err != nil || !bytes.Contains(page, []byte("9 runs")) {
+		t.Errorf("report of a sweep directory: exit %d, %v\n%s%s", code, err, out, errs)
+	}
+	code, _, _ = cl(t, append([]string{"merge", "-o", "merged-bare", "--no-report"}, shards...)...)
+	if _, err := os.Stat(filepath.Join("merged-bare", "report.html")); code != exitCriteria || err == nil {
+		t.Errorf("merge --no-report: exit %d, report.html written", code)
+	}
 	code, _, errs = cl(t, "merge", "-o", "part", shards[0], shards[1])
 	if code != exitUsage || !strings.Contains(errs, "3 of 9 runs are missing (2, 5, 8)") {
 		t.Errorf("merge with a shard missing: exit %d\n%s", code, errs)
