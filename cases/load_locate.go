@@ -3,6 +3,7 @@ package cases
 import (
 	"strconv"
 	"strings"
+	"unicode"
 )
 
 // pos is a position in a file: 1-based line and byte column. The zero pos
@@ -166,10 +167,28 @@ func (s *scanner) record(m map[string]pos, path string, p pos, all bool) {
 }
 
 func join(a, b string) string {
+	b = keyPart(b)
 	if a == "" {
 		return b
 	}
 	return a + "." + b
+}
+
+// keyPart writes one part of a key path for messages: as it is, unless it
+// is empty or holds a character that does not print (a tab, a carriage
+// return...), which is then quoted (`layer.0.""`, `"a\rb"`). Parts with
+// dots or spaces stay as written: a quoted "top.h" in [uncertainty] is a
+// key path on purpose.
+func keyPart(k string) string {
+	if k == "" {
+		return `""`
+	}
+	for _, r := range k {
+		if !unicode.IsPrint(r) {
+			return strconv.Quote(k)
+		}
+	}
+	return k
 }
 
 func (s *scanner) document() {
