@@ -65,7 +65,7 @@ func (s Status) String() string {
 // Snapshot is the state at one output time.
 type Snapshot struct {
 	Time float64   // s
-	T    []float64 // K, per cell
+	T    []float64 // K, per cell; nil under Problem.NoFields
 	// Cure, Rate and Tg are nil when no cell of the stack cures.
 	Cure []float64 // per cell; NaN for cells that do not cure
 	Rate []float64 // dα/dt, 1/s, per cell; NaN for cells that do not cure

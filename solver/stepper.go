@@ -75,7 +75,7 @@ type stepper struct {
 
 	// Tridiagonal system and elimination scratch.
 	lo, di, up, rhs, cp, inv []float64
-	jaT, jaa, gA             []float64
+	jaT, gA                  []float64
 
 	// History of accepted states for the predictor and the error estimate:
 	// histT[0] is the newest. histLen counts the valid entries.
@@ -103,8 +103,9 @@ type stepper struct {
 	// Jacobian depends on the step size and θ alone (see solveLinear).
 	linear bool
 	mc     []float64 // ρ w c_p per cell when linear, J/(m²·K)
-	// The factors of the last linear Jacobian: c and the inverse pivots of
-	// the Thomas algorithm, for step size luH and weight luTheta.
+	// The factors of the last linear Jacobian (see factor: the eliminated
+	// couplings and the inverse pivots, with lo and up scaled in place), for
+	// step size luH and weight luTheta.
 	luC, luInv   []float64
 	luH, luTheta float64
 
@@ -155,7 +156,7 @@ func newStepper(p *Problem) *stepper {
 	}
 	s.T, s.A, s.Tn, s.An = f(), f(), f(), f()
 	s.lo, s.di, s.up, s.rhs, s.cp, s.inv = f(), f(), f(), f(), f(), f()
-	s.jaT, s.jaa, s.gA = f(), f(), f()
+	s.jaT, s.gA = f(), f()
 	for k := range 3 {
 		s.histT[k], s.histA[k] = f(), f()
 	}
@@ -190,12 +191,14 @@ func (s *stepper) classify() {
 		s.kFixed = linear(&mt.Conductivity, i, s.kLin, s.k0, s.k1) && s.kFixed
 		s.cpFixed = linear(&mt.SpecificHeat, i, s.cpLin, s.cp0, s.cp1) && s.cpFixed
 	}
+	if s.kFixed {
+		s.gFix = f()
+	}
 	for _, lv := range []*level{s.old, s.cur} {
 		if s.kFixed {
 			for i := range n {
 				lv.R[i], lv.dRT[i], lv.dRA[i] = s.w[i]/(2*s.k0[i]), 0, 0
 			}
-			s.gFix = f()
 			for fc := 1; fc < n; fc++ {
 				g := 1 / (lv.R[fc-1] + s.rc[fc] + lv.R[fc])
 				s.gFix[fc] = g
@@ -208,8 +211,17 @@ func (s *stepper) classify() {
 			}
 		}
 	}
+	// The face kinds whose flux is affine in the boundary cell's
+	// temperature with a constant slope; a new kind is nonlinear until
+	// listed here.
 	linearFace := func(fc *physics.Face) bool {
-		return fc.Kind != physics.Convection || fc.Emissivity == 0
+		switch fc.Kind {
+		case physics.Insulated, physics.Fixed, physics.Flux:
+			return true
+		case physics.Convection:
+			return fc.Emissivity == 0
+		}
+		return false
 	}
 	s.linear = s.kFixed && s.cpFixed && !s.curing && s.vol == nil &&
 		linearFace(&s.p.Top) && linearFace(&s.p.Bottom)
@@ -483,12 +495,12 @@ func (s *stepper) assemble(h, theta float64) (maxF, maxG float64, ok bool) {
 	// Every slice at its exact length, so that the loops carry no bounds
 	// checks.
 	T, A, T0, A0 := s.Tn[:n], s.An[:n], s.T[:n], s.A[:n]
-	pj, sj, jaa := s.jaT[:n], s.gA[:n], s.jaa[:n]
+	pj, sj := s.jaT[:n], s.gA[:n]
 	cure := s.cure[:n]
 	r, r0, rT, rA := v.r[:n], o.r[:n], v.rT[:n], v.rA[:n]
 	// Cure rows first: p_j and s_j are needed by the neighbours' rows.
 	for i := range n {
-		pj[i], sj[i], jaa[i] = 0, 0, 1
+		pj[i], sj[i] = 0, 0
 		if cure[i] == nil {
 			continue
 		}
@@ -513,7 +525,7 @@ func (s *stepper) assemble(h, theta float64) (maxF, maxG float64, ok bool) {
 			ja = minJaa
 		}
 		ij := 1 / ja
-		pj[i], sj[i], jaa[i] = -h*theta*rT[i]*ij, G*ij, ja
+		pj[i], sj[i] = -h*theta*rT[i]*ij, G*ij
 	}
 	invh := 1 / h
 	rho, w, heat := s.rho[:n], s.w[:n], s.heat[:n]
