@@ -247,11 +247,12 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			var ws solver.Workspace // the worker's solver buffers, reused run after run
 			for r := range work {
 				if ictx.Err() != nil {
 					continue
 				}
-				res := s.runOne(ictx, r, dir, opt.KeepFields, width)
+				res := s.runOne(ictx, &ws, r, dir, opt.KeepFields, width)
 				if ictx.Err() != nil && res.err == nil {
 					continue // cut short: not committed, run again on resume
 				}
@@ -350,7 +351,7 @@ type sweepResult struct {
 }
 
 // runOne runs run r and returns its row.
-func (s *Sweep) runOne(ctx context.Context, r int, dir string, keep bool, width int) sweepResult {
+func (s *Sweep) runOne(ctx context.Context, ws *solver.Workspace, r int, dir string, keep bool, width int) sweepResult {
 	start := time.Now()
 	shown, vals := s.point(r)
 	rec := make([]string, 0, 1+len(shown)+len(sweepColumns)+len(sweepCriteria)+2)
@@ -369,7 +370,7 @@ func (s *Sweep) runOne(ctx context.Context, r int, dir string, keep bool, width 
 	}
 	// Without kept fields the row needs only the summary.
 	c.Problem.NoFields = !keep
-	res, err := solver.Run(ctx, c.Problem)
+	res, err := ws.Run(ctx, c.Problem)
 	if err != nil {
 		return failed(err.Error())
 	}

@@ -32,7 +32,7 @@ func TestStepAllocatesNothing(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			s := newStepper(q)
+			s := newStepper(q, nil)
 			if s.linear != (name == "linear conduction") {
 				t.Fatalf("linear = %v", s.linear)
 			}

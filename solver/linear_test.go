@@ -61,12 +61,12 @@ func TestLinearStepOneUpdate(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			s := newStepper(q)
+			s := newStepper(q, nil)
 			if !s.linear {
 				t.Fatal("problem not classified as linear")
 			}
 			fast := s.run(context.Background())
-			s = newStepper(q)
+			s = newStepper(q, nil)
 			s.linear = false
 			full := s.run(context.Background())
 			if full.Status != OK || fast.Status != OK {
@@ -126,14 +126,14 @@ func TestLinearClassification(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if !newStepper(q).linear {
+		if !newStepper(q, nil).linear {
 			t.Fatalf("base problem not linear")
 		}
 		change(p)
 		if q, err = normalise(p); err != nil {
 			t.Fatal(err)
 		}
-		if newStepper(q).linear {
+		if newStepper(q, nil).linear {
 			t.Errorf("%s: still classified as linear", name)
 		}
 	}

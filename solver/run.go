@@ -55,7 +55,7 @@ func Run(ctx context.Context, p *Problem) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	s := newStepper(q)
+	s := newStepper(q, nil)
 	return s.run(ctx), nil
 }
 

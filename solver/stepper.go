@@ -33,8 +33,8 @@ type level struct {
 	tfTop, tfBot float64 // outer face temperatures, K
 }
 
-func newLevel(n int) *level {
-	buf := make([]float64, 19*n+5)
+func newLevel(n int, mem *carver) *level {
+	buf := mem.take(19*n + 5)
 	take := func(m int) []float64 { s := buf[:m:m]; buf = buf[m:]; return s }
 	return &level{
 		down: take(n + 1), R: take(n), dRT: take(n), dRA: take(n), D: take(n),
@@ -120,11 +120,13 @@ type stepper struct {
 	tauCell  []float64
 }
 
-func newStepper(p *Problem) *stepper {
+// newStepper builds the stepper of p, taking its arrays from mem (nil:
+// fresh allocations).
+func newStepper(p *Problem, mem *carver) *stepper {
 	m := p.Mesh
 	n := m.Cells()
 	s := &stepper{p: p, n: n}
-	f := func() []float64 { return make([]float64, n) }
+	f := func() []float64 { return mem.take(n) }
 	s.w, s.rho, s.heat, s.rc = f(), f(), f(), f()
 	s.mat = make([]*physics.Material, n)
 	s.cure = make([]*physics.Cure, n)
@@ -160,17 +162,17 @@ func newStepper(p *Problem) *stepper {
 	for k := range 3 {
 		s.histT[k], s.histA[k] = f(), f()
 	}
-	s.old, s.cur = newLevel(n), newLevel(n)
-	s.classify()
+	s.old, s.cur = newLevel(n, mem), newLevel(n, mem)
+	s.classify(mem)
 	return s
 }
 
 // classify finds the cells whose properties need no table lookup, fills
 // the levels with whatever does not change during the run, and decides
 // whether the problem is linear (see the stepper's fields).
-func (s *stepper) classify() {
+func (s *stepper) classify(mem *carver) {
 	n := s.n
-	f := func() []float64 { return make([]float64, n) }
+	f := func() []float64 { return mem.take(n) }
 	s.kLin, s.cpLin = make([]bool, n), make([]bool, n)
 	s.k0, s.k1, s.cp0, s.cp1 = f(), f(), f(), f()
 	s.kFixed, s.cpFixed = true, true
