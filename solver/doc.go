@@ -10,12 +10,15 @@
 // after t = 0; the cure equation uses the same trapezoidal rule. At every step
 // the coupled equations for T and α are solved by Newton's method with the
 // cure unknown of each cell eliminated locally, so each iteration is one
-// tridiagonal solve. See DEVELOPERS.md for the equations.
+// tridiagonal solve (tridiag.go). Problems whose heat residual is linear in
+// T take one exact update per step with factors reused while the step size
+// repeats. See DEVELOPERS.md for the equations.
 //
 // # Invariants
 //
 //   - SI units: temperatures in K, times in s, depths in m.
 //   - Arrays are indexed by cell, top to bottom, as in package mesh.
 //   - Energies in the ledger are per unit face area (J/m²).
-//   - A Stepper owns all its buffers; stepping allocates nothing.
+//   - A stepper owns all its buffers (from a Workspace when one is given);
+//     stepping allocates nothing.
 package solver
