@@ -49,8 +49,10 @@ type expEntry struct {
 	tail   float64
 }
 
-// Exp returns e^x with the accuracy of fexp (≤ 0.53 ulp) at about half the
-// cost of math.Exp: for the solver's loops outside this package.
+// Exp returns e^x for the solver's loops outside this package: the
+// table-driven fexp below (Tang's method), within 0.53 ulp of the exact
+// value for every double x, with math.Exp's special cases; about 4 ns
+// against 7 ns for math.Exp on the development machine.
 func Exp(x float64) float64 { return fexp(x) }
 
 // fexp returns e^x for any double x.

@@ -5,15 +5,19 @@ import "context"
 // Workspace keeps the buffers of a run for the next one, so that a worker
 // running many problems one after the other (a sweep) allocates its
 // solver's arrays once instead of once per run. Problems of any size may
-// follow each other; the buffers grow to the largest. The zero value is
-// ready to use. A Workspace serves one run at a time: give each goroutine
-// its own. The Result of a run never refers to the workspace's memory.
+// follow each other; the buffers grow to the largest (about 60 floats per
+// cell). The zero value is ready to use. A Workspace serves one run at a
+// time: give each goroutine its own. The Result of a run never refers to
+// the workspace's memory.
 type Workspace struct {
 	buf []float64
 }
 
 // Run is solver.Run with the workspace's buffers: the same results, bit for
-// bit (each buffer starts at zero, as a fresh allocation would).
+// bit (each buffer starts at zero, as a fresh allocation would). Errors as
+// for solver.Run. Cost: clearing the buffers, O(cells), on top of the run;
+// the first run, and a run larger than any before it, allocates as
+// solver.Run does and sizes the buffers for the next.
 func (w *Workspace) Run(ctx context.Context, p *Problem) (*Result, error) {
 	q, err := normalise(p)
 	if err != nil {
