@@ -2,7 +2,9 @@ package cases
 
 import (
 	"bytes"
+	"crypto/sha256"
 	"encoding/csv"
+	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -166,4 +168,38 @@ func FormatRuns(runs []int, limit int) string {
 		i = j + 1
 	}
 	return strings.Join(parts, ", ")
+}
+
+// SweepCaseCriteria returns the criteria of the case file at casePath for
+// the report of the sweep directory dir (WriteSweepReport), after checking
+// that it is the sweep's case: its SHA-256 must be the case_sha256 of
+// dir/sweep.json (else an error wrapping ErrSweepMismatch). Errors of the
+// case file itself are returned as Parse gives them. Cost: one read and
+// one validation of the case.
+func SweepCaseCriteria(dir, casePath string) (*Criteria, error) {
+	b, err := os.ReadFile(filepath.Join(dir, SweepDefinitionFile))
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, &sweepError{msg: fmt.Sprintf("%s is not a sweep directory: it has no %s", dir, SweepDefinitionFile)}
+	}
+	if err != nil {
+		return nil, err
+	}
+	var d sweepDef
+	if err := json.Unmarshal(b, &d); err != nil || d.Format != sweepFormat {
+		return nil, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf("%s: %s is not a sweep definition of this version", dir, SweepDefinitionFile)}
+	}
+	data, err := os.ReadFile(casePath)
+	if err != nil {
+		return nil, err
+	}
+	if sum := sha256.Sum256(data); hex.EncodeToString(sum[:]) != d.CaseSHA256 {
+		return nil, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+			"%s is not the case of the sweep in %s: its SHA-256 differs from the case_sha256 in %s (edited since?)",
+			casePath, dir, SweepDefinitionFile)}
+	}
+	c, err := Parse(casePath, data, filepath.Dir(casePath))
+	if err != nil {
+		return nil, err
+	}
+	return &c.Criteria, nil
 }

@@ -22,15 +22,17 @@ needed. Use it after a run with --no-report, or to redraw the report of an
 older run.
 
 A sweep directory (one with sweep.json, from 'cureslab sweep' or 'cureslab
-merge') gets its sweep page redrawn from summary.csv and sweep.json; without
-the case file its tables are ordered by status, then least cure, not by
-margin over the criteria.
+merge') gets its sweep page redrawn from summary.csv and sweep.json. With
+--case FILE (the sweep's case file, checked against sweep.json) its tables
+are ordered by the margin over the case's criteria, else by status, then
+least cure.
 
 Exit status: 0 the report was written, 2 DIR does not hold the outputs of a
 run or a sweep, or one of them is malformed (the message gives the file and
 line; nothing is written).`,
-	Example: "cureslab report potting-out\ncureslab report sweep-merged",
+	Example: "cureslab report potting-out\ncureslab report sweep-merged --case potting.toml",
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
+		casePath := fs.String("case", "", "for a sweep directory: the sweep's case `FILE`, for the criteria")
 		return func(e *env, args []string) int {
 			if len(args) != 1 {
 				return e.usageError("expects one output directory, got %d arguments", len(args))
@@ -40,12 +42,24 @@ line; nothing is written).`,
 				return e.usageError("%s is not a directory (give the output directory of 'cureslab run')", dir)
 			}
 			if _, err := os.Stat(filepath.Join(dir, cases.SweepDefinitionFile)); err == nil {
-				if err := cases.WriteSweepReport(dir, "", nil); err != nil {
+				var crit *cases.Criteria
+				if *casePath != "" {
+					c, err := cases.SweepCaseCriteria(dir, *casePath)
+					if err != nil {
+						fmt.Fprintf(e.stderr, "cureslab report: --case: %v\n", err)
+						return exitUsage
+					}
+					crit = c
+				}
+				if err := cases.WriteSweepReport(dir, "", crit); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
 					return exitUsage
 				}
 				fmt.Fprintf(e.stdout, "wrote %s\n", filepath.Join(dir, cases.SweepReportFile))
 				return exitOK
+			}
+			if *casePath != "" {
+				return e.usageError("--case is for sweep directories; %s holds no %s", dir, cases.SweepDefinitionFile)
 			}
 			if err := cases.RedrawReport(dir); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)

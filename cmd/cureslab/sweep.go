@@ -279,9 +279,10 @@ and seed); otherwise nothing is written. When runs are missing (a shard that
 did not finish), merge lists them and writes nothing, unless --allow-missing:
 then it writes the rows it has, and running the sweep into OUT does the rest.
 Per-run output files (--keep-fields) stay in the shard directories.
-OUT/report.html is drawn from the merged summary (without the case file its
-tables are ordered by status, then least cure, not by margin); --no-report
-leaves it out.
+OUT/report.html is drawn from the merged summary; with --case FILE (the
+sweep's case file, checked against sweep.json) its tables are ordered by the
+margin over the case's criteria, else by status, then least cure;
+--no-report leaves it out.
 
 Exit status: 0 every run ok, 1 some run failed a criterion (none worse),
 2 bad input, different sweeps, or runs missing without --allow-missing
@@ -293,9 +294,20 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 		out := fs.StringP("out", "o", "./merged", "write the merged sweep to `OUT`")
 		allow := fs.Bool("allow-missing", false, "write the rows found even when runs are missing")
 		noReport := fs.Bool("no-report", false, "do not write OUT/report.html")
+		casePath := fs.String("case", "", "the sweep's case `FILE`, for the report's criteria")
 		return func(e *env, args []string) int {
 			if len(args) == 0 {
 				return e.usageError("expects at least one sweep directory")
+			}
+			var crit *cases.Criteria
+			if *casePath != "" {
+				// Checked before anything is written.
+				c, err := cases.SweepCaseCriteria(args[0], *casePath)
+				if err != nil {
+					fmt.Fprintf(e.stderr, "cureslab merge: --case: %v\n", err)
+					return exitUsage
+				}
+				crit = c
 			}
 			rep, err := cases.MergeSweeps(*out, args, *allow)
 			if err != nil {
@@ -309,7 +321,7 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 				rep.Rows, rep.Runs, len(args), rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed)
 			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(*out, cases.SweepSummaryFile))
 			if !*noReport {
-				if err := cases.WriteSweepReport(*out, "", nil); err != nil {
+				if err := cases.WriteSweepReport(*out, "", crit); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab merge: report: %v\n", err)
 				} else {
 					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(*out, cases.SweepReportFile))

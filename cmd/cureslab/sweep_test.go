@@ -102,6 +102,30 @@ func TestSweepCommand(t *testing.T) {
 	if page, err := os.ReadFile(filepath.Join("merged", "report.html")); code != exitOK || err != nil || !bytes.Contains(page, []byte("9 runs")) {
 		t.Errorf("report of a sweep directory: exit %d, %v\n%s%s", code, err, out, errs)
 	}
+	if page, _ := os.ReadFile(filepath.Join("merged", "report.html")); !bytes.Contains(page, []byte("Sorted by status")) {
+		t.Errorf("a sweep page without the case file should be sorted by status")
+	}
+	// With the case file the page is sorted by the criteria's margins; a
+	// different file is refused and nothing is written.
+	code, out, errs = cl(t, "report", "merged", "--case", caseFile)
+	if page, _ := os.ReadFile(filepath.Join("merged", "report.html")); code != exitOK || !bytes.Contains(page, []byte("smallest margin to a criterion limit")) {
+		t.Errorf("report --case: exit %d\n%s%s", code, out, errs)
+	}
+	other := filepath.Join(dir, "other.toml")
+	data, _ := os.ReadFile(caseFile)
+	os.WriteFile(other, append(data, []byte("\n# edited\n")...), 0o644)
+	code, _, errs = cl(t, "report", "merged", "--case", other)
+	if code != exitUsage || !strings.Contains(errs, "is not the case of the sweep") {
+		t.Errorf("report --case with another file: exit %d\n%s", code, errs)
+	}
+	code, _, errs = cl(t, append([]string{"merge", "-o", "merged-case", "--case", other}, shards...)...)
+	if _, err := os.Stat("merged-case"); code != exitUsage || err == nil || !strings.Contains(errs, "is not the case of the sweep") {
+		t.Errorf("merge --case with another file: exit %d, %v\n%s", code, err, errs)
+	}
+	code, out, errs = cl(t, append([]string{"merge", "-o", "merged-case", "--case", caseFile}, shards...)...)
+	if page, _ := os.ReadFile(filepath.Join("merged-case", "report.html")); code != exitCriteria || !bytes.Contains(page, []byte("smallest margin to a criterion limit")) {
+		t.Errorf("merge --case: exit %d\n%s%s", code, out, errs)
+	}
 	code, _, _ = cl(t, append([]string{"merge", "-o", "merged-bare", "--no-report"}, shards...)...)
 	if _, err := os.Stat(filepath.Join("merged-bare", "report.html")); code != exitCriteria || err == nil {
 		t.Errorf("merge --no-report: exit %d, report.html written", code)
