@@ -10,7 +10,6 @@ package cases
 
 import (
 	"context"
-	"encoding/csv"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -92,15 +91,7 @@ func advEndToEnd(t *testing.T, text string) *advOutcome {
 // advCSV reads a CSV output file whole.
 func advCSV(t *testing.T, path string) [][]string {
 	t.Helper()
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatalf("%s: %v", path, err)
-	}
+	rows := readCSV(t, path)
 	if len(rows) < 2 {
 		t.Fatalf("%s has no data rows", path)
 	}

@@ -369,15 +369,7 @@ func TestSweepRows(t *testing.T) {
 	if rep.Runs != 18 || rep.Done != 18 || rep.Resumed != 0 || rep.OK+rep.CriteriaFailed+rep.Runaway+rep.Failed != 18 || rep.Interrupted {
 		t.Fatalf("report %+v", rep)
 	}
-	f, err := os.Open(filepath.Join(dir, SweepSummaryFile))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	recs := readCSV(t, filepath.Join(dir, SweepSummaryFile))
 	if len(recs) != 19 {
 		t.Fatalf("%d records, want a header and 18 rows", len(recs))
 	}

@@ -2,7 +2,6 @@ package cases
 
 import (
 	"context"
-	"encoding/csv"
 	"encoding/json"
 	"errors"
 	"math"
@@ -388,15 +387,7 @@ func TestWriteUncertainty(t *testing.T) {
 	if ja, jb := mustJSON(t, a), mustJSON(t, b0); ja != jb {
 		t.Errorf("summary.json changed beyond the uncertainty:\n%s\n%s", ja, jb)
 	}
-	f, err := os.Open(filepath.Join(dir, UncertaintyFile))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	rows := readCSV(t, filepath.Join(dir, UncertaintyFile))
 	if len(rows) != 4 || rows[0][0] != "sample" || rows[0][1] != "top.h" || rows[0][2] != "peak_temperature_C" ||
 		rows[0][len(rows[0])-2] != "status" || rows[3][0] != "2" {
 		t.Errorf("uncertainty.csv: %d rows, header %v", len(rows), rows[0])

@@ -171,8 +171,8 @@ func TestWriteRunGolden(t *testing.T) {
 	}
 }
 
-// readCSV reads a CSV file written by WriteRun.
-func readCSV(t *testing.T, path string) [][]string {
+// readCSV reads a CSV output file whole.
+func readCSV(t testing.TB, path string) [][]string {
 	t.Helper()
 	f, err := os.Open(path)
 	if err != nil {
@@ -181,7 +181,7 @@ func readCSV(t *testing.T, path string) [][]string {
 	defer f.Close()
 	rows, err := csv.NewReader(f).ReadAll()
 	if err != nil {
-		t.Fatal(err)
+		t.Fatalf("%s: %v", path, err)
 	}
 	return rows
 }
