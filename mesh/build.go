@@ -14,7 +14,7 @@ const (
 
 // Build returns the mesh of the given layers, listed top to bottom.
 //
-// Cell count of layer j (SPEC §10):
+// Cell count of layer j (README Case file reference, [mesh]):
 //
 //	n_j = Cells                                   if the layer gives Cells,
 //	n_j ≥ max(4, ceil(t_j/max_cell − 1e-9))      otherwise (DefaultCells),

@@ -18,20 +18,20 @@ func TestDefaultCells(t *testing.T) {
 		thickness, maxCell float64
 		want               int
 	}{
-		// Source: SPEC §10, max(4, ceil(t/max_cell − 1e-9)): 1 mm / 0.25 mm = 4 exactly.
+		// Source: README Case file reference, [mesh], max(4, ceil(t/max_cell − 1e-9)): 1 mm / 0.25 mm = 4 exactly.
 		{"exact 4", 1 * mm, 0.25 * mm, 4},
-		// Source: SPEC §10: 10 mm / 0.25 mm = 40.
+		// Source: README Case file reference, [mesh]: 10 mm / 0.25 mm = 40.
 		{"10 mm", 10 * mm, 0, 40},
-		// Source: SPEC §10: a thin layer still gets 4 cells.
+		// Source: README Case file reference, [mesh]: a thin layer still gets 4 cells.
 		{"thin", 20 * um, 0, 4},
-		// Source: SPEC §10: 1.0001 mm / 0.25 mm = 4.0004 rounds up.
+		// Source: README Case file reference, [mesh]: 1.0001 mm / 0.25 mm = 4.0004 rounds up.
 		{"just over", 1.0001 * mm, 0.25 * mm, 5},
-		// Source: SPEC §10, the 1e-9 term: 1.5e-3/0.3e-3 evaluates to
+		// Source: README Case file reference, [mesh], the 1e-9 term: 1.5e-3/0.3e-3 evaluates to
 		// 5.000000000000001 in float64 and must give 5, not 6 (analytic).
 		{"round-off above 5", 1.5 * mm, 0.3 * mm, 5},
-		// Source: SPEC §10: 3e-3/0.3e-3 evaluates to 10.000000000000002 (analytic: 10).
+		// Source: README Case file reference, [mesh]: 3e-3/0.3e-3 evaluates to 10.000000000000002 (analytic: 10).
 		{"round-off above 10", 3 * mm, 0.3 * mm, 10},
-		// Source: SPEC §10: 1.2e-3/0.1e-3 evaluates to 11.999999999999998 (analytic: 12).
+		// Source: README Case file reference, [mesh]: 1.2e-3/0.1e-3 evaluates to 11.999999999999998 (analytic: 12).
 		{"round-off below 12", 1.2 * mm, 0.1 * mm, 12},
 		// Source: analytic; a count beyond 2^53 saturates instead of overflowing.
 		{"absurd", 1, 5e-324, math.MaxInt},
@@ -45,7 +45,7 @@ func TestDefaultCells(t *testing.T) {
 }
 
 // checkMesh checks the geometric identities every mesh must satisfy
-// (package doc invariants, SPEC §10): lengths, ownership, per-layer and total
+// (package doc invariants, README Case file reference, [mesh]): lengths, ownership, per-layer and total
 // thickness, faces at layer ends equal to the running sum of thicknesses.
 func checkMesh(t *testing.T, m *Mesh, layers []Layer) {
 	t.Helper()
@@ -114,13 +114,13 @@ func TestBuildUniform(t *testing.T) {
 		opt    Options
 		want   []int
 	}{
-		// Source: SPEC §10 default count: 10 mm / 0.25 mm = 40; 1 mm -> 4; 20 um -> 4.
+		// Source: README Case file reference, [mesh], default count: 10 mm / 0.25 mm = 40; 1 mm -> 4; 20 um -> 4.
 		{"defaults", []Layer{{Thickness: 10 * mm}, {Thickness: 1 * mm}, {Thickness: 20 * um}}, Options{}, []int{40, 4, 4}},
-		// Source: SPEC §10: a layer's cells wins over the default.
+		// Source: README Case file reference, [mesh]: a layer's cells wins over the default.
 		{"cells wins", []Layer{{Thickness: 10 * mm, Cells: 7}, {Thickness: 1 * mm, Cells: 1}}, Options{}, []int{7, 1}},
-		// Source: SPEC §10 with max_cell = 0.1 mm: 1.2 mm -> 12, 0.25 mm -> 4 (max with 4).
+		// Source: README Case file reference, [mesh], with max_cell = 0.1 mm: 1.2 mm -> 12, 0.25 mm -> 4 (max with 4).
 		{"max cell", []Layer{{Thickness: 1.2 * mm}, {Thickness: 0.25 * mm}}, Options{MaxCell: 0.1 * mm}, []int{12, 4}},
-		// Source: SPEC §4: growth 1 means no grading; 2 mm -> 8, 20 um -> 4.
+		// Source: README Case file reference, [mesh]: growth 1 means no grading; 2 mm -> 8, 20 um -> 4.
 		{"growth 1", []Layer{{Thickness: 2 * mm}, {Thickness: 20 * um}}, Options{Growth: 1}, []int{8, 4}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -152,7 +152,7 @@ func TestBuildGrading(t *testing.T) {
 		layers []Layer
 		growth float64
 	}{
-		// Source: SPEC §4 [mesh]: a 20 um coating on a 5 mm substrate needs no hand meshing.
+		// Source: README Case file reference, [mesh]: a 20 um coating on a 5 mm substrate needs no hand meshing.
 		{"20 um on 5 mm", []Layer{{Thickness: 20 * um}, {Thickness: 5 * mm}}, 1.2},
 		{"5 mm under 20 um", []Layer{{Thickness: 5 * mm}, {Thickness: 20 * um}}, 1.2},
 		{"1 um next to 50 mm", []Layer{{Thickness: 1 * um}, {Thickness: 50 * mm}}, 1.2},
@@ -171,7 +171,7 @@ func TestBuildGrading(t *testing.T) {
 				t.Fatal(err)
 			}
 			checkMesh(t, m, tc.layers)
-			// Source: SPEC §4 [mesh] growth: neighbouring cells differ in size by at most
+			// Source: README Case file reference, [mesh] growth: neighbouring cells differ in size by at most
 			// this ratio, across layer faces too (analytic bound).
 			for i := 1; i < m.Cells(); i++ {
 				a, b := m.Widths[i-1], m.Widths[i]
@@ -183,7 +183,7 @@ func TestBuildGrading(t *testing.T) {
 			if r := m.MaxRatio(); r > tc.growth {
 				t.Errorf("MaxRatio = %g > growth %g", r, tc.growth)
 			}
-			// Source: SPEC §10: growth may add cells, never remove them; a layer's
+			// Source: README Case file reference, [mesh]: growth may add cells, never remove them; a layer's
 			// cells wins; automatic cells never exceed max_cell (to the 1e-9 of the formula).
 			plain, err := Build(tc.layers, Options{})
 			if err != nil {
@@ -213,7 +213,7 @@ func TestBuildGrading(t *testing.T) {
 }
 
 func TestBuildGradingAddsOnlyWhereNeeded(t *testing.T) {
-	// Source: analytic; 1 mm and 0.98 mm both get 4 cells (SPEC §10), 0.25 mm
+	// Source: analytic; 1 mm and 0.98 mm both get 4 cells (README Case file reference, [mesh]), 0.25 mm
 	// and 0.245 mm, ratio 1.02 < growth: grading must leave them uniform.
 	layers := []Layer{{Thickness: 1 * mm}, {Thickness: 0.98 * mm}}
 	m, err := Build(layers, Options{Growth: 1.2})
@@ -296,7 +296,7 @@ func TestBuildErrors(t *testing.T) {
 		{"infinite thickness", []Layer{{Thickness: math.Inf(1)}}, Options{}, ErrLayer, 0},
 		{"sub-nanometre thickness", []Layer{{Thickness: 1e-12}}, Options{}, ErrLayer, 0},
 		{"negative cells", []Layer{ok, {Thickness: 1 * mm, Cells: -3}}, Options{}, ErrLayer, 1},
-		// Source: SPEC §10: contact_resistance on the first layer is an error.
+		// Source: README Case file reference, [[layer]]: contact_resistance on the first layer is an error.
 		{"contact resistance on first layer", []Layer{{Thickness: 1 * mm, ContactResistance: 1e-4}, ok}, Options{}, ErrLayer, 0},
 		{"negative contact resistance", []Layer{ok, {Thickness: 1 * mm, ContactResistance: -1e-4}}, Options{}, ErrLayer, 1},
 		{"NaN contact resistance", []Layer{ok, {Thickness: 1 * mm, ContactResistance: math.NaN()}}, Options{}, ErrLayer, 1},
@@ -339,7 +339,7 @@ func TestLocate(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	// Cells: 4 × 50 um, 4 × 250 um, 4 × 75 um (SPEC §10 counts).
+	// Cells: 4 × 50 um, 4 × 250 um, 4 × 75 um (README Case file reference, [mesh]).
 	for _, tc := range []struct {
 		name        string
 		z           float64
@@ -350,7 +350,7 @@ func TestLocate(t *testing.T) {
 		// Source: analytic; a face between cells belongs to the cell above.
 		{"face inside layer", 50 * um, 0, 0},
 		{"just below that face", 50.001 * um, 1, 0},
-		// Source: SPEC §10: a probe exactly on a layer face reads the upper layer's side.
+		// Source: README Case file reference, [output]: a probe exactly on a layer face reads the upper layer's side.
 		{"layer face 0.2 mm", 0.2 * mm, 3, 0},
 		{"just below 0.2 mm", 0.2001 * mm, 4, 1},
 		// 1.2e-3 typed by a user; the face is 0.2e-3 + 1e-3 in float64 (round-off).
@@ -393,7 +393,7 @@ func TestLocate(t *testing.T) {
 
 func TestBuildGradingRandomStacks(t *testing.T) {
 	// Random stacks of automatic layers, 1 um to 50 mm, fixed seed. The
-	// identities and the ratio bound of SPEC §4/§10 must hold for all.
+	// identities and the [mesh] growth bound (README Case file reference) must hold for all.
 	rng := rand.New(rand.NewPCG(1, 2))
 	for k := range 300 {
 		layers := make([]Layer, 1+rng.IntN(6))
@@ -406,12 +406,12 @@ func TestBuildGradingRandomStacks(t *testing.T) {
 			t.Fatalf("stack %d %+v growth %g: %v", k, layers, g, err)
 		}
 		checkMesh(t, m, layers)
-		// Source: SPEC §4 [mesh] growth (analytic bound).
+		// Source: README Case file reference, [mesh] growth (analytic bound).
 		if r := m.MaxRatio(); r > g {
 			t.Errorf("stack %d %+v growth %g: MaxRatio %g", k, layers, g, r)
 		}
 		for j, n := range cellsOf(m) {
-			// Source: SPEC §10: growth never removes cells.
+			// Source: README Case file reference, [mesh]: growth never removes cells.
 			if d := DefaultCells(layers[j].Thickness, 0); n < d {
 				t.Errorf("stack %d layer %d: %d cells < default %d", k, j, n, d)
 			}
@@ -421,7 +421,7 @@ func TestBuildGradingRandomStacks(t *testing.T) {
 
 func TestBuildManyAlternatingLayers(t *testing.T) {
 	// 40 layers alternating 1 um and 50 mm with growth 1.05: the grading
-	// must settle quickly and keep the bound (SPEC §4 [mesh], analytic).
+	// must settle quickly and keep the bound (README Case file reference, [mesh], analytic).
 	var layers []Layer
 	for j := range 40 {
 		th := 1 * um
@@ -443,7 +443,7 @@ func TestBuildManyAlternatingLayers(t *testing.T) {
 
 func TestBuildGradingRandomFixedLayers(t *testing.T) {
 	// Random stacks where some layers fix their cells. A fixed count always
-	// wins (SPEC §10); a neighbour ratio above growth is allowed only where the
+	// wins (README Case file reference, [mesh]); a neighbour ratio above growth is allowed only where the
 	// coarse side is a fixed layer left uniform (Build's documented rule).
 	rng := rand.New(rand.NewPCG(3, 4))
 	for k := range 300 {

@@ -29,7 +29,7 @@ type Options struct {
 	Growth float64
 }
 
-// DefaultMaxCell is the default largest cell size (SPEC §10).
+// DefaultMaxCell is the default largest cell size (README Case file reference, [mesh]).
 const DefaultMaxCell = 0.25e-3
 
 // Mesh is the grid. All slices are indexed top to bottom.
@@ -73,7 +73,7 @@ func (m *Mesh) Cells() int { return len(m.Widths) }
 func (m *Mesh) Thickness() float64 { return m.Faces[len(m.Faces)-1] }
 
 // DefaultCells returns the cell count of a layer of the given thickness with
-// no Cells of its own (SPEC §10): max(4, ceil(thickness/maxCell − 1e-9)).
+// no Cells of its own (README Case file reference, [mesh]): max(4, ceil(thickness/maxCell − 1e-9)).
 //
 // A maxCell ≤ 0 means DefaultMaxCell. A count beyond 2^53, or a NaN
 // thickness (absurd input), saturates at math.MaxInt instead of overflowing,
@@ -93,7 +93,7 @@ func DefaultCells(thickness, maxCell float64) int {
 //
 // Cell i spans Faces[i] < z ≤ Faces[i+1]: a depth on a face belongs to the
 // cell above it (cell 0 for z = 0), which makes a depth exactly on a layer
-// face read the upper layer's side (SPEC §10). A depth within 1e-9 of the
+// face read the upper layer's side (README Case file reference, [output]). A depth within 1e-9 of the
 // smaller adjacent cell width of a face counts as on that face, so a depth
 // typed by a user and a face position summed from layer thicknesses agree
 // despite round-off.
@@ -132,7 +132,7 @@ func (m *Mesh) Locate(z float64) int {
 
 // LayerOf returns the index of the layer that contains depth z, with the
 // conventions of Locate: a depth exactly on a layer face belongs to the upper
-// layer (SPEC §10), and -1 means z is outside the stack or NaN.
+// layer (README Case file reference, [output]), and -1 means z is outside the stack or NaN.
 // Cost: O(log n).
 func (m *Mesh) LayerOf(z float64) int {
 	i := m.Locate(z)

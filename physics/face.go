@@ -8,7 +8,7 @@ const StefanBoltzmann = 5.670374419e-8
 // FaceKind is the kind of condition on an outer face of the stack.
 type FaceKind int
 
-// The face kinds of SPEC §4.
+// The face kinds of a case file's [top] and [bottom] (README Case file reference).
 const (
 	Insulated FaceKind = iota
 	Convection
@@ -57,7 +57,7 @@ func (f *Face) Driver() (*Schedule, bool) {
 //
 //	h·(Ta − Tf) + εσ·(Ta⁴ − Tf⁴) = (Tf − Tc)/R
 //
-// (radiation at the face temperature, SPEC §10) by Newton's method, which
+// (radiation at the face temperature; README Case file reference, [top] and [bottom]) by Newton's method, which
 // converges monotonically because the left side decreases and the right side
 // increases in Tf. Insulated faces report Tf = Tc.
 func (f *Face) HeatIn(t, Tc, R float64) (q, dqdTc, Tf float64) {

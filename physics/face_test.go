@@ -51,7 +51,7 @@ func TestFaceRadiation(t *testing.T) {
 		f := Face{Kind: Convection, H: tc.h, Emissivity: tc.eps, Air: Steady(tc.Ta)}
 		q, dq, Tf := f.HeatIn(0, tc.Tc, tc.r)
 		es := tc.eps * StefanBoltzmann
-		// Source: SPEC §10 face balance, radiation at the face temperature:
+		// Source: the face balance of the README Case file reference, [top] and [bottom], radiation at the face temperature:
 		// h(Ta − Tf) + εσ(Ta⁴ − Tf⁴) = (Tf − Tc)/R = q.
 		conv := tc.h * (tc.Ta - Tf)
 		rad := es * (math.Pow(tc.Ta, 4) - math.Pow(Tf, 4))
@@ -75,7 +75,7 @@ func TestFaceRadiation(t *testing.T) {
 }
 
 func TestFaceRadiationAgainstBisection(t *testing.T) {
-	// Independent method: bisection on the SPEC §10 face balance
+	// Independent method: bisection on the face balance (README Case file reference, [top] and [bottom])
 	// g(Tf) = h(Ta − Tf) + εσ(Ta⁴ − Tf⁴) − (Tf − Tc)/R, decreasing in Tf,
 	// with the root between Tc and Ta.
 	for _, tc := range []struct{ h, eps, Ta, Tc, R float64 }{
@@ -115,7 +115,7 @@ func TestFaceFixedFluxInsulated(t *testing.T) {
 	}
 	flux := Face{Kind: Flux, Flux: Steady(1500)}
 	q, dq, Tf = flux.HeatIn(0, 320, R)
-	// Source: SPEC §10 — flux is positive into the part; Tf = Tc + qR.
+	// Source: README Case file reference, [top] and [bottom] — flux is positive into the part; Tf = Tc + qR.
 	if q != 1500 || dq != 0 || math.Abs(Tf-(320+1500*R)) > 1e-12 {
 		t.Errorf("flux: q, dq, Tf = %v, %v, %v; want 1500, 0, %v", q, dq, Tf, 320+1500*R)
 	}
@@ -143,7 +143,7 @@ func TestFaceDriver(t *testing.T) {
 }
 
 func TestFaceKindString(t *testing.T) {
-	// Source: SPEC §4, the kind names of a case file.
+	// Source: README Case file reference, [top] and [bottom], the kind names of a case file.
 	want := map[FaceKind]string{Insulated: "insulated", Convection: "convection", Fixed: "fixed", Flux: "flux", FaceKind(9): "FaceKind(?)"}
 	for k, w := range want {
 		if k.String() != w {

@@ -107,7 +107,7 @@ func TestDiffusionFactorValues(t *testing.T) {
 }
 
 func TestRateZeroAtFullCure(t *testing.T) {
-	// Source: SPEC §10 — every rate is zero at α = 1, including n = 0.
+	// Source: README Case file reference, [materials.NAME.cure] — every rate is zero at α = 1, including n = 0.
 	models := []Kinetics{
 		testNth,
 		NthOrder{A: 1e5, E: 60e3, N: 0},
@@ -134,7 +134,7 @@ func TestRateZeroAtFullCure(t *testing.T) {
 }
 
 func TestNames(t *testing.T) {
-	// Source: SPEC §4, the model names of a case file.
+	// Source: README Case file reference, [materials.NAME.cure], the model names.
 	if testNth.Name() != "nth-order" || testAuto.Name() != "autocatalytic" {
 		t.Errorf("names %q, %q", testNth.Name(), testAuto.Name())
 	}
@@ -156,7 +156,7 @@ func TestDiBenedetto(t *testing.T) {
 	if got, want := d.Tg(0.5), 294.1267605633803; math.Abs(got-want) > 1e-10 {
 		t.Errorf("Tg(0.5) = %v, want %v", got, want)
 	}
-	// Source: inverse relation of REFERENCES §4, α = (Tg − Tg0)/[λ(Tg∞ − Tg) + (Tg − Tg0)].
+	// Source: inverse of the DiBenedetto relation in the Pascault–Williams form (Pascault & Williams, J. Polym. Sci. B 28:85, 1990; from memory), α = (Tg − Tg0)/[λ(Tg∞ − Tg) + (Tg − Tg0)].
 	for _, a := range []float64{0, 0.1, 0.35, 0.5, 0.8, 0.97, 1} {
 		if got := d.CureAt(d.Tg(a)); math.Abs(got-a) > 1e-13 {
 			t.Errorf("CureAt(Tg(%g)) = %v", a, got)
@@ -183,14 +183,14 @@ func TestDefaultGelPoint(t *testing.T) {
 
 func TestHeatPerMass(t *testing.T) {
 	c := Cure{TotalHeat: 420e3, ResinFraction: 0.6}
-	// Source: SPEC §10, heat per mass of material = resin_fraction · total_heat.
+	// Source: README Case file reference, [materials.NAME.cure], heat per mass of material = resin_fraction · total_heat.
 	if got := c.HeatPerMass(); math.Abs(got-252e3) > 1e-9 {
 		t.Errorf("HeatPerMass = %v, want 252000", got)
 	}
 }
 
 // nthTime is the closed-form isothermal time of the n-th order law from a0 to a
-// (REFERENCES §5, analytic).
+// (analytic: separation of variables).
 func nthTime(k, n, a0, a float64) float64 {
 	if n == 1 {
 		return (math.Log(1-a0) - math.Log(1-a)) / k
@@ -223,7 +223,7 @@ func TestIsothermalNthOrder(t *testing.T) {
 					continue
 				}
 				got := c.IsothermalTime(T, a0, target)
-				// Source: REFERENCES §5, n-th order closed form (analytic).
+				// Source: n-th order closed form (analytic).
 				want := nthTime(k, n, a0, target)
 				if want > MaxIsothermalTime {
 					// Documented: longer than MaxIsothermalTime is never.
@@ -241,7 +241,7 @@ func TestIsothermalNthOrder(t *testing.T) {
 		}
 		for _, kt := range []float64{0.01, 0.3, 1, 1.9, 5, 30} {
 			got := c.IsothermalCure(T, 0, kt/k)
-			// Source: REFERENCES §5, α = 1 − [1 − (1−n)kt]^{1/(1−n)}; 1 − e^{−kt} for n = 1 (analytic).
+			// Source: n-th order closed form, α = 1 − [1 − (1−n)kt]^{1/(1−n)}; 1 − e^{−kt} for n = 1 (analytic).
 			want := nthCure(k, n, kt/k)
 			if math.Abs(got-want) > 1e-10 {
 				t.Errorf("n=%g: IsothermalCure(kt = %g) = %.15g, want %.15g", n, kt, got, want)
@@ -256,7 +256,7 @@ func TestIsothermalFullCure(t *testing.T) {
 		n    float64
 		want func(k float64) float64
 	}{
-		// Source: REFERENCES §5 closed form at α = 1: t = 1/((1 − n) k) for n < 1 (analytic).
+		// Source: n-th order closed form at α = 1: t = 1/((1 − n) k) for n < 1 (analytic).
 		{0, func(k float64) float64 { return 1 / k }},
 		{0.5, func(k float64) float64 { return 2 / k }},
 		{0.8, func(k float64) float64 { return 5 / k }},
@@ -291,7 +291,7 @@ func TestIsothermalLogistic(t *testing.T) {
 			if a <= a0 {
 				continue
 			}
-			// Source: REFERENCES §5, logistic solution
+			// Source: logistic solution of the Kamal–Sourour law with k1 = 0, m = n = 1,
 			// α = α0 e^{kt}/(1 − α0 + α0 e^{kt}), inverted: t = ln[α(1−α0)/(α0(1−α))]/k (analytic).
 			want := math.Log(a*(1-a0)/(a0*(1-a))) / k
 			if got := c.IsothermalTime(T, a0, a); relErr(got, want) > 1e-12+1e-16/(1-a) {
@@ -300,7 +300,7 @@ func TestIsothermalLogistic(t *testing.T) {
 		}
 		for _, kt := range []float64{0.5, 3, 10, 25} {
 			e := math.Exp(kt)
-			// Source: REFERENCES §5, logistic solution (analytic).
+			// Source: logistic solution of the Kamal–Sourour law with k1 = 0, m = n = 1 (analytic).
 			want := a0 * e / (1 - a0 + a0*e)
 			if got := c.IsothermalCure(T, a0, kt/k); math.Abs(got-want) > 1e-10 {
 				t.Errorf("IsothermalCure(a0 = %g, kt = %g) = %.15g, want %.15g", a0, kt, got, want)
@@ -416,7 +416,7 @@ func TestIsothermalNever(t *testing.T) {
 	}
 	// Below αc the same resin reacts: the time must be finite and close to the
 	// first-order time (the factor is ≈ 1 far below αc).
-	// Source: REFERENCES §5, n = 1 closed form (analytic), factor ≥ 1/(1+e^{−12}).
+	// Source: n = 1 closed form (analytic), factor ≥ 1/(1+e^{−12}).
 	if got, want := c.IsothermalTime(400, 0, 0.3), -math.Log(0.7)/k; relErr(got, want) > 1e-5 {
 		t.Errorf("time below αc = %v, want about %v", got, want)
 	}

@@ -59,33 +59,33 @@ func TestLibraryValues(t *testing.T) {
 		rho, cp, k float64
 		source     string // a word the Source must contain
 	}{
-		// Source: Incropera, Fundamentals of Heat and Mass Transfer, App. A Table A.1, pure aluminium, 300 K (confirmed; REFERENCES §7)
+		// Source: Incropera, Fundamentals of Heat and Mass Transfer, App. A Table A.1, pure aluminium, 300 K (confirmed)
 		{"aluminium", 2702, 903, 237, "Table A.1"},
-		// Source: Incropera App. A Table A.1, pure copper, 300 K (confirmed; REFERENCES §7)
+		// Source: Incropera App. A Table A.1, pure copper, 300 K (confirmed)
 		{"copper", 8933, 385, 401, "Table A.1"},
-		// Source: Incropera App. A Table A.1, 2024-T6, 300 K (confirmed; REFERENCES §7)
+		// Source: Incropera App. A Table A.1, 2024-T6, 300 K (confirmed)
 		{"aluminium-2024", 2770, 875, 177, "2024-T6"},
-		// Source: Incropera App. A, silicon, 300 K (confirmed; REFERENCES §7)
+		// Source: Incropera App. A, silicon, 300 K (confirmed)
 		{"silicon", 2330, 712, 148, "confirmed"},
-		// Source: Incropera App. A Table A.2, polycrystalline aluminium oxide, 300 K (confirmed; REFERENCES §7)
+		// Source: Incropera App. A Table A.2, polycrystalline aluminium oxide, 300 K (confirmed)
 		{"alumina", 3970, 765, 36.0, "polycrystalline"},
-		// Source: Incropera App. A, plain carbon steel (from memory; REFERENCES §7)
+		// Source: Incropera App. A, plain carbon steel (from memory)
 		{"carbon-steel", 7854, 434, 60.5, "from memory"},
-		// Source: Incropera App. A, AISI 304 (from memory; REFERENCES §7)
+		// Source: Incropera App. A, AISI 304 (from memory)
 		{"stainless-304", 7900, 477, 14.9, "304"},
-		// Source: Incropera App. A, Pyrex (from memory; REFERENCES §7)
+		// Source: Incropera App. A, Pyrex (from memory)
 		{"borosilicate-glass", 2225, 835, 1.4, "from memory"},
-		// Source: Incropera App. A, plate glass (from memory; REFERENCES §7)
+		// Source: Incropera App. A, plate glass (from memory)
 		{"soda-lime-glass", 2500, 750, 1.4, "from memory"},
-		// Source: PTFE 2200/1050/0.35, cp confirmed in Callister (REFERENCES §7)
+		// Source: PTFE 2200/1050/0.35, cp confirmed in Callister
 		{"ptfe", 2200, 1050, 0.35, "Callister"},
-		// Source: 6061 aluminium, from memory, k from a secondary table (REFERENCES §7)
+		// Source: 6061 aluminium, from memory, k from a secondary table
 		{"aluminium-6061", 2700, 896, 167, "secondary table"},
 		// Source: FR-4 through-plane k, Sarvar, Poole & Witting, J. Electron.
 		// Mater. 19:1345 (1990) (confirmed); rho 1850 (confirmed); cp 1150 in
-		// the 1100–1200 range (from memory) (REFERENCES §7)
+		// the 1100–1200 range (from memory)
 		{"fr4", 1850, 1150, 0.343, "Sarvar"},
-		// Source: cured unfilled epoxy, cp Callister (confirmed), rho and k from memory (REFERENCES §7)
+		// Source: cured unfilled epoxy, cp Callister (confirmed), rho and k from memory
 		{"epoxy-cured", 1200, 1050, 0.20, "from memory"},
 	}
 	for _, tc := range tests {

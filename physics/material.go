@@ -1,6 +1,6 @@
 package physics
 
-// Material is a solid of the stack. Density is constant (SPEC §10).
+// Material is a solid of the stack. Density is constant (README Case file reference, [materials.NAME]).
 type Material struct {
 	Name         string
 	Density      float64 // kg/m³

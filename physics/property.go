@@ -9,7 +9,7 @@ import (
 
 // Property is a material property as a function of temperature: a constant,
 // or a table piecewise linear in temperature and held constant beyond its
-// ends (SPEC §10). The zero value is the constant 0.
+// ends (README Case file reference, property tables). The zero value is the constant 0.
 type Property struct {
 	t, v []float64 // len(t) == len(v); len 1 means constant
 }
@@ -83,7 +83,7 @@ func (p Property) Min() float64 {
 }
 
 // Blend is a property that is linear in degree of cure between an uncured
-// and a cured value (SPEC §10):
+// and a cured value (README Case file reference, [materials.NAME]):
 //
 //	p(T, α) = (1 − α)·Uncured(T) + α·Cured(T)
 //

@@ -14,7 +14,7 @@ func TestPropertyTable(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Source: analytic — linear interpolation between (300, 1), (400, 3),
-	// (500, 2), held constant beyond the ends (SPEC §10).
+	// (500, 2), held constant beyond the ends (README Case file reference, property tables).
 	tests := []struct {
 		T, v, dvdT float64
 	}{
@@ -111,7 +111,7 @@ func TestNewTableErrors(t *testing.T) {
 func TestBlend(t *testing.T) {
 	unc, _ := NewTable([]float64{300, 500}, []float64{1500, 1900})
 	b := Blend{Uncured: unc, Cured: Constant(1300), HasCured: true}
-	// Source: SPEC §10, p(T, α) = (1 − α)·uncured(T) + α·cured(T), evaluated
+	// Source: README Case file reference, [materials.NAME], p(T, α) = (1 − α)·uncured(T) + α·cured(T), evaluated
 	// by hand at T = 400 (uncured 1700, slope 2) and α = 0.25:
 	// 0.75·1700 + 0.25·1300 = 1600, ∂/∂T = 0.75·2 = 1.5, ∂/∂α = 1300 − 1700 = −400.
 	v, dT, da := b.At(400, 0.25)

@@ -10,7 +10,7 @@ import (
 // Schedule is a quantity programmed in time (an air temperature, a platen
 // temperature, a lamp flux): piecewise linear between its points, holding
 // its first value before the first point and its last value after the last
-// (SPEC §10). The zero value is not usable; build one with NewSchedule,
+// (README Case file reference, [schedules.NAME]). The zero value is not usable; build one with NewSchedule,
 // FromSegments or Steady.
 type Schedule struct {
 	t, v []float64 // strictly increasing times (s), values
@@ -64,7 +64,7 @@ func (e *SegmentError) Unwrap() error { return e.Err }
 // FromSegments builds the schedule that starts at start (K) at time 0 and
 // runs the segments in order. A ramp whose rate is zero, whose sign disagrees
 // with its target, or whose target equals the current value is an error, as
-// is a hold that is not positive (SPEC §10).
+// is a hold that is not positive (README Case file reference, [schedules.NAME]).
 func FromSegments(start float64, segs []Segment) (Schedule, error) {
 	times := []float64{0}
 	vals := []float64{start}

@@ -11,7 +11,7 @@ const (
 	perMin  = 1.0 / 60
 )
 
-// ovenProgram is the [schedules.oven] example of SPEC §4: from 23 °C, ramp
+// ovenProgram is a typical oven program (our own example): from 23 °C, ramp
 // 2 °C/min to 70 °C, hold 90 min, ramp 2 °C/min to 120 °C, hold 60 min,
 // ramp −3 °C/min to 40 °C.
 func ovenProgram(t *testing.T) Schedule {
@@ -31,7 +31,7 @@ func ovenProgram(t *testing.T) Schedule {
 
 func TestFromSegmentsOven(t *testing.T) {
 	s := ovenProgram(t)
-	// Source: SPEC §4 oven example, times by hand: (70 − 23)/2 = 23.5 min;
+	// Source: analytic, times by hand: (70 − 23)/2 = 23.5 min;
 	// + 90 = 113.5 min; + (120 − 70)/2 = 138.5 min; + 60 = 198.5 min;
 	// + (120 − 40)/3 = 225.1667 min.
 	wantT := []float64{0, 23.5 * 60, 113.5 * 60, 138.5 * 60, 198.5 * 60, 198.5*60 + 80.0/3*60}
@@ -56,7 +56,7 @@ func TestFromSegmentsOven(t *testing.T) {
 		t.Errorf("Max = %v, want %v", s.Max(), 120+celsius)
 	}
 	// Source: analytic — linear in time on each segment, held before the
-	// first point and after the last (SPEC §10).
+	// first point and after the last (README Case file reference, [schedules.NAME]).
 	at := []struct{ t, wantC float64 }{
 		{-600, 23},         // before the start: first value
 		{0, 23},            // start

@@ -39,7 +39,7 @@ func PowerDensity(f, eps2, E float64) float64 {
 //
 //	D_p = λ0 / (2π √(2ε′) [√(1 + (ε″/ε′)²) − 1]^{1/2}),  λ0 = c/f,
 //
-// Metaxas & Meredith (1983) ch. 2 (SPEC §10). For ε″ ≪ ε′ it tends to
+// Metaxas & Meredith, Industrial Microwave Heating (1983) ch. 2 (from memory; the 1/e power definition confirmed). For ε″ ≪ ε′ it tends to
 // λ0 √ε′ / (2π ε″). It is +Inf for a lossless material (ε″ = 0). The
 // bracket is evaluated as x²/(√(1+x²)+1), x = ε″/ε′, to keep its accuracy
 // when ε″ ≪ ε′.
@@ -56,7 +56,7 @@ func PenetrationDepth(f, eps1, eps2 float64) float64 {
 // Attenuation says from which faces the field enters the stack.
 type Attenuation int
 
-// Attenuation modes of SPEC §4 [volumetric].
+// Attenuation modes of [volumetric] attenuation (README Case file reference).
 const (
 	Uniform    Attenuation = iota // "none": the same field everywhere
 	FromTop                       // "top": decays from the top face
@@ -83,7 +83,7 @@ type Volumetric struct {
 
 // Control is a sampled proportional–integral controller that sets the power
 // fraction u ∈ [0, 1] so that the temperature at Sensor follows Program;
-// the field is Field·√u (SPEC §10).
+// the field is Field·√u (README Case file reference, [volumetric.control]).
 //
 //	e_k = Program(t_k) − T_sensor(t_k)
 //	I_k = I_{k−1} + e_k·Period   unless u_{k−1} is saturated in the direction of e_k
@@ -96,7 +96,7 @@ type Control struct {
 	IntegralTime float64  // s
 }
 
-// Defaults of the controller (SPEC §10).
+// Defaults of the controller (README Case file reference, [volumetric.control]).
 const (
 	DefaultControlGain   = 0.2 // 1/K
 	DefaultIntegralTime  = 60  // s

@@ -22,7 +22,7 @@ import (
 
 // advBalance is the largest energy_balance_error accepted. The ledger
 // counts the reaction heat and the stored heat with the scheme's own
-// quantities, so it balances to round-off (SPEC §10); 1e-8 leaves room
+// quantities, so it balances to round-off (README Case file reference, summary.json: conservation of energy); 1e-8 leaves room
 // for the Newton tolerance (1e-10 K per cell) over many steps.
 const advBalance = 1e-8
 
@@ -164,7 +164,7 @@ const advSteadyTol = 1e-4 // K
 // bottom fluid at Tbot (coefficients hTop, hBot; +Inf for a fixed face)
 // until end, which the caller makes long enough to reach the steady state,
 // and checks it: probes on every layer face (which read the upper layer's
-// side, SPEC §10) and just below it (the lower side) against advSteady to
+// side, README Case file reference, [output]) and just below it (the lower side) against advSteady to
 // advSteadyTol, the maximum principle during the transient, and the ledger.
 func advSteadyStack(t *testing.T, m *mesh.Mesh, mats []*physics.Material, Ttop, Tbot, hTop, hBot, end float64) {
 	t.Helper()
@@ -221,7 +221,7 @@ const advStiffStart = "a run whose first cells react in microseconds (a 1 µm fi
 	"has no error estimate, and the smallest step allowed is 1e-9·End, so the first rejection ends the run"
 
 // Source: Incropera et al., Fundamentals of Heat and Mass Transfer,
-// Appendix A (REFERENCES.md §7): copper 8933/385/401 (confirmed),
+// Appendix A: copper 8933/385/401 (confirmed),
 // borosilicate glass 2225/835/1.4 (from memory). Cured epoxy 1150/1500/0.2
 // and the foam 30/1500/0.004 are invented for the tests.
 var (
@@ -245,7 +245,7 @@ var (
 //
 // "oven, steady" and "platen, steady": run 20 glass diffusion times L²/α
 // (the slowest mode has then decayed by e^{−20·ζ1²}, ζ1 = 0.86 at Bi = 0.7,
-// REFERENCES.md §1) and check the steady profile (advSteadyStack).
+// Carslaw & Jaeger 1959, §3.11) and check the steady profile (advSteadyStack).
 func TestAdversarialThinLayer(t *testing.T) {
 	const film, glass = 1e-6, 0.05
 	for _, c := range []struct{ g, tol float64 }{{0, 0.05}, {1.2, 0.05}, {0, 1e-3}, {1.2, 1e-3}} {
@@ -330,7 +330,7 @@ func TestAdversarialConductivityRatio(t *testing.T) {
 // resistance, 0 (perfect contact) and 1 m²K/W (a gap worth 1 m of a
 // 1 W/m/K solid), between 2 mm of epoxy and 2 mm of copper on a platen.
 // With a resistance the two sides of the face differ by 99 K, so the probe
-// exactly on the face must read the upper (epoxy) side (SPEC §10). The run
+// exactly on the face must read the upper (epoxy) side (README Case file reference, [output]). The run
 // lasts 20 times the longer of the copper's charging time through the gap,
 // ρ c L R_c (analytic lumped estimate), and the epoxy's diffusion time.
 func TestAdversarialContactResistance(t *testing.T) {
@@ -347,7 +347,7 @@ func TestAdversarialContactResistance(t *testing.T) {
 
 // TestAdversarialHugeH: a convection coefficient of 1e6 W/m²K, Bi = hL/k =
 // 1e4, on both faces of a wall of half-thickness L = 10 mm, against the
-// full Fourier series (REFERENCES.md §1, reference.PlaneWall). The face is
+// full Fourier series (Carslaw & Jaeger 1959, §3.11, reference.PlaneWall). The face is
 // then all but fixed: the first cell sees a jump of the full temperature
 // difference at t = 0. Centre and quarter-depth values at Fo = 0.1 … 1.
 //
@@ -387,7 +387,7 @@ func TestAdversarialHugeH(t *testing.T) {
 		for i, fo := range fos {
 			s := snapshotAt(t, r, outs[i])
 			for j, xs := range []float64{0, 0.5} {
-				// Source: Carslaw & Jaeger (1959) §3.11, full series (REFERENCES.md §1).
+				// Source: Carslaw & Jaeger (1959) §3.11, full series.
 				want := reference.PlaneWall(h*L/k, fo, xs)
 				got := (s.ProbeT[j] - Tinf) / (Ti - Tinf)
 				worst[cells] = max(worst[cells], math.Abs(got-want))
@@ -529,7 +529,7 @@ func TestAdversarialSecondCurePeak(t *testing.T) {
 	p, _ := advSecondCure(t)
 	r := advRun(t, p)
 	advOK(t, p, r)
-	// Source: adiabatic rise ΔT_ad = H/c_p (REFERENCES.md §9, analytic).
+	// Source: adiabatic rise ΔT_ad = H/c_p (analytic).
 	limit := p.InitialTemperature + 420e3/1500
 	if pk := r.Summary.PeakTemperature; pk > limit+1e-6 {
 		t.Errorf("peak %.9f K above the adiabatic limit %.9f K", pk, limit)
@@ -540,7 +540,7 @@ func TestAdversarialSecondCurePeak(t *testing.T) {
 // about a second (k = 5 1/s at the start, 1e5 1/s at the end), in an
 // insulated 1 mm slab, so that it heats adiabatically. Checks:
 //   - energy: the final temperature is T0 + ΔT_ad·(α − α0) with
-//     ΔT_ad = H/c_p (REFERENCES.md §9, analytic), to 1e-6 K;
+//     ΔT_ad = H/c_p (analytic), to 1e-6 K;
 //   - bound: no cell in any snapshot exceeds T0 + ΔT_ad;
 //   - the part is fully cured;
 //   - the gel time against the adiabatic first-order integral
@@ -569,7 +569,7 @@ func TestAdversarialSecondCure(t *testing.T) {
 		if last.Cure[i] < 1-1e-9 {
 			t.Errorf("cell %d: final cure %.12f, want full cure", i, last.Cure[i])
 		}
-		// Source: adiabatic energy balance ΔT = H (α − α0)/c_p (REFERENCES.md §9, analytic).
+		// Source: adiabatic energy balance ΔT = H (α − α0)/c_p (analytic).
 		if want := T0 + dTad*last.Cure[i]; math.Abs(last.T[i]-want) > 1e-6 {
 			t.Errorf("cell %d: final T = %.9f K, adiabatic balance gives %.9f K", i, last.T[i], want)
 		}
@@ -600,7 +600,7 @@ func TestAdversarialSecondCure(t *testing.T) {
 // TestAdversarialInitialCure: an initial cure of 0.999.
 //   - Isothermal, n = 0.5: (1 − α)^½ = (1 − α0)^½ − k t/2, so the cure
 //     reaches 1 in finite time 2√(1 − α0)/k and then stays there (analytic,
-//     REFERENCES.md §5 with the initial value α0); cure never decreases
+//     separation of variables with the initial value α0); cure never decreases
 //     and never exceeds 1.
 //   - Adiabatic: the 0.1 % of cure left releases ΔT_ad·0.001 (analytic).
 func TestAdversarialInitialCure(t *testing.T) {
@@ -671,7 +671,7 @@ func TestAdversarialInitialCure(t *testing.T) {
 		r := advRun(t, p)
 		advOK(t, p, r)
 		last := r.Snapshots[len(r.Snapshots)-1]
-		// Source: adiabatic energy balance ΔT = H (α − α0)/c_p (REFERENCES.md §9, analytic).
+		// Source: adiabatic energy balance ΔT = H (α − α0)/c_p (analytic).
 		want := T + 420e3*(last.Cure[0]-a0)/1500
 		if math.Abs(last.T[0]-want) > 1e-9 || last.Cure[0] < a0 {
 			t.Errorf("final T %.12f K, cure %.9f; balance gives %.12f K", last.T[0], last.Cure[0], want)
@@ -683,7 +683,7 @@ func TestAdversarialInitialCure(t *testing.T) {
 	})
 }
 
-// fkSlab builds the Frank-Kamenetskii slab (REFERENCES.md §2): half-width
+// fkSlab builds the Frank-Kamenetskii slab: half-width
 // a, walls held at T0, zero-order kinetics (consumption does not matter
 // until full cure) with E = 40 R T0, and A chosen for the given δ:
 //
@@ -750,7 +750,7 @@ func fkExact(delta, eps float64) float64 {
 }
 
 // TestAdversarialFrankKamenetskii: thermal runaway of a slab with its walls
-// held at T0 (REFERENCES.md §2). Below the critical δc = 0.8785 the centre
+// held at T0. Below the critical δc = 0.8785 the centre
 // settles on the lower branch; above it the slab runs away.
 //
 // Steady checks after 15 diffusion times a²/α (the slowest mode of the
@@ -773,7 +773,7 @@ func TestAdversarialFrankKamenetskii(t *testing.T) {
 	for _, c := range []struct {
 		delta, want float64
 	}{
-		// Source: REFERENCES.md §2, lower-branch slab centre values derived
+		// Source: lower-branch slab centre values derived
 		// from the exact solution of Frank-Kamenetskii (1969).
 		{0.1, 0.052224},
 		{0.5, 0.328952},
@@ -807,7 +807,7 @@ func TestAdversarialFrankKamenetskii(t *testing.T) {
 		})
 	}
 	t.Run("delta=1.2", func(t *testing.T) {
-		// δ > δc: no steady state. Source: δc = 0.8785 (REFERENCES.md §2, confirmed).
+		// δ > δc: no steady state. Source: δc = 0.8785 (confirmed).
 		p := fkSlab(t, 1.2, end)
 		r := advRun(t, p)
 		var re *solver.RunawayError

@@ -71,7 +71,7 @@ func snapshotAt(t *testing.T, r *solver.Result, tm float64) solver.Snapshot {
 // convecting to T∞, against the full Fourier series.
 //
 // Source: Carslaw & Jaeger (1959) §3.11; Incropera et al. §5.5
-// (REFERENCES.md §1), evaluated by reference.PlaneWall.
+// (the full series), evaluated by reference.PlaneWall.
 //
 // Mesh: 100 cells over 2L (Δx* = 0.02), TemperatureTolerance 1e-3 K.
 // Semi-discrete error of this mesh (max over cells and probes, Fo = 0.05…1):
@@ -148,7 +148,7 @@ func TestAnalyticPlaneWall(t *testing.T) {
 // in against ∫ k(Ts − Ti)/√(παt) dt = 2k(Ts − Ti)√(t/(πα)).
 //
 // Source: Carslaw & Jaeger (1959) §2.4; Incropera et al. §5.7 case 1
-// (REFERENCES.md §1), evaluated by reference.SemiInfiniteStep.
+// (formula from memory), evaluated by reference.SemiInfiniteStep.
 //
 // The slab is 80 mm deep and insulated below; at the last time √(αt) = 10 mm,
 // so the reflection from the bottom is erfc(4) ≈ 1.5e-8 of the step.
@@ -187,7 +187,7 @@ func TestAnalyticSemiInfiniteStep(t *testing.T) {
 			}
 		}
 		// Source: analytic, time integral of the surface flux
-		// k(Ts − Ti)/√(παt) (REFERENCES.md §1).
+		// k(Ts − Ti)/√(παt).
 		want := 2 * k * (Ts - Ti) * math.Sqrt(tm/(math.Pi*alpha))
 		rel := (s.HeatIn - want) / want
 		t.Logf("t = %3g s: max |Δθ| = %.2e at %.2f mm; heat in %.6g J/m² (analytic %.6g, rel. error %.2e)",
@@ -352,7 +352,7 @@ func planeWallProblem(t *testing.T, cells int, end float64) *solver.Problem {
 // TestAnalyticOrderSpace: the observed order of the spatial error, halving
 // the cell size 20 → 40 → 80 → 160 on the Bi = 1 wall at Fo = 0.5, against
 // the Fourier series (reference.PlaneWall). Cell-centred finite volumes with
-// the half-cell face resistance are second order (SPEC §8); the semi-discrete
+// the half-cell face resistance are second order (the method's design order); the semi-discrete
 // errors are 2.4e-4, 6.1e-5, 1.5e-5, 3.8e-6 in θ (order 1.99).
 // Time steps are fixed at 0.05 s (TemperatureTolerance 1e9 K, MaxStep 0.05 s)
 // so that the time error, ≈ (λ1 h)²/12·λ1 t ≈ 1e-9 in θ, is far below the
@@ -390,7 +390,7 @@ func TestAnalyticOrderSpace(t *testing.T) {
 // steps h = 4, 2, 1, 0.5 s (TemperatureTolerance 1e9 K so the controller
 // never shortens a step, MaxStep = h), on a 10-cell Bi = 1 wall at Fo = 1.
 // Self-convergence on one mesh: e_h = max |T_h − T_{h/2}|, order =
-// log2(e_h / e_{h/2}). Crank–Nicolson is second order (SPEC §8); the
+// log2(e_h / e_{h/2}). Crank–Nicolson is second order (Crank & Nicolson 1947); the
 // implicit-Euler start-up steps are a fixed number, so they add O(h²) and
 // are damped by Fo = 1. The stiffest mode has λ h ≤ 4 (λ_max ≈ 4α/Δx² =
 // 1 s⁻¹), so it is damped (|R| ≤ 1/3) rather than ringing. Assert order ≥ 1.8.
@@ -461,7 +461,7 @@ func enthalpy(c physics.Property, T0, T1 float64) float64 {
 	return sum
 }
 
-// TestAnalyticLedger: the energy account balances to round-off (SPEC §10:
+// TestAnalyticLedger: the energy account balances to round-off (README Case file reference, summary.json:
 // stored heat uses the scheme's own c_p), for multilayer stacks with
 // temperature-dependent tables and every kind of face. Where the answer is
 // known exactly it is checked too.

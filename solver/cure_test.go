@@ -46,7 +46,7 @@ func TestIsothermalCureClosedForms(t *testing.T) {
 		amplify float64
 	}{
 		// Source: analytic, n-th order closed form α = 1 − [1 − (1−n)kt]^{1/(1−n)}
-		// (REFERENCES.md §5).
+		//.
 		{"nth-order n=1.5", physics.NthOrder{A: 1e5, E: 60e3, N: 1.5}, 0, func(t float64) float64 {
 			kk := k(1e5, 60e3)
 			return 1 - math.Pow(1-(1-1.5)*kk*t, 1/(1-1.5))
@@ -56,7 +56,7 @@ func TestIsothermalCureClosedForms(t *testing.T) {
 			return 1 - math.Exp(-k(1e5, 60e3)*t)
 		}, 1},
 		// Source: analytic, Kamal–Sourour with k1 = 0, m = n = 1 is the logistic
-		// α = α0 e^{kt}/(1 − α0 + α0 e^{kt}) (REFERENCES.md §5).
+		// α = α0 e^{kt}/(1 − α0 + α0 e^{kt}).
 		{"logistic", physics.Autocatalytic{A1: 0, E1: 50e3, A2: 1e5, E2: 60e3, M: 1, N: 1}, 0.01, func(t float64) float64 {
 			e := math.Exp(k(1e5, 60e3) * t)
 			return 0.01 * e / (1 - 0.01 + 0.01*e)
@@ -137,7 +137,7 @@ func TestIsothermalKamalSourourAgainstRK4(t *testing.T) {
 
 func TestAdiabaticRise(t *testing.T) {
 	// Source: energy balance (analytic): with insulated faces and constant c_p,
-	// ΔT = resin_fraction · total_heat · Δα / c_p (REFERENCES.md §9).
+	// ΔT = resin_fraction · total_heat · Δα / c_p.
 	for _, w := range []float64{1, 0.6} {
 		t.Run(fmt.Sprintf("resin_fraction=%g", w), func(t *testing.T) {
 			mat := inert(1150, 1500, 0.2)

@@ -79,7 +79,7 @@ func TestCoupledOrderInSpace(t *testing.T) {
 		p := observedOrder(sols[0][k], sols[1][k], sols[2][k])
 		t.Logf("space: %-8s %.8g %.8g %.8g  observed order %.2f", name, sols[0][k], sols[1][k], sols[2][k], p)
 		// Source: second order expected for cell-centred finite volumes on a
-		// uniform mesh (SPEC §8).
+		// uniform mesh (the method's design order).
 		if p < 1.8 {
 			t.Errorf("%s: observed order in space %.2f < 1.8", name, p)
 		}

@@ -89,7 +89,7 @@ type Ledger struct {
 	Stored     float64 // change in stored heat, Σ ρ c_p ΔT V with the scheme's c_p
 }
 
-// BalanceError returns the relative imbalance of the ledger (SPEC §10):
+// BalanceError returns the relative imbalance of the ledger (README Case file reference, summary.json):
 //
 //	|E_faces + E_vol + E_reaction − ΔE_stored| / max(|E_faces| + |E_vol| + |E_reaction|, |ΔE_stored|, floor)
 //

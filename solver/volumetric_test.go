@@ -50,7 +50,7 @@ func TestVolumetricAdiabaticSlab(t *testing.T) {
 }
 
 func TestPenetrationDepthWater(t *testing.T) {
-	// Source: REFERENCES.md §8 (derived from the Metaxas & Meredith formula):
+	// Source: derived from the Metaxas & Meredith formula (Industrial Microwave Heating, 1983, ch. 2):
 	// water ε′ = 78, ε″ = 10 at 2.45 GHz → D_p = 1.72 cm; P(1 kV/m, ε″ = 10) = 1.36 MW/m³.
 	if d := physics.PenetrationDepth(2.45e9, 78, 10); math.Abs(d-0.0172) > 0.00005 {
 		t.Errorf("D_p = %.5g m, want 0.0172 m", d)
@@ -64,7 +64,7 @@ func TestVolumetricAttenuationProfile(t *testing.T) {
 	// A thick, lossy, non-curing slab heated from the top for a short time
 	// with insulated faces: the absorbed power, read from the temperature
 	// rise of each cell (ΔT ρ c_p / t), must follow P(0) exp(−z/D_p)
-	// (SPEC §10; Metaxas & Meredith 1983, from memory). The time is short
+	// (README Case file reference, [volumetric]; Metaxas & Meredith 1983, from memory). The time is short
 	// enough that conduction moves little heat.
 	const f, E, eps1, eps2, rho, cp = 2.45e9, 1000.0, 4.0, 1.2, 1150.0, 1500.0
 	dp := physics.PenetrationDepth(f, eps1, eps2)
@@ -104,7 +104,7 @@ func TestVolumetricAttenuationProfile(t *testing.T) {
 }
 
 func TestVolumetricSelectivity(t *testing.T) {
-	// Source: SPEC §10: a material without a dielectric section absorbs
+	// Source: README Case file reference, [volumetric]: a material without a dielectric section absorbs
 	// nothing. A glass layer between two absorbing layers, insulated outside.
 	// With conduction switched off (k → 1e-9 W/m/K everywhere) the glass must
 	// stay exactly at its initial temperature while the absorbing layers rise
@@ -206,7 +206,7 @@ func TestVolumetricControlTracksProgram(t *testing.T) {
 
 func TestControlAntiWindup(t *testing.T) {
 	// While the output is saturated in the direction of the error, the
-	// integral must not grow (SPEC §10).
+	// integral must not grow (README Case file reference, [volumetric.control]).
 	c := &physics.Control{Period: 1, Gain: 0.2, IntegralTime: 60}
 	I, u := 0.0, 0.0
 	for range 1000 {

@@ -4,9 +4,9 @@ import "cureslab/physics"
 
 // DemoResin returns the cure law of "dsc-demo-resin", an invented
 // autocatalytic epoxy with a diffusion factor and a DiBenedetto glass
-// transition. Its numbers are plausible for the class (REFERENCES §5, §9)
-// and belong to no product; they exist to make the example scans of
-// testdata/dsc.
+// transition. Its numbers are plausible for the class (epoxy–amine DSC
+// heats of 400–550 J/g, from memory) and belong to no product; they exist
+// to make the example scans of testdata/dsc.
 func DemoResin() *physics.Cure {
 	return &physics.Cure{
 		Model: physics.Autocatalytic{

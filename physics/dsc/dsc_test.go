@@ -11,8 +11,9 @@ import (
 	"cureslab/physics"
 )
 
-// refFirstOrder is the synthetic first-order worked set of REFERENCES §6:
-// E = 80 kJ/mol, A = 1e10 1/min.
+// refFirstOrder is the synthetic first-order set (derived: the rate peaks
+// of dα/dt = A exp(−E/RT)(1 − α) under linear heating, computed
+// independently of this package): E = 80 kJ/mol, A = 1e10 1/min.
 var refFirstOrder = &physics.Cure{Model: physics.NthOrder{A: 1e10 / 60, E: 80e3, N: 1}, TotalHeat: 400e3}
 
 // firstOrderScans simulates refFirstOrder at the heating rates (K/min) from
@@ -38,7 +39,7 @@ func firstOrderScans(t *testing.T, rates []float64, noise float64) []*Curve {
 
 func TestReferencePeakTemperatures(t *testing.T) {
 	rates := []float64{1, 2, 5, 10, 20}
-	// Source: REFERENCES §6, synthetic first-order worked set (derived):
+	// Source: the synthetic first-order set of refFirstOrder (derived):
 	// E = 80 kJ/mol, A = 1e10 1/min.
 	want := []float64{374.326, 383.922, 397.360, 408.140, 419.498}
 	curves := firstOrderScans(t, rates, 0)
@@ -54,7 +55,7 @@ func TestReferencePeakTemperatures(t *testing.T) {
 			t.Errorf("%g K/min: heat %.5g J/g, want 400", rates[i], c.Heat/1000)
 		}
 	}
-	// Source: Kissinger, Anal. Chem. 29:1702 (1957): exact for n = 1 (REFERENCES §6).
+	// Source: Kissinger, Anal. Chem. 29:1702 (1957): exact for n = 1.
 	k, err := Kissinger(beta, Tp)
 	if err != nil || math.Abs(k.E/80e3-1) > 0.01 {
 		t.Errorf("Kissinger from simulated scans: E = %.6g J/mol (%v), want 80 kJ/mol within 1 %%", k.E, err)
@@ -63,7 +64,7 @@ func TestReferencePeakTemperatures(t *testing.T) {
 	if math.Abs(k.LnA-math.Log(1e10/60)) > 0.01 {
 		t.Errorf("Kissinger ln A = %.5f, want %.5f", k.LnA, math.Log(1e10/60))
 	}
-	// Source: REFERENCES §6 (derived): α at the rate peak = 0.603 at 10 K/min.
+	// Source: refFirstOrder's set (derived): α at the rate peak = 0.603 at 10 K/min.
 	c := curves[3]
 	a := interp(c.Time, c.Alpha, c.Peak.Time)
 	if math.Abs(a-0.603) > 1e-3 {
@@ -72,8 +73,8 @@ func TestReferencePeakTemperatures(t *testing.T) {
 }
 
 func TestKissingerOnPublishedPeaks(t *testing.T) {
-	// Source: REFERENCES §6 (derived) peak temperatures; Kissinger is exact
-	// for first order, so the published five points give E = 80 kJ/mol up
+	// Source: refFirstOrder's set (derived), its peak temperatures; Kissinger is exact
+	// for first order, so the five points give E = 80 kJ/mol up
 	// to their rounding to 1e-3 K.
 	beta := []float64{1.0 / 60, 2.0 / 60, 5.0 / 60, 10.0 / 60, 20.0 / 60}
 	Tp := []float64{374.326, 383.922, 397.360, 408.140, 419.498}
@@ -113,8 +114,9 @@ func TestDoyleFactor(t *testing.T) {
 			t.Errorf("b(%g) = %.9f, quadrature %.9f", x, got, want)
 		}
 	}
-	// Doyle's constant 0.4567 holds near x ≈ 40 (Doyle 1962; REFERENCES §6
-	// "log10 β = const − 0.4567 E/(RT)", from memory): within 0.5 % there.
+	// Doyle's constant 0.4567 holds near x ≈ 40 (Doyle 1962; Ozawa 1965;
+	// Flynn & Wall 1966: log10 β = const − 0.4567 E/(RT), from memory):
+	// within 0.5 % there.
 	if b := DoyleFactor(40); math.Abs(b/0.4567-1) > 0.005 {
 		t.Errorf("b(40) = %.4f, Doyle's 0.4567", b)
 	}
@@ -131,12 +133,12 @@ func TestOzawaFlynnWall(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		// Source: E = 80 kJ/mol of the simulated law (REFERENCES §6); the
+		// Source: E = 80 kJ/mol of the simulated law; the
 		// iterated Doyle factor leaves a bias well below 0.5 %.
 		if math.Abs(o.E/80e3-1) > 0.005 {
 			t.Errorf("OFW at α = %g: E = %.5g J/mol, want 80 kJ/mol within 0.5 %%", a, o.E)
 		}
-		// Source: REFERENCES §6 "uncorrected it is biased by about 3 %"
+		// Source: ASTM E1641 iterates the factor because the fixed one biases E by about 3 %
 		// (from memory): the constant 0.457 gives E·b/0.457.
 		if bias := o.B/0.457 - 1; bias < 0.015 || bias > 0.045 {
 			t.Errorf("α = %g: the uncorrected OFW would be off by %.1f %%, want about 3 %%", a, 100*bias)
@@ -159,7 +161,7 @@ func TestFriedmanFlatForSingleStep(t *testing.T) {
 			if p.Alpha < 0.1-1e-9 || p.Alpha > 0.9+1e-9 {
 				continue
 			}
-			// Source: the simulated law has one E = 80 kJ/mol (REFERENCES §6);
+			// Source: the simulated law has one E = 80 kJ/mol;
 			// Friedman's E_α is then flat (Friedman, J. Polym. Sci. C 6:183, 1964).
 			if math.Abs(p.E/80e3-1) > tc.tol {
 				t.Errorf("noise %g, α = %.2f: E = %.5g J/mol, want 80 kJ/mol within %g %%", tc.noise, p.Alpha, p.E, 100*tc.tol)
@@ -379,7 +381,7 @@ func TestAnalyzeFollowsICTAC(t *testing.T) {
 	if len(an.Warnings) != 0 || an.Fit == nil {
 		t.Errorf("four rates, first order: warnings %q, refused %q", an.Warnings, an.FitRefused)
 	} else if nn := an.Fit.Cure.Model.(physics.NthOrder); math.Abs(nn.E/80e3-1) > 0.01 || math.Abs(nn.N-1) > 0.02 {
-		// Source: REFERENCES §6 first-order set, E = 80 kJ/mol, n = 1.
+		// Source: the synthetic first-order set, E = 80 kJ/mol, n = 1.
 		t.Errorf("fitted %+v, want E = 80 kJ/mol, n = 1", nn)
 	}
 	// Two independent first-order reactions, half the heat each, with very
@@ -442,7 +444,7 @@ func TestDetectProgram(t *testing.T) {
 }
 
 func TestIsothermalFirstOrder(t *testing.T) {
-	// Analytic: α = 1 − exp(−k t) at constant T (REFERENCES §5).
+	// Analytic: α = 1 − exp(−k t) at constant T.
 	T := 400.0
 	k, _ := physics.Arrhenius(1e10/60, 80e3, T)
 	s, err := Synthesize(Synth{Name: "iso", Cure: refFirstOrder, Start: T, Duration: 12 / k, Step: 0.01 / k, Baseline: -30})
@@ -547,7 +549,7 @@ func TestLevenberg(t *testing.T) {
 
 func TestSynthesizeAgainstClosedForm(t *testing.T) {
 	// Analytic: isothermal n-th order, α = 1 − [1 − (1 − n) k t]^{1/(1−n)}
-	// (REFERENCES §5), n = 2.
+	// (separation of variables), n = 2.
 	cure := &physics.Cure{Model: physics.NthOrder{A: 1e5, E: 60e3, N: 2}, TotalHeat: 300e3}
 	T := 380.0
 	k, _ := physics.Arrhenius(1e5, 60e3, T)

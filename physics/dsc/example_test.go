@@ -8,7 +8,7 @@ import (
 	"cureslab/physics/dsc"
 )
 
-// The peak temperatures of the synthetic first-order set of REFERENCES §6
+// The peak temperatures of the synthetic first-order set (derived here)
 // (E = 80 kJ/mol, A = 1e10 1/min) give back E and A by Kissinger's plot,
 // which is exact for first-order kinetics.
 func ExampleKissinger() {

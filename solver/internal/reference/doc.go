@@ -4,7 +4,7 @@
 //
 // It is a test-only package: nothing in the command depends on it. Every
 // function is an independent evaluation of a published formula (see the doc
-// comment of each function and /work/shared/REFERENCES.md), written without
+// comment of each function), written without
 // reference to the solver's discretisation, so that agreement between the two
 // means something.
 //

@@ -261,7 +261,7 @@ func erfcxAsymptotic(z float64) float64 {
 // near 1 and small kt. For n < 1 the cure is complete (α = 1) from
 // t = 1/((1 − n)k) on.
 //
-// Reference: analytic (separation of variables); REFERENCES.md §5.
+// Reference: analytic (separation of variables).
 // Preconditions: k ≥ 0, n ≥ 0, t ≥ 0; otherwise it panics. Cost: O(1).
 func NthOrderCure(k, n, t float64) float64 {
 	if !(k >= 0) || !(n >= 0) || !(t >= 0) {
@@ -284,7 +284,7 @@ func NthOrderCure(k, n, t float64) float64 {
 //
 // evaluated as 1/(1 + (1 − α0)/α0 · e^{−kt}), which cannot overflow.
 //
-// Reference: analytic; REFERENCES.md §5. α = 0 is a fixed point, so α0 = 0
+// Reference: analytic (the Kamal–Sourour law with k1 = 0, m = n = 1; Kamal & Sourour, Polym. Eng. Sci. 13:59, 1973). α = 0 is a fixed point, so α0 = 0
 // returns 0. Preconditions: k ≥ 0, α0 ∈ [0, 1], t ≥ 0; otherwise it panics.
 // Cost: O(1).
 func LogisticCure(k, a0, t float64) float64 {

@@ -9,7 +9,7 @@ import (
 func TestPlaneWallEigenTable(t *testing.T) {
 	// Source: ζ1 confirmed in Watts, Essentials of Applied Mathematics (2007),
 	// Table A.1; C1 from memory (Incropera et al., Table 5.1); both verified
-	// by recomputation (REFERENCES.md §1). Four decimals, so the tolerance is
+	// by recomputation. Four decimals, so the tolerance is
 	// half a unit in the last place.
 	for _, tc := range []struct {
 		Bi, zeta1, c1 float64
@@ -84,7 +84,7 @@ func TestPlaneWallCentre(t *testing.T) {
 	for _, tc := range []struct {
 		Bi, Fo, want float64
 	}{
-		// Source: REFERENCES.md §1, derived full-series centre value
+		// Source: Carslaw & Jaeger 1959, §3.11, derived full-series centre value
 		// (regression value computed from the published formula).
 		{1, 0.5, 0.772526},
 		// Source: as above.
@@ -100,7 +100,7 @@ func TestPlaneWallCentre(t *testing.T) {
 
 // TestPlaneWallOneTerm compares the series with the one-term approximation
 // θ* ≈ C1 exp(−ζ1² Fo) cos(ζ1 x*) of Incropera et al. eq. 5.40, for
-// Fo ≥ 0.5 (REFERENCES.md §1): the difference must stay below the size of
+// Fo ≥ 0.5: the difference must stay below the size of
 // the neglected terms.
 func TestPlaneWallOneTerm(t *testing.T) {
 	for _, Bi := range []float64{0.1, 1, 10} {
@@ -194,7 +194,7 @@ func TestPlaneWallEarlyIsSemiInfinite(t *testing.T) {
 }
 
 func TestSemiInfiniteStepErf(t *testing.T) {
-	// Source: Holman, Heat Transfer, Table A-1 (confirmed, REFERENCES.md §1).
+	// Source: Holman, Heat Transfer, Table A-1 (confirmed).
 	// Tolerance: one unit in the last printed place, because the table
 	// truncates rather than rounds (erf 1.5 = 0.9661051 is printed 0.96610).
 	for _, tc := range []struct {
@@ -219,7 +219,7 @@ func TestSemiInfiniteStepErf(t *testing.T) {
 
 func TestSemiInfiniteConvection(t *testing.T) {
 	// Source: Nellis & Klein, Heat Transfer (2009), Table 3-2 worked example
-	// (confirmed, REFERENCES.md §1): T = 389.5 K; closed form 389.543 K.
+	// (confirmed): T = 389.5 K; closed form 389.543 K.
 	const Ti, Tinf = 393.0, 355.0
 	th := SemiInfiniteConvection(3e-3, 100, 4.029e-6, 50, 10)
 	T := Ti + th*(Tinf-Ti)
@@ -380,16 +380,16 @@ func TestFrankKamenetskii(t *testing.T) {
 	t.Logf("δc = %.9f, θm,c = %.9f", dc, thc)
 	// Source: Frank-Kamenetskii (1969); 0.88 confirmed in Boddington, Gray &
 	// Wake, Proc. R. Soc. A (1977), abstract; 0.8785 to four decimals,
-	// exact 0.8784577 (REFERENCES.md §2, verified).
+	// exact 0.8784577 (verified).
 	if math.Abs(dc-0.8785) > 0.5e-4 || math.Abs(dc-0.8784577) > 0.5e-7 {
 		t.Errorf("δc = %.9f, want 0.8785 (exact 0.8784577)", dc)
 	}
-	// Source: REFERENCES.md §2, θm,c = 1.1868 (slab).
+	// Source: Frank-Kamenetskii, Diffusion and Heat Exchange in Chemical Kinetics, 1969; θm,c = 1.1868 (slab).
 	if math.Abs(thc-1.1868) > 0.5e-4 {
 		t.Errorf("θm,c = %.9f, want 1.1868", thc)
 	}
 	for _, tc := range []struct{ delta, want float64 }{
-		// Source: REFERENCES.md §2, lower-branch centre values derived from
+		// Source: lower-branch centre values derived from
 		// the exact solution.
 		{0.1, 0.052224},
 		{0.5, 0.328952},
