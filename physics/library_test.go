@@ -73,7 +73,7 @@ func TestLibraryValues(t *testing.T) {
 		{"carbon-steel", 7854, 434, 60.5, "from memory"},
 		// Source: Incropera App. A, AISI 304 (from memory)
 		{"stainless-304", 7900, 477, 14.9, "304"},
-		// Source: Incropera App. A, Pyrex (from memory)
+		// Source: Incropera App. A, borosilicate glass (from memory)
 		{"borosilicate-glass", 2225, 835, 1.4, "from memory"},
 		// Source: Incropera App. A, plate glass (from memory)
 		{"soda-lime-glass", 2500, 750, 1.4, "from memory"},
@@ -123,5 +123,22 @@ func TestBuiltinFreshCopies(t *testing.T) {
 	}
 	if _, ok := Builtin("Copper"); ok {
 		t.Error("Builtin matched a name case-insensitively")
+	}
+}
+
+// TestLibraryGenericNames keeps registered trade names out of the library:
+// a material and its source are named by what they are (PTFE, borosilicate
+// glass), as handbooks and standards do, even where a textbook table heads
+// the row with a brand.
+func TestLibraryGenericNames(t *testing.T) {
+	// Brands that handbook tables commonly use for generic materials (common practice).
+	brands := []string{"teflon", "pyrex", "duran", "borofloat", "kapton", "mylar", "delrin", "vespel", "ultem", "macor", "plexiglas", "lexan"}
+	for _, m := range Library() {
+		text := strings.ToLower(m.Name + " " + m.Source)
+		for _, b := range brands {
+			if strings.Contains(text, b) {
+				t.Errorf("%s: name or source %q carries the trade name %q; use the generic name", m.Name, m.Source, b)
+			}
+		}
 	}
 }
