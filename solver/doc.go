@@ -21,4 +21,8 @@
 //   - Energies in the ledger are per unit face area (J/m²).
 //   - A stepper owns all its buffers (from a Workspace when one is given);
 //     stepping allocates nothing.
+//   - Run keeps every snapshot in the Result (memory ∝ cells × output
+//     times); RunStream hands each one to a Sink as it is produced and
+//     reuses its slices (memory ∝ cells), for writers that stream the
+//     fields to disk.
 package solver

@@ -65,10 +65,10 @@ func TestLinearStepOneUpdate(t *testing.T) {
 			if !s.linear {
 				t.Fatal("problem not classified as linear")
 			}
-			fast := s.run(context.Background())
+			fast := s.run(context.Background(), nil)
 			s = newStepper(q, nil)
 			s.linear = false
-			full := s.run(context.Background())
+			full := s.run(context.Background(), nil)
 			if full.Status != OK || fast.Status != OK {
 				t.Fatalf("status %v / %v", full.Status, fast.Status)
 			}

@@ -51,12 +51,32 @@ func (e *StepError) Error() string {
 // its Status and Err say what happened, and it holds every snapshot up to
 // that moment plus one at the moment itself.
 func Run(ctx context.Context, p *Problem) (*Result, error) {
+	return RunStream(ctx, p, nil)
+}
+
+// Sink receives the snapshots of a run one by one, in time order, as they
+// are produced (see RunStream). The snapshot and its slices belong to the
+// run: they are valid during the call only and are overwritten by the next
+// snapshot, so a sink copies what it keeps. A non-nil error stops the run.
+type Sink func(s *Snapshot) error
+
+// RunStream is Run with every snapshot handed to sink as soon as it is
+// produced instead of kept: Result.Snapshots is nil, and the memory of the
+// run stays proportional to the cells, however many output times it has.
+// A nil sink gives Run. The snapshots are the same, bit for bit, as those
+// Run keeps, including the one at the moment of an early stop.
+//
+// An error from sink stops the run at once: Result.Status is Failed and
+// Result.Err is the sink's error (the sink is not called again). Errors
+// otherwise as for Run. Cost: as Run; one snapshot's slices are allocated
+// once and reused.
+func RunStream(ctx context.Context, p *Problem, sink Sink) (*Result, error) {
 	q, err := normalise(p)
 	if err != nil {
 		return nil, err
 	}
 	s := newStepper(q, nil)
-	return s.run(ctx), nil
+	return s.run(ctx, sink), nil
 }
 
 // normalise checks the contract and returns a copy with defaults filled in.
@@ -136,7 +156,7 @@ func normalise(p *Problem) (*Problem, error) {
 	return &q, nil
 }
 
-func (s *stepper) run(ctx context.Context) *Result {
+func (s *stepper) run(ctx context.Context, sink Sink) *Result {
 	p := s.p
 	n := s.n
 	res := &Result{}
@@ -164,12 +184,27 @@ func (s *stepper) run(ctx context.Context) *Result {
 	default:
 		per += n
 	}
-	s.store.block = min(shots*per, max(per, 3072))
-	res.Snapshots = make([]Snapshot, 0, shots)
+	lastShot := math.NaN() // time of the last snapshot taken
+	var sinkErr error
+	emit := func(snap Snapshot) {
+		lastShot = snap.Time
+		if sink == nil {
+			res.Snapshots = append(res.Snapshots, snap)
+			return
+		}
+		sinkErr = sink(&snap)
+		s.store.rewind()
+	}
+	if sink == nil {
+		s.store.block = min(shots*per, max(per, 3072))
+		res.Snapshots = make([]Snapshot, 0, shots)
+	} else {
+		s.store.block = per // one snapshot, reused
+	}
 
 	tr := s.newTracker()
 	tr.observe(s, 0)
-	res.Snapshots = append(res.Snapshots, s.snapshot(s.old, 0))
+	snap0 := s.snapshot(s.old, 0)
 
 	events := s.events()
 	ev := 0
@@ -185,10 +220,14 @@ func (s *stepper) run(ctx context.Context) *Result {
 	sample := 0 // index of the controller's last sample
 	if ctl != nil {
 		s.controlUpdate(ctl)
-		res.Snapshots[0].PowerFraction = s.u
+		snap0.PowerFraction = s.u
+	}
+	emit(snap0)
+	if sinkErr != nil {
+		res.Status, res.Err = Failed, sinkErr
 	}
 
-	for ev < len(events) {
+	for res.Status == OK && ev < len(events) {
 		if err := ctx.Err(); err != nil {
 			res.Status, res.Err = Failed, err
 			break
@@ -213,9 +252,13 @@ func (s *stepper) run(ctx context.Context) *Result {
 			ev++
 			for out < len(p.OutputTimes) && p.OutputTimes[out] <= s.t {
 				if p.OutputTimes[out] == s.t {
-					res.Snapshots = append(res.Snapshots, s.snapshot(s.old, s.ledger.Faces+s.ledger.Volumetric))
+					emit(s.snapshot(s.old, s.ledger.Faces+s.ledger.Volumetric))
 				}
 				out++
+			}
+			if sinkErr != nil {
+				res.Status, res.Err = Failed, sinkErr
+				break
 			}
 		}
 		if tr.hot > p.AbortTemperature {
@@ -224,10 +267,10 @@ func (s *stepper) run(ctx context.Context) *Result {
 			break
 		}
 	}
-	if res.Status != OK {
-		last := res.Snapshots[len(res.Snapshots)-1]
-		if last.Time != s.t {
-			res.Snapshots = append(res.Snapshots, s.snapshot(s.old, s.ledger.Faces+s.ledger.Volumetric))
+	if res.Status != OK && sinkErr == nil && lastShot != s.t {
+		emit(s.snapshot(s.old, s.ledger.Faces+s.ledger.Volumetric))
+		if sinkErr != nil {
+			res.Err = errors.Join(res.Err, sinkErr)
 		}
 	}
 	res.Ledger = s.ledger

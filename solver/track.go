@@ -229,19 +229,26 @@ func (s *stepper) snapshot(lv *level, heatIn float64) Snapshot {
 // store hands out the snapshots' slices from large blocks, so that the
 // outputs of a whole run cost a few allocations instead of a few per
 // output time. Each slice has its own capacity (appending to one copies).
+// A streaming run rewinds the store after each snapshot, so that one
+// block serves them all.
 type store struct {
 	buf   []float64
-	block int // floats per block
+	whole []float64 // the current block, for rewind
+	block int       // floats per block
 }
 
 func (st *store) take(m int) []float64 {
 	if len(st.buf) < m {
 		st.buf = make([]float64, max(st.block, m))
+		st.whole = st.buf
 	}
 	s := st.buf[:m:m]
 	st.buf = st.buf[m:]
 	return s
 }
+
+// rewind hands out the current block again from its start.
+func (st *store) rewind() { st.buf = st.whole }
 
 // probe returns temperature and cure at depth z: linear through the cell
 // centres of z's layer and the temperatures on that layer's side of its two

@@ -19,6 +19,11 @@ type Workspace struct {
 // the first run, and a run larger than any before it, allocates as
 // solver.Run does and sizes the buffers for the next.
 func (w *Workspace) Run(ctx context.Context, p *Problem) (*Result, error) {
+	return w.RunStream(ctx, p, nil)
+}
+
+// RunStream is solver.RunStream with the workspace's buffers (see Run).
+func (w *Workspace) RunStream(ctx context.Context, p *Problem, sink Sink) (*Result, error) {
 	q, err := normalise(p)
 	if err != nil {
 		return nil, err
@@ -30,7 +35,7 @@ func (w *Workspace) Run(ctx context.Context, p *Problem) (*Result, error) {
 		// Room for everything next time, in one block.
 		w.buf = make([]float64, c.used+c.short)
 	}
-	return s.run(ctx), nil
+	return s.run(ctx, sink), nil
 }
 
 // carver hands out zeroed slices from one buffer and, when it runs out,

@@ -1,6 +1,7 @@
 package dsc
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -83,16 +84,33 @@ type Analysis struct {
 // unconverged fit.
 //
 // Errors: the errors of every scan that cannot be processed, joined
-// (errors.Join of *ScanError); nothing is analysed then. Cost: dominated by
-// the fit (see Fit).
+// (errors.Join of *ScanError); nothing is analysed then. Cost: linear in
+// the samples for the processing (Process), then dominated by the fit (see
+// Fit).
 func Analyze(scans []*Scan, opt Options) (*Analysis, error) {
+	return AnalyzeContext(context.Background(), scans, opt)
+}
+
+// AnalyzeContext is Analyze that stops when ctx is cancelled: ctx is
+// checked between scans, in the iterations of a sigmoidal baseline and
+// before every iteration of the fit. Cancelled while processing the scans,
+// it returns ctx.Err() and no analysis; cancelled during the fit, it
+// returns the analysis without the fit (Fit nil, FitRefused saying so) and
+// ctx.Err(), so that a caller can show what was computed.
+func AnalyzeContext(ctx context.Context, scans []*Scan, opt Options) (*Analysis, error) {
 	if len(scans) == 0 {
 		return nil, errors.New("dsc: no scans")
 	}
 	an := &Analysis{HeatSD: math.NaN(), EaSpread: math.NaN()}
 	var errs []error
 	for _, s := range scans {
-		c, err := Process(s, opt.Baseline, opt.Window)
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		c, err := process(ctx, s, opt.Baseline, opt.Window)
+		if ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
 		if err != nil {
 			errs = append(errs, err)
 			continue
@@ -217,7 +235,11 @@ func Analyze(scans []*Scan, opt Options) (*Analysis, error) {
 		an.FitRefused = "a single temperature program: a model fitted to one heating rate is not determined (ICTAC, Vyazovkin et al. 2011); give scans at 3 or more heating rates"
 		return an, nil
 	}
-	fit, err := Fit(an.Curves, an.Friedman, FitSpec{Model: opt.Model, Diffusion: opt.Diffusion, Progress: opt.Progress})
+	fit, err := FitContext(ctx, an.Curves, an.Friedman, FitSpec{Model: opt.Model, Diffusion: opt.Diffusion, Progress: opt.Progress})
+	if ctx.Err() != nil {
+		an.FitRefused = "interrupted before the fit converged"
+		return an, ctx.Err()
+	}
 	if err != nil {
 		an.FitRefused = err.Error()
 		return an, nil

@@ -1,6 +1,7 @@
 package dsc
 
 import (
+	"context"
 	"fmt"
 	"math"
 )
@@ -116,8 +117,16 @@ func (c *Curve) Normalize(total float64) {
 //
 // Errors are *ScanError: invalid samples (Validate), an unrecognised
 // program (DetectProgram), no exotherm above the noise, a window outside the
-// scan. Cost O(n·h) for n samples and smoothing half-width h.
+// scan. Cost O(n) for n samples (the smoothing is linear, see smoothQuad);
+// O(n log n) for the median of DetectProgram; a sigmoidal baseline adds up
+// to 200 passes over the window.
 func Process(s *Scan, b Baseline, w Window) (*Curve, error) {
+	return process(context.Background(), s, b, w)
+}
+
+// process is Process; a cancelled ctx stops the iterations of a sigmoidal
+// baseline (the caller checks ctx afterwards).
+func process(ctx context.Context, s *Scan, b Baseline, w Window) (*Curve, error) {
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}
@@ -130,7 +139,7 @@ func Process(s *Scan, b Baseline, w Window) (*Curve, error) {
 	if p.Kind == Isothermal {
 		base, err = c.isothermalBaseline()
 	} else {
-		base, err = c.dynamicBaseline(b, w)
+		base, err = c.dynamicBaseline(ctx, b, w)
 	}
 	if err != nil {
 		return nil, err
@@ -156,7 +165,7 @@ func Process(s *Scan, b Baseline, w Window) (*Curve, error) {
 func edgeHalf(n int) int { return max(3, n/100) }
 
 // dynamicBaseline sets c.On, c.End and returns the baseline over them.
-func (c *Curve) dynamicBaseline(b Baseline, w Window) ([]float64, error) {
+func (c *Curve) dynamicBaseline(ctx context.Context, b Baseline, w Window) ([]float64, error) {
 	s := c.Scan
 	t, q := s.Time, s.HeatFlow
 	n := len(t)
@@ -252,7 +261,7 @@ func (c *Curve) dynamicBaseline(b Baseline, w Window) ([]float64, error) {
 	for i := range base {
 		base[i] = icpt + slope*t[on+i]
 	}
-	if b == SigmoidalBaseline && !c.sigmoidal(base, flat0, flat1) {
+	if b == SigmoidalBaseline && !c.sigmoidal(ctx, base, flat0, flat1) {
 		c.Notes = append(c.Notes, "too little flat baseline outside the exotherm for a sigmoidal baseline: a linear one is used")
 	}
 	return base, nil
@@ -282,7 +291,7 @@ func levelAt(t, q []float64, lo, hi, at, e int) float64 {
 // changes the level of the baseline as it cures much more than its slope,
 // and one slope from all the flat data is far less sensitive to noise than
 // two tangents extrapolated across the window.
-func (c *Curve) sigmoidal(base []float64, flat0, flat1 int) bool {
+func (c *Curve) sigmoidal(ctx context.Context, base []float64, flat0, flat1 int) bool {
 	s := c.Scan
 	t, q := s.Time, s.HeatFlow
 	n := len(t)
@@ -315,6 +324,9 @@ func (c *Curve) sigmoidal(base []float64, flat0, flat1 int) bool {
 		net[i] = q[on+i] - base[i]
 	}
 	for range 200 {
+		if ctx.Err() != nil {
+			return true
+		}
 		cum := cumTrapz(tw, net)
 		h := cum[len(cum)-1]
 		if !(h > 0) {

@@ -1,6 +1,7 @@
 package dsc
 
 import (
+	"context"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -525,7 +526,7 @@ func TestLevenberg(t *testing.T) {
 		dst[0] = 10 * (x[1] - x[0]*x[0])
 		dst[1] = 1 - x[0]
 	}
-	r := levenberg(f, []float64{-1.2, 1}, 2, 200, nil)
+	r := levenberg(context.Background(), f, []float64{-1.2, 1}, 2, 200, nil)
 	if !r.Converged || math.Abs(r.X[0]-1) > 1e-6 || math.Abs(r.X[1]-1) > 1e-6 {
 		t.Errorf("Rosenbrock: %v after %d iterations (converged %v)", r.X, r.Iterations, r.Converged)
 	}
@@ -538,7 +539,7 @@ func TestLevenberg(t *testing.T) {
 			dst[i] = p[0] + p[1]*x[i] - y[i]
 		}
 	}
-	r = levenberg(line, []float64{0, 0}, len(x), 200, nil)
+	r = levenberg(context.Background(), line, []float64{0, 0}, len(x), 200, nil)
 	l := fitLine(x, y)
 	cov, ok := covariance(r.Jacobian, r.Cost)
 	if !ok || math.Abs(r.X[1]-l.Slope) > 1e-8 || math.Abs(math.Sqrt(cov.At(1, 1))/l.SlopeSE-1) > 1e-5 ||

@@ -1,6 +1,7 @@
 package dsc
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -146,6 +147,13 @@ type fitModel struct {
 // ErrDiffusionData. Cost: typically 50 to 500 integrations of all curves
 // (well under a second for a few thousand samples).
 func Fit(curves []*Curve, iso []IsoPoint, spec FitSpec) (*FitResult, error) {
+	return FitContext(context.Background(), curves, iso, spec)
+}
+
+// FitContext is Fit that stops when ctx is cancelled: ctx is checked before
+// every Levenberg–Marquardt iteration (a few integrations of all curves,
+// milliseconds), and the error is then ctx.Err() with no result.
+func FitContext(ctx context.Context, curves []*Curve, iso []IsoPoint, spec FitSpec) (*FitResult, error) {
 	if spec.Model != NthOrder && spec.Model != Autocatalytic {
 		return nil, fmt.Errorf("dsc: unknown model %q (want %q or %q)", spec.Model, NthOrder, Autocatalytic)
 	}
@@ -208,7 +216,10 @@ func Fit(curves []*Curve, iso []IsoPoint, spec FitSpec) (*FitResult, error) {
 		if k >= 3 || math.IsInf(costs[i], 1) {
 			break
 		}
-		r := levenberg(fm.residuals, starts[i], fm.m, maxIter, prog)
+		r := levenberg(ctx, fm.residuals, starts[i], fm.m, maxIter, prog)
+		if r.Stopped {
+			return nil, ctx.Err()
+		}
 		evals += r.Evals
 		if r.Cost < best.Cost {
 			best = r

@@ -1,6 +1,7 @@
 package dsc
 
 import (
+	"context"
 	"math"
 
 	"gonum.org/v1/gonum/diff/fd"
@@ -16,6 +17,7 @@ type lmResult struct {
 	Iterations int
 	Evals      int
 	Converged  bool
+	Stopped    bool // by a cancelled context
 }
 
 // levenberg minimises ½‖r(x)‖² over x from x0, where f(dst, x) writes the
@@ -33,10 +35,12 @@ type lmResult struct {
 // 1e-10, when the step is below 1e-9 in every component (relative to the
 // component, absolute below 1), when the gradient vanishes, or after
 // maxIter iterations (Converged false). progress, if not nil, is called
-// after every iteration with the iteration count and the cost.
+// after every iteration with the iteration count and the cost. A cancelled
+// ctx, checked before every iteration, stops it with the best point so far
+// (Converged false, Stopped true).
 //
 // Cost: (len(x) + 1 + rejected steps) evaluations of f per iteration.
-func levenberg(f func(dst, x []float64), x0 []float64, m, maxIter int, progress func(int, float64)) lmResult {
+func levenberg(ctx context.Context, f func(dst, x []float64), x0 []float64, m, maxIter int, progress func(int, float64)) lmResult {
 	p := len(x0)
 	x := append([]float64(nil), x0...)
 	r := make([]float64, m)
@@ -88,6 +92,10 @@ func levenberg(f func(dst, x []float64), x0 []float64, m, maxIter int, progress 
 	delta := mat.NewVecDense(p, nil)
 	iter := 0
 	for iter < maxIter {
+		if ctx.Err() != nil {
+			res.Stopped = true
+			break
+		}
 		iter++
 		// Damped normal equations with Marquardt's scaling.
 		M.CopySym(&A)

@@ -73,7 +73,14 @@ func polyFit(x, y []float64, degree int) (c [4]float64, ok bool) {
 			a[r][m] += p[r] * y[i]
 		}
 	}
-	// Gaussian elimination with partial pivoting.
+	return solveNormal(&a, m)
+}
+
+// solveNormal solves the m×m normal equations held in a (the right-hand
+// side in column m) by Gaussian elimination with partial pivoting, in
+// place; ok is false when the system is singular or the solution is not
+// finite.
+func solveNormal(a *[4][5]float64, m int) (c [4]float64, ok bool) {
 	for col := range m {
 		piv := col
 		for r := col + 1; r < m; r++ {
@@ -111,14 +118,49 @@ func polyFit(x, y []float64, degree int) (c [4]float64, ok bool) {
 // over the samples i−h … i+h (clipped at the ends), evaluated at t[i]: a
 // Savitzky–Golay filter (Savitzky & Golay, Anal. Chem. 36:1627, 1964) that
 // also accepts uneven sampling. A quadratic keeps the height of a peak that
-// spans many windows. Cost O(n·h).
+// spans many windows.
+//
+// Method: up to directSmooth samples of half-width, each window is fitted
+// on its own (polyFit, centred on t[i]). Wider windows, whose half-width
+// grows with the length of the scan, use running sums instead: the samples
+// are taken in blocks of h; within a block the moments Σu^k (k ≤ 4) and
+// Σy·u^k (k ≤ 2) of the window, in a coordinate u centred and scaled on the
+// block and its neighbours (|u| ≤ 1, so the normal equations stay well
+// conditioned), are updated by adding the sample that enters and removing
+// the one that leaves, and restarted from scratch at each block so that
+// rounding does not accumulate. The fitted value at t[i] does not depend
+// on the coordinate, so both ways give the same result to rounding.
+//
+// Cost O(n·h) up to directSmooth, O(n) above (about four sample updates
+// per sample); one output slice.
 func smoothQuad(t, y []float64, h int) []float64 {
+	out, _ := smoothQuadWork(t, y, h)
+	return out
+}
+
+// directSmooth is the widest half-width that smoothQuad fits window by
+// window.
+const directSmooth = 16
+
+// smoothQuadWork is smoothQuad that also returns the number of sample
+// updates made (each a few multiply–adds), the measure of its cost.
+func smoothQuadWork(t, y []float64, h int) ([]float64, int) {
+	if h < 1 || len(y) < 3 {
+		return append([]float64(nil), y...), 0
+	}
+	if h <= directSmooth {
+		return smoothDirect(t, y, h)
+	}
+	return smoothRunning(t, y, h)
+}
+
+// smoothDirect fits each window on its own, centred on t[i] and scaled to
+// [−1, 1] (a straight line where the window holds fewer than five
+// samples). Cost O(n·h).
+func smoothDirect(t, y []float64, h int) ([]float64, int) {
 	n := len(y)
 	out := make([]float64, n)
-	if h < 1 || n < 3 {
-		copy(out, y)
-		return out
-	}
+	work := 0
 	xs := make([]float64, 0, 2*h+1)
 	for i := range n {
 		lo, hi := max(0, i-h), min(n-1, i+h)
@@ -127,6 +169,7 @@ func smoothQuad(t, y []float64, h int) []float64 {
 		for j := lo; j <= hi; j++ {
 			xs = append(xs, (t[j]-t[i])/scale)
 		}
+		work += hi - lo + 1
 		deg := 2
 		if hi-lo < 4 {
 			deg = 1
@@ -137,7 +180,64 @@ func smoothQuad(t, y []float64, h int) []float64 {
 			out[i] = y[i]
 		}
 	}
-	return out
+	return out, work
+}
+
+// smoothRunning computes the same fits from running sums of the window's
+// moments, block by block (see smoothQuad). Precondition: h ≥ 4, so that
+// every window holds at least five samples (smoothDirect fits a straight
+// line to fewer). Cost O(n): about four sample updates per sample.
+func smoothRunning(t, y []float64, h int) ([]float64, int) {
+	n := len(y)
+	out := make([]float64, n)
+	work := 0
+	var mom [5]float64 // Σ u^k over the window
+	var rhs [3]float64 // Σ y·u^k over the window
+	var c0, sc float64 // u = (t − c0)/sc
+	add := func(j int, sign float64) {
+		u := (t[j] - c0) / sc
+		u2 := u * u
+		mom[0] += sign
+		mom[1] += sign * u
+		mom[2] += sign * u2
+		mom[3] += sign * u2 * u
+		mom[4] += sign * u2 * u2
+		rhs[0] += sign * y[j]
+		rhs[1] += sign * y[j] * u
+		rhs[2] += sign * y[j] * u2
+		work++
+	}
+	for b0 := 0; b0 < n; b0 += h {
+		b1 := min(n, b0+h) // the block is [b0, b1)
+		first, last := max(0, b0-h), min(n-1, b1-1+h)
+		c0, sc = 0.5*(t[first]+t[last]), 0.5*(t[last]-t[first])
+		mom, rhs = [5]float64{}, [3]float64{}
+		lo, hi := first, min(n-1, b0+h)
+		for j := lo; j <= hi; j++ {
+			add(j, 1)
+		}
+		for i := b0; i < b1; i++ {
+			for ; lo < i-h; lo++ {
+				add(lo, -1)
+			}
+			for hi < min(n-1, i+h) {
+				hi++
+				add(hi, 1)
+			}
+			a := [4][5]float64{
+				{mom[0], mom[1], mom[2], rhs[0]},
+				{mom[1], mom[2], mom[3], rhs[1]},
+				{mom[2], mom[3], mom[4], rhs[2]},
+			}
+			if c, ok := solveNormal(&a, 3); ok {
+				u := (t[i] - c0) / sc
+				out[i] = c[0] + u*(c[1]+u*c[2])
+			} else {
+				out[i] = y[i]
+			}
+		}
+	}
+	return out, work
 }
 
 // cumTrapz returns the running trapezoidal integral of y over t, starting
