@@ -520,4 +520,3 @@ func TestVarErrors(t *testing.T) {
 		t.Error("3 residuals for 3 unknowns: no error")
 	}
 }
-
