@@ -1,8 +1,14 @@
-# cureslab — common tasks. `make test` is what CI runs (.ci/run).
+# cureslab — common tasks.
+# `make ci` runs exactly what CI runs: .ci/run (go vet, the gofmt check,
+# `go test ./...` as in the README, and the browser check of the reports).
+# `make test` is the test suite alone.
 GO ?= go
 FUZZTIME ?= 10m
 
-.PHONY: build test vet bench bench-scaling demo fuzz e2e clean
+.PHONY: ci build test vet bench bench-scaling demo fuzz e2e clean
+
+ci:
+	bash .ci/run
 
 build:
 	$(GO) build ./...
@@ -14,7 +20,8 @@ vet:
 	$(GO) vet ./...
 	@test -z "$$(gofmt -l . | grep -v '^testdata/')" || (gofmt -l .; exit 1)
 
-# Speed figures for the README (see "Performance").
+# Speed figures (README "Performance"; dated record in DEVELOPERS.md,
+# "Measurement journal").
 bench:
 	$(GO) test -run '^$$' -bench . -benchmem -count 5 ./solver/ ./cases/
 
