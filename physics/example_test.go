@@ -2,6 +2,7 @@ package physics_test
 
 import (
 	"fmt"
+	"math"
 	"os"
 	"text/tabwriter"
 
@@ -119,4 +120,22 @@ func ExampleBuiltin() {
 	// Output:
 	// true fr4
 	// FR-4 glass-epoxy laminate, through-plane: k Sarvar, Poole & Witting, J. Electron. Mater. 19:1345 (1990) (confirmed); rho 1850 (confirmed); cp 1100-1200 typical (from memory)
+}
+
+// The critical Frank-Kamenetskii parameter of a slab for a few kinds of
+// faces: held at the surroundings, cooled by air at Bi = 1, and one held
+// face against one insulated face.
+func ExampleCriticalFK() {
+	held := physics.CriticalFKSymmetric(math.Inf(1))
+	air := physics.CriticalFKSymmetric(1)
+	fmt.Printf("held faces, half-width a: delta_c = %.4f, theta_max = %.4f\n", held.Delta, held.Theta)
+	fmt.Printf("air at Bi = h a/k = 1:     delta_c = %.4f\n", air.Delta)
+	// Full thickness L as the length scale: a held platen under a face
+	// cooled by air at Bi = h L/k = 1; the hottest point lies nearer the air.
+	c := physics.CriticalFK(math.Inf(1), 1)
+	fmt.Printf("platen + air, thickness L: delta_c = %.4f, hottest at %.3f L\n", c.Delta, c.Hottest)
+	// Output:
+	// held faces, half-width a: delta_c = 0.8785, theta_max = 1.1868
+	// air at Bi = h a/k = 1:     delta_c = 0.2707
+	// platen + air, thickness L: delta_c = 1.4789, hottest at 0.770 L
 }

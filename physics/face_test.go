@@ -151,3 +151,56 @@ func TestFaceKindString(t *testing.T) {
 		}
 	}
 }
+
+func TestFaceFluxWithAir(t *testing.T) {
+	const R = 0.0005 / 0.2
+	for _, tc := range []struct {
+		name          string
+		q0, h, eps    float64
+		Ta, Tc, cellR float64
+	}{
+		{"lamp over a part in still air", 1500, 10, 0, 296.15, 350, R},
+		{"lamp, convection and radiation", 1500, 10, 0.9, 296.15, 350, R},
+		{"lamp, radiation only", 3000, 0, 0.9, 296.15, 450, R},
+		{"lamp off, part cooling", 0, 12, 0.8, 296.15, 420, R},
+		{"negative flux (a chill plate)", -500, 5, 0.3, 296.15, 320, 0.0005 / 200},
+	} {
+		f := Face{Kind: Flux, Flux: Steady(tc.q0), H: tc.h, Emissivity: tc.eps, Air: Steady(tc.Ta)}
+		q, dq, Tf := f.HeatIn(0, tc.Tc, tc.cellR)
+		es := tc.eps * StefanBoltzmann
+		// Source: face balance, imposed flux plus convection plus radiation at
+		// the face temperature: q0 + h(Ta − Tf) + εσ(Ta⁴ − Tf⁴) = (Tf − Tc)/R = q.
+		bal := tc.q0 + tc.h*(tc.Ta-Tf) + es*(math.Pow(tc.Ta, 4)-math.Pow(Tf, 4))
+		if res := bal - (Tf-tc.Tc)/tc.cellR; math.Abs(res) > 1e-9*max(1, math.Abs(q)) {
+			t.Errorf("%s: face balance residual %v W/m² (q = %v, Tf = %v)", tc.name, res, q, Tf)
+		}
+		if math.Abs(q-(Tf-tc.Tc)/tc.cellR) > 1e-9*max(1, math.Abs(q)) {
+			t.Errorf("%s: q = %v, (Tf − Tc)/R = %v", tc.name, q, (Tf-tc.Tc)/tc.cellR)
+		}
+		if tc.eps == 0 {
+			// Source: analytic — without radiation the balance is linear:
+			// q = (q0 + h(Ta − Tc))/(1 + hR).
+			want := (tc.q0 + tc.h*(tc.Ta-tc.Tc)) / (1 + tc.h*tc.cellR)
+			if math.Abs(q-want) > 1e-12*max(1, math.Abs(want)) {
+				t.Errorf("%s: q = %v, want %v", tc.name, q, want)
+			}
+		}
+		// dq/dTc against central differences (gonum diff/fd).
+		num := fd.Derivative(func(x float64) float64 { q, _, _ := f.HeatIn(0, x, tc.cellR); return q }, tc.Tc,
+			&fd.Settings{Formula: fd.Central, Step: 1e-3})
+		if math.Abs(dq-num) > 1e-6*max(math.Abs(num), 1e-3) {
+			t.Errorf("%s: dq/dTc = %v, finite difference %v", tc.name, dq, num)
+		}
+		if !f.HasAir() || f.Linear() != (tc.eps == 0) {
+			t.Errorf("%s: HasAir %v, Linear %v", tc.name, f.HasAir(), f.Linear())
+		}
+		if _, ok := f.Driver(); ok {
+			t.Errorf("%s: a flux face drives no temperature", tc.name)
+		}
+	}
+	// Without h and emissivity a flux face is the imposed flux alone, whatever its air.
+	f := Face{Kind: Flux, Flux: Steady(800)}
+	if q, dq, Tf := f.HeatIn(0, 300, R); q != 800 || dq != 0 || Tf != 300+800*R || f.HasAir() {
+		t.Errorf("plain flux: q %v, dq %v, Tf %v, HasAir %v", q, dq, Tf, f.HasAir())
+	}
+}

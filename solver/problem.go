@@ -73,8 +73,8 @@ type Snapshot struct {
 
 	ProbeT    []float64 // K, per probe
 	ProbeCure []float64 // per probe; NaN in layers that do not cure
-	AirTop    float64   // K; NaN unless the top face is convective
-	AirBottom float64   // K; NaN unless the bottom face is convective
+	AirTop    float64   // K; NaN unless the top face exchanges heat with air (Face.HasAir)
+	AirBottom float64   // K; NaN unless the bottom face exchanges heat with air
 	HeatIn    float64   // cumulative energy in through the faces and from volumetric heating, J/m²
 	// PowerFraction is the controller's output u in [0, 1] held from this
 	// time on; NaN unless volumetric heating is controlled.
@@ -117,19 +117,41 @@ type Summary struct {
 	PeakTemperature float64 // hottest cell centre at any step
 	PeakTime        float64
 	PeakDepth       float64
-	// Overshoot is the largest excess of any cell over the hottest driving
-	// temperature at the same time; NaN when nothing drives the case.
+	// Overshoot is the largest, over time and cells, of T(t) − D*(t), where
+	// D*(t) is the hottest temperature any driver (Drivers) has reached up
+	// to t: signed (a part that never passes its drivers reads negative),
+	// NaN when nothing drives the case. A part lagging its drivers as they
+	// cool is no overshoot (see CoolingLag).
 	Overshoot float64
+	// HeatingLag is the largest D(t) − T over cells and accepted steps
+	// while the drivers rise or hold, with D(t) the hottest driving
+	// temperature at t; HeatingLagTime and HeatingLagDepth say when and
+	// where (the coldest cell). CoolingLag is the largest T − D(t) while
+	// the drivers fall (the hottest cell). The drivers' direction is that
+	// of D over the step just taken. NaN when nothing drives the case, and
+	// CoolingLag also when the drivers never fall.
+	HeatingLag, HeatingLagTime, HeatingLagDepth float64
+	CoolingLag, CoolingLagTime, CoolingLagDepth float64
 	// MaxSpread is the largest (hottest − coldest) over all cells of all
 	// curing layers, at any step; NaN without curing layers.
-	MaxSpread           float64
-	MinFinalCure        float64 // NaN without curing layers
-	MinFinalCureDepth   float64
-	MeanFinalCure       float64 // thickness-weighted over curing cells
-	TimeToMinCure       float64 // when every curing cell reached Problem.MinCure
-	GelTimeFirst        float64 // first cell to reach its gel point
-	GelTimeLast         float64 // NaN if any curing cell never gels
-	MinFinalGlass       float64 // lowest final glass transition; NaN where undefined
+	MaxSpread float64
+	// LayerSpread is, for each layer of the mesh in order, the largest
+	// (hottest − coldest) over that layer's cells at any step.
+	LayerSpread       []float64
+	MinFinalCure      float64 // NaN without curing layers
+	MinFinalCureDepth float64
+	MeanFinalCure     float64 // thickness-weighted over curing cells
+	TimeToMinCure     float64 // when every curing cell reached Problem.MinCure
+	GelTimeFirst      float64 // first cell to reach its gel point
+	GelTimeLast       float64 // NaN if any curing cell never gels
+	MinFinalGlass     float64 // lowest final glass transition; NaN where undefined
+	// ConservationResidual is the relative imbalance of the energy ledger
+	// (Ledger.BalanceError): it proves the bookkeeping, not the accuracy.
+	ConservationResidual float64
+	// EnergyBalanceError is the former name of ConservationResidual and
+	// holds the same value.
+	//
+	// Deprecated: use ConservationResidual.
 	EnergyBalanceError  float64
 	Steps               int // accepted steps
 	RejectedSteps       int

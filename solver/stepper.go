@@ -213,20 +213,8 @@ func (s *stepper) classify(mem *carver) {
 			}
 		}
 	}
-	// The face kinds whose flux is affine in the boundary cell's
-	// temperature with a constant slope; a new kind is nonlinear until
-	// listed here.
-	linearFace := func(fc *physics.Face) bool {
-		switch fc.Kind {
-		case physics.Insulated, physics.Fixed, physics.Flux:
-			return true
-		case physics.Convection:
-			return fc.Emissivity == 0
-		}
-		return false
-	}
 	s.linear = s.kFixed && s.cpFixed && !s.curing && s.vol == nil &&
-		linearFace(&s.p.Top) && linearFace(&s.p.Bottom)
+		s.p.Top.Linear() && s.p.Bottom.Linear()
 	if s.linear {
 		s.mc, s.luC, s.luInv = f(), f(), f()
 		for i := range n {

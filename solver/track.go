@@ -2,6 +2,7 @@ package solver
 
 import (
 	"math"
+	"sort"
 
 	"cureslab/physics"
 )
@@ -11,9 +12,15 @@ type tracker struct {
 	sum      Summary
 	gel      []float64 // gel time per cell, NaN until gelled
 	drivers  []*physics.Schedule
+	programs []*physics.Schedule // every program of the case (drivers, air, flux)
+	next     []int               // per driver, the index of its first breakpoint after the last observed time
 	prevMinA float64
 	hot      float64 // the hottest cell of the state last observed, K
 	hotCell  int
+	// dStar holds the drivers' running maximum D*(t) at the times of the
+	// stepper's history (dStar[0] at the newest), K; −Inf before any.
+	dStar [3]float64
+	prevD float64 // D at the previous observed time, K
 }
 
 func (s *stepper) newTracker() *tracker {
@@ -21,22 +28,79 @@ func (s *stepper) newTracker() *tracker {
 	tr := &tracker{gel: make([]float64, s.n)}
 	tr.sum = Summary{
 		PeakTemperature: math.Inf(-1), Overshoot: nan, MaxSpread: nan,
+		HeatingLag: nan, HeatingLagTime: nan, HeatingLagDepth: nan,
+		CoolingLag: nan, CoolingLagTime: nan, CoolingLagDepth: nan,
+		LayerSpread:  make([]float64, len(s.p.Mesh.Layers)),
 		MinFinalCure: nan, MinFinalCureDepth: nan, MeanFinalCure: nan, TimeToMinCure: nan,
 		GelTimeFirst: nan, GelTimeLast: nan, MinFinalGlass: nan,
 	}
 	for i := range tr.gel {
 		tr.gel[i] = nan
 	}
+	tr.drivers = Drivers(s.p)
+	tr.next = make([]int, len(tr.drivers))
 	for _, f := range []*physics.Face{&s.p.Top, &s.p.Bottom} {
-		if d, ok := f.Driver(); ok {
-			tr.drivers = append(tr.drivers, d)
+		switch {
+		case f.Kind == physics.Fixed:
+			tr.programs = append(tr.programs, &f.Set)
+		case f.Kind == physics.Flux:
+			tr.programs = append(tr.programs, &f.Flux)
+		}
+		if f.HasAir() {
+			tr.programs = append(tr.programs, &f.Air)
 		}
 	}
-	if s.vol != nil && s.vol.Control != nil {
-		tr.drivers = append(tr.drivers, &s.vol.Control.Program)
+	if v := s.vol; v != nil && v.Control != nil {
+		tr.programs = append(tr.programs, &v.Control.Program)
 	}
+	inf := math.Inf(-1)
+	tr.dStar = [3]float64{inf, inf, inf}
+	tr.prevD = nan
 	tr.prevMinA = math.NaN()
 	return tr
+}
+
+// Drivers returns the temperature programs that drive p:
+// the air of each convective face, the set temperature of each fixed face
+// and, under closed-loop volumetric heating, the control program. Under
+// volumetric heating without control it returns none: the power, not a
+// temperature program, heats the part, and faces only take heat away. A
+// flux face is never a driver (physics.Face.Driver). Overshoot and the lags
+// are NaN when there is no driver.
+func Drivers(p *Problem) []*physics.Schedule {
+	if v := p.Volumetric; v != nil && v.Control == nil {
+		return nil
+	}
+	var ds []*physics.Schedule
+	for _, f := range []*physics.Face{&p.Top, &p.Bottom} {
+		if d, ok := f.Driver(); ok {
+			ds = append(ds, d)
+		}
+	}
+	if v := p.Volumetric; v != nil {
+		ds = append(ds, &v.Control.Program)
+	}
+	return ds
+}
+
+// drive returns D(t), the hottest driving temperature at t, and the
+// drivers' largest value over (t−h, t] (their values at t and at any
+// breakpoint inside the interval, where a piecewise-linear program has its
+// extremes). It advances tr.next past t.
+func (tr *tracker) drive(t, h float64) (D, hi float64) {
+	D, hi = math.Inf(-1), math.Inf(-1)
+	for k, d := range tr.drivers {
+		v := d.At(t)
+		D, hi = max(D, v), max(hi, v)
+		bt, bv := d.Points()
+		for tr.next[k] < len(bt) && bt[tr.next[k]] <= t {
+			if bt[tr.next[k]] > t-h {
+				hi = max(hi, bv[tr.next[k]])
+			}
+			tr.next[k]++
+		}
+	}
+	return D, hi
 }
 
 // observe updates the tracked quantities with the state just accepted at
@@ -47,26 +111,56 @@ func (tr *tracker) observe(s *stepper, h float64) {
 	t := s.t
 	sum := &tr.sum
 	hot, at := s.T[0], 0
+	cold, coldAt := s.T[0], 0
 	for i, T := range s.T {
 		if T > hot { // strict: the shallowest cell on ties
 			hot, at = T, i
+		}
+		if T < cold {
+			cold, coldAt = T, i
 		}
 	}
 	tr.hot, tr.hotCell = hot, at
 	if hot > sum.PeakTemperature { // strict: the earliest time on ties
 		sum.PeakTemperature, sum.PeakTime, sum.PeakDepth = hot, t, s.p.Mesh.Centers[at]
 	}
-	if s.histLen == 3 {
-		tr.peakBetweenSteps(s)
+	m := s.p.Mesh
+	for j := range m.Layers {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, T := range s.T[m.First[j]:m.First[j+1]] {
+			lo, hi = min(lo, T), max(hi, T)
+		}
+		sum.LayerSpread[j] = max(sum.LayerSpread[j], hi-lo)
 	}
 	if len(tr.drivers) > 0 {
-		drive := math.Inf(-1)
-		for _, d := range tr.drivers {
-			drive = max(drive, d.At(t))
-		}
-		if ov := hot - drive; !(ov <= sum.Overshoot) {
+		D, hiStep := tr.drive(t, h)
+		tr.dStar[2], tr.dStar[1] = tr.dStar[1], tr.dStar[0]
+		tr.dStar[0] = max(tr.dStar[1], hiStep)
+		if ov := hot - tr.dStar[0]; !(ov <= sum.Overshoot) {
 			sum.Overshoot = ov
 		}
+		// The drivers' direction over the step just taken; at t = 0, over
+		// the first instant after it.
+		falling := D < tr.prevD
+		if h == 0 {
+			dt := 1e-9 * max(s.p.End, 1)
+			Dn := math.Inf(-1)
+			for _, d := range tr.drivers {
+				Dn = max(Dn, d.At(t+dt))
+			}
+			falling = Dn < D
+		}
+		tr.prevD = D
+		if falling {
+			if lag := hot - D; !(lag <= sum.CoolingLag) {
+				sum.CoolingLag, sum.CoolingLagTime, sum.CoolingLagDepth = lag, t, m.Centers[at]
+			}
+		} else if lag := D - cold; !(lag <= sum.HeatingLag) {
+			sum.HeatingLag, sum.HeatingLagTime, sum.HeatingLagDepth = lag, t, m.Centers[coldAt]
+		}
+	}
+	if s.histLen == 3 {
+		tr.peakBetweenSteps(s)
 	}
 	if !s.curing {
 		return
@@ -101,10 +195,24 @@ func (tr *tracker) observe(s *stepper, h float64) {
 // where a cell's middle value of the last three steps is the largest, the
 // parabola through the three (second order, like the scheme) has its vertex
 // between them, and that vertex is the cell's peak. Reading the peak only at
-// step times would miss up to h²|T″|/8 with steps of a few minutes.
+// step times would miss up to h²|T″|/8 with steps of a few minutes. The
+// parabola stands for a smooth history only: where a program of the case
+// (a face's air, set temperature or flux, the control program) changes
+// slope between the first and the last of the three times, the history has
+// a kink there (a hold ending, a lamp switching) and no vertex is read.
 func (tr *tracker) peakBetweenSteps(s *stepper) {
 	sum := &tr.sum
 	t0, t1, t2 := s.histTim[0], s.histTim[1], s.histTim[2]
+	for _, p := range tr.programs {
+		bt := p.Breakpoints()
+		k := sort.SearchFloat64s(bt, t2)
+		for k < len(bt) && bt[k] <= t2 {
+			k++
+		}
+		if k < len(bt) && bt[k] < t0 {
+			return
+		}
+	}
 	for i := range s.n {
 		y0, y1, y2 := s.histT[0][i], s.histT[1][i], s.histT[2][i]
 		if !(y1 > y0 && y1 > y2) { // a strict maximum: a plateau has no vertex
@@ -125,6 +233,20 @@ func (tr *tracker) peakBetweenSteps(s *stepper) {
 		if yv > sum.PeakTemperature {
 			sum.PeakTemperature, sum.PeakTime, sum.PeakDepth = yv, tv, s.p.Mesh.Centers[i]
 		}
+		if len(tr.drivers) > 0 {
+			// D*(tv): the running maximum before the step that holds tv, or
+			// the drivers at tv (linear within a step) if higher.
+			ds := tr.dStar[2]
+			if tv > t1 {
+				ds = tr.dStar[1]
+			}
+			for _, d := range tr.drivers {
+				ds = max(ds, d.At(tv))
+			}
+			if ov := yv - ds; ov > sum.Overshoot {
+				sum.Overshoot = ov
+			}
+		}
 	}
 }
 
@@ -144,7 +266,8 @@ func (tr *tracker) finish(s *stepper, l *Ledger) {
 	for i := range s.n {
 		capacity += s.rho[i] * s.old.cp[i] * s.w[i]
 	}
-	sum.EnergyBalanceError = l.BalanceError(capacity * 1e-3)
+	sum.ConservationResidual = l.BalanceError(capacity * 1e-3)
+	sum.EnergyBalanceError = sum.ConservationResidual
 	if !s.curing {
 		return
 	}
@@ -211,10 +334,10 @@ func (s *stepper) snapshot(lv *level, heatIn float64) Snapshot {
 			}
 		}
 	}
-	if s.p.Top.Kind == physics.Convection {
+	if s.p.Top.HasAir() {
 		snap.AirTop = s.p.Top.Air.At(s.t)
 	}
-	if s.p.Bottom.Kind == physics.Convection {
+	if s.p.Bottom.HasAir() {
 		snap.AirBottom = s.p.Bottom.Air.At(s.t)
 	}
 	if np := len(s.p.Probes); np > 0 {
