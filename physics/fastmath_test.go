@@ -1,61 +1,34 @@
 package physics
 
 import (
-	"fmt"
 	"math"
 	"math/big"
 	"math/rand/v2"
-	"strconv"
-	"strings"
 	"testing"
+
+	"cureslab/physics/internal/fastmathgen"
 )
 
 // ---- 256-bit reference routines (independent of the code under test) ----
 
-// fmPrec is the working precision of the reference, in bits. It exceeds
-// the 200 bits asked for so that the cancellation in x − n·ln2 (|n| ≤ 1076,
-// 11 bits) still leaves more than 240 correct bits.
-const fmPrec = 256
+// The 256-bit arithmetic, ln 2, ln x and the table generators live in
+// package fastmathgen, which also writes fastmath_tables.go (go generate).
+const fmPrec = fastmathgen.Prec
 
-func fmNew() *big.Float { return new(big.Float).SetPrec(fmPrec) }
-
-func fmConst(v float64) *big.Float { return fmNew().SetFloat64(v) }
-
-// fmRefAtanh returns atanh z = z + z³/3 + z⁵/5 + … for |z| ≤ 0.2, summed
-// until a term falls below 2^-(fmPrec+16) (the series converges by a
-// factor z² ≤ 0.04 per term).
-func fmRefAtanh(z *big.Float) *big.Float {
-	z2 := fmNew().Mul(z, z)
-	pow := fmNew().Set(z)
-	sum := fmNew()
-	tiny := fmNew().SetMantExp(fmConst(1), -(fmPrec + 16))
-	for n := 1; ; n += 2 {
-		term := fmNew().Quo(pow, fmConst(float64(n)))
-		sum.Add(sum, term)
-		if term.Sign() == 0 || fmNew().Abs(term).Cmp(tiny) < 0 {
-			return sum
-		}
-		pow.Mul(pow, z2)
-	}
-}
-
-// fmLn2 is ln 2 = 2·atanh(1/3).
-// Source: analytic identity, (1 + 1/3)/(1 − 1/3) = 2.
-var fmLn2 = fmNew().Mul(fmConst(2), fmRefAtanh(fmNew().Quo(fmConst(1), fmConst(3))))
-
-// fmRefLog returns ln v for v > 0: v = 2^e·f with f in [√½, √2), then
-// ln v = e·ln2 + 2·atanh((f − 1)/(f + 1)), |(f−1)/(f+1)| ≤ 0.172.
-func fmRefLog(v *big.Float) *big.Float {
-	f := fmNew()
-	e := v.MantExp(f) // f in [0.5, 1)
-	if f.Cmp(fmConst(math.Sqrt2/2)) < 0 {
-		f.Mul(f, fmConst(2))
-		e--
-	}
-	z := fmNew().Quo(fmNew().Sub(f, fmConst(1)), fmNew().Add(f, fmConst(1)))
-	out := fmNew().Mul(fmConst(2), fmRefAtanh(z))
-	return out.Add(out, fmNew().Mul(fmConst(float64(e)), fmLn2))
-}
+var (
+	fmNew   = fastmathgen.New
+	fmConst = fastmathgen.Const
+	fmF64   = fastmathgen.F64
+	// fmLn2 is ln 2 = 2·atanh(1/3).
+	// Source: analytic identity, (1 + 1/3)/(1 − 1/3) = 2.
+	fmLn2          = fastmathgen.Ln2
+	fmRefLog       = fastmathgen.Log
+	fmRoundToGrid  = fastmathgen.RoundToGrid
+	logInterval    = fastmathgen.LogInterval
+	logFeasible    = fastmathgen.LogFeasible
+	formatExpTable = fastmathgen.FormatExpTable
+	formatLogTable = fastmathgen.FormatLogTable
+)
 
 // fmRefExp returns e^x: n = round(x/ln2), s = x − n·ln2 (|s| ≤ 0.35), e^s by
 // its Taylor series summed until a term is below 2^-(fmPrec+16) (s^k/k!
@@ -124,112 +97,39 @@ func TestFastmathReference(t *testing.T) {
 	}
 }
 
-// ---- table generators: the literals in fastmath.go must equal these ----
+// ---- the generated tables must equal their recomputation ----
 
-// genExpTable returns 2^(j/64) as hi (double nearest) and tail
-// ((2^(j/64) − hi)/hi, rounded), from 2^(j/64) = √√√√√√(2^j) (six square
-// roots, each correctly rounded at fmPrec bits).
+// genExpTable and genLogTable recompute the tables of fastmath_tables.go
+// in physics' own types.
 func genExpTable() (tab [expN]expEntry) {
-	for j := range expN {
-		v := fmNew().SetMantExp(fmConst(1), j)
-		for range 6 {
-			v.Sqrt(v)
-		}
-		hi, _ := v.Float64()
-		tail := fmNew().Sub(v, fmConst(hi))
-		tail.Quo(tail, fmConst(hi))
-		tab[j].hiBits = math.Float64bits(hi)
-		tab[j].tail, _ = tail.Float64()
+	for j, e := range fastmathgen.ExpTable() {
+		tab[j] = expEntry{hiBits: e.HiBits, tail: e.Tail}
 	}
 	return tab
 }
 
-// fmRoundToGrid returns v rounded to the nearest multiple of 2^-e (ties
-// away from zero), as a double; the result must fit in 53 bits.
-func fmRoundToGrid(v *big.Float, e int) float64 {
-	t := fmNew().SetMantExp(v, e)
-	t.Add(t, fmConst(math.Copysign(0.5, float64(t.Sign()))))
-	i, _ := t.Int(nil) // truncates toward zero
-	f, acc := fmNew().SetMantExp(fmNew().SetInt(i), -e).Float64()
-	if acc != big.Exact {
-		panic("fmRoundToGrid: not representable")
-	}
-	return f
-}
-
-// logInterval returns the bounds [a, b) of m covered by flog's table entry j.
-func logInterval(j int) (a, b float64) {
-	return math.Float64frombits(logOffBits + uint64(j)<<44),
-		math.Float64frombits(logOffBits + uint64(j+1)<<44)
-}
-
-// logRange returns the exact extreme values of r = m·invc − 1 over
-// m in [a, b] (r is increasing in m).
-func logRange(a, b, invc float64) (lo, hi float64) {
-	rlo := fmNew().Sub(fmNew().Mul(fmConst(a), fmConst(invc)), fmConst(1))
-	rhi := fmNew().Sub(fmNew().Mul(fmConst(b), fmConst(invc)), fmConst(1))
-	lo, _ = rlo.Float64()
-	hi, _ = rhi.Float64()
-	return lo, hi
-}
-
-// logFeasible reports whether invc serves interval [a, b) and returns
-// max |r| over it. Conditions:
-//   - r = m·invc − 1 is a double. With invc a multiple of 2^-8, r is a
-//     multiple of ulp(m)·2^-8, so it fits in 53 bits when |r| ≤ 2^-8 for
-//     m < 1 (ulp 2^-53) and |r| ≤ 2^-7 for m ≥ 1 (ulp 2^-52);
-//   - at k = 0 the Fast2Sum w + r is valid: invc = 1 (w = 0) or
-//     |r| ≤ |ln invc| = |lhi| (to within 2^-43).
-func logFeasible(a, b, invc float64) (ok bool, rmax float64) {
-	rlo, rhi := logRange(a, b, invc) // r is increasing in m
-	rmax = max(math.Abs(rlo), math.Abs(rhi))
-	switch {
-	case b <= 1:
-		ok = rmax <= 0x1p-8
-	case a >= 1:
-		ok = rmax <= 0x1p-7
-	default: // a < 1 < b: r(1) = invc − 1 splits the two parts
-		ok = max(math.Abs(rlo), math.Abs(invc-1)) <= 0x1p-8 &&
-			max(math.Abs(rhi), math.Abs(invc-1)) <= 0x1p-7
-	}
-	if ok && invc != 1 {
-		lc, _ := fmRefLog(fmConst(invc)).Float64()
-		ok = rmax <= math.Abs(lc)
-	}
-	return ok, rmax
-}
-
-// genLogTable builds flog's table: for each interval the multiple of 2^-8
-// nearest the interval's best reciprocal that passes logFeasible with the
-// smallest max |r| (1 on the interval containing 1), and −ln(invc) split
-// as lhi (multiple of 2^-42) + llo. It also returns max |r| over all
-// entries.
 func genLogTable() (tab [logN]logEntry, rmaxAll float64, err error) {
-	for j := range logN {
-		a, b := logInterval(j)
-		best, bestR := 0.0, math.Inf(1)
-		if a <= 1 && 1 < b {
-			best = 1
-			_, bestR = logFeasible(a, b, 1)
-		} else {
-			c := math.Round(2 * 256 / (a + b))
-			for n := c - 3; n <= c+3; n++ {
-				if ok, r := logFeasible(a, b, n/256); ok && r < bestR {
-					best, bestR = n/256, r
-				}
-			}
-		}
-		if best == 0 {
-			return tab, 0, fmt.Errorf("interval %d [%v, %v): no feasible invc", j, a, b)
-		}
-		lc := fmRefLog(fmConst(best))
-		lc.Neg(lc)
-		lhi := fmRoundToGrid(lc, 42)
-		llo, _ := fmNew().Sub(lc, fmConst(lhi)).Float64()
-		tab[j] = logEntry{invc: best, lhi: lhi, llo: llo}
-		rmaxAll = max(rmaxAll, bestR)
+	gen, rmaxAll, err := fastmathgen.LogTable()
+	for j, e := range gen {
+		tab[j] = logEntry{invc: e.Invc, lhi: e.Lhi, llo: e.Llo}
 	}
-	return tab, rmaxAll, nil
+	return tab, rmaxAll, err
+}
+
+// toGenExp and toGenLog convert physics' tables for the generator's
+// formatter (the failure message prints the correct table).
+func toGenExp(tab [expN]expEntry) (out [fastmathgen.ExpN]fastmathgen.ExpEntry) {
+	for j, e := range tab {
+		out[j] = fastmathgen.ExpEntry{HiBits: e.hiBits, Tail: e.tail}
+	}
+	return out
+}
+
+func toGenLog(tab [logN]logEntry) (out [fastmathgen.LogN]fastmathgen.LogEntry) {
+	for j, e := range tab {
+		out[j] = fastmathgen.LogEntry{Invc: e.invc, Lhi: e.lhi, Llo: e.llo}
+	}
+	return out
 }
 
 func TestFastmathTables(t *testing.T) {
@@ -253,13 +153,18 @@ func TestFastmathTables(t *testing.T) {
 	if got, want := uint64(logOffBits), math.Float64bits(1-0x1p-10-153*0x1p-9); got != want {
 		t.Errorf("logOffBits = %#x, want %#x", got, want)
 	}
+	// The generator builds its tables for the same sizes and offset.
+	if expN != fastmathgen.ExpN || logN != fastmathgen.LogN || logOffBits != fastmathgen.LogOffBits {
+		t.Errorf("expN, logN, logOffBits = %d, %d, %#x; the generator uses %d, %d, %#x",
+			expN, logN, logOffBits, fastmathgen.ExpN, fastmathgen.LogN, uint64(fastmathgen.LogOffBits))
+	}
 	// The interval containing 1 must be centred on 1 in bit space.
 	if a, b := logInterval(153); !(a == 1-0x1p-10 && b == 1+0x1p-9) {
 		t.Errorf("interval 153 = [%v, %v), want [1 − 2^-10, 1 + 2^-9)", a, b)
 	}
 
 	if want := genExpTable(); want != expTable {
-		t.Errorf("expTable differs from its 256-bit recomputation; correct table:\n%s", formatExpTable(want))
+		t.Errorf("expTable differs from its 256-bit recomputation (run go generate ./physics); correct table:\n%s", formatExpTable(toGenExp(want)))
 	}
 	want, rmax, err := genLogTable()
 	if err != nil {
@@ -294,7 +199,7 @@ func TestFastmathTables(t *testing.T) {
 	}
 	t.Logf("log table: worst truncation error %.3g ulp", worst)
 	if want != logTable {
-		t.Errorf("logTable differs from its 256-bit recomputation; correct table:\n%s", formatLogTable(want))
+		t.Errorf("logTable differs from its 256-bit recomputation (run go generate ./physics); correct table:\n%s", formatLogTable(toGenLog(want)))
 	}
 	// Independent of the generator's choice: every entry as it stands must
 	// satisfy the exactness and Fast2Sum conditions flog relies on.
@@ -313,39 +218,6 @@ func TestFastmathTables(t *testing.T) {
 func fmUlpOf(v float64) float64 {
 	_, e := math.Frexp(v) // v = f·2^e, f in [0.5, 1)
 	return math.Ldexp(1, e-1-52)
-}
-
-func fmF64(v *big.Float) float64 {
-	f, _ := v.Float64()
-	return f
-}
-
-func formatExpTable(tab [expN]expEntry) string {
-	var sb strings.Builder
-	sb.WriteString("var expTable = [expN]expEntry{\n")
-	for j, e := range tab {
-		fmt.Fprintf(&sb, "\t{%#016x, %v}, // 2^(%d/64)\n", e.hiBits, fmHex(e.tail), j)
-	}
-	sb.WriteString("}\n")
-	return sb.String()
-}
-
-func formatLogTable(tab [logN]logEntry) string {
-	var sb strings.Builder
-	sb.WriteString("var logTable = [logN]logEntry{\n")
-	for j, e := range tab {
-		a, _ := logInterval(j)
-		fmt.Fprintf(&sb, "\t{%v, %v, %v}, // m ≥ %.6f\n", fmHex(e.invc), fmHex(e.lhi), fmHex(e.llo), a)
-	}
-	sb.WriteString("}\n")
-	return sb.String()
-}
-
-func fmHex(v float64) string {
-	if v == 0 {
-		return "0"
-	}
-	return strconv.FormatFloat(v, 'x', -1, 64)
 }
 
 // ---- accuracy against the 256-bit reference ----
