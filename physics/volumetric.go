@@ -39,7 +39,8 @@ func PowerDensity(f, eps2, E float64) float64 {
 //
 //	D_p = λ0 / (2π √(2ε′) [√(1 + (ε″/ε′)²) − 1]^{1/2}),  λ0 = c/f,
 //
-// Metaxas & Meredith, Industrial Microwave Heating (1983) ch. 2 (from memory; the 1/e power definition confirmed). For ε″ ≪ ε′ it tends to
+// Metaxas & Meredith, Industrial Microwave Heating (1983) ch. 2 (from
+// memory; the 1/e power definition confirmed). For ε″ ≪ ε′ it tends to
 // λ0 √ε′ / (2π ε″). It is +Inf for a lossless material (ε″ = 0). The
 // bracket is evaluated as x²/(√(1+x²)+1), x = ε″/ε′, to keep its accuracy
 // when ε″ ≪ ε′.
