@@ -474,3 +474,62 @@ func BenchmarkIsothermalCure(b *testing.B) {
 		c.IsothermalCure(400, 0, 3000)
 	}
 }
+
+func TestCureAlongFirstOrder(t *testing.T) {
+	// Source: analytic — for dα/dt = A e^{−E/RT(t)} (1 − α),
+	// −ln(1 − α(t)) = ∫₀ᵗ A e^{−E/RT(τ)} dτ; the integral here by
+	// Gauss–Legendre quadrature (gonum integrate/quad) on each linear piece
+	// of the program. CureAlong's midpoint pieces of ≤ 0.25 K carry a
+	// relative error of about (E·0.25 K/(R T²))²/24 ≤ 2.4e-5 at these
+	// temperatures (E/(R T²) ≤ 0.096/K at 296 K), so the tolerance is 1e-4.
+	c := &Cure{Model: NthOrder{A: 3e6, E: 70e3, N: 1}}
+	prog, err := FromSegments(296.15, []Segment{{Rate: 2.0 / 60, To: 393.15}, {Hold: 3600}, {Rate: -3.0 / 60, To: 323.15}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	bt, _ := prog.Points()
+	k := func(tm float64) float64 { return 3e6 * math.Exp(-70e3/(GasConstant*prog.At(tm))) }
+	for _, tm := range []float64{1500, bt[1], bt[1] + 1800, bt[2], bt[2] + 700, bt[3] + 1000} {
+		integral, from := 0.0, 0.0
+		for _, b := range append(append([]float64(nil), bt[1:]...), math.Inf(1)) {
+			to := min(b, tm)
+			if to > from {
+				integral += quad.Fixed(k, from, to, 40, nil, 0)
+			}
+			from = to
+		}
+		want := -math.Expm1(-integral)
+		got := c.CureAlong(&prog, 0, tm)
+		if s := -math.Log1p(-got); math.Abs(s/integral-1) > 1e-4 {
+			t.Errorf("t = %g s: α = %.8f, want %.8f (−ln(1−α) %.8g vs %.8g)", tm, got, want, s, integral)
+		}
+	}
+	// A steady program is a single isothermal cure.
+	steady := Steady(380)
+	if a, b := c.CureAlong(&steady, 0.1, 900), c.IsothermalCure(380, 0.1, 900); a != b {
+		t.Errorf("steady program: %v, IsothermalCure %v", a, b)
+	}
+	if a := c.CureAlong(&prog, 0.2, 0); a != 0.2 {
+		t.Errorf("t = 0: %v, want the initial 0.2", a)
+	}
+}
+
+func TestScheduleHottest(t *testing.T) {
+	// Source: analytic — the programs below hold their largest value over
+	// the stated interval.
+	prog, err := FromSegments(296.15, []Segment{{Rate: 2.0 / 60, To: 393.15}, {Hold: 3600}, {Rate: -3.0 / 60, To: 323.15}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if v, from, to := prog.Hottest(); v != 393.15 || from != 2910 || to != 2910+3600 {
+		t.Errorf("ramp-hold-cool: %v from %v to %v", v, from, to)
+	}
+	up, _ := FromSegments(296.15, []Segment{{Rate: 1.0 / 60, To: 353.15}})
+	if v, from, to := up.Hottest(); v != 353.15 || from != 3420 || !math.IsInf(to, 1) {
+		t.Errorf("ramp only: %v from %v to %v", v, from, to)
+	}
+	s := Steady(400)
+	if v, from, to := s.Hottest(); v != 400 || !math.IsInf(from, -1) || !math.IsInf(to, 1) {
+		t.Errorf("steady: %v from %v to %v", v, from, to)
+	}
+}

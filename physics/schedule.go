@@ -136,3 +136,28 @@ func (s *Schedule) Max() float64 {
 // Breakpoints returns the times at which the schedule's slope changes.
 // The caller must not modify the slice.
 func (s *Schedule) Breakpoints() []float64 { return s.t }
+
+// Hottest returns the largest value of the schedule and the interval during
+// which it holds it: from the first time it reaches it to the last time it
+// has it (+Inf when it ends there, since a schedule holds its last value).
+// For a program whose hottest segment is a hold, that is the hold.
+func (s *Schedule) Hottest() (value, from, to float64) {
+	value = s.Max()
+	first, last := -1, -1
+	for i, v := range s.v {
+		if v == value {
+			if first < 0 {
+				first = i
+			}
+			last = i
+		}
+	}
+	from, to = s.t[first], s.t[last]
+	if first == 0 {
+		from = math.Inf(-1)
+	}
+	if last == len(s.t)-1 {
+		to = math.Inf(1)
+	}
+	return value, from, to
+}
