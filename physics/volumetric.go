@@ -63,9 +63,12 @@ const (
 	FromTop                       // "top": decays from the top face
 	FromBottom                    // "bottom": decays from the bottom face
 	FromBoth                      // "both": the mean of the two
+	// StandingWave: a plane wave at normal incidence on the layered stack,
+	// reflected and transmitted at every face (see Wave).
+	StandingWave
 )
 
-var attenuationNames = [...]string{"none", "top", "bottom", "both"}
+var attenuationNames = [...]string{"none", "top", "bottom", "both", "standing-wave"}
 
 func (a Attenuation) String() string {
 	if a < 0 || int(a) >= len(attenuationNames) {
@@ -77,14 +80,33 @@ func (a Attenuation) String() string {
 // Volumetric is dielectric heating of the absorbing layers of the stack.
 type Volumetric struct {
 	Frequency   float64 // Hz
-	Field       float64 // rms field, V/m: the constant field, or max_field under control
+	Field       float64 // rms field, V/m: the constant field, or max_field under control (not used by StandingWave)
 	Attenuation Attenuation
-	Control     *Control // nil: the field is on at Field all the time
+	Control     *Control // nil: the field is on at Field (IncidentPower) all the time
+
+	// StandingWave only: the incident power density S of the plane wave
+	// in air, W/m², of each source at full power; the faces it enters by;
+	// and the frequencies, Band when Band.Points > 0 (the absorbed power
+	// is the mean over them), otherwise Frequency alone.
+	IncidentPower float64
+	Incident      Incidence
+	Band          Band
+}
+
+// Frequencies returns the frequencies of the heating: Band when it has
+// points, otherwise the single Frequency.
+func (v *Volumetric) Frequencies() Band {
+	if v.Band.Points > 0 {
+		return v.Band
+	}
+	return Band{Lo: v.Frequency, Hi: v.Frequency, Points: 1}
 }
 
 // Control is a sampled proportional–integral controller that sets the power
 // fraction u ∈ [0, 1] so that the temperature at Sensor follows Program;
-// the field is Field·√u (README Case file reference, [volumetric.control]).
+// the field is Field·√u, or, for a standing wave, the incident power is
+// IncidentPower·u: either way the absorbed power is proportional to u
+// (README Case file reference, [volumetric.control]).
 //
 //	e_k = Program(t_k) − T_sensor(t_k)
 //	I_k = I_{k−1} + e_k·Period   unless u_{k−1} is saturated in the direction of e_k

@@ -70,6 +70,10 @@ type Snapshot struct {
 	Cure []float64 // per cell; NaN for cells that do not cure
 	Rate []float64 // dα/dt, 1/s, per cell; NaN for cells that do not cure
 	Tg   []float64 // glass transition, K, per cell; NaN where not defined
+	// Power is the absorbed volumetric power per cell, W/m³, at this time
+	// (with the power fraction held from it); nil without volumetric
+	// heating or under Problem.NoFields.
+	Power []float64
 
 	ProbeT    []float64 // K, per probe
 	ProbeCure []float64 // per probe; NaN in layers that do not cure
@@ -152,7 +156,10 @@ type Summary struct {
 	// holds the same value.
 	//
 	// Deprecated: use ConservationResidual.
-	EnergyBalanceError  float64
+	EnergyBalanceError float64
+	// FieldSolutions counts the standing wave's field computations (0 in
+	// the other modes).
+	FieldSolutions      int
 	Steps               int // accepted steps
 	RejectedSteps       int
 	NewtonIterations    int

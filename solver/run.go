@@ -114,6 +114,13 @@ func normalise(p *Problem) (*Problem, error) {
 			}
 		}
 	}
+	if v := p.Volumetric; v != nil && v.Attenuation == physics.StandingWave {
+		b := v.Frequencies()
+		if !(b.Lo > 0) || !(b.Hi >= b.Lo) || math.IsInf(b.Hi, 0) || (b.Points == 1 && b.Hi != b.Lo) ||
+			!finite(v.IncidentPower) || v.IncidentPower < 0 || v.Incident < physics.IncidentTop || v.Incident > physics.IncidentBoth {
+			return nil, fmt.Errorf("%w: standing wave with band %+v, incident power %g W/m², incidence %v", ErrProblem, b, v.IncidentPower, v.Incident)
+		}
+	}
 	q := *p
 	if q.TemperatureTolerance == 0 {
 		q.TemperatureTolerance = DefaultTemperatureTolerance
@@ -169,6 +176,9 @@ func (s *stepper) run(ctx context.Context, sink Sink) *Result {
 		}
 	}
 	s.t = 0
+	if s.wave != nil {
+		s.refreshField()
+	}
 	s.eval(s.old, 0, s.T, s.A)
 	s.histLen = 0
 	s.pushHistory()
@@ -183,6 +193,9 @@ func (s *stepper) run(ctx context.Context, sink Sink) *Result {
 		per += 4 * n
 	default:
 		per += n
+	}
+	if s.vol != nil && !p.NoFields {
+		per += n // Power
 	}
 	lastShot := math.NaN() // time of the last snapshot taken
 	var sinkErr error
@@ -277,6 +290,7 @@ func (s *stepper) run(ctx context.Context, sink Sink) *Result {
 	res.EndTime = s.t
 	tr.finish(s, &s.ledger)
 	res.Summary = tr.sum
+	res.Summary.FieldSolutions = s.fieldRuns
 	return res
 }
 
@@ -301,6 +315,11 @@ func (s *stepper) advance(target float64) (bool, error) {
 	theta := 0.5
 	if s.startup > 0 {
 		theta = 1
+	}
+	if s.wave != nil && s.refreshField() {
+		// The field of this step, for the accepted level too (held over
+		// the step).
+		s.power(s.old, s.T, s.A)
 	}
 	tNew := s.t + hTry
 	if landing {

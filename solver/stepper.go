@@ -118,6 +118,17 @@ type stepper struct {
 	tauTop   []float64
 	tauBot   []float64
 	tauCell  []float64
+
+	// Standing wave: the field solver and its stack (one slab per cell),
+	// the field factor K of each cell from the last field computation
+	// (P = u S ε″ K, both sources added), the loss factors it was computed
+	// for, and how many computations the run made.
+	wave      *physics.Wave
+	slabs     []physics.Slab
+	fieldK    []float64
+	fieldEps  []float64
+	fieldSet  bool
+	fieldRuns int
 }
 
 // newStepper builds the stepper of p, taking its arrays from mem (nil:
@@ -144,7 +155,7 @@ func newStepper(p *Problem, mem *carver) *stepper {
 	for j := 1; j < len(m.Layers); j++ {
 		s.rc[m.First[j]] = m.Layers[j].ContactResistance
 	}
-	if v := p.Volumetric; v != nil && v.Field > 0 {
+	if v := p.Volumetric; v != nil && (v.Field > 0 || v.Attenuation == physics.StandingWave && v.IncidentPower > 0) {
 		s.vol = v
 		s.u = 1 // the field is on, or, under control, ...
 		if v.Control != nil {
@@ -155,6 +166,17 @@ func newStepper(p *Problem, mem *carver) *stepper {
 			s.diel[i] = p.Materials[m.Owner[i]].Dielectric
 		}
 		s.tauTop, s.tauBot, s.tauCell = f(), f(), f()
+		if v.Attenuation == physics.StandingWave {
+			s.wave = physics.NewWave(n, v.Frequencies())
+			s.slabs = make([]physics.Slab, n)
+			for i, d := range s.diel {
+				s.slabs[i] = physics.Slab{Width: s.w[i], Permittivity: 1}
+				if d != nil {
+					s.slabs[i].Permittivity, s.slabs[i].Conductor = d.Permittivity, d.Shield
+				}
+			}
+			s.fieldK, s.fieldEps = f(), f()
+		}
 	}
 	s.T, s.A, s.Tn, s.An = f(), f(), f(), f()
 	s.lo, s.di, s.up, s.rhs, s.cp, s.inv = f(), f(), f(), f(), f(), f()
@@ -323,6 +345,10 @@ func (s *stepper) eval(lv *level, t float64, T, A []float64) {
 // of the cells above enters the residual exactly but not the Jacobian.
 func (s *stepper) power(lv *level, T, A []float64) {
 	v, n := s.vol, s.n
+	if s.wave != nil {
+		s.standingPower(lv, T, A)
+		return
+	}
 	unit := physics.PowerDensity(v.Frequency, 1, 1) * s.u * v.Field * v.Field
 	uniform := v.Attenuation == physics.Uniform
 	// Per cell: the power and its derivatives before attenuation, and the
@@ -382,6 +408,67 @@ func (s *stepper) power(lv *level, T, A []float64) {
 		lv.PA[i] *= f * share
 		lv.PT[i] *= f * share
 	}
+}
+
+// standingPower is power for a standing wave: with the field held (the
+// factors K of the last field computation, refreshField),
+//
+//	P_i = u S ε″_i(T_i, α_i) K_i,
+//
+// so ∂P/∂T and ∂P/∂α follow the cell's own loss factor at the held field.
+// They are exact for the step's equations, in which the field is held; the
+// field's own dependence on the loss factors (a cell's cure changes what
+// reaches the cells below it) enters at the next step's start, through
+// refreshField, and never the Jacobian.
+func (s *stepper) standingPower(lv *level, T, A []float64) {
+	unit := s.u * s.vol.IncidentPower
+	K := s.fieldK[:s.n]
+	for i, d := range s.diel[:s.n] {
+		lv.P[i], lv.PA[i], lv.PT[i] = 0, 0, 0
+		if d == nil || K[i] == 0 {
+			continue
+		}
+		eps2, dT, dA := d.Loss(T[i], A[i])
+		c := unit * K[i]
+		lv.P[i], lv.PT[i], lv.PA[i] = c*eps2, c*dT, c*dA
+	}
+}
+
+// fieldTolerance is the relative change of a cell's loss factor since the
+// last field computation above which the field is computed again.
+const fieldTolerance = 1e-6
+
+// refreshField computes the standing wave's field again when the loss
+// factor of any cell at the accepted state (s.T, s.A) differs from the one
+// of the last computation by more than fieldTolerance (relative), and
+// reports whether it did. The permittivity ε′ is constant per material, so
+// the loss factors decide. Cost: one loss-factor evaluation per cell, and,
+// when the field changes, one physics.Wave.Absorb: O(cells · frequencies).
+func (s *stepper) refreshField() bool {
+	eps := s.tauCell[:s.n] // scratch
+	changed := !s.fieldSet
+	for i, d := range s.diel[:s.n] {
+		eps[i] = 0
+		if d == nil || d.Shield {
+			continue
+		}
+		e2, _, _ := d.Loss(s.T[i], s.A[i])
+		eps[i] = max(e2, 0)
+		if math.Abs(eps[i]-s.fieldEps[i]) > fieldTolerance*s.fieldEps[i] {
+			changed = true
+		}
+	}
+	if !changed {
+		return false
+	}
+	for i := range s.slabs {
+		s.slabs[i].Loss = eps[i]
+	}
+	copy(s.fieldEps, eps)
+	s.wave.Absorb(s.fieldK, s.slabs, s.vol.Incident)
+	s.fieldSet = true
+	s.fieldRuns++
+	return true
 }
 
 // stepOutcome says how a step attempt ended.

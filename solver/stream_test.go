@@ -15,6 +15,7 @@ func copySnapshot(s *Snapshot) Snapshot {
 	c := *s
 	c.T, c.Cure, c.Rate, c.Tg = slices.Clone(s.T), slices.Clone(s.Cure), slices.Clone(s.Rate), slices.Clone(s.Tg)
 	c.ProbeT, c.ProbeCure = slices.Clone(s.ProbeT), slices.Clone(s.ProbeCure)
+	c.Power = slices.Clone(s.Power)
 	return c
 }
 

@@ -321,6 +321,10 @@ func (s *stepper) snapshot(lv *level, heatIn float64) Snapshot {
 		snap.T = s.store.take(n)
 		copy(snap.T, s.T)
 	}
+	if !s.p.NoFields && s.vol != nil {
+		snap.Power = s.store.take(n)
+		copy(snap.Power, lv.P)
+	}
 	if !s.p.NoFields && s.curing {
 		snap.Cure, snap.Rate, snap.Tg = s.store.take(n), s.store.take(n), s.store.take(n)
 		for i, c := range s.cure {
