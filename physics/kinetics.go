@@ -209,6 +209,10 @@ func (c *Cure) Rate(T, a float64) (r, drdT, drda float64) {
 		r, drdT, drda = m.Rate(T, a)
 	case NthOrder:
 		r, drdT, drda = m.Rate(T, a)
+	case LeeLoosSpringer:
+		r, drdT, drda = m.Rate(T, a)
+	case *Isoconversional:
+		r, drdT, drda = m.Rate(T, a)
 	default:
 		r, drdT, drda = c.Model.Rate(T, a)
 	}
@@ -217,6 +221,17 @@ func (c *Cure) Rate(T, a float64) (r, drdT, drda float64) {
 		r, drdT, drda = r*f, drdT*f+r*fT, drda*f+r*fa
 	}
 	return r, drdT, drda
+}
+
+// End returns the degree of cure past which the rate is zero: the last row
+// of an isoconversional table, 1 for every other law. A time stepper holds
+// a cell that reaches it there (the trapezoidal rule has no solution across
+// a rate that drops to zero in a jump).
+func (c *Cure) End() float64 {
+	if e, ok := c.Model.(interface{ End() float64 }); ok {
+		return min(e.End(), 1)
+	}
+	return 1
 }
 
 // HeatPerMass returns the reaction heat per mass of material for full cure,

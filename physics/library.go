@@ -97,3 +97,54 @@ func BuiltinNames() []string {
 	sort.Strings(out)
 	return out
 }
+
+// fibre is one row of the fibre library.
+type fibre struct {
+	name           string
+	rho, cp        float64 // kg/m³, J/(kg·K)
+	kAxial, kTrans float64 // W/(m·K)
+	source         string
+}
+
+// fibres lists the built-in reinforcing fibres, sorted by name. The spread
+// between grades and between measurements is wide (the transverse
+// conductivity of carbon fibre in particular is measured indirectly, from
+// composites); a ply's data sheet, where it exists, should replace these.
+var fibres = []fibre{
+	{"carbon-fibre", 1780, 710, 7.0, 0.84,
+		"standard-modulus PAN carbon fibre (AS4/T300 class): rho 1760-1800 and axial k 7-10 from manufacturers' data sheets, cp about 710 at room temperature, transverse k about 0.8-1 as reported in the composites literature (all from memory; the transverse value is the least certain)"},
+	{"e-glass-fibre", 2580, 810, 1.3, 1.3,
+		"E-glass fibre, isotropic: rho 2540-2600, cp about 800, k 1.0-1.3 (typical handbook values, e.g. ASM Engineered Materials Handbook vol. 1, Composites; from memory)"},
+}
+
+func (f *fibre) fibre() *Fibre {
+	return &Fibre{
+		Name:                   f.name,
+		Density:                f.rho,
+		SpecificHeat:           Constant(f.cp),
+		AxialConductivity:      Constant(f.kAxial),
+		TransverseConductivity: Constant(f.kTrans),
+		Source:                 f.source,
+	}
+}
+
+// BuiltinFibre returns a fresh copy of the built-in fibre with the given
+// name (exact match, as written in a case file), and false if there is none.
+func BuiltinFibre(name string) (*Fibre, bool) {
+	for i := range fibres {
+		if fibres[i].name == name {
+			return fibres[i].fibre(), true
+		}
+	}
+	return nil, false
+}
+
+// Fibres returns the built-in fibres, sorted by name; each call returns
+// fresh copies.
+func Fibres() []*Fibre {
+	out := make([]*Fibre, len(fibres))
+	for i := range fibres {
+		out[i] = fibres[i].fibre()
+	}
+	return out
+}

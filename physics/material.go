@@ -8,6 +8,9 @@ type Material struct {
 	Conductivity Blend   // W/(m·K)
 	Cure         *Cure   // nil for a material that does not cure
 	Dielectric   *Dielectric
+	// Viscosity is the resin's viscosity law, nil where none is given; it
+	// needs Cure (its gel point ends the flow).
+	Viscosity *CastroMacosko
 	// Source names where the values come from (a handbook table, a data
 	// sheet, or "invented for the examples").
 	Source string
