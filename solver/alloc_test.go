@@ -15,12 +15,15 @@ import (
 // nothing either.
 // Source: STYLE.md habit 9 (deterministic allocation count, not a timing).
 func TestStepAllocatesNothing(t *testing.T) {
-	for _, name := range []string{"oven", "controlled volumetric", "controlled standing wave", "linear conduction"} {
+	for _, name := range []string{"oven", "controlled volumetric", "controlled standing wave", "linear conduction", "viscous"} {
 		t.Run(name, func(t *testing.T) {
 			p := thickPotting(t, 60)
 			if name == "linear conduction" {
 				p.Materials[0] = inert(2000, 900, 1.2)
 				p.Top.Emissivity = 0
+			}
+			if name == "viscous" {
+				p.Materials[0].Viscosity = &physics.CastroMacosko{Eta0: 3e-7, E: 50e3, A: 1.2, B: 2.5}
 			}
 			if name == "controlled volumetric" || name == "controlled standing wave" {
 				p.Materials[0].Dielectric = &physics.Dielectric{Permittivity: 4, LossFactor: 0.4, LossFactorCured: 0.05}

@@ -30,6 +30,9 @@ type Problem struct {
 	// read only the summary, it saves most of a run's memory traffic.
 	NoFields bool
 	MinCure  float64 // criterion for TimeToMinCure; 0 means none
+	// FlowViscosity is the viscosity below which a resin counts as
+	// flowing for Summary.FlowWindow, Pa·s; 0 means DefaultFlowViscosity.
+	FlowViscosity float64
 
 	// Volumetric is the optional dielectric heating of the layers whose
 	// material has a Dielectric; nil means none.
@@ -41,6 +44,10 @@ const (
 	DefaultTemperatureTolerance = 0.02   // K
 	DefaultCureTolerance        = 0.001  // degree of cure
 	DefaultAbortTemperature     = 673.15 // K (400 °C)
+	// DefaultFlowViscosity is the flow threshold of Summary.FlowWindow:
+	// 100 Pa·s, a resin that still wets, levels and lets bubbles rise under
+	// process pressures (common practice; a thick paste is 100 to 1000).
+	DefaultFlowViscosity = 100.0 // Pa·s
 )
 
 // Status is the outcome of a run.
@@ -74,12 +81,20 @@ type Snapshot struct {
 	// (with the power fraction held from it); nil without volumetric
 	// heating or under Problem.NoFields.
 	Power []float64
+	// Viscosity is the resin's viscosity per cell, Pa·s; NaN in cells
+	// without a viscosity law and at or past gel. Nil when no cell has a
+	// viscosity law, and under Problem.NoFields.
+	Viscosity []float64
 
 	ProbeT    []float64 // K, per probe
 	ProbeCure []float64 // per probe; NaN in layers that do not cure
-	AirTop    float64   // K; NaN unless the top face exchanges heat with air (Face.HasAir)
-	AirBottom float64   // K; NaN unless the bottom face exchanges heat with air
-	HeatIn    float64   // cumulative energy in through the faces and from volumetric heating, J/m²
+	// ProbeViscosity is the viscosity at each probe, Pa·s, from the probe's
+	// temperature and cure; NaN in layers without a viscosity law and at
+	// or past gel. Nil when no cell has a viscosity law.
+	ProbeViscosity []float64
+	AirTop         float64 // K; NaN unless the top face exchanges heat with air (Face.HasAir)
+	AirBottom      float64 // K; NaN unless the bottom face exchanges heat with air
+	HeatIn         float64 // cumulative energy in through the faces and from volumetric heating, J/m²
 	// PowerFraction is the controller's output u in [0, 1] held from this
 	// time on; NaN unless volumetric heating is controlled.
 	PowerFraction float64
@@ -149,6 +164,19 @@ type Summary struct {
 	GelTimeFirst      float64 // first cell to reach its gel point
 	GelTimeLast       float64 // NaN if any curing cell never gels
 	MinFinalGlass     float64 // lowest final glass transition; NaN where undefined
+	// MinViscosity is the lowest viscosity of any cell with a viscosity
+	// law at any time (Pa·s), read between steps from the parabola of ln η
+	// through the last three accepted steps; MinViscosityTime and
+	// MinViscosityDepth say when and where (earliest, then shallowest, on
+	// ties). NaN without such cells.
+	MinViscosity      float64
+	MinViscosityTime  float64
+	MinViscosityDepth float64
+	// FlowWindow is the shortest, over cells with a viscosity law, of the
+	// time each spends below Problem.FlowViscosity before it gels (s); a
+	// cell that never gels counts until the end of the run, one that never
+	// gets below the threshold counts 0. NaN without such cells.
+	FlowWindow float64
 	// ConservationResidual is the relative imbalance of the energy ledger
 	// (Ledger.BalanceError): it proves the bookkeeping, not the accuracy.
 	ConservationResidual float64

@@ -134,6 +134,12 @@ func normalise(p *Problem) (*Problem, error) {
 	if q.MaxStep == 0 {
 		q.MaxStep = q.End
 	}
+	if q.FlowViscosity == 0 {
+		q.FlowViscosity = DefaultFlowViscosity
+	}
+	if !(q.FlowViscosity > 0) || math.IsInf(q.FlowViscosity, 0) {
+		return nil, fmt.Errorf("%w: flow viscosity %g Pa·s", ErrProblem, q.FlowViscosity)
+	}
 	if !(q.TemperatureTolerance > 0 && q.CureTolerance > 0 && q.MaxStep > 0) {
 		return nil, fmt.Errorf("%w: tolerances and max step must be positive", ErrProblem)
 	}
@@ -191,11 +197,17 @@ func (s *stepper) run(ctx context.Context, sink Sink) *Result {
 	case p.NoFields:
 	case s.curing:
 		per += 4 * n
+		if s.viscous {
+			per += n
+		}
 	default:
 		per += n
 	}
 	if s.vol != nil && !p.NoFields {
 		per += n // Power
+	}
+	if s.viscous {
+		per += len(p.Probes)
 	}
 	lastShot := math.NaN() // time of the last snapshot taken
 	var sinkErr error

@@ -55,8 +55,13 @@ type stepper struct {
 	rho  []float64           // density, kg/m³
 	mat  []*physics.Material // material
 	cure []*physics.Cure     // nil where the cell does not cure
-	heat []float64           // ρ · resin fraction · total heat, J/m³ (0 where inert)
-	rc   []float64           // contact resistance at the face above each cell, m²K/W
+	aEnd []float64           // cure past which the cell's rate is zero (Cure.End), 1 where inert
+	// visc is the viscosity law of each cell whose material has one and
+	// cures (nil elsewhere); viscous says whether any cell has one.
+	visc    []*physics.CastroMacosko
+	viscous bool
+	heat    []float64 // ρ · resin fraction · total heat, J/m³ (0 where inert)
+	rc      []float64 // contact resistance at the face above each cell, m²K/W
 
 	// Step control and accounting.
 	h       float64 // the step the controller proposes next, s
@@ -138,18 +143,25 @@ func newStepper(p *Problem, mem *carver) *stepper {
 	n := m.Cells()
 	s := &stepper{p: p, n: n}
 	f := func() []float64 { return mem.take(n) }
-	s.w, s.rho, s.heat, s.rc = f(), f(), f(), f()
+	s.w, s.rho, s.heat, s.rc, s.aEnd = f(), f(), f(), f(), f()
 	s.mat = make([]*physics.Material, n)
 	s.cure = make([]*physics.Cure, n)
+	s.visc = make([]*physics.CastroMacosko, n)
 	for i := range n {
 		mt := p.Materials[m.Owner[i]]
 		s.w[i] = m.Widths[i]
 		s.rho[i] = mt.Density
 		s.mat[i] = mt
+		s.aEnd[i] = 1
 		if mt.Cure != nil {
 			s.cure[i] = mt.Cure
 			s.heat[i] = mt.Density * mt.Cure.HeatPerMass()
+			s.aEnd[i] = mt.Cure.End()
 			s.curing = true
+			if mt.Viscosity != nil {
+				s.visc[i] = mt.Viscosity
+				s.viscous = true
+			}
 		}
 	}
 	for j := 1; j < len(m.Layers); j++ {
@@ -544,7 +556,7 @@ func (s *stepper) solve(h, theta float64) (stepOutcome, int) {
 			if s.cure[i] == nil {
 				continue
 			}
-			a := min(max(A[i]-sj[i]-pj[i]*dT, 0), 1)
+			a := min(max(A[i]-sj[i]-pj[i]*dT, 0), s.aEnd[i])
 			dAmax = max(dAmax, math.Abs(a-A[i]))
 			A[i] = a
 		}
@@ -573,7 +585,7 @@ func (s *stepper) assemble(h, theta float64) (maxF, maxG float64, ok bool) {
 	// checks.
 	T, A, T0, A0 := s.Tn[:n], s.An[:n], s.T[:n], s.A[:n]
 	pj, sj := s.jaT[:n], s.gA[:n]
-	cure := s.cure[:n]
+	cure, aEnd := s.cure[:n], s.aEnd[:n]
 	r, r0, rT, rA := v.r[:n], o.r[:n], v.rT[:n], v.rA[:n]
 	// Cure rows first: p_j and s_j are needed by the neighbours' rows.
 	for i := range n {
@@ -582,10 +594,13 @@ func (s *stepper) assemble(h, theta float64) (maxF, maxG float64, ok bool) {
 			continue
 		}
 		G := A[i] - A0[i] - h*(theta*r[i]+(1-theta)*r0[i])
-		if A[i] >= 1 && G <= 0 {
-			// The step would carry the cell past full cure: α = 1 stands
-			// (the rate is zero there) and the cell's cure is not an
-			// unknown of this iteration.
+		if A[i] >= aEnd[i] && G <= 0 {
+			// The step would carry the cell past full cure (or past the
+			// end of its law, Cure.End, where the rate drops to zero): α
+			// stands at the end and the cell's cure is not an unknown of
+			// this iteration. With the rate at the end taken from below,
+			// G ≤ 0 there means no root below it, and past it the rate
+			// is zero: the cell stops at the end within the step.
 			continue
 		}
 		maxG = max(maxG, math.Abs(G))
@@ -722,14 +737,15 @@ func (s *stepper) predWeights(t float64) (l0, l1, l2 float64) {
 }
 
 // predict fills (T, A) with the predictor at time t, Newton's starting
-// point. Cure never decreases, nor passes 1.
+// point. Cure never decreases, nor passes the end of its law (1, or
+// Cure.End).
 func (s *stepper) predict(t float64, T, A []float64) {
 	l0, l1, l2 := s.predWeights(t)
 	h0, h1, h2 := s.histT[0], s.histT[1], s.histT[2]
 	a0, a1, a2 := s.histA[0], s.histA[1], s.histA[2]
 	for i := range s.n {
 		T[i] = l0*h0[i] + l1*h1[i] + l2*h2[i]
-		A[i] = min(max(l0*a0[i]+l1*a1[i]+l2*a2[i], s.A[i]), 1)
+		A[i] = min(max(l0*a0[i]+l1*a1[i]+l2*a2[i], s.A[i]), s.aEnd[i])
 	}
 }
 
@@ -783,7 +799,7 @@ func (s *stepper) errorRatio(tNew float64, cn bool) (ratio, order float64) {
 		wA := 0.0
 		for i, c := range s.cure {
 			if c != nil {
-				pa := min(max(l0*a0[i]+l1*a1[i]+l2*a2[i], s.A[i]), 1)
+				pa := min(max(l0*a0[i]+l1*a1[i]+l2*a2[i], s.A[i]), s.aEnd[i])
 				wA = max(wA, math.Abs(s.An[i]-pa))
 			}
 		}

@@ -21,6 +21,16 @@ type tracker struct {
 	// stepper's history (dStar[0] at the newest), K; −Inf before any.
 	dStar [3]float64
 	prevD float64 // D at the previous observed time, K
+
+	// Viscosity (only when some cell has a viscosity law): ln η per cell
+	// at the last three observed states (lnEta[0] the newest; +Inf at or
+	// past gel), how many of them are valid, the time each cell spent
+	// below the flow threshold, ln of that threshold, and the lowest ln η.
+	lnEta  [3][]float64
+	visN   int
+	below  []float64
+	lnFlow float64
+	minLn  float64
 }
 
 func (s *stepper) newTracker() *tracker {
@@ -57,6 +67,15 @@ func (s *stepper) newTracker() *tracker {
 	tr.dStar = [3]float64{inf, inf, inf}
 	tr.prevD = nan
 	tr.prevMinA = math.NaN()
+	tr.sum.MinViscosity, tr.sum.MinViscosityTime, tr.sum.MinViscosityDepth, tr.sum.FlowWindow = nan, nan, nan, nan
+	if s.viscous {
+		for k := range tr.lnEta {
+			tr.lnEta[k] = make([]float64, s.n)
+		}
+		tr.below = make([]float64, s.n)
+		tr.lnFlow = math.Log(s.p.FlowViscosity)
+		tr.minLn = math.Inf(1)
+	}
 	return tr
 }
 
@@ -181,6 +200,9 @@ func (tr *tracker) observe(s *stepper, h float64) {
 	if spread := hi - lo; !(spread <= sum.MaxSpread) {
 		sum.MaxSpread = spread
 	}
+	if s.viscous {
+		tr.viscosity(s, h)
+	}
 	if mc := s.p.MinCure; mc > 0 && math.IsNaN(sum.TimeToMinCure) && minA >= mc {
 		if h == 0 || math.IsNaN(tr.prevMinA) || tr.prevMinA >= mc {
 			sum.TimeToMinCure = t
@@ -203,33 +225,16 @@ func (tr *tracker) observe(s *stepper, h float64) {
 func (tr *tracker) peakBetweenSteps(s *stepper) {
 	sum := &tr.sum
 	t0, t1, t2 := s.histTim[0], s.histTim[1], s.histTim[2]
-	for _, p := range tr.programs {
-		bt := p.Breakpoints()
-		k := sort.SearchFloat64s(bt, t2)
-		for k < len(bt) && bt[k] <= t2 {
-			k++
-		}
-		if k < len(bt) && bt[k] < t0 {
-			return
-		}
+	if tr.spansBreakpoint(t2, t0) {
+		return
 	}
 	for i := range s.n {
-		y0, y1, y2 := s.histT[0][i], s.histT[1][i], s.histT[2][i]
-		if !(y1 > y0 && y1 > y2) { // a strict maximum: a plateau has no vertex
+		// A maximum of T is a minimum of −T.
+		tv, ny, ok := vertexMin(t0, t1, t2, -s.histT[0][i], -s.histT[1][i], -s.histT[2][i])
+		if !ok {
 			continue
 		}
-		// Divided differences of the parabola through (t2,y2), (t1,y1), (t0,y0).
-		d1 := (y1 - y2) / (t1 - t2)
-		d0 := (y0 - y1) / (t0 - t1)
-		c := (d0 - d1) / (t0 - t2) // curvature/2, < 0 at a maximum
-		if !(c < 0) {
-			continue
-		}
-		tv := 0.5*(t1+t2) - d1/(2*c) // where the slope d1 + c(2t − t1 − t2) vanishes
-		if !(tv > t2 && tv < t0) {
-			continue
-		}
-		yv := y1 + (tv-t1)*(d1+c*(tv-t2))
+		yv := -ny
 		if yv > sum.PeakTemperature {
 			sum.PeakTemperature, sum.PeakTime, sum.PeakDepth = yv, tv, s.p.Mesh.Centers[i]
 		}
@@ -248,6 +253,120 @@ func (tr *tracker) peakBetweenSteps(s *stepper) {
 			}
 		}
 	}
+}
+
+// spansBreakpoint reports whether a breakpoint of a face or control program
+// lies strictly inside (t2, t0): the state has a kink there, and no
+// parabola through the steps around it describes the state between them.
+func (tr *tracker) spansBreakpoint(t2, t0 float64) bool {
+	for _, p := range tr.programs {
+		bt := p.Breakpoints()
+		k := sort.SearchFloat64s(bt, t2)
+		for k < len(bt) && bt[k] <= t2 {
+			k++
+		}
+		if k < len(bt) && bt[k] < t0 {
+			return true
+		}
+	}
+	return false
+}
+
+// vertexMin returns the vertex (tv, yv) of the parabola through (t2, y2),
+// (t1, y1), (t0, y0), t2 < t1 < t0, when the middle value is a strict
+// minimum of the three (a plateau has no vertex) and the vertex lies
+// strictly between t2 and t0; ok is false otherwise (and for non-finite
+// values).
+func vertexMin(t0, t1, t2, y0, y1, y2 float64) (tv, yv float64, ok bool) {
+	if !(y1 < y0 && y1 < y2) || math.IsInf(y0, 0) || math.IsInf(y2, 0) {
+		return 0, 0, false
+	}
+	// Divided differences of the parabola.
+	d1 := (y1 - y2) / (t1 - t2)
+	d0 := (y0 - y1) / (t0 - t1)
+	c := (d0 - d1) / (t0 - t2) // curvature/2, > 0 at a minimum
+	if !(c > 0) {
+		return 0, 0, false
+	}
+	tv = 0.5*(t1+t2) - d1/(2*c) // where the slope d1 + c(2t − t1 − t2) vanishes
+	if !(tv > t2 && tv < t0) {
+		return 0, 0, false
+	}
+	return tv, y1 + (tv-t1)*(d1+c*(tv-t2)), true
+}
+
+// viscosity follows the viscosity of the cells with a viscosity law over
+// the step just accepted (size h, 0 for the initial state): the lowest
+// ln η, at the steps and between them (vertexMin on the last three steps,
+// like the peak temperature, unless a program breakpoint lies between
+// them), and each cell's time below the flow
+// threshold. Within a step the state is taken linear in time; a step in
+// which a cell crosses the threshold is split where it crosses
+// (crossFraction). No allocation.
+func (tr *tracker) viscosity(s *stepper, h float64) {
+	sum := &tr.sum
+	t := s.t
+	centers := s.p.Mesh.Centers
+	tr.lnEta[0], tr.lnEta[1], tr.lnEta[2] = tr.lnEta[2], tr.lnEta[0], tr.lnEta[1]
+	cur, prev := tr.lnEta[0], tr.lnEta[1]
+	prevT, prevA := s.histT[1], s.histA[1] // the state before this step (h > 0)
+	tr.visN = min(tr.visN+1, 3)
+	for i, v := range s.visc {
+		if v == nil {
+			continue
+		}
+		gel := s.cure[i].GelPoint
+		L := v.LnAt(s.T[i], s.A[i], gel)
+		cur[i] = L
+		if L < tr.minLn { // strict: the earliest time, then the shallowest cell
+			tr.minLn, sum.MinViscosityTime, sum.MinViscosityDepth = L, t, centers[i]
+		}
+		if h == 0 {
+			continue
+		}
+		b0, b1 := prev[i] < tr.lnFlow, L < tr.lnFlow
+		switch {
+		case b0 && b1:
+			tr.below[i] += h
+		case b0 != b1:
+			f := crossFraction(v, gel, tr.lnFlow, prevT[i], prevA[i], s.T[i], s.A[i])
+			if b0 {
+				tr.below[i] += f * h
+			} else {
+				tr.below[i] += (1 - f) * h
+			}
+		}
+	}
+	if t0, t1, t2 := s.histTim[0], s.histTim[1], s.histTim[2]; tr.visN == 3 && !tr.spansBreakpoint(t2, t0) {
+		old := tr.lnEta[2]
+		for i, v := range s.visc {
+			if v == nil {
+				continue
+			}
+			if tv, yv, ok := vertexMin(t0, t1, t2, cur[i], prev[i], old[i]); ok && yv < tr.minLn {
+				tr.minLn, sum.MinViscosityTime, sum.MinViscosityDepth = yv, tv, centers[i]
+			}
+		}
+	}
+}
+
+// crossFraction returns the fraction f in [0, 1] of a step at which ln η
+// crosses lnFlow, the state moving linearly from (T0, a0) to (T1, a1): 40
+// bisections of ln η(T0 + f(T1 − T0), a0 + f(a1 − a0)) − lnFlow, whose
+// sign differs at the ends (+Inf past gel counts as above). Only the few
+// steps in which a cell crosses the threshold pay for it.
+func crossFraction(v *physics.CastroMacosko, gel, lnFlow, T0, a0, T1, a1 float64) float64 {
+	lo, hi := 0.0, 1.0
+	below0 := v.LnAt(T0, a0, gel) < lnFlow
+	for range 40 {
+		m := 0.5 * (lo + hi)
+		if (v.LnAt(T0+m*(T1-T0), a0+m*(a1-a0), gel) < lnFlow) == below0 {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	return 0.5 * (lo + hi)
 }
 
 // crossing returns the time within the step (t−h, t] at which cell i's cure,
@@ -303,6 +422,19 @@ func (tr *tracker) finish(s *stepper, l *Ledger) {
 	if !allGel {
 		sum.GelTimeLast = math.NaN()
 	}
+	if s.viscous {
+		if !math.IsInf(tr.minLn, 1) {
+			sum.MinViscosity = math.Exp(tr.minLn)
+		} else {
+			sum.MinViscosityTime, sum.MinViscosityDepth = math.NaN(), math.NaN()
+		}
+		sum.FlowWindow = math.Inf(1)
+		for i, v := range s.visc {
+			if v != nil {
+				sum.FlowWindow = min(sum.FlowWindow, tr.below[i])
+			}
+		}
+	}
 }
 
 // snapshot records the accepted state held by lv (at s.t) and the
@@ -333,8 +465,20 @@ func (s *stepper) snapshot(lv *level, heatIn float64) Snapshot {
 				continue
 			}
 			snap.Cure[i], snap.Rate[i] = s.A[i], lv.r[i]
+			if s.A[i] >= s.aEnd[i] {
+				snap.Rate[i] = 0 // held at the end of its law
+			}
 			if c.Glass != nil {
 				snap.Tg[i] = c.Glass.Tg(s.A[i])
+			}
+		}
+	}
+	if !s.p.NoFields && s.viscous {
+		snap.Viscosity = s.store.take(n)
+		for i, v := range s.visc {
+			snap.Viscosity[i] = nan
+			if v != nil {
+				snap.Viscosity[i] = viscosityAt(v, s.cure[i].GelPoint, s.T[i], s.A[i])
 			}
 		}
 	}
@@ -349,8 +493,26 @@ func (s *stepper) snapshot(lv *level, heatIn float64) Snapshot {
 		for k, z := range s.p.Probes {
 			snap.ProbeT[k], snap.ProbeCure[k] = s.probe(lv, z)
 		}
+		if s.viscous {
+			snap.ProbeViscosity = s.store.take(np)
+			for k, z := range s.p.Probes {
+				snap.ProbeViscosity[k] = nan
+				i := s.p.Mesh.First[s.probeLayer(z)]
+				if v := s.visc[i]; v != nil {
+					snap.ProbeViscosity[k] = viscosityAt(v, s.cure[i].GelPoint, snap.ProbeT[k], snap.ProbeCure[k])
+				}
+			}
+		}
 	}
 	return snap
+}
+
+// viscosityAt returns η in Pa·s, NaN at or past gel.
+func viscosityAt(v *physics.CastroMacosko, gel, T, a float64) float64 {
+	if a >= gel {
+		return math.NaN()
+	}
+	return v.At(T, a, gel)
 }
 
 // store hands out the snapshots' slices from large blocks, so that the
@@ -385,10 +547,7 @@ func (st *store) rewind() { st.buf = st.whole }
 func (s *stepper) probe(lv *level, z float64) (T, a float64) {
 	m := s.p.Mesh
 	n := s.n
-	j := 0
-	for j < len(m.Layers)-1 && z > m.Faces[m.First[j+1]] {
-		j++
-	}
+	j := s.probeLayer(z)
 	first, last := m.First[j], m.First[j+1]-1
 	ztop, zbot := m.Faces[first], m.Faces[last+1]
 	var Ttop, Tbot float64
@@ -426,6 +585,17 @@ func (s *stepper) probe(lv *level, z float64) (T, a float64) {
 		}
 	}
 	return T, a
+}
+
+// probeLayer returns the layer that holds depth z, the upper one on a face
+// between two layers.
+func (s *stepper) probeLayer(z float64) int {
+	m := s.p.Mesh
+	j := 0
+	for j < len(m.Layers)-1 && z > m.Faces[m.First[j+1]] {
+		j++
+	}
+	return j
 }
 
 func lerp(x0, y0, x1, y1, x float64) float64 {
