@@ -12,7 +12,7 @@ import (
 type Options struct {
 	Baseline Baseline
 	Window   Window // dynamic scans only
-	// Model is NthOrder or Autocatalytic, or "" to fit none.
+	// Model is NthOrder, Autocatalytic or Isoconversional, or "" to fit none.
 	Model     string
 	Diffusion bool
 	// Progress, if not nil, follows the fit (see FitSpec).
@@ -161,7 +161,7 @@ func AnalyzeContext(ctx context.Context, scans []*Scan, opt Options) (*Analysis,
 	}
 	for _, c := range iso {
 		c.Normalize(an.TotalHeat)
-		if af := c.Alpha[len(c.Alpha)-1]; af < StalledCure && !opt.Diffusion {
+		if af := c.Alpha[len(c.Alpha)-1]; af < StalledCure && !opt.Diffusion && opt.Model != Isoconversional {
 			warn("%s: the cure stops at α = %.3f at %.4g C (vitrification?): the model without --diffusion cannot follow it", c.Scan.Name, af, c.Program.Temperature-273.15)
 		}
 	}
@@ -255,6 +255,10 @@ func AnalyzeContext(ctx context.Context, scans []*Scan, opt Options) (*Analysis,
 	if fit.R2 < 0.98 {
 		hint := "the kinetics may need more than these models offer"
 		switch {
+		case opt.Model == Isoconversional:
+			hint = "the scans disagree with one another at equal cure (check baselines and total heats), or the reaction paths differ between programs"
+		case an.EaSpread > MaxEaSpread:
+			hint = "Friedman's activation energy varies with cure: try the model-free table (model isoconversional)"
 		case opt.Model == NthOrder:
 			hint = "try the autocatalytic model"
 		case !opt.Diffusion && countStalled(iso) >= 2:

@@ -19,7 +19,7 @@ const (
 // FitSpec chooses what Fit fits. The zero value of a field means its
 // default.
 type FitSpec struct {
-	Model     string // NthOrder or Autocatalytic (required)
+	Model     string // NthOrder, Autocatalytic or Isoconversional (required)
 	Diffusion bool   // also fit the Chern–Poehlein diffusion factor
 	// MaxIter bounds the Levenberg–Marquardt iterations of each start;
 	// default 200.
@@ -143,8 +143,16 @@ type fitModel struct {
 // §2.3), transformed to the physical parameters by the delta method. They
 // reflect the noise, not errors of the baseline or the model.
 //
+// Isoconversional fits nothing: the table of physics.Isoconversional is
+// Friedman's E_α and ln[A·f(α)] at IsoconversionalLevels (the iso argument
+// is not used; levels whose line gives no positive E are left out), and
+// the quality figures (R2, RMS, Curves) are those of that law integrated
+// along each curve as above; Params lists "E(α)" and "lnAf(α)" per row
+// with the standard errors of the Friedman lines, Converged and
+// Identifiable are true, RefTemp is NaN.
+//
 // Errors: fewer than two curves, no isoconversional data, an unknown model,
-// ErrDiffusionData. Cost: typically 50 to 500 integrations of all curves
+// ErrDiffusionData, a diffusion factor asked with Isoconversional. Cost: typically 50 to 500 integrations of all curves
 // (well under a second for a few thousand samples).
 func Fit(curves []*Curve, iso []IsoPoint, spec FitSpec) (*FitResult, error) {
 	return FitContext(context.Background(), curves, iso, spec)
@@ -154,11 +162,14 @@ func Fit(curves []*Curve, iso []IsoPoint, spec FitSpec) (*FitResult, error) {
 // every Levenberg–Marquardt iteration (a few integrations of all curves,
 // milliseconds), and the error is then ctx.Err() with no result.
 func FitContext(ctx context.Context, curves []*Curve, iso []IsoPoint, spec FitSpec) (*FitResult, error) {
-	if spec.Model != NthOrder && spec.Model != Autocatalytic {
-		return nil, fmt.Errorf("dsc: unknown model %q (want %q or %q)", spec.Model, NthOrder, Autocatalytic)
+	if spec.Model != NthOrder && spec.Model != Autocatalytic && spec.Model != Isoconversional {
+		return nil, fmt.Errorf("dsc: unknown model %q (want %q, %q or %q)", spec.Model, NthOrder, Autocatalytic, Isoconversional)
 	}
 	if len(curves) < 2 {
 		return nil, errors.New("dsc: a model is fitted to two or more scans")
+	}
+	if spec.Model == Isoconversional {
+		return fitIsoconversional(curves, spec)
 	}
 	// Isoconversional start data.
 	E0, Tref, pts := isoStart(curves, iso)
