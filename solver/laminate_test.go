@@ -318,3 +318,57 @@ func TestAdiabaticRisePly(t *testing.T) {
 	}
 	t.Logf("rise %.3f K at α = %.4f (wr = %.4f, cp = %.1f)", last.T[0]-420, last.Cure[0], wr, cp)
 }
+
+func TestThickLaminateCentreOvershoot(t *testing.T) {
+	// A 25.4 mm carbon/epoxy laminate of the published Lee–Loos–Springer
+	// resin (ply ρ 1578 kg/m³, cp 862 J/(kg·K), k 0.4135 W/(m·K), resin mass
+	// fraction 0.387, H = 473.6 J/g), both faces held on the two-hold cycle
+	// 2.5 K/min → 116 °C, 60 min, 2.5 K/min → 177 °C, 120 min, from 20 °C.
+	prog, err := physics.FromSegments(293.15, []physics.Segment{
+		{Rate: 2.5 / 60, To: 116 + 273.15}, {Hold: 3600}, {Rate: 2.5 / 60, To: 177 + 273.15}, {Hold: 7200},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var peaks [2]float64
+	for k, cells := range []int{41, 81} {
+		ply := inert(1578, 862, 0.4135)
+		ply.Cure = &physics.Cure{Model: publishedLLS, TotalHeat: 473.6e3, ResinFraction: 0.387, GelPoint: 0.5}
+		p := &Problem{
+			Mesh: slab(t, 0.0254, cells), Materials: []*physics.Material{ply},
+			Top: physics.Face{Kind: physics.Fixed, Set: prog}, Bottom: physics.Face{Kind: physics.Fixed, Set: prog},
+			InitialTemperature: 293.15, End: prog.End(),
+			TemperatureTolerance: 0.005, CureTolerance: 1e-4,
+		}
+		r, err := Run(context.Background(), p)
+		if err != nil || r.Status != OK {
+			t.Fatalf("run: %v %v", err, r.Err)
+		}
+		s := r.Summary
+		peaks[k] = s.PeakTemperature
+		t.Logf("%d cells: centre peak %.3f °C at %.1f min, depth %.2f mm, overshoot %.3f K, %d steps",
+			cells, s.PeakTemperature-273.15, s.PeakTime/60, s.PeakDepth*1e3, s.Overshoot, s.Steps)
+		// The hottest point is the mid-plane (symmetry).
+		if math.Abs(s.PeakDepth-0.0127) > 1e-9 {
+			t.Errorf("%d cells: peak at depth %.4g mm, want the mid-plane 12.7 mm", cells, s.PeakDepth*1e3)
+		}
+		// Source: an independent grid-converged solution of this case peaks
+		// at ≈ 200 °C, ≈ 23 K over the 177 °C hold (a derived value, computed
+		// outside this project, quoted to the kelvin); the literature on
+		// such cycles reports centre overshoots of about 20–25 K (from
+		// memory: Loos & Springer, J. Composite Materials 17:135, 1983;
+		// Bogetti & Gillespie, J. Composite Materials 26:626, 1992 — no
+		// published number could be checked here).
+		if math.Abs(s.PeakTemperature-273.15-200) > 1 || math.Abs(s.Overshoot-23) > 1 {
+			t.Errorf("%d cells: centre peak %.2f °C, overshoot %.2f K; want ≈ 200 °C, ≈ 23 K", cells, s.PeakTemperature-273.15, s.Overshoot)
+		}
+		if !(s.Overshoot > 20 && s.Overshoot < 25) {
+			t.Errorf("%d cells: overshoot %.2f K outside the 20–25 K reported for such cycles", cells, s.Overshoot)
+		}
+	}
+	// Grid convergence: halving the cells moves the peak by far less than
+	// the comparison's tolerance.
+	if d := math.Abs(peaks[1] - peaks[0]); d > 0.05 {
+		t.Errorf("peak moved by %.3f K from 41 to 81 cells", d)
+	}
+}
