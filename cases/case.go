@@ -47,3 +47,9 @@ type Criteria struct {
 	MaxTemperature float64 // K, anywhere, any time
 	MaxSpread      float64 // K, inside curing layers, any time
 }
+
+// controlled reports whether p's volumetric heating is under closed-loop
+// control (probes.csv then has a power_fraction column).
+func controlled(p *solver.Problem) bool {
+	return p.Volumetric != nil && p.Volumetric.Control != nil
+}

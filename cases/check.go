@@ -7,7 +7,6 @@ import (
 	"sort"
 	"strconv"
 	"strings"
-	"text/tabwriter"
 
 	"cureslab/physics"
 	"cureslab/solver"
@@ -64,29 +63,6 @@ func Check(w io.Writer, c *Case) error {
 		p.printf("  - %s\n", s)
 	}
 	return p.err
-}
-
-// chkPrinter writes formatted text and keeps the first error.
-type chkPrinter struct {
-	w   io.Writer
-	err error
-}
-
-func (p *chkPrinter) printf(format string, a ...any) {
-	if p.err == nil {
-		_, p.err = fmt.Fprintf(p.w, format, a...)
-	}
-}
-
-// table returns a tabwriter on p's writer; flush it with p.flush.
-func (p *chkPrinter) table() *tabwriter.Writer {
-	return tabwriter.NewWriter(chkWriter{p}, 0, 0, 2, ' ', 0)
-}
-
-func (p *chkPrinter) flush(tw *tabwriter.Writer) {
-	if err := tw.Flush(); err != nil && p.err == nil {
-		p.err = err
-	}
 }
 
 type chkWriter struct{ p *chkPrinter }

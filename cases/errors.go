@@ -212,3 +212,23 @@ func editDistance(a, b string) int {
 	}
 	return prev[len(y)]
 }
+
+// flattenErrors writes the errors of a case on one line: each as
+// "file:line:col: key: message", without hints, joined by "; ".
+func flattenErrors(err error) string {
+	var list ErrorList
+	if !errors.As(err, &list) {
+		return err.Error()
+	}
+	parts := make([]string, len(list))
+	for i, e := range list {
+		c := *e
+		c.Hint = ""
+		parts[i] = c.Error()
+	}
+	return strings.Join(parts, "; ")
+}
+
+func oneLine(s string) string {
+	return strings.Join(strings.Fields(s), " ")
+}

@@ -9,12 +9,8 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
-	"strconv"
 	"strings"
 
-	"github.com/BurntSushi/toml"
-
-	"cureslab/cases/units"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distmv"
 	"gonum.org/v1/gonum/stat/samplemv"
@@ -81,10 +77,8 @@ type Sweep struct {
 	Keys    []string // the varied key paths as given, in order
 	Runs    int      // number of runs
 
-	text   string         // the case file
-	dir    string         // directory of relative paths in the case
-	doc    map[string]any // the decoded case; only read
-	hash   [32]byte       // SHA-256 of the case file
+	v      *caseVariant // the case file, decoded; only read
+	hash   [32]byte     // SHA-256 of the case file
 	axes   []axis
 	stride []int      // grid: run i uses value (i / stride[k]) % len of axis k
 	u      *mat.Dense // latin-hypercube: Runs × len(axes) sample in [0, 1)
@@ -136,20 +130,13 @@ func LoadSweep(path string, set SweepSettings) (*Sweep, error) {
 // Cost: one parse of the case, plus one to try key paths absent from the
 // case; memory O(Runs·k) for latin-hypercube, O(Σ values) for a grid.
 func NewSweep(name string, data []byte, dir string, set SweepSettings) (*Sweep, error) {
-	text := string(data)
-	var doc map[string]any
-	if _, err := toml.Decode(text, &doc); err != nil {
-		return nil, ErrorList{syntaxError(name, text, err)}
-	}
-	if _, err := parseTree(name, text, doc, dir); err != nil {
+	v, _, err := newCaseVariant(name, data, dir)
+	if err != nil {
 		return nil, err
 	}
-	l := &loader{file: name, dir: dir, loc: newLocator(text)}
-	spec := l.sweepSection(&table{m: doc})
-	if spec == nil {
-		spec = &sweepSpec{}
-	}
-	s := &Sweep{Name: name, text: text, dir: dir, doc: doc, hash: sha256.Sum256(data)}
+	doc := v.doc
+	spec := v.sweepSection()
+	s := &Sweep{Name: name, v: v, hash: sha256.Sum256(data)}
 	fail := func(format string, a ...any) (*Sweep, error) {
 		return nil, &sweepError{msg: fmt.Sprintf(format, a...)}
 	}
@@ -206,9 +193,7 @@ func NewSweep(name string, data []byte, dir string, set SweepSettings) (*Sweep, 
 	where := func(i int, format string, a ...any) error {
 		msg := fmt.Sprintf(format, a...)
 		if fromFile {
-			key := fmt.Sprintf("sweep.vary.%d.key", i)
-			p := l.loc.value(key)
-			return ErrorList{{File: name, Line: p.Line, Col: p.Col, Key: key, Err: &detail{kind: ErrReference, msg: msg}}}
+			return v.errorAt(fmt.Sprintf("sweep.vary.%d.key", i), ErrReference, msg)
 		}
 		return &sweepError{msg: fmt.Sprintf("--vary %s: %s", vary[i].Key, msg)}
 	}
@@ -296,7 +281,7 @@ func NewSweep(name string, data []byte, dir string, set SweepSettings) (*Sweep, 
 	// one the case file accepts: try it.
 	if len(absent) > 0 {
 		_, vals := s.point(0)
-		_, err := parseTree(name, text, s.tree(vals), dir)
+		err := v.validate(s.tree(vals))
 		var list ErrorList
 		if errors.As(err, &list) {
 			for _, i := range absent {
@@ -362,40 +347,7 @@ func (s *Sweep) Case(r int) (*Case, error) {
 // the stack (a thinner layer) is dropped from that run, rather than failing
 // it: probes do not enter the summary.
 func (s *Sweep) caseOf(vals []any) (*Case, error) {
-	return parseDroppingProbes(s.Name, s.text, s.dir, s.tree(vals), s.varied)
-}
-
-// parseDroppingProbes validates the case tree t (of the file name with the
-// source text, for positions) with parseTree. When the only errors are
-// [output] probes below the stack, and keep does not claim them (a varied
-// probe must fail its run), those probes are dropped from t and the tree is
-// parsed again: a probe that a thinner sample puts outside the stack does not
-// enter the summary, so the run goes on without it.
-func parseDroppingProbes(name, text, dir string, t map[string]any, keep func(path string) bool) (*Case, error) {
-	c, err := parseTree(name, text, t, dir)
-	var list ErrorList
-	if err == nil || !errors.As(err, &list) {
-		return c, err
-	}
-	out, _ := t["output"].(map[string]any)
-	probes, _ := out["probes"].([]any)
-	drop := make(map[int]bool)
-	for _, e := range list {
-		rest, ok := strings.CutPrefix(e.Key, "output.probes.")
-		i, aerr := strconv.Atoi(rest)
-		if !ok || aerr != nil || i < 0 || i >= len(probes) || !errors.Is(e, ErrRange) || keep("output.probes."+rest) {
-			return nil, err
-		}
-		drop[i] = true
-	}
-	kept := make([]any, 0, len(probes))
-	for i, p := range probes {
-		if !drop[i] {
-			kept = append(kept, p)
-		}
-	}
-	out["probes"] = kept
-	return parseTree(name, text, t, dir)
+	return s.v.parseKeeping(s.tree(vals), s.varied)
 }
 
 // varied reports whether the loader key path p is varied.
@@ -408,151 +360,14 @@ func (s *Sweep) varied(p string) bool {
 	return false
 }
 
-// leaf returns the value at a path found by resolveKey.
-func leaf(doc map[string]any, path []string) any {
-	var cur any = doc
-	for _, p := range path {
-		switch x := cur.(type) {
-		case map[string]any:
-			cur = x[p]
-		default:
-			j, _ := strconv.Atoi(p)
-			cur = index(x, j)
-		}
-	}
-	return cur
-}
-
-// checkKind checks the values of v against the value old that the case has
-// at the key: a quantity must stay a quantity of the same dimension, a
-// number a number and a boolean a boolean, so that a missing unit ("10"
-// for top.h) is caught before anything runs. A value that has the right
-// dimension but is out of range (a negative thickness) passes: its run
-// fails with the loader's message.
-func checkKind(old any, v Vary) error {
-	vals := v.Values
-	if v.isRange() {
-		vals = []any{v.From, v.To}
-	}
-	for _, x := range vals {
-		switch o := old.(type) {
-		case string:
-			d := dimOf(o)
-			xs, ok := x.(string)
-			if d == 0 {
-				if !ok {
-					return fmt.Errorf("the case has the string %q here, not %s", o, kindOf(x))
-				}
-				continue
-			}
-			if !ok {
-				return fmt.Errorf("%s is %s with its unit (the case has %q), not %s: write it like %q", v.Key, article(d), o, kindOf(x), d.Example())
-			}
-			if _, err := units.Parse(xs, d); err != nil {
-				if d == units.Temperature {
-					if _, err2 := units.Parse(xs, units.TemperatureDifference); err2 == nil {
-						continue // below absolute zero: that run fails
-					}
-				}
-				return fmt.Errorf("%s is %s (the case has %q): %v", v.Key, article(d), o, err)
-			}
-		case int64, float64:
-			switch x.(type) {
-			case int64, float64:
-			default:
-				return fmt.Errorf("%s is a plain number (the case has %s), not %s", v.Key, written(o), kindOf(x))
-			}
-		case bool:
-			if _, ok := x.(bool); !ok {
-				return fmt.Errorf("%s is true or false (the case has %v), not %s", v.Key, o, kindOf(x))
-			}
-		}
-	}
-	return nil
-}
-
 // tree returns a deep copy of the decoded case with the axes set to vals.
 func (s *Sweep) tree(vals []any) map[string]any {
-	t := cloneTree(s.doc).(map[string]any)
+	t := cloneTree(s.v.doc).(map[string]any)
 	for k, a := range s.axes {
 		setPath(t, a.path, vals[k])
 	}
 	return t
 }
-
-// cloneTree deep-copies a decoded TOML value.
-func cloneTree(v any) any {
-	switch x := v.(type) {
-	case map[string]any:
-		m := make(map[string]any, len(x))
-		for k, e := range x {
-			m[k] = cloneTree(e)
-		}
-		return m
-	case []map[string]any:
-		out := make([]map[string]any, len(x))
-		for i, e := range x {
-			out[i] = cloneTree(e).(map[string]any)
-		}
-		return out
-	case []any:
-		out := make([]any, len(x))
-		for i, e := range x {
-			out[i] = cloneTree(e)
-		}
-		return out
-	}
-	return v
-}
-
-// setPath sets the value at a path found by resolveKey.
-func setPath(t map[string]any, path []string, v any) {
-	var cur any = t
-	for i, p := range path {
-		last := i == len(path)-1
-		switch x := cur.(type) {
-		case map[string]any:
-			if last {
-				x[p] = v
-				return
-			}
-			cur = x[p]
-		case []map[string]any:
-			j, _ := strconv.Atoi(p)
-			cur = x[j]
-		case []any:
-			j, _ := strconv.Atoi(p)
-			if last {
-				x[j] = v
-				return
-			}
-			cur = x[j]
-		}
-	}
-}
-
-// sweepDef is the content of sweep.json: what defines a sweep, and nothing
-// that depends on where or how it runs, so that every shard of one sweep
-// writes the same bytes.
-type sweepDef struct {
-	Format     string    `json:"format"`
-	CaseSHA256 string    `json:"case_sha256"`
-	Mode       string    `json:"mode"`
-	Samples    int       `json:"samples,omitempty"`
-	Seed       *uint64   `json:"seed,omitempty"`
-	Vary       []varyDef `json:"vary"`
-	Runs       int       `json:"runs"`
-	RunsSHA256 string    `json:"runs_sha256"`
-}
-
-type varyDef struct {
-	Key    string   `json:"key"`
-	Values []string `json:"values,omitempty"`
-	From   string   `json:"from,omitempty"`
-	To     string   `json:"to,omitempty"`
-}
-
-const sweepFormat = "cureslab-sweep-1"
 
 // definition returns sweep.json: the SHA-256 of the case file, the mode,
 // the varied keys with their values (or range ends), the number of runs,
@@ -587,36 +402,4 @@ func (s *Sweep) definition() []byte {
 		panic("cases: sweep definition: " + err.Error()) // not reached: plain types
 	}
 	return append(b, '\n')
-}
-
-// differs says how the sweep.json b differs from a (both valid), for a
-// message: "the case file differs", ...
-func defDiff(a, b []byte) string {
-	var x, y sweepDef
-	if json.Unmarshal(a, &x) != nil || json.Unmarshal(b, &y) != nil || x.Format != y.Format {
-		return "it was written in another format"
-	}
-	var why []string
-	if x.CaseSHA256 != y.CaseSHA256 {
-		why = append(why, "the case file differs")
-	}
-	if x.Mode != y.Mode || x.Samples != y.Samples || (x.Seed == nil) != (y.Seed == nil) || x.Seed != nil && *x.Seed != *y.Seed {
-		why = append(why, "the mode, samples or seed differ")
-	}
-	xk, yk := make([]string, len(x.Vary)), make([]string, len(y.Vary))
-	for i, v := range x.Vary {
-		xk[i] = v.Key
-	}
-	for i, v := range y.Vary {
-		yk[i] = v.Key
-	}
-	if strings.Join(xk, "\x00") != strings.Join(yk, "\x00") {
-		why = append(why, fmt.Sprintf("the varied keys differ (%s against %s)", strings.Join(xk, ", "), strings.Join(yk, ", ")))
-	} else if x.RunsSHA256 != y.RunsSHA256 || x.Runs != y.Runs {
-		why = append(why, "the varied values differ")
-	}
-	if len(why) == 0 {
-		return "its definition differs"
-	}
-	return strings.Join(why, "; ")
 }

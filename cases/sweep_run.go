@@ -21,73 +21,6 @@ import (
 	"cureslab/solver"
 )
 
-// Files of a sweep directory.
-const (
-	// SweepSummaryFile is the table of every run (SPEC §6, §10).
-	SweepSummaryFile = "summary.csv"
-	// SweepDefinitionFile records what the sweep is; resuming or merging
-	// checks it.
-	SweepDefinitionFile = "sweep.json"
-	// SweepJournalFile holds the committed rows, one appended (and synced)
-	// per finished run, in the order they finished.
-	SweepJournalFile = "journal.csv"
-	// SweepLogFile records when, where and how long each run ran.
-	SweepLogFile = "sweep.log"
-	// SweepRunsDir holds the output files of each run with KeepFields,
-	// in RUNS/NNNNN/.
-	SweepRunsDir = "runs"
-)
-
-// sweepColumns are the summary columns of summary.csv after the varied
-// keys, named like the keys of summary.json, in this order. Criteria come
-// next as min_cure_pass, max_temperature_pass, max_spread_pass ("true",
-// "false", or empty when the case does not set the criterion), then status
-// and error.
-var sweepColumns = []struct {
-	name string
-	get  func(*Summary) string
-}{
-	{"peak_temperature_C", func(s *Summary) string { return csvFloat(s.PeakTemperatureC) }},
-	{"peak_time_s", func(s *Summary) string { return csvFloat(s.PeakTimeS) }},
-	{"peak_depth_mm", func(s *Summary) string { return csvFloat(s.PeakDepthMM) }},
-	{"overshoot_K", func(s *Summary) string { return csvFloat(s.OvershootK) }},
-	{"max_spread_K", func(s *Summary) string { return csvFloat(s.MaxSpreadK) }},
-	{"min_final_cure", func(s *Summary) string { return csvFloat(s.MinFinalCure) }},
-	{"min_final_cure_depth_mm", func(s *Summary) string { return csvFloat(s.MinFinalCureDepthMM) }},
-	{"mean_final_cure", func(s *Summary) string { return csvFloat(s.MeanFinalCure) }},
-	{"time_to_min_cure_s", func(s *Summary) string { return csvFloat(s.TimeToMinCureS) }},
-	{"gel_time_first_s", func(s *Summary) string { return csvFloat(s.GelTimeFirstS) }},
-	{"gel_time_last_s", func(s *Summary) string { return csvFloat(s.GelTimeLastS) }},
-	{"min_final_glass_transition_C", func(s *Summary) string { return csvFloat(s.MinFinalGlassTransitionC) }},
-	{"energy_balance_error", func(s *Summary) string { return csvFloat(s.EnergyBalanceError) }},
-	{"steps", func(s *Summary) string { return strconv.Itoa(s.Steps) }},
-	{"end_time_s", func(s *Summary) string { return csvFloat(s.EndTimeS) }},
-}
-
-// sweepCriteria are the criteria columns, in order.
-var sweepCriteria = []string{CriterionMinCure, CriterionMaxTemperature, CriterionMaxSpread}
-
-// csvFloat writes a summary value as summary.json does; null is empty.
-func csvFloat(f Float) string {
-	b, err := f.MarshalJSON()
-	if err != nil || string(b) == "null" {
-		return ""
-	}
-	return string(b)
-}
-
-// sweepHeader is the header of summary.csv for the varied keys.
-func sweepHeader(keys []string) []string {
-	h := append([]string{"run"}, keys...)
-	for _, c := range sweepColumns {
-		h = append(h, c.name)
-	}
-	for _, c := range sweepCriteria {
-		h = append(h, c+"_pass")
-	}
-	return append(h, "status", "error")
-}
-
 // SweepOptions say how to run a sweep. The zero value runs every run on
 // all cores, without per-run outputs and without progress.
 type SweepOptions struct {
@@ -402,26 +335,6 @@ func (s *Sweep) runOne(ctx context.Context, ws *solver.Workspace, r int, dir str
 	}
 	rec = append(rec, sum.Status, oneLine(msg))
 	return sweepResult{run: r, rec: rec, wall: time.Since(start)}
-}
-
-// flattenErrors writes the errors of a case on one line: each as
-// "file:line:col: key: message", without hints, joined by "; ".
-func flattenErrors(err error) string {
-	var list ErrorList
-	if !errors.As(err, &list) {
-		return err.Error()
-	}
-	parts := make([]string, len(list))
-	for i, e := range list {
-		c := *e
-		c.Hint = ""
-		parts[i] = c.Error()
-	}
-	return strings.Join(parts, "; ")
-}
-
-func oneLine(s string) string {
-	return strings.Join(strings.Fields(s), " ")
 }
 
 // claimSweepDir creates dir if needed and checks or writes its sweep.json.

@@ -9,7 +9,6 @@ import (
 	"strings"
 	"unicode"
 
-	"github.com/BurntSushi/toml"
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"cureslab/cases/units"
@@ -319,56 +318,6 @@ func (in *UncertainInput) perturb(cur any, u float64) (shown string, value any, 
 		return strconv.FormatFloat(y, 'g', -1, 64), y, nil
 	}
 	return "", nil, fmt.Errorf("%s is %s, not a number", in.Key, kindOf(cur))
-}
-
-// caseVariant is a case file whose decoded values can be replaced before the
-// normal loader validates it again, as a sweep run does: positions in
-// messages still come from the text.
-type caseVariant struct {
-	name, text, dir string
-	doc             map[string]any // only read
-}
-
-// newCaseVariant decodes the case text data; the case itself must be valid.
-func newCaseVariant(name string, data []byte, dir string) (*caseVariant, *Case, error) {
-	text := string(data)
-	var doc map[string]any
-	if _, err := toml.Decode(text, &doc); err != nil {
-		return nil, nil, ErrorList{syntaxError(name, text, err)}
-	}
-	c, err := parseTree(name, text, doc, dir)
-	if err != nil {
-		return nil, nil, err
-	}
-	return &caseVariant{name: name, text: text, dir: dir, doc: doc}, c, nil
-}
-
-// valueSetting is one replaced value: a path found by resolveKey and the value.
-type valueSetting struct {
-	path  []string
-	value any
-}
-
-// tree returns a deep copy of the decoded case with sets applied in order;
-// a valueSetting of time.end creates [time] when the case has none.
-func (v *caseVariant) tree(sets []valueSetting) map[string]any {
-	t := cloneTree(v.doc).(map[string]any)
-	for _, s := range sets {
-		if len(s.path) == 2 && s.path[0] == "time" {
-			if _, ok := t["time"].(map[string]any); !ok {
-				t["time"] = map[string]any{}
-			}
-		}
-		setPath(t, s.path, s.value)
-	}
-	return t
-}
-
-// parse validates the tree t (from tree). A probe of [output] that the
-// values put below the stack (a thinner layer) is dropped rather than
-// failing the case, as in a sweep run: probes do not enter the summary.
-func (v *caseVariant) parse(t map[string]any) (*Case, error) {
-	return parseDroppingProbes(v.name, v.text, v.dir, t, func(string) bool { return false })
 }
 
 // sample applies the uncertain inputs of u at the sample point us (one u in

@@ -1,16 +1,12 @@
 package cases
 
 import (
-	"bufio"
 	"encoding/csv"
 	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"os"
-	"path/filepath"
-	"strconv"
 
 	"cureslab/physics"
 	"cureslab/solver"
@@ -22,48 +18,6 @@ const (
 	ProbesFile  = "probes.csv"
 	SummaryFile = "summary.json"
 )
-
-// WriteFileAtomic writes the file dir/name through write, so that the file
-// is either replaced whole or left as it was.
-//
-// Method: write goes to a buffered temporary file created in dir (so the
-// rename cannot cross file systems); after write returns nil the buffer is
-// flushed, the file synced to disk, closed, given mode 0644 and renamed over
-// dir/name. On any error, from write or from the file system, the temporary
-// file is removed and an existing dir/name is left untouched.
-//
-// Preconditions: dir exists. write must not keep the writer after it
-// returns.
-func WriteFileAtomic(dir, name string, write func(io.Writer) error) (err error) {
-	f, err := os.CreateTemp(dir, "."+name+".tmp*")
-	if err != nil {
-		return err
-	}
-	tmp := f.Name()
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(tmp)
-		}
-	}()
-	bw := bufio.NewWriterSize(f, 64<<10)
-	if err = write(bw); err != nil {
-		return err
-	}
-	if err = bw.Flush(); err != nil {
-		return err
-	}
-	if err = f.Sync(); err != nil {
-		return err
-	}
-	if err = f.Chmod(0o644); err != nil {
-		return err
-	}
-	if err = f.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp, filepath.Join(dir, name))
-}
 
 // WriteRun writes the output files of one run into dir, creating dir if it
 // does not exist: fields.csv, probes.csv and summary.json (SPEC §5, §10).
@@ -165,12 +119,6 @@ func probesHeader(c *Case) []string {
 	return append(h, "heat_in_J_per_m2")
 }
 
-// controlled reports whether p's volumetric heating is under closed-loop
-// control (probes.csv then has a power_fraction column).
-func controlled(p *solver.Problem) bool {
-	return p.Volumetric != nil && p.Volumetric.Control != nil
-}
-
 // writeProbes writes probes.csv: one row per output time.
 func writeProbes(w io.Writer, c *Case, r *solver.Result) error {
 	cw := csv.NewWriter(w)
@@ -214,44 +162,3 @@ func writeSummary(w io.Writer, s Summary) error {
 	_, err = w.Write(b)
 	return err
 }
-
-// FormatDepth formats a depth given in metres as the shortest exact decimal
-// of the depth in millimetres, after rounding to 1e-9 mm so that the binary
-// noise of the unit conversion does not show: 6.35e-3 m gives "6.35", 0 gives
-// "0", 17.4625e-3 m gives "17.4625". It names the probe columns of
-// probes.csv (T_6.35mm_C) and fills depth_mm of fields.csv.
-func FormatDepth(depth float64) string { return outFixed(depth*1e3, 9) }
-
-// fmtFixed rounds v to the given number of decimals (roundTo) and writes the
-// shortest decimal that reads back as the rounded value; NaN gives "" and −0
-// gives "0".
-func outFixed(v float64, decimals int) string {
-	if math.IsNaN(v) {
-		return ""
-	}
-	return strconv.FormatFloat(outRound(v, decimals), 'f', -1, 64)
-}
-
-// fmtSig writes v with 9 significant digits, trailing zeros dropped; NaN
-// gives "" and −0 gives "0".
-func outSig(v float64) string {
-	if math.IsNaN(v) {
-		return ""
-	}
-	if v == 0 {
-		return "0"
-	}
-	return strconv.FormatFloat(v, 'g', 9, 64)
-}
-
-// at returns s[i], or NaN when s is too short (a snapshot without that
-// quantity).
-func outAt(s []float64, i int) float64 {
-	if i < len(s) {
-		return s[i]
-	}
-	return math.NaN()
-}
-
-// kelvinToC converts an absolute temperature from K to °C.
-func outKtoC(T float64) float64 { return T - 273.15 }
