@@ -65,17 +65,6 @@ func Check(w io.Writer, c *Case) error {
 	return p.err
 }
 
-type chkWriter struct{ p *chkPrinter }
-
-func (cw chkWriter) Write(b []byte) (int, error) {
-	if cw.p.err != nil {
-		return 0, cw.p.err
-	}
-	n, err := cw.p.w.Write(b)
-	cw.p.err = err
-	return n, err
-}
-
 func chkHeader(p *chkPrinter, c *Case) {
 	title := c.Title
 	if title == "" {

@@ -2,7 +2,6 @@ package cases
 
 import (
 	"bytes"
-	"errors"
 	"math"
 	"strings"
 	"testing"
@@ -208,28 +207,6 @@ func TestCheckCautions(t *testing.T) {
 	for _, w := range []string{"trial", "data sheets", "fire", "leakage", "interlock", "local codes", "licensed practice"} {
 		if !strings.Contains(all, w) {
 			t.Errorf("the cautions do not mention %q", w)
-		}
-	}
-}
-
-func TestCheckGolden(t *testing.T) {
-	outGolden(t, "check_hand_built.golden", []byte(chkOutput(t, outTestCase(t))))
-}
-
-type failWriter struct{ n int }
-
-func (w *failWriter) Write(b []byte) (int, error) {
-	if w.n <= 0 {
-		return 0, errors.New("disk full")
-	}
-	w.n--
-	return len(b), nil
-}
-
-func TestCheckWriteError(t *testing.T) {
-	for _, n := range []int{0, 3, 10} {
-		if err := Check(&failWriter{n}, outTestCase(t)); err == nil || err.Error() != "disk full" {
-			t.Errorf("writer failing after %d writes: err = %v, want disk full", n, err)
 		}
 	}
 }

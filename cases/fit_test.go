@@ -42,7 +42,7 @@ func TestDSCTestdata(t *testing.T) {
 			t.Fatal(err)
 		}
 		path := filepath.Join(dscDir, spec.Name)
-		if updating() {
+		if outUpdate() {
 			if err := os.WriteFile(path, buf.Bytes(), 0o644); err != nil {
 				t.Fatal(err)
 			}

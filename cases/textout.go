@@ -73,3 +73,14 @@ func (p *chkPrinter) flush(tw *tabwriter.Writer) {
 		p.err = err
 	}
 }
+
+type chkWriter struct{ p *chkPrinter }
+
+func (cw chkWriter) Write(b []byte) (int, error) {
+	if cw.p.err != nil {
+		return 0, cw.p.err
+	}
+	n, err := cw.p.w.Write(b)
+	cw.p.err = err
+	return n, err
+}

@@ -7,55 +7,6 @@ import (
 	"testing"
 )
 
-// tttCase is a case with one curing resin (invented numbers: autocatalytic
-// with diffusion and a glass transition) on an aluminium plate.
-const tttCase = `title = "ttt"
-[initial]
-temperature = "23 C"
-cure = 0.01
-[[layer]]
-name = "resin"
-material = "resin-T"
-thickness = "4 mm"
-[[layer]]
-name = "plate"
-material = "aluminium"
-thickness = "2 mm"
-[materials.resin-T]
-density = "1150 kg/m^3"
-specific_heat = "1500 J/kg/K"
-conductivity = "0.2 W/m/K"
-[materials.resin-T.cure]
-model = "autocatalytic"
-total_heat = "400 J/g"
-A1 = "4.5e5 1/s"
-E1 = "70 kJ/mol"
-A2 = "1.2e5 1/s"
-E2 = "55 kJ/mol"
-m = 0.6
-n = 1.6
-gel_point = 0.58
-[materials.resin-T.cure.diffusion]
-C = 30.0
-alpha_c0 = -0.98
-alpha_cT = "0.0052 1/K"
-[materials.resin-T.cure.glass_transition]
-Tg0 = "-35 C"
-Tg_full = "130 C"
-lambda = 0.42
-[schedules.oven]
-start = "23 C"
-segments = [{ ramp = "2 C/min", to = "80 C" }, { hold = "2 h" }]
-[top]
-kind = "convection"
-h = "10 W/m^2/K"
-air = "oven"
-[bottom]
-kind = "insulated"
-[criteria]
-min_cure = 0.85
-`
-
 // rk4Time integrates dα/dt = rate(α) from a0 by RK4 at step h until α
 // reaches target, and returns the time (interpolated in the last step), or
 // +Inf after tmax.

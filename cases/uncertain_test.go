@@ -14,18 +14,6 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
-const tuneDir = "../testdata/tune"
-
-// uncCase returns the text of testdata/tune/NAME.toml with extra appended.
-func uncCase(t *testing.T, name, extra string) []byte {
-	t.Helper()
-	b, err := os.ReadFile(filepath.Join(tuneDir, name+".toml"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	return append(b, []byte("\n"+extra)...)
-}
-
 // uncLine returns the 1-based line of the first line of text containing s.
 func uncLine(t *testing.T, text []byte, s string) int {
 	t.Helper()
