@@ -50,6 +50,6 @@ type Criteria struct {
 
 // controlled reports whether p's volumetric heating is under closed-loop
 // control (probes.csv then has a power_fraction column).
-func controlled(p *solver.Problem) bool {
+func Controlled(p *solver.Problem) bool {
 	return p.Volumetric != nil && p.Volumetric.Control != nil
 }

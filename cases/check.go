@@ -1,15 +1,16 @@
 package cases
 
 import (
+	"cureslab/cases/internal/num"
+	"cureslab/cases/internal/textout"
+	"cureslab/physics"
+	"cureslab/solver"
 	"fmt"
 	"io"
 	"math"
 	"sort"
 	"strconv"
 	"strings"
-
-	"cureslab/physics"
-	"cureslab/solver"
 )
 
 // Cautions returns the cautions that cureslab shows with its results (SPEC
@@ -40,7 +41,7 @@ const MaxNeighbourRatio = 5
 //
 // The only error it returns is a write error of w.
 func Check(w io.Writer, c *Case) error {
-	p := &chkPrinter{w: w}
+	p := &textout.Printer{W: w}
 	chkHeader(p, c)
 	chkStack(p, c)
 	chkMaterials(p, c)
@@ -51,35 +52,35 @@ func Check(w io.Writer, c *Case) error {
 	warnings := chkEstimates(p, c)
 	warnings = append(warnings, volWarnings...)
 	warnings = append(warnings, meshWarnings(c)...)
-	p.printf("\nWarnings\n")
+	p.Printf("\nWarnings\n")
 	if len(warnings) == 0 {
-		p.printf("  none\n")
+		p.Printf("  none\n")
 	}
 	for _, s := range warnings {
-		p.printf("  - %s\n", s)
+		p.Printf("  - %s\n", s)
 	}
-	p.printf("\nCautions\n")
+	p.Printf("\nCautions\n")
 	for _, s := range Cautions() {
-		p.printf("  - %s\n", s)
+		p.Printf("  - %s\n", s)
 	}
-	return p.err
+	return p.Err
 }
 
-func chkHeader(p *chkPrinter, c *Case) {
+func chkHeader(p *textout.Printer, c *Case) {
 	title := c.Title
 	if title == "" {
 		title = "(no title)"
 	}
-	p.printf("Case: %s\n", title)
+	p.Printf("Case: %s\n", title)
 	if c.File != "" {
-		p.printf("File: %s\n", c.File)
+		p.Printf("File: %s\n", c.File)
 	}
 }
 
-func chkStack(p *chkPrinter, c *Case) {
+func chkStack(p *textout.Printer, c *Case) {
 	m := c.Problem.Mesh
-	p.printf("\nStack, top to bottom (depth 0 is the top face): %s mm in %d cells\n", FormatDepth(m.Thickness()), m.Cells())
-	tw := p.table()
+	p.Printf("\nStack, top to bottom (depth 0 is the top face): %s mm in %d cells\n", num.FormatDepth(m.Thickness()), m.Cells())
+	tw := p.Table()
 	fmt.Fprintf(tw, "  layer\tmaterial\tfrom\tthickness\tdepth\tcells\tcell size\tcontact resistance\n")
 	for j, l := range m.Layers {
 		info := chkLayerInfo(c, j)
@@ -105,10 +106,10 @@ func chkStack(p *chkPrinter, c *Case) {
 			rc = chkG(l.ContactResistance) + " m^2*K/W"
 		}
 		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s mm\t%s to %s mm\t%d\t%s\t%s\n", l.Name, info.Material, from,
-			FormatDepth(l.Thickness), FormatDepth(m.Faces[m.First[j]]), FormatDepth(m.Faces[m.First[j+1]]),
+			num.FormatDepth(l.Thickness), num.FormatDepth(m.Faces[m.First[j]]), num.FormatDepth(m.Faces[m.First[j+1]]),
 			m.First[j+1]-m.First[j], size, rc)
 	}
-	p.flush(tw)
+	p.Flush(tw)
 }
 
 // chkLayerInfo returns the LayerInfo of layer j, or one built from the mesh
@@ -140,8 +141,8 @@ func chkContains(list []string, s string) bool {
 	return false
 }
 
-func chkMaterials(p *chkPrinter, c *Case) {
-	p.printf("\nMaterials\n")
+func chkMaterials(p *textout.Printer, c *Case) {
+	p.Printf("\nMaterials\n")
 	seen := map[*physics.Material]bool{}
 	for j := range c.Problem.Mesh.Layers {
 		mat := chkMaterial(c, j)
@@ -153,9 +154,9 @@ func chkMaterials(p *chkPrinter, c *Case) {
 		if name == "" {
 			name = chkLayerInfo(c, j).Material
 		}
-		p.printf("  %s\n", name)
+		p.Printf("  %s\n", name)
 		for _, line := range DescribeMaterial(mat) {
-			p.printf("    %s\n", line)
+			p.Printf("    %s\n", line)
 		}
 	}
 }
@@ -244,9 +245,9 @@ func chkKinetics(k physics.Kinetics) string {
 	return k.Name()
 }
 
-func chkFaces(p *chkPrinter, c *Case) {
-	p.printf("\nFaces\n")
-	tw := p.table()
+func chkFaces(p *textout.Printer, c *Case) {
+	p.Printf("\nFaces\n")
+	tw := p.Table()
 	for _, f := range []struct {
 		name   string
 		face   *physics.Face
@@ -254,7 +255,7 @@ func chkFaces(p *chkPrinter, c *Case) {
 	}{{"top", &c.Problem.Top, c.TopAir}, {"bottom", &c.Problem.Bottom, c.BottomAir}} {
 		fmt.Fprintf(tw, "  %s\t%s\t%s\n", f.name, f.face.Kind, chkFace(f.face, f.driver))
 	}
-	p.flush(tw)
+	p.Flush(tw)
 }
 
 func chkFace(f *physics.Face, driver string) string {
@@ -282,12 +283,12 @@ func chkFace(f *physics.Face, driver string) string {
 		for _, x := range v {
 			lo, hi = min(lo, x), max(hi, x)
 		}
-		return fmt.Sprintf("flux %s to %s W/m^2 into the part, %d points over %s", chkG(lo), chkG(hi), len(v), outHumanTime(t[len(t)-1]))
+		return fmt.Sprintf("flux %s to %s W/m^2 into the part, %d points over %s", chkG(lo), chkG(hi), len(v), num.HumanTime(t[len(t)-1]))
 	}
 	return "no heat through this face"
 }
 
-func chkSchedules(p *chkPrinter, c *Case) {
+func chkSchedules(p *textout.Printer, c *Case) {
 	if len(c.Schedules) == 0 {
 		return
 	}
@@ -296,12 +297,12 @@ func chkSchedules(p *chkPrinter, c *Case) {
 		names = append(names, n)
 	}
 	sort.Strings(names)
-	p.printf("\nSchedules (temperatures held before the first and after the last point)\n")
+	p.Printf("\nSchedules (temperatures held before the first and after the last point)\n")
 	for _, n := range names {
 		s := c.Schedules[n]
 		t, v := s.Points()
-		p.printf("  %s: %d points, starts at %s C, highest %s C, ends at %s with %s C\n", n, len(t),
-			chkC(v[0]), chkC(s.Max()), outHumanTime(s.End()), chkC(v[len(v)-1]))
+		p.Printf("  %s: %d points, starts at %s C, highest %s C, ends at %s with %s C\n", n, len(t),
+			chkC(v[0]), chkC(s.Max()), num.HumanTime(s.End()), chkC(v[len(v)-1]))
 		pts := make([]string, 0, len(t))
 		for i := range t {
 			if len(t) > 12 && i == 5 {
@@ -310,22 +311,22 @@ func chkSchedules(p *chkPrinter, c *Case) {
 			if len(t) > 12 && i >= 5 && i < len(t)-5 {
 				continue
 			}
-			pts = append(pts, outHumanTime(t[i])+" "+chkC(v[i])+" C")
+			pts = append(pts, num.HumanTime(t[i])+" "+chkC(v[i])+" C")
 		}
-		p.printf("    %s\n", strings.Join(pts, ", "))
+		p.Printf("    %s\n", strings.Join(pts, ", "))
 	}
 }
 
-func chkTime(p *chkPrinter, c *Case) {
+func chkTime(p *textout.Printer, c *Case) {
 	pr := c.Problem
-	p.printf("\nTime and output\n")
-	tw := p.table()
+	p.Printf("\nTime and output\n")
+	tw := p.Table()
 	init := chkC(pr.InitialTemperature) + " C"
 	if chkCuring(c) {
 		init += ", cure " + chkG(pr.InitialCure) + " in curing layers"
 	}
 	fmt.Fprintf(tw, "  initial\t%s\n", init)
-	fmt.Fprintf(tw, "  end\t%s (%s s)\n", outHumanTime(pr.End), chkG(pr.End))
+	fmt.Fprintf(tw, "  end\t%s (%s s)\n", num.HumanTime(pr.End), chkG(pr.End))
 	every := c.OutputEvery
 	if every == 0 {
 		every = pr.End / 100
@@ -334,10 +335,10 @@ func chkTime(p *chkPrinter, c *Case) {
 	if n == 0 {
 		n = 100
 	}
-	fmt.Fprintf(tw, "  output every\t%s (%d snapshots after t = 0)\n", outHumanTime(every), n)
+	fmt.Fprintf(tw, "  output every\t%s (%d snapshots after t = 0)\n", num.HumanTime(every), n)
 	step := "none (up to the whole run)"
 	if pr.MaxStep > 0 {
-		step = outHumanTime(pr.MaxStep)
+		step = num.HumanTime(pr.MaxStep)
 	}
 	fmt.Fprintf(tw, "  max step\t%s\n", step)
 	tt, ct, at := pr.TemperatureTolerance, pr.CureTolerance, pr.AbortTemperature
@@ -355,7 +356,7 @@ func chkTime(p *chkPrinter, c *Case) {
 	fmt.Fprintf(tw, "  runaway limit\t%s C%s\n", chkG(at-273.15), da)
 	probes := make([]string, len(pr.Probes))
 	for i, d := range pr.Probes {
-		probes[i] = FormatDepth(d) + " mm"
+		probes[i] = num.FormatDepth(d) + " mm"
 		if j := chkLayerAt(pr, d); j >= 0 {
 			probes[i] += " (" + pr.Mesh.Layers[j].Name + ")"
 		}
@@ -369,16 +370,16 @@ func chkTime(p *chkPrinter, c *Case) {
 		cr = append(cr, "min_cure "+chkG(v))
 	}
 	if v := c.Criteria.MaxTemperature; !math.IsNaN(v) {
-		cr = append(cr, "max_temperature "+chkG(outCelsius(v))+" C")
+		cr = append(cr, "max_temperature "+chkG(num.Celsius(v))+" C")
 	}
 	if v := c.Criteria.MaxSpread; !math.IsNaN(v) {
-		cr = append(cr, "max_spread "+chkG(outRound6(v))+" K")
+		cr = append(cr, "max_spread "+chkG(num.Round6(v))+" K")
 	}
 	if len(cr) == 0 {
 		cr = []string{"none"}
 	}
 	fmt.Fprintf(tw, "  criteria\t%s\n", strings.Join(cr, ", "))
-	p.flush(tw)
+	p.Flush(tw)
 }
 
 // chkLayerAt returns the layer a probe at depth z reads (the upper layer on
@@ -533,7 +534,7 @@ func DrivingMax(pr *solver.Problem) (float64, bool) {
 			T, found = max(T, s.Max()), true
 		}
 	}
-	if controlled(pr) {
+	if Controlled(pr) {
 		T, found = max(T, pr.Volumetric.Control.Program.Max()), true
 	}
 	if !found {
@@ -544,10 +545,10 @@ func DrivingMax(pr *solver.Problem) (float64, bool) {
 
 // chkEstimates prints the Biot numbers and the curing-layer estimates and
 // returns the warnings they raise.
-func chkEstimates(p *chkPrinter, c *Case) []string {
+func chkEstimates(p *textout.Printer, c *Case) []string {
 	pr := c.Problem
 	var warn []string
-	p.printf("\nPre-trial estimates (rough guides, not results)\n")
+	p.Printf("\nPre-trial estimates (rough guides, not results)\n")
 
 	// Biot numbers of the whole stack.
 	m := pr.Mesh
@@ -566,9 +567,9 @@ func chkEstimates(p *chkPrinter, c *Case) []string {
 		R += l.Thickness/k + l.ContactResistance
 	}
 	keff := L / R
-	p.printf("  Biot numbers Bi = h*L/k_eff, L = the whole stack (%s mm), k_eff = L / (sum of layer thickness/k\n", FormatDepth(L))
-	p.printf("  plus contact resistances) = %s W/m/K at the initial %s C:\n", chkG3(keff), chkF(T0-273.15, 1))
-	tw := p.table()
+	p.Printf("  Biot numbers Bi = h*L/k_eff, L = the whole stack (%s mm), k_eff = L / (sum of layer thickness/k\n", num.FormatDepth(L))
+	p.Printf("  plus contact resistances) = %s W/m/K at the initial %s C:\n", chkG3(keff), chkF(T0-273.15, 1))
+	tw := p.Table()
 	for _, f := range []struct {
 		name string
 		face *physics.Face
@@ -591,11 +592,11 @@ func chkEstimates(p *chkPrinter, c *Case) []string {
 			fmt.Fprintf(tw, "    %s\tno Biot number\t%s face\n", f.name, f.face.Kind)
 		}
 	}
-	p.flush(tw)
+	p.Flush(tw)
 
 	est := Estimates(c)
 	if len(est) == 0 {
-		p.printf("  No layer cures: the case is pure heat conduction.\n")
+		p.Printf("  No layer cures: the case is pure heat conduction.\n")
 		return warn
 	}
 	abort := pr.AbortTemperature
@@ -603,13 +604,13 @@ func chkEstimates(p *chkPrinter, c *Case) []string {
 		abort = solver.DefaultAbortTemperature
 	}
 	for _, e := range est {
-		p.printf("  Layer %s (%s), at the highest driving temperature %s C:\n", e.Layer, e.Material, chkF(e.T-273.15, 1))
-		tw := p.table()
+		p.Printf("  Layer %s (%s), at the highest driving temperature %s C:\n", e.Layer, e.Material, chkF(e.T-273.15, 1))
+		tw := p.Table()
 		peak := e.T + e.AdiabaticRise
 		fmt.Fprintf(tw, "    adiabatic temperature rise\t%s K\tif no reaction heat left the layer; an adiabatic core would reach %s C\n",
 			chkF(e.AdiabaticRise, 1), chkF(peak-273.15, 0))
 		fmt.Fprintf(tw, "    conduction time L^2/a\t%s\tL = %s mm, a = k/(rho*c_p) = %s m^2/s\n",
-			outHumanTime(e.ConductionTime), FormatDepth(e.Thickness), chkG3(e.Diffusivity))
+			num.HumanTime(e.ConductionTime), num.FormatDepth(e.Thickness), chkG3(e.Diffusivity))
 		var half string
 		switch {
 		case e.HalfLife == 0:
@@ -619,7 +620,7 @@ func chkEstimates(p *chkPrinter, c *Case) []string {
 		case math.IsNaN(e.HalfLife):
 			half = "unknown"
 		default:
-			half = outHumanTime(e.HalfLife) + "\tisothermal, cure " + chkG(pr.InitialCure) + " to 0.5"
+			half = num.HumanTime(e.HalfLife) + "\tisothermal, cure " + chkG(pr.InitialCure) + " to 0.5"
 		}
 		fmt.Fprintf(tw, "    reaction half-life\t%s\n", half)
 		if e.PeakRate > 0 {
@@ -628,18 +629,18 @@ func chkEstimates(p *chkPrinter, c *Case) []string {
 			fmt.Fprintf(tw, "    Frank-Kamenetskii delta\t%s\tE/(R T^2) * heat release at the peak rate * L^2 / k; critical %s for a slab\n",
 				chkG3(e.FK), chkG(CriticalFK))
 		}
-		p.flush(tw)
+		p.Flush(tw)
 		if e.FK > CriticalFK {
 			warn = append(warn, fmt.Sprintf("layer %s: the Frank-Kamenetskii parameter %s at %s C exceeds the critical %s: at its peak rate the reaction releases heat faster than conduction through %s mm can remove it: expect a strong exotherm (a runaway if the resin did not run out).",
-				e.Layer, chkG3(e.FK), chkF(e.T-273.15, 0), chkG(CriticalFK), FormatDepth(e.Thickness)))
+				e.Layer, chkG3(e.FK), chkF(e.T-273.15, 0), chkG(CriticalFK), num.FormatDepth(e.Thickness)))
 		}
 		if e.HalfLife > 0 && e.ConductionTime > e.HalfLife {
 			warn = append(warn, fmt.Sprintf("layer %s: the conduction time (%s) is longer than the reaction half-life at %s C (%s): the exotherm can run ahead of conduction: expect the core to overshoot the program.",
-				e.Layer, outHumanTime(e.ConductionTime), chkF(e.T-273.15, 0), outHumanTime(e.HalfLife)))
+				e.Layer, num.HumanTime(e.ConductionTime), chkF(e.T-273.15, 0), num.HumanTime(e.HalfLife)))
 		}
 		if v := c.Criteria.MaxTemperature; !math.IsNaN(v) && peak > v {
 			warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above max_temperature %s C: the criterion holds only if enough heat leaves.",
-				e.Layer, chkF(peak-273.15, 0), chkG(outCelsius(v))))
+				e.Layer, chkF(peak-273.15, 0), chkG(num.Celsius(v))))
 		}
 		if peak > abort {
 			warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above the runaway limit %s C.",
@@ -681,7 +682,7 @@ func meshWarnings(c *Case) []string {
 		return nil
 	}
 	return []string{fmt.Sprintf("neighbouring cells at %s mm differ in size by %sx (%s mm and %s mm; %d such place(s)): set [mesh] growth = 1.2 to grade the cells.",
-		FormatDepth(m.Faces[at+1]), chkG3(worst), chkG3(m.Widths[at]*1e3), chkG3(m.Widths[at+1]*1e3), count)}
+		num.FormatDepth(m.Faces[at+1]), chkG3(worst), chkG3(m.Widths[at]*1e3), chkG3(m.Widths[at+1]*1e3), count)}
 }
 
 // chkG formats v with up to 6 significant digits, no trailing zeros.
@@ -694,7 +695,7 @@ func chkG(v float64) string {
 
 // chkC formats an absolute temperature T (K) in °C with up to 6
 // significant digits.
-func chkC(T float64) string { return chkG(outCelsius(T)) }
+func chkC(T float64) string { return chkG(num.Celsius(T)) }
 
 // chkG4 formats v with 4 significant digits.
 func chkG4(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
@@ -721,7 +722,7 @@ func chkF(v float64, decimals int) string {
 // warnings: a frequency outside the ISM bands, a field that control does not
 // use, and a program ramp faster than the full field can heat any absorbing
 // layer.
-func chkVolumetric(p *chkPrinter, c *Case) []string {
+func chkVolumetric(p *textout.Printer, c *Case) []string {
 	v := c.Problem.Volumetric
 	if v == nil {
 		return nil
@@ -732,8 +733,8 @@ func chkVolumetric(p *chkPrinter, c *Case) []string {
 		info = &VolumetricInfo{}
 	}
 	pr := c.Problem
-	p.printf("\nVolumetric heating\n")
-	tw := p.table()
+	p.Printf("\nVolumetric heating\n")
+	tw := p.Table()
 	band := "an ISM band"
 	if note := frequencyNote(v.Frequency); note != "" {
 		band = "not an ISM band"
@@ -755,10 +756,10 @@ func chkVolumetric(p *chkPrinter, c *Case) []string {
 		physics.FromBoth:   "both: the mean of the field entering through the top and through the bottom",
 	}[v.Attenuation]
 	fmt.Fprintf(tw, "  attenuation\t%s\n", att)
-	p.flush(tw)
+	p.Flush(tw)
 
-	p.printf("  Absorbing layers, at the full field (uncured -> cured; heating rate with no heat lost):\n")
-	tw = p.table()
+	p.Printf("  Absorbing layers, at the full field (uncured -> cured; heating rate with no heat lost):\n")
+	tw = p.Table()
 	fmt.Fprintf(tw, "    layer\tmaterial\teps'\teps''\tpower density\theating rate\tpenetration depth\n")
 	fastest := 0.0 // fastest full-field heating rate of an absorbing layer, K/s
 	var others []string
@@ -798,9 +799,9 @@ func chkVolumetric(p *chkPrinter, c *Case) []string {
 			chkG3(rate*60), chkDepth(physics.PenetrationDepth(v.Frequency, d.Permittivity, d.LossFactor)),
 			chkDepth(physics.PenetrationDepth(v.Frequency, d.Permittivity, d.LossFactorCured)))
 	}
-	p.flush(tw)
+	p.Flush(tw)
 	for _, o := range others {
-		p.printf("    %s\n", o)
+		p.Printf("    %s\n", o)
 	}
 
 	ctl := v.Control
@@ -813,13 +814,13 @@ func chkVolumetric(p *chkPrinter, c *Case) []string {
 		}
 		return ""
 	}
-	p.printf("  Control (PI, sampled; the power fraction stays in [0, 1])\n")
-	tw = p.table()
+	p.Printf("  Control (PI, sampled; the power fraction stays in [0, 1])\n")
+	tw = p.Table()
 	where := ""
 	if j := chkLayerAt(pr, ctl.Sensor); j >= 0 {
 		where = " (" + pr.Mesh.Layers[j].Name + ")"
 	}
-	fmt.Fprintf(tw, "    sensor\t%s mm%s\n", FormatDepth(ctl.Sensor), where)
+	fmt.Fprintf(tw, "    sensor\t%s mm%s\n", num.FormatDepth(ctl.Sensor), where)
 	prog := strconv.Quote(info.Program)
 	if info.Program == "" {
 		prog = "(as loaded)"
@@ -828,7 +829,7 @@ func chkVolumetric(p *chkPrinter, c *Case) []string {
 	fmt.Fprintf(tw, "    period\t%s s%s\n", chkG(ctl.Period), def("period"))
 	fmt.Fprintf(tw, "    gain\t%s 1/K%s\n", chkG(ctl.Gain), def("gain"))
 	fmt.Fprintf(tw, "    integral time\t%s s%s\n", chkG(ctl.IntegralTime), def("integral_time"))
-	p.flush(tw)
+	p.Flush(tw)
 	if ramp := chkFastestRamp(ctl.Program); ramp > fastest {
 		warn = append(warn, fmt.Sprintf("the control program ramps at up to %s K/min, faster than the full field heats any absorbing layer (%s K/min with no heat lost): the sensor will lag the program; raise max_field or slow the ramp.",
 			chkG3(ramp*60), chkG3(fastest*60)))

@@ -146,19 +146,19 @@ func (l ErrorList) sortFor(file string) ErrorList {
 
 // detail is the Err of an Error: a message that wraps a sentinel kind and,
 // optionally, the error that caused it (a *units.Error, an *os.PathError).
-type detail struct {
-	kind  error
-	cause error
-	msg   string
+type Detail struct {
+	Kind  error
+	Cause error
+	Msg   string
 }
 
-func (d *detail) Error() string { return d.msg }
+func (d *Detail) Error() string { return d.Msg }
 
-func (d *detail) Unwrap() []error {
-	if d.cause == nil {
-		return []error{d.kind}
+func (d *Detail) Unwrap() []error {
+	if d.Cause == nil {
+		return []error{d.Kind}
 	}
-	return []error{d.kind, d.cause}
+	return []error{d.Kind, d.Cause}
 }
 
 // Suggest returns the element of valid nearest to got, or "" when none is
@@ -215,7 +215,7 @@ func editDistance(a, b string) int {
 
 // flattenErrors writes the errors of a case on one line: each as
 // "file:line:col: key: message", without hints, joined by "; ".
-func flattenErrors(err error) string {
+func FlattenErrors(err error) string {
 	var list ErrorList
 	if !errors.As(err, &list) {
 		return err.Error()
@@ -229,6 +229,6 @@ func flattenErrors(err error) string {
 	return strings.Join(parts, "; ")
 }
 
-func oneLine(s string) string {
+func OneLine(s string) string {
 	return strings.Join(strings.Fields(s), " ")
 }

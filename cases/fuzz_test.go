@@ -119,7 +119,7 @@ func fzCheckUnknownKeyLines(t *testing.T, list ErrorList, data []byte) {
 		k := lastKey(e.Key)
 		bare := k != ""
 		for i := 0; i < len(k); i++ {
-			bare = bare && isBare(k[i])
+			bare = bare && IsBare(k[i])
 		}
 		if bare && strings.Contains(e.Key, k) && !strings.Contains(lines[e.Line-1], k) {
 			t.Errorf("unknown key %q reported on line %d, which is %q", e.Key, e.Line, lines[e.Line-1])

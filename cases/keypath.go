@@ -46,7 +46,7 @@ func parseDroppingProbes(name, text, dir string, t map[string]any, keep func(pat
 }
 
 // leaf returns the value at a path found by resolveKey.
-func leaf(doc map[string]any, path []string) any {
+func Leaf(doc map[string]any, path []string) any {
 	var cur any = doc
 	for _, p := range path {
 		switch x := cur.(type) {
@@ -66,15 +66,15 @@ func leaf(doc map[string]any, path []string) any {
 // for top.h) is caught before anything runs. A value that has the right
 // dimension but is out of range (a negative thickness) passes: its run
 // fails with the loader's message.
-func checkKind(old any, v Vary) error {
+func CheckKind(old any, v Vary) error {
 	vals := v.Values
-	if v.isRange() {
+	if v.IsRange() {
 		vals = []any{v.From, v.To}
 	}
 	for _, x := range vals {
 		switch o := old.(type) {
 		case string:
-			d := dimOf(o)
+			d := DimOf(o)
 			xs, ok := x.(string)
 			if d == 0 {
 				if !ok {
@@ -97,7 +97,7 @@ func checkKind(old any, v Vary) error {
 			switch x.(type) {
 			case int64, float64:
 			default:
-				return fmt.Errorf("%s is a plain number (the case has %s), not %s", v.Key, written(o), kindOf(x))
+				return fmt.Errorf("%s is a plain number (the case has %s), not %s", v.Key, Written(o), kindOf(x))
 			}
 		case bool:
 			if _, ok := x.(bool); !ok {
@@ -109,24 +109,24 @@ func checkKind(old any, v Vary) error {
 }
 
 // cloneTree deep-copies a decoded TOML value.
-func cloneTree(v any) any {
+func CloneTree(v any) any {
 	switch x := v.(type) {
 	case map[string]any:
 		m := make(map[string]any, len(x))
 		for k, e := range x {
-			m[k] = cloneTree(e)
+			m[k] = CloneTree(e)
 		}
 		return m
 	case []map[string]any:
 		out := make([]map[string]any, len(x))
 		for i, e := range x {
-			out[i] = cloneTree(e).(map[string]any)
+			out[i] = CloneTree(e).(map[string]any)
 		}
 		return out
 	case []any:
 		out := make([]any, len(x))
 		for i, e := range x {
-			out[i] = cloneTree(e)
+			out[i] = CloneTree(e)
 		}
 		return out
 	}
@@ -134,7 +134,7 @@ func cloneTree(v any) any {
 }
 
 // setPath sets the value at a path found by resolveKey.
-func setPath(t map[string]any, path []string, v any) {
+func SetPath(t map[string]any, path []string, v any) {
 	var cur any = t
 	for i, p := range path {
 		last := i == len(path)-1
@@ -169,7 +169,7 @@ func setPath(t map[string]any, path []string, v any) {
 // array (vary one of their keys or elements instead). Elements of arrays of
 // tables with a name key (layers) are found by name first, then by index.
 // The error says what is missing and suggests the nearest existing key.
-func resolveKey(doc map[string]any, key string) (path []string, exists bool, err error) {
+func ResolveKey(doc map[string]any, key string) (path []string, exists bool, err error) {
 	if key == "" {
 		return nil, false, fmt.Errorf("the key path is empty")
 	}
@@ -222,7 +222,7 @@ func resolveKey(doc map[string]any, key string) (path []string, exists bool, err
 func missingKey(m map[string]any, parts []string, i int) error {
 	p := parts[i]
 	if i == 0 {
-		if contains(topKeys, p) {
+		if Contains(topKeys, p) {
 			return fmt.Errorf("the case has no [%s]: add it to the case to vary its keys", p)
 		}
 		if g := Suggest(p, topKeys); g != "" {
@@ -241,12 +241,12 @@ func missingKey(m map[string]any, parts []string, i int) error {
 		return fmt.Errorf("%s", msg)
 	}
 	if where == "schedules" {
-		return fmt.Errorf("the case has no [schedules.%s]%s", p, didYouMeanKey(p, sortedKeys(m)))
+		return fmt.Errorf("the case has no [schedules.%s]%s", p, DidYouMeanKey(p, sortedKeys(m)))
 	}
-	return fmt.Errorf("%s has no %q%s (it has: %s)", where, p, didYouMeanKey(p, sortedKeys(m)), strings.Join(sortedKeys(m), ", "))
+	return fmt.Errorf("%s has no %q%s (it has: %s)", where, p, DidYouMeanKey(p, sortedKeys(m)), strings.Join(sortedKeys(m), ", "))
 }
 
-func didYouMeanKey(got string, valid []string) string {
+func DidYouMeanKey(got string, valid []string) string {
 	if g := Suggest(got, valid); g != "" {
 		return fmt.Sprintf("; did you mean %q?", g)
 	}
@@ -273,7 +273,7 @@ func element(a any, p string) (int, string) {
 		return k, ""
 	}
 	if len(names) > 0 {
-		return -1, fmt.Sprintf("no element named %q%s (names: %s)", p, didYouMeanKey(p, names), strings.Join(names, ", "))
+		return -1, fmt.Sprintf("no element named %q%s (names: %s)", p, DidYouMeanKey(p, names), strings.Join(names, ", "))
 	}
 	return -1, fmt.Sprintf("no element %q: it has %d (indices 0 to %d)", p, n, n-1)
 }
@@ -301,7 +301,7 @@ func index(a any, i int) any {
 // listValue checks one element of a values list and returns it as shown in
 // summary.csv and as it goes into the case: a string is normalised by
 // normalizeQuantity, a number is written in its shortest form.
-func listValue(x any) (shown string, value any, err error) {
+func ListValue(x any) (shown string, value any, err error) {
 	switch v := x.(type) {
 	case string:
 		s := normalizeQuantity(strings.TrimSpace(v))
@@ -327,12 +327,12 @@ func listValue(x any) (shown string, value any, err error) {
 // is a valid quantity of some dimension; any other string is returned as it
 // is (a schedule name such as "2nd-oven" stays whole).
 func normalizeQuantity(s string) string {
-	num, unit := splitNumber(s)
+	num, unit := SplitNumber(s)
 	if num == "" || unit == "" || unit[0] == ' ' || unit[0] == '\t' {
 		return s
 	}
 	spaced := num + " " + unit
-	if dimOf(spaced) == 0 {
+	if DimOf(spaced) == 0 {
 		return s
 	}
 	return spaced
@@ -340,7 +340,7 @@ func normalizeQuantity(s string) string {
 
 // splitNumber splits s into the decimal number at its start (sign, digits,
 // point, exponent) and the rest; num is "" when s does not start with one.
-func splitNumber(s string) (num, rest string) {
+func SplitNumber(s string) (num, rest string) {
 	i := 0
 	if i < len(s) && (s[i] == '+' || s[i] == '-') {
 		i++
@@ -376,7 +376,7 @@ func splitNumber(s string) (num, rest string) {
 
 // dimOf returns the first dimension, in the order of package units, that s
 // reads as, or 0 when it reads as none.
-func dimOf(s string) units.Dim {
+func DimOf(s string) units.Dim {
 	for d := units.Length; d <= units.PowerDensity; d++ {
 		if _, err := units.Parse(s, d); err == nil {
 			return d
@@ -387,11 +387,11 @@ func dimOf(s string) units.Dim {
 
 // span is a resolved range of a sweep: both ends in the unit of From (or
 // plain numbers), so that a value between them is written in that unit.
-type span struct {
-	from, to float64 // in unit (plain numbers when unit is "")
-	unit     string  // the unit of From as written, "" for plain numbers
+type Span struct {
+	From, To float64 // in unit (plain numbers when unit is "")
+	Unit     string  // the unit of From as written, "" for plain numbers
 	integer  bool    // both ends are whole numbers without unit: values are rounded to int64
-	decimals int     // decimals written: 9 significant digits of the larger end
+	Decimals int     // decimals written: 9 significant digits of the larger end
 }
 
 // newSpan resolves the ends of a range: both quantities of one dimension
@@ -401,25 +401,25 @@ type span struct {
 // To in the unit u of From is (To_SI − off)/scale with off = "0 u" and
 // scale = "1 u" − off in SI, which is exact for the affine temperature
 // scales too, so interpolating in u is interpolating linearly in SI.
-func newSpan(from, to any) (span, error) {
-	var sp span
+func NewSpan(from, to any) (Span, error) {
+	var sp Span
 	switch f := from.(type) {
 	case int64, float64:
-		a, okA := plainNumber(f)
-		b, okB := plainNumber(to)
+		a, okA := PlainNumber(f)
+		b, okB := PlainNumber(to)
 		if !okA || !okB {
-			return sp, fmt.Errorf("from = %s and to = %s must both be plain numbers, or both quantities with units", written(from), written(to))
+			return sp, fmt.Errorf("from = %s and to = %s must both be plain numbers, or both quantities with units", Written(from), Written(to))
 		}
 		_, intA := from.(int64)
 		_, intB := to.(int64)
-		sp = span{from: a, to: b, integer: intA && intB}
+		sp = Span{From: a, To: b, integer: intA && intB}
 	case string:
 		t, ok := to.(string)
 		if !ok {
-			return sp, fmt.Errorf("from = %s and to = %s must both be quantities with units, or both plain numbers", written(from), written(to))
+			return sp, fmt.Errorf("from = %s and to = %s must both be quantities with units, or both plain numbers", Written(from), Written(to))
 		}
 		f, t = strings.TrimSpace(f), strings.TrimSpace(t)
-		num, unit := splitNumber(f)
+		num, unit := SplitNumber(f)
 		unit = strings.TrimSpace(unit)
 		if num == "" || unit == "" {
 			return sp, fmt.Errorf("from = %q is not a number with a unit, such as \"1 C/min\"", f)
@@ -439,7 +439,7 @@ func newSpan(from, to any) (span, error) {
 			}
 		}
 		if d > units.PowerDensity {
-			if fd := dimOf(f); fd != 0 {
+			if fd := DimOf(f); fd != 0 {
 				return sp, fmt.Errorf("to = %q is not %s like from = %q", t, article(fd), f)
 			}
 			return sp, fmt.Errorf("from = %q is not a quantity with a known unit", f)
@@ -449,22 +449,22 @@ func newSpan(from, to any) (span, error) {
 		if err0 != nil || err1 != nil || one == off {
 			return sp, fmt.Errorf("from = %q: cannot convert to its unit %q", f, unit)
 		}
-		sp = span{from: a, to: (bSI - off) / (one - off), unit: unit}
+		sp = Span{From: a, To: (bSI - off) / (one - off), Unit: unit}
 	default:
 		return sp, fmt.Errorf("from must be a quantity with its unit or a plain number, got %s", kindOf(from))
 	}
-	if math.IsNaN(sp.to) || math.IsInf(sp.to, 0) || math.IsNaN(sp.from) || math.IsInf(sp.from, 0) {
+	if math.IsNaN(sp.To) || math.IsInf(sp.To, 0) || math.IsNaN(sp.From) || math.IsInf(sp.From, 0) {
 		return sp, fmt.Errorf("the ends of the range must be finite")
 	}
-	if sp.from == sp.to {
-		return sp, fmt.Errorf("from and to are equal (%s): give a list of one value instead", written(from))
+	if sp.From == sp.To {
+		return sp, fmt.Errorf("from and to are equal (%s): give a list of one value instead", Written(from))
 	}
-	big := max(math.Abs(sp.from), math.Abs(sp.to))
-	sp.decimals = max(0, min(20, 8-int(math.Floor(math.Log10(big)))))
+	big := max(math.Abs(sp.From), math.Abs(sp.To))
+	sp.Decimals = max(0, min(20, 8-int(math.Floor(math.Log10(big)))))
 	return sp, nil
 }
 
-func plainNumber(x any) (float64, bool) {
+func PlainNumber(x any) (float64, bool) {
 	switch v := x.(type) {
 	case int64:
 		return float64(v), true
@@ -482,27 +482,27 @@ func plainNumber(x any) (float64, bool) {
 // rounded to 9 significant digits of the larger end (so 0.1 + 0.2 is shown
 // as 0.3 and the run uses exactly the value shown), or to a whole number
 // when both ends are integers.
-func (sp span) at(f float64) (shown string, value any) {
-	v := sp.from + (sp.to-sp.from)*f
+func (sp Span) At(f float64) (shown string, value any) {
+	v := sp.From + (sp.To-sp.From)*f
 	if f == 1 {
-		v = sp.to
+		v = sp.To
 	}
 	if sp.integer {
 		n := int64(math.Round(v))
 		return strconv.FormatInt(n, 10), n
 	}
-	s := strconv.FormatFloat(v, 'f', sp.decimals, 64)
+	s := strconv.FormatFloat(v, 'f', sp.Decimals, 64)
 	if strings.Contains(s, ".") {
 		s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
 	}
 	if s == "-0" {
 		s = "0"
 	}
-	if sp.unit == "" {
+	if sp.Unit == "" {
 		x, _ := strconv.ParseFloat(s, 64)
 		return s, x
 	}
-	s += " " + sp.unit
+	s += " " + sp.Unit
 	return s, s
 }
 
@@ -510,7 +510,7 @@ func (sp span) at(f float64) (shown string, value any) {
 // true/false are booleans, an integer or a decimal number is a number,
 // anything else is a string (a quantity with its unit, normalised, or a
 // name).
-func scalarText(s string) any {
+func ScalarText(s string) any {
 	s = strings.TrimSpace(s)
 	switch s {
 	case "true":
@@ -518,7 +518,7 @@ func scalarText(s string) any {
 	case "false":
 		return false
 	}
-	if num, rest := splitNumber(s); num != "" && rest == "" {
+	if num, rest := SplitNumber(s); num != "" && rest == "" {
 		if n, err := strconv.ParseInt(num, 10, 64); err == nil {
 			return n
 		}
@@ -532,13 +532,13 @@ func scalarText(s string) any {
 // caseVariant is a case file whose decoded values can be replaced before the
 // normal loader validates it again, as a sweep run does: positions in
 // messages still come from the text.
-type caseVariant struct {
-	name, text, dir string
-	doc             map[string]any // only read
+type CaseVariant struct {
+	Name, Text, dir string
+	Doc             map[string]any // only read
 }
 
 // newCaseVariant decodes the case text data; the case itself must be valid.
-func newCaseVariant(name string, data []byte, dir string) (*caseVariant, *Case, error) {
+func NewCaseVariant(name string, data []byte, dir string) (*CaseVariant, *Case, error) {
 	text := string(data)
 	var doc map[string]any
 	if _, err := toml.Decode(text, &doc); err != nil {
@@ -548,26 +548,26 @@ func newCaseVariant(name string, data []byte, dir string) (*caseVariant, *Case, 
 	if err != nil {
 		return nil, nil, err
 	}
-	return &caseVariant{name: name, text: text, dir: dir, doc: doc}, c, nil
+	return &CaseVariant{Name: name, Text: text, dir: dir, Doc: doc}, c, nil
 }
 
 // valueSetting is one replaced value: a path found by resolveKey and the value.
-type valueSetting struct {
-	path  []string
-	value any
+type ValueSetting struct {
+	Path  []string
+	Value any
 }
 
 // tree returns a deep copy of the decoded case with sets applied in order;
 // a valueSetting of time.end creates [time] when the case has none.
-func (v *caseVariant) tree(sets []valueSetting) map[string]any {
-	t := cloneTree(v.doc).(map[string]any)
+func (v *CaseVariant) Tree(sets []ValueSetting) map[string]any {
+	t := CloneTree(v.Doc).(map[string]any)
 	for _, s := range sets {
-		if len(s.path) == 2 && s.path[0] == "time" {
+		if len(s.Path) == 2 && s.Path[0] == "time" {
 			if _, ok := t["time"].(map[string]any); !ok {
 				t["time"] = map[string]any{}
 			}
 		}
-		setPath(t, s.path, s.value)
+		SetPath(t, s.Path, s.Value)
 	}
 	return t
 }
@@ -575,15 +575,15 @@ func (v *caseVariant) tree(sets []valueSetting) map[string]any {
 // parse validates the tree t (from tree). A probe of [output] that the
 // values put below the stack (a thinner layer) is dropped rather than
 // failing the case, as in a sweep run: probes do not enter the summary.
-func (v *caseVariant) parse(t map[string]any) (*Case, error) {
-	return parseDroppingProbes(v.name, v.text, v.dir, t, func(string) bool { return false })
+func (v *CaseVariant) Parse(t map[string]any) (*Case, error) {
+	return parseDroppingProbes(v.Name, v.Text, v.dir, t, func(string) bool { return false })
 }
 
 // sweepSection returns the [sweep] section of the case (empty when it has
 // none). The case was validated by newCaseVariant, so it has no errors.
-func (v *caseVariant) sweepSection() *sweepSpec {
-	l := &loader{file: v.name, dir: v.dir, loc: newLocator(v.text)}
-	if spec := l.sweepSection(&table{m: v.doc}); spec != nil {
+func (v *CaseVariant) SweepSection() *sweepSpec {
+	l := &loader{file: v.Name, dir: v.dir, loc: newLocator(v.Text)}
+	if spec := l.sweepSection(&table{m: v.Doc}); spec != nil {
 		return spec
 	}
 	return &sweepSpec{}
@@ -591,19 +591,19 @@ func (v *caseVariant) sweepSection() *sweepSpec {
 
 // errorAt returns an error of the given kind positioned at the value of the
 // key path key in the case file.
-func (v *caseVariant) errorAt(key string, kind error, msg string) error {
-	p := newLocator(v.text).value(key)
-	return ErrorList{{File: v.name, Line: p.Line, Col: p.Col, Key: key, Err: &detail{kind: kind, msg: msg}}}
+func (v *CaseVariant) ErrorAt(key string, kind error, msg string) error {
+	p := newLocator(v.Text).value(key)
+	return ErrorList{{File: v.Name, Line: p.Line, Col: p.Col, Key: key, Err: &Detail{Kind: kind, Msg: msg}}}
 }
 
 // validate checks the tree t (from tree) like a case file.
-func (v *caseVariant) validate(t map[string]any) error {
-	_, err := parseTree(v.name, v.text, t, v.dir)
+func (v *CaseVariant) Validate(t map[string]any) error {
+	_, err := parseTree(v.Name, v.Text, t, v.dir)
 	return err
 }
 
 // parseKeeping validates the tree t like parse, but a probe below the stack
 // fails the case when keep(its key path) says so (see parseDroppingProbes).
-func (v *caseVariant) parseKeeping(t map[string]any, keep func(path string) bool) (*Case, error) {
-	return parseDroppingProbes(v.name, v.text, v.dir, t, keep)
+func (v *CaseVariant) ParseKeeping(t map[string]any, keep func(path string) bool) (*Case, error) {
+	return parseDroppingProbes(v.Name, v.Text, v.dir, t, keep)
 }

@@ -27,7 +27,7 @@ var unsupported = map[string]string{}
 func Load(path string) (*Case, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {
-		return nil, ErrorList{{File: path, Err: &detail{kind: ErrFile, cause: err, msg: fmt.Sprintf("cannot read the case file: %v", err)}}}
+		return nil, ErrorList{{File: path, Err: &Detail{Kind: ErrFile, Cause: err, Msg: fmt.Sprintf("cannot read the case file: %v", err)}}}
 	}
 	return Parse(path, data, filepath.Dir(path))
 }
@@ -126,7 +126,7 @@ func (l *loader) build(doc map[string]any) *Case {
 		total = 0 // unknown: do not judge probe depths against it
 	}
 	p.Probes = l.probes(root, total)
-	if vol != nil && vol.vol.Control != nil && sensorProbe(p.Probes, vol.vol.Control.Sensor) < 0 {
+	if vol != nil && vol.vol.Control != nil && SensorProbe(p.Probes, vol.vol.Control.Sensor) < 0 {
 		p.Probes = append(p.Probes, vol.vol.Control.Sensor) // probes.csv records the controlled temperature
 	}
 	c.Probes = p.Probes
@@ -215,7 +215,7 @@ func (l *loader) checkStart(layers []layerDef, defs map[string]*physics.Material
 func syntaxError(name, text string, err error) *Error {
 	var pe toml.ParseError
 	if !errors.As(err, &pe) {
-		return &Error{File: name, Err: &detail{kind: ErrSyntax, cause: err, msg: err.Error()}}
+		return &Error{File: name, Err: &Detail{Kind: ErrSyntax, Cause: err, Msg: err.Error()}}
 	}
 	if pe.Position.Line < 1 {
 		// The TOML library reports some lexer errors (a newline inside a
@@ -226,7 +226,7 @@ func syntaxError(name, text string, err error) *Error {
 		pe.Position.Col = 1 + off - (strings.LastIndexByte(text[:off], '\n') + 1)
 	}
 	e := &Error{File: name, Line: pe.Position.Line, Col: pe.Position.Col, Key: lastKeyBefore(text, pe.Position.Line, pe.Position.Col),
-		Err: &detail{kind: ErrSyntax, cause: err, msg: pe.Message}}
+		Err: &Detail{Kind: ErrSyntax, Cause: err, Msg: pe.Message}}
 	if e.Key == "" {
 		e.Key = pe.LastKey
 	}

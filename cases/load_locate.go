@@ -268,9 +268,9 @@ func (s *scanner) keyParts() ([]string, pos) {
 		switch c := s.src[s.i]; {
 		case c == '"' || c == '\'':
 			parts = append(parts, s.quotedKey())
-		case isBare(c):
+		case IsBare(c):
 			j := s.i
-			for j < len(s.src) && isBare(s.src[j]) {
+			for j < len(s.src) && IsBare(s.src[j]) {
 				j++
 			}
 			parts = append(parts, s.src[s.i:j])
@@ -287,7 +287,7 @@ func (s *scanner) keyParts() ([]string, pos) {
 	return parts, p
 }
 
-func isBare(c byte) bool {
+func IsBare(c byte) bool {
 	return c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' || c == '_' || c == '-'
 }
 

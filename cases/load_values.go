@@ -25,7 +25,7 @@ type loader struct {
 
 // add records an error at p for key path key.
 func (l *loader) add(p pos, key string, kind, cause error, msg string) *Error {
-	e := &Error{File: l.file, Line: p.Line, Col: p.Col, Key: key, Err: &detail{kind: kind, cause: cause, msg: msg}}
+	e := &Error{File: l.file, Line: p.Line, Col: p.Col, Key: key, Err: &Detail{Kind: kind, Cause: cause, Msg: msg}}
 	l.errs = append(l.errs, e)
 	return e
 }
@@ -84,7 +84,7 @@ func (l *loader) open(path string, v any, valid []string, note func(key string) 
 	}
 	t := &table{path: path, m: m}
 	for _, k := range sortedKeys(m) {
-		if contains(valid, k) {
+		if Contains(valid, k) {
 			continue
 		}
 		kp := t.keyPath(k)
@@ -287,11 +287,11 @@ func (l *loader) arrayAt(path string, v any) ([]any, bool) {
 // rangeErr records a range error at the value of key path path; v is the
 // value as written.
 func (l *loader) rangeErr(path string, v any, format string, args ...any) *Error {
-	return l.atValue(path, ErrRange, "%s, got %s", fmt.Sprintf(format, args...), written(v))
+	return l.atValue(path, ErrRange, "%s, got %s", fmt.Sprintf(format, args...), Written(v))
 }
 
 // written formats a TOML value as the user wrote it.
-func written(v any) string {
+func Written(v any) string {
 	switch x := v.(type) {
 	case string:
 		return strconv.Quote(x)
@@ -331,7 +331,7 @@ func sortedKeys(m map[string]any) []string {
 	return keys
 }
 
-func contains(list []string, s string) bool {
+func Contains(list []string, s string) bool {
 	for _, x := range list {
 		if x == s {
 			return true
@@ -353,7 +353,7 @@ func isIndex(s string) bool {
 }
 
 // celsius formats an absolute temperature in K for a message.
-func celsius(T float64) string { return strconv.FormatFloat(T-273.15, 'g', 6, 64) + " C" }
+func Celsius(T float64) string { return strconv.FormatFloat(T-273.15, 'g', 6, 64) + " C" }
 
 // article returns the dimension word of d with its article: "a length",
 // "an energy per mass".

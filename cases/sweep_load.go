@@ -13,9 +13,9 @@ const (
 // Limits on the size of a sweep, so that a typo cannot ask for memory the
 // machine does not have.
 const (
-	maxGridRuns  = 10_000_000
-	maxLHSRuns   = 1_000_000
-	maxSweepKeys = 64
+	MaxGridRuns  = 10_000_000
+	MaxLHSRuns   = 1_000_000
+	MaxSweepKeys = 64
 )
 
 var (
@@ -39,15 +39,15 @@ type Vary struct {
 }
 
 // isRange reports whether v is a range (From/To) rather than a list.
-func (v Vary) isRange() bool { return v.From != nil || v.To != nil }
+func (v Vary) IsRange() bool { return v.From != nil || v.To != nil }
 
 // sweepSpec is the [sweep] section of a case as read by the loader.
 type sweepSpec struct {
-	mode    string // "" when not given (grid)
-	samples int    // 0 when not given
-	seed    uint64
-	hasSeed bool
-	vary    []Vary
+	Mode    string // "" when not given (grid)
+	Samples int    // 0 when not given
+	Seed    uint64
+	HasSeed bool
+	Vary    []Vary
 }
 
 // sweepSection reads and checks [sweep] (SPEC §6): mode, samples, seed and
@@ -69,18 +69,18 @@ func (l *loader) sweepSection(root *table) *sweepSpec {
 				e.Hint = fmt.Sprintf("did you mean mode = %q?", g)
 			}
 		}
-		s.mode = m
+		s.Mode = m
 	}
-	lhs := s.mode == ModeLatinHypercube
+	lhs := s.Mode == ModeLatinHypercube
 	if n, ok := l.integer(t, "samples"); ok {
 		switch {
 		case !lhs:
 			l.atKey(t.keyPath("samples"), ErrRange, "samples goes with mode = %q only", ModeLatinHypercube).Hint =
 				"a grid runs every combination of the values; remove samples, or set mode = \"latin-hypercube\""
-		case n < 1 || n > maxLHSRuns:
-			l.rangeErr(t.keyPath("samples"), n, "samples must be between 1 and %d", maxLHSRuns)
+		case n < 1 || n > MaxLHSRuns:
+			l.rangeErr(t.keyPath("samples"), n, "samples must be between 1 and %d", MaxLHSRuns)
 		default:
-			s.samples = int(n)
+			s.Samples = int(n)
 		}
 	} else if lhs && !t.has("samples") {
 		l.add(l.loc.table(t.path), t.keyPath("samples"), ErrMissing, nil,
@@ -94,7 +94,7 @@ func (l *loader) sweepSection(root *table) *sweepSpec {
 		case n < 0:
 			l.rangeErr(t.keyPath("seed"), n, "seed must not be negative")
 		default:
-			s.seed, s.hasSeed = uint64(n), true
+			s.Seed, s.HasSeed = uint64(n), true
 		}
 	}
 	if !t.has("vary") {
@@ -112,11 +112,11 @@ func (l *loader) sweepSection(root *table) *sweepSpec {
 			continue
 		}
 		if v, ok := l.varyTable(vt, root, lhs, seen); ok {
-			s.vary = append(s.vary, v)
+			s.Vary = append(s.Vary, v)
 		}
 	}
-	if len(s.vary) > maxSweepKeys {
-		l.atValue("sweep.vary", ErrRange, "at most %d keys can be varied, got %d", maxSweepKeys, len(s.vary))
+	if len(s.Vary) > MaxSweepKeys {
+		l.atValue("sweep.vary", ErrRange, "at most %d keys can be varied, got %d", MaxSweepKeys, len(s.Vary))
 	}
 	return s
 }
@@ -133,7 +133,7 @@ func (l *loader) varyTable(t *table, root *table, lhs bool, seen map[string]stri
 		return v, false
 	}
 	v.Key = key
-	if _, _, err := resolveKey(root.m, key); err != nil {
+	if _, _, err := ResolveKey(root.m, key); err != nil {
 		l.atValue(t.keyPath("key"), ErrReference, "%s", err)
 	} else if prev, dup := seen[key]; dup {
 		l.atValue(t.keyPath("key"), ErrDuplicate, "%q is already varied (line %d)", key, l.loc.value(prev).Line)
@@ -158,7 +158,7 @@ func (l *loader) varyTable(t *table, root *table, lhs bool, seen map[string]stri
 		shown := make(map[string]int)
 		for i, x := range vals {
 			p := fmt.Sprintf("%s.%d", t.keyPath("values"), i)
-			s, _, err := listValue(x)
+			s, _, err := ListValue(x)
 			if err != nil {
 				l.atValue(p, ErrType, "%s", err)
 				continue
@@ -175,14 +175,14 @@ func (l *loader) varyTable(t *table, root *table, lhs bool, seen map[string]stri
 			break
 		}
 		v.From, v.To = t.m["from"], t.m["to"]
-		if _, err := newSpan(v.From, v.To); err != nil {
+		if _, err := NewSpan(v.From, v.To); err != nil {
 			l.atValue(t.keyPath("to"), ErrUnit, "%s", err)
 		}
 		if n, ok := l.integer(t, "count"); ok {
-			if n < 2 || n > maxGridRuns {
-				l.rangeErr(t.keyPath("count"), n, "count must be between 2 and %d (both ends are included)", maxGridRuns)
+			if n < 2 || n > MaxGridRuns {
+				l.rangeErr(t.keyPath("count"), n, "count must be between 2 and %d (both ends are included)", MaxGridRuns)
 			}
-			v.Count = int(min(max(n, 0), maxGridRuns))
+			v.Count = int(min(max(n, 0), MaxGridRuns))
 		} else if !lhs && !t.has("count") {
 			l.add(l.loc.table(t.path), t.keyPath("count"), ErrMissing, nil,
 				"missing: a range in a grid needs count (the number of values, both ends included)").Hint =

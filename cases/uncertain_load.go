@@ -52,7 +52,7 @@ type UncertainInput struct {
 	Distribution string  // DistUniform or DistNormal
 	Abs, Rel     float64 // half-width: Abs in SI (Rel = 0), or Rel as a fraction (Abs = 0)
 
-	path []string // resolved path in the decoded case (layer names become indices)
+	Path []string // resolved path in the decoded case (layer names become indices)
 }
 
 // uncertaintySection reads and checks [uncertainty] (SPEC §11) of the
@@ -120,7 +120,7 @@ func (l *loader) uncertaintySection(root *table) *Uncertainty {
 				}
 				spread = s
 				if d, ok := l.str(t, "distribution"); ok {
-					if !contains(distributions, d) {
+					if !Contains(distributions, d) {
 						e := l.rangeErr(t.keyPath("distribution"), d, "distribution must be %q or %q", DistUniform, DistNormal)
 						if g := Suggest(d, distributions); g != "" {
 							e.Hint = fmt.Sprintf("did you mean distribution = %q?", g)
@@ -140,7 +140,7 @@ func (l *loader) uncertaintySection(root *table) *Uncertainty {
 			if !ok {
 				continue
 			}
-			p := strings.Join(in.path, ".")
+			p := strings.Join(in.Path, ".")
 			if prev, dup := seen[p]; dup {
 				l.atKey("uncertainty."+key, ErrDuplicate, "%q is the same value as %q, which is already uncertain", key, prev)
 				continue
@@ -172,15 +172,15 @@ const uncertaintyHint = "for example:\n[uncertainty]\n\"top.h\" = \"±20 %\"\n\"
 // written at the loader key path lp.
 func (l *loader) uncertainInput(root *table, key, lp, spread, dist string) (UncertainInput, bool) {
 	in := UncertainInput{Key: key, Spread: spread, Distribution: dist}
-	path, exists, err := resolveKey(root.m, key)
+	path, exists, err := ResolveKey(root.m, key)
 	if err != nil {
 		l.atKey("uncertainty."+key, ErrReference, "%v", err)
 		return in, false
 	}
 	if !exists {
 		hint := ""
-		if m, ok := leaf(root.m, path[:len(path)-1]).(map[string]any); ok {
-			hint = didYouMeanKey(path[len(path)-1], sortedKeys(m))
+		if m, ok := Leaf(root.m, path[:len(path)-1]).(map[string]any); ok {
+			hint = DidYouMeanKey(path[len(path)-1], sortedKeys(m))
 		}
 		l.atKey("uncertainty."+key, ErrReference, "the case has no value at %s to be uncertain%s", key, hint).Hint =
 			"only a value written in the case can be uncertain: set it in the case first"
@@ -190,10 +190,10 @@ func (l *loader) uncertainInput(root *table, key, lp, spread, dist string) (Unce
 		l.atKey("uncertainty."+key, ErrType, "%s is a number of cells, which cannot be uncertain", key)
 		return in, false
 	}
-	in.path = path
-	switch old := leaf(root.m, path).(type) {
+	in.Path = path
+	switch old := Leaf(root.m, path).(type) {
 	case string:
-		d := dimOf(old)
+		d := DimOf(old)
 		if d == 0 {
 			l.atKey("uncertainty."+key, ErrType, "%s is %q, not a quantity with a unit: only numbers and quantities can be uncertain", key, old)
 			return in, false
@@ -207,7 +207,7 @@ func (l *loader) uncertainInput(root *table, key, lp, spread, dist string) (Unce
 	case int64, float64:
 		abs, rel, err := uncPlainSpread(spread)
 		if err != nil {
-			l.atValue(lp, ErrUnit, "%q %v (%s is the plain number %s)", spread, err, key, written(old))
+			l.atValue(lp, ErrUnit, "%q %v (%s is the plain number %s)", spread, err, key, Written(old))
 			return in, false
 		}
 		in.Abs, in.Rel = abs, rel
@@ -235,7 +235,7 @@ func uncPlainSpread(s string) (abs, rel float64, err error) {
 	num, pct := strings.CutSuffix(rest, "%")
 	num = strings.TrimFunc(num, unicode.IsSpace)
 	x, perr := strconv.ParseFloat(num, 64)
-	if n, r := splitNumber(num); perr != nil || n == "" || r != "" || math.IsInf(x, 0) {
+	if n, r := SplitNumber(num); perr != nil || n == "" || r != "" || math.IsInf(x, 0) {
 		return 0, 0, errors.New(`needs a plain number after "±"; write it like "±0.05" or "±20 %"`)
 	}
 	if x < 0 {
@@ -249,7 +249,7 @@ func uncPlainSpread(s string) (abs, rel float64, err error) {
 
 // readUncertainty returns the [uncertainty] of the case text (decoded as
 // doc), nil when it has none, or the errors of that section.
-func readUncertainty(name, text string, doc map[string]any) (*Uncertainty, error) {
+func ReadUncertainty(name, text string, doc map[string]any) (*Uncertainty, error) {
 	l := &loader{file: name, loc: newLocator(text)}
 	u := l.uncertaintySection(&table{m: doc})
 	if err := l.errs.sortFor(name).Err(); err != nil {
@@ -283,10 +283,10 @@ func (in *UncertainInput) offset(u, w float64) float64 {
 // quantity keeps the unit it is written in (the change is made in SI and
 // converted back exactly, also for the affine temperature scales); a plain
 // number stays a number. A zero half-width returns cur unchanged.
-func (in *UncertainInput) perturb(cur any, u float64) (shown string, value any, err error) {
+func (in *UncertainInput) Perturb(cur any, u float64) (shown string, value any, err error) {
 	switch x := cur.(type) {
 	case string:
-		d := dimOf(x)
+		d := DimOf(x)
 		if d == 0 {
 			return "", nil, fmt.Errorf("%s is %q, not a quantity", in.Key, x)
 		}
@@ -298,7 +298,7 @@ func (in *UncertainInput) perturb(cur any, u float64) (shown string, value any, 
 		if w == 0 {
 			return x, x, nil
 		}
-		_, unit := splitNumber(strings.TrimSpace(x))
+		_, unit := SplitNumber(strings.TrimSpace(x))
 		unit = strings.TrimSpace(unit)
 		off, err0 := units.Parse("0 "+unit, d)
 		one, err1 := units.Parse("1 "+unit, d)
@@ -309,10 +309,10 @@ func (in *UncertainInput) perturb(cur any, u float64) (shown string, value any, 
 		s := strconv.FormatFloat(y, 'g', 10, 64) + " " + unit
 		return s, s, nil
 	case int64, float64:
-		v, _ := plainNumber(x)
+		v, _ := PlainNumber(x)
 		w := in.halfWidth(v)
 		if w == 0 {
-			return written(x), x, nil
+			return Written(x), x, nil
 		}
 		y, _ := strconv.ParseFloat(strconv.FormatFloat(v+in.offset(u, w), 'g', 10, 64), 64)
 		return strconv.FormatFloat(y, 'g', -1, 64), y, nil
@@ -322,15 +322,15 @@ func (in *UncertainInput) perturb(cur any, u float64) (shown string, value any, 
 
 // sample applies the uncertain inputs of u at the sample point us (one u in
 // [0, 1) per input) to the tree t in place, and returns the values as shown.
-func (u *Uncertainty) sample(t map[string]any, us []float64) ([]string, error) {
+func (u *Uncertainty) Sample(t map[string]any, us []float64) ([]string, error) {
 	shown := make([]string, len(u.Inputs))
 	for k := range u.Inputs {
 		in := &u.Inputs[k]
-		s, val, err := in.perturb(leaf(t, in.path), us[k])
+		s, val, err := in.Perturb(Leaf(t, in.Path), us[k])
 		if err != nil {
 			return nil, err
 		}
-		setPath(t, in.path, val)
+		SetPath(t, in.Path, val)
 		shown[k] = s
 	}
 	return shown, nil

@@ -138,7 +138,7 @@ func (l *loader) property(t *table, key string, d units.Dim) (physics.Property, 
 	for i := 1; i < len(temps); i++ {
 		if !(temps[i] > temps[i-1]) {
 			el := fmt.Sprintf("%s.%d", tt.keyPath("temperature"), i)
-			l.atValue(el, ErrRange, "table temperatures must be strictly increasing: %s does not come after %s", celsius(temps[i]), celsius(temps[i-1]))
+			l.atValue(el, ErrRange, "table temperatures must be strictly increasing: %s does not come after %s", Celsius(temps[i]), Celsius(temps[i-1]))
 			ok = false
 			break
 		}
@@ -188,7 +188,7 @@ func (l *loader) cure(mt *table) *physics.Cure {
 		valid = append(append([]string{}, cureCommonKeys...), keys...)
 		if model == "nth-order" {
 			note = func(k string) string {
-				if contains(nthOrderForeign, k) {
+				if Contains(nthOrderForeign, k) {
 					return fmt.Sprintf("%s belongs to the \"autocatalytic\" model; model \"nth-order\" (k1 (1-a)^n) uses A1, E1 and n", k)
 				}
 				return ""
@@ -201,7 +201,7 @@ func (l *loader) cure(mt *table) *physics.Cure {
 	}
 	before := len(l.errs)
 	l.require(t, "model")
-	if s, ok := l.str(t, "model"); ok && !contains(cureModels, s) {
+	if s, ok := l.str(t, "model"); ok && !Contains(cureModels, s) {
 		msg := fmt.Sprintf("unknown cure model %q", s)
 		if g := Suggest(s, cureModels); g != "" {
 			msg += fmt.Sprintf("; did you mean %q?", g)
@@ -283,7 +283,7 @@ func (l *loader) cure(mt *table) *physics.Cure {
 		dib.Tg0, ok0 = l.quantity(g, "Tg0", units.Temperature)
 		dib.TgFull, ok1 = l.quantity(g, "Tg_full", units.Temperature)
 		if ok0 && ok1 && !(dib.TgFull > dib.Tg0) {
-			l.rangeErr(g.keyPath("Tg_full"), g.m["Tg_full"], "Tg_full must be above Tg0 (%s)", celsius(dib.Tg0))
+			l.rangeErr(g.keyPath("Tg_full"), g.m["Tg_full"], "Tg_full must be above Tg0 (%s)", Celsius(dib.Tg0))
 		}
 		if dib.Lambda, ok = l.number(g, "lambda"); ok && !(dib.Lambda > 0 && dib.Lambda <= 1) {
 			l.rangeErr(g.keyPath("lambda"), dib.Lambda, "lambda must be in (0, 1]")
@@ -372,7 +372,7 @@ func (l *loader) lossFactor(t *table, key string) (float64, *physics.Property, b
 	for i := 1; i < len(temps); i++ {
 		if !(temps[i] > temps[i-1]) {
 			el := fmt.Sprintf("%s.%d", tt.keyPath("temperature"), i)
-			l.atValue(el, ErrRange, "table temperatures must be strictly increasing: %s does not come after %s", celsius(temps[i]), celsius(temps[i-1]))
+			l.atValue(el, ErrRange, "table temperatures must be strictly increasing: %s does not come after %s", Celsius(temps[i]), Celsius(temps[i-1]))
 			return 0, nil, false
 		}
 	}

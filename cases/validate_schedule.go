@@ -35,7 +35,7 @@ var (
 var scheduleHeader = []string{"time_s", "temperature_C"}
 
 // maxFileErrors bounds the errors reported for one schedule file.
-const maxFileErrors = 10
+const MaxFileErrors = 10
 
 // schedules reads every [schedules.X]. A schedule with errors maps to nil,
 // so that faces using it do not also report it as unknown.
@@ -146,14 +146,14 @@ func (l *loader) segments(t *table) (physics.Schedule, bool) {
 				l.rangeErr(st.keyPath("ramp"), st.m["ramp"], "a ramp needs a nonzero rate")
 			case !okRate || !okTo || !known:
 			case to == cur:
-				l.atValue(st.keyPath("to"), ErrRange, "the ramp never gets anywhere: its to equals the temperature it starts from (%s)", celsius(cur))
+				l.atValue(st.keyPath("to"), ErrRange, "the ramp never gets anywhere: its to equals the temperature it starts from (%s)", Celsius(cur))
 			case (to-cur)*rate < 0:
 				dir := "falls"
 				if rate > 0 {
 					dir = "rises"
 				}
 				l.atValue(st.keyPath("ramp"), ErrRange, "the ramp never reaches its to = %s: at %s the temperature %s from %s, away from it",
-					written(st.m["to"]), written(st.m["ramp"]), dir, celsius(cur)).Hint = "the sign of the rate must point toward to (a negative rate cools)"
+					Written(st.m["to"]), Written(st.m["ramp"]), dir, Celsius(cur)).Hint = "the sign of the rate must point toward to (a negative rate cools)"
 			}
 			cur, known = to, okTo
 		case len(st.m) > 0: // only unknown keys, reported by open
@@ -245,9 +245,9 @@ func (l *loader) scheduleFile(key, name string) (physics.Schedule, bool) {
 	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
 	n := 0
 	fail := func(line, col int, cause error, format string, args ...any) {
-		if n < maxFileErrors {
+		if n < MaxFileErrors {
 			l.errs = append(l.errs, &Error{File: full, Line: line, Col: col, Key: key,
-				Err: &detail{kind: ErrFile, cause: cause, msg: fmt.Sprintf(format, args...)}})
+				Err: &Detail{Kind: ErrFile, Cause: cause, Msg: fmt.Sprintf(format, args...)}})
 		}
 		n++
 	}
@@ -309,9 +309,9 @@ func (l *loader) scheduleFile(key, name string) (physics.Schedule, bool) {
 			vals = append(vals, T)
 		}
 	}
-	if n > maxFileErrors {
+	if n > MaxFileErrors {
 		l.errs = append(l.errs, &Error{File: full, Key: key,
-			Err: &detail{kind: ErrFile, msg: fmt.Sprintf("%d more errors in this file not shown", n-maxFileErrors)}})
+			Err: &Detail{Kind: ErrFile, Msg: fmt.Sprintf("%d more errors in this file not shown", n-MaxFileErrors)}})
 	}
 	if n > 0 {
 		return physics.Schedule{}, false
@@ -339,7 +339,7 @@ type faceDef struct {
 func (l *loader) face(root *table, which string, scheds map[string]*physics.Schedule) *faceDef {
 	if !root.has(which) {
 		l.errs = append(l.errs, &Error{File: l.file, Key: which,
-			Err:  &detail{kind: ErrMissing, msg: fmt.Sprintf("missing section [%s]: every face must be described, even an insulated one", which)},
+			Err:  &Detail{Kind: ErrMissing, Msg: fmt.Sprintf("missing section [%s]: every face must be described, even an insulated one", which)},
 			Hint: fmt.Sprintf("add, for example:\n[%s]\nkind = \"insulated\"", which)})
 		return nil
 	}
@@ -350,11 +350,11 @@ func (l *loader) face(root *table, which string, scheds map[string]*physics.Sche
 	if keys, ok := faceKeys[kind]; ok {
 		valid = keys
 		note = func(k string) string {
-			if !contains(allFaceKeys, k) {
+			if !Contains(allFaceKeys, k) {
 				return ""
 			}
 			for _, other := range faceKinds {
-				if contains(faceKeys[other], k) {
+				if Contains(faceKeys[other], k) {
 					a := "a"
 					if kind == "insulated" {
 						a = "an"

@@ -39,7 +39,7 @@ type layerDef struct {
 func (l *loader) layers(root *table, defs map[string]*physics.Material) ([]layerDef, bool) {
 	if !root.has("layer") {
 		l.errs = append(l.errs, &Error{File: l.file, Key: "layer",
-			Err:  &detail{kind: ErrMissing, msg: "the case has no [[layer]]: list the stack top to bottom"},
+			Err:  &Detail{Kind: ErrMissing, Msg: "the case has no [[layer]]: list the stack top to bottom"},
 			Hint: "add, for example:\n[[layer]]\nname = \"potting\"\nmaterial = \"demo-epoxy\"\nthickness = \"10 mm\""})
 		return nil, false
 	}
@@ -193,7 +193,7 @@ func (l *loader) checkCells(layers []layerDef, opt mesh.Options) bool {
 func (l *loader) initial(root *table) (T, cure float64, ok bool) {
 	if !root.has("initial") {
 		l.errs = append(l.errs, &Error{File: l.file, Key: "initial",
-			Err:  &detail{kind: ErrMissing, msg: "missing section [initial] with the initial temperature"},
+			Err:  &Detail{Kind: ErrMissing, Msg: "missing section [initial] with the initial temperature"},
 			Hint: "add, for example:\n[initial]\ntemperature = \"23 C\""})
 		return 0, 0, false
 	}
@@ -251,13 +251,13 @@ func (l *loader) timing(root *table, p *solver.Problem, programEnd, T0 float64) 
 	p.AbortTemperature = solver.DefaultAbortTemperature
 	if a, ok := l.quantity(t, "abort_temperature", units.Temperature); ok {
 		if T0 > 0 && !(a > T0) {
-			l.rangeErr(t.keyPath("abort_temperature"), t.m["abort_temperature"], "abort_temperature must be above the initial temperature (%s)", celsius(T0))
+			l.rangeErr(t.keyPath("abort_temperature"), t.m["abort_temperature"], "abort_temperature must be above the initial temperature (%s)", Celsius(T0))
 		}
 		p.AbortTemperature = a
 	} else if T0 >= p.AbortTemperature {
 		at := "initial.temperature"
 		l.add(l.loc.value(at), at, ErrRange, nil, fmt.Sprintf("the initial temperature %s is at or above the runaway limit %s (the default of time.abort_temperature)",
-			celsius(T0), celsius(p.AbortTemperature))).Hint = "set [time] abort_temperature above the initial temperature, for example abort_temperature = \"500 C\""
+			Celsius(T0), Celsius(p.AbortTemperature))).Hint = "set [time] abort_temperature above the initial temperature, for example abort_temperature = \"500 C\""
 	}
 	if !hasEnd {
 		return 0

@@ -270,7 +270,7 @@ func formatFrequency(f float64) string {
 // sensorProbe returns the index of the probe at the sensor depth z, or −1.
 // The loader adds the sensor to the probes when no probe is there, so that
 // probes.csv records the controlled temperature.
-func sensorProbe(probes []float64, z float64) int {
+func SensorProbe(probes []float64, z float64) int {
 	for i, d := range probes {
 		if math.Abs(d-z) <= 1e-12*max(1e-3, math.Abs(z)) {
 			return i

@@ -1,15 +1,13 @@
 package cases
 
 import (
-	"encoding/json"
+	"cureslab/physics"
 	"errors"
 	"os"
 	"path/filepath"
 	"reflect"
 	"strings"
 	"testing"
-
-	"cureslab/physics"
 )
 
 // TestGoodVolumetricControlled checks the resolved [volumetric] and
@@ -140,15 +138,6 @@ func TestCheckVolumetric(t *testing.T) {
 			t.Errorf("check output lacks %q:\n%s", want, out)
 		}
 	}
-}
-
-func parseF(t *testing.T, s string) float64 {
-	t.Helper()
-	var f Float
-	if err := json.Unmarshal([]byte(s), &f); err != nil {
-		t.Fatalf("%q: %v", s, err)
-	}
-	return float64(f)
 }
 
 // TestFrequencyNote checks the ISM bands of REFERENCES §8 (ITU Radio

@@ -13,6 +13,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
+	"cureslab/cases/results"
 )
 
 // Exit statuses (SPEC §2).
@@ -27,9 +28,9 @@ const (
 // is the only place that does.
 func exitCode(status string) int {
 	switch status {
-	case cases.StatusOK:
+	case results.StatusOK:
 		return exitOK
-	case cases.StatusCriteriaFailed:
+	case results.StatusCriteriaFailed:
 		return exitCriteria
 	}
 	return exitFailure // runaway, failed, or anything unforeseen

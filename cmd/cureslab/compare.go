@@ -8,6 +8,8 @@ import (
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
+	"cureslab/cases/report"
+	"cureslab/cases/results"
 	"cureslab/solver"
 )
 
@@ -61,7 +63,7 @@ cureslab compare oven.toml microwave.toml -o compare-out`,
 				return max(worst, exitUsage)
 			}
 			fmt.Fprintf(e.stdout, "Comparison of %d cases (outputs in %s)\n", len(rows), *out)
-			cases.PrintComparison(e.stdout, rows)
+			results.PrintComparison(e.stdout, rows)
 			return worst
 		}
 	},
@@ -76,21 +78,21 @@ var errOutputs = errors.New("its outputs could not be written")
 // compareRun runs cs into dir through simulate (the path of 'cureslab run')
 // and writes compare.csv. It returns the comparison and the worst exit
 // status of the runs.
-func compareRun(e *env, cs []*cases.Case, dir string) ([]cases.Compared, int, error) {
+func compareRun(e *env, cs []*cases.Case, dir string) ([]results.Compared, int, error) {
 	worst := exitOK
-	run := func(ctx context.Context, c *cases.Case, sub string) cases.Compared {
+	run := func(ctx context.Context, c *cases.Case, sub string) results.Compared {
 		s, r, code := simulateResult(e, "compare", c, sub)
 		worst = max(worst, code)
 		switch {
 		case code == exitUsage:
-			return cases.Compared{Ran: true, Summary: s, Result: r, Err: errOutputs}
+			return results.Compared{Ran: true, Summary: s, Result: r, Err: errOutputs}
 		case r == nil:
 			// The solver refused to start (simulate reported why).
-			return cases.Compared{Summary: s, Err: errors.New("the run could not start")}
+			return results.Compared{Summary: s, Err: errors.New("the run could not start")}
 		}
-		return cases.Compared{Ran: true, Summary: s, Result: r}
+		return results.Compared{Ran: true, Summary: s, Result: r}
 	}
-	rows, err := cases.Compare(e.ctx, cs, dir, run)
+	rows, err := results.Compare(e.ctx, cs, dir, run)
 	for _, r := range rows {
 		if !r.Ran {
 			worst = max(worst, exitFailure)
@@ -104,7 +106,7 @@ func compareRun(e *env, cs []*cases.Case, dir string) ([]cases.Compared, int, er
 
 // compareReport writes dir/compare.html of the rows that ran, unless the
 // report is off.
-func compareReport(e *env, rows []cases.Compared, dir string) error {
+func compareReport(e *env, rows []results.Compared, dir string) error {
 	if reportOff(e) {
 		return nil
 	}
@@ -119,5 +121,5 @@ func compareReport(e *env, rows []cases.Compared, dir string) error {
 	if len(rs) == 0 {
 		return nil
 	}
-	return cases.WriteCompareReport(dir, names, cs, rs)
+	return report.WriteCompareReport(dir, names, cs, rs)
 }

@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"cureslab/cases"
+	"cureslab/cases/results"
 )
 
 // TestCompareBadCase: one bad case among good ones is bad input (exit 2,
@@ -62,10 +63,10 @@ func TestCompareRuns(t *testing.T) {
 			}
 		}
 	}
-	if s := readSummary(t, filepath.Join("compare-out", "tile-2")); s.Status != cases.StatusCriteriaFailed {
+	if s := readSummary(t, filepath.Join("compare-out", "tile-2")); s.Status != results.StatusCriteriaFailed {
 		t.Errorf("second case status %q", s.Status)
 	}
-	f, err := os.Open(filepath.Join("compare-out", cases.CompareFile))
+	f, err := os.Open(filepath.Join("compare-out", results.CompareFile))
 	if err != nil {
 		t.Fatal(err)
 	}

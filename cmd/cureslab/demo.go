@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
+	"cureslab/cases/results"
 )
 
 var demoCmd = &Command{
@@ -36,7 +37,7 @@ as done. Exit status: 0 every example ran, 2 an output could not be written,
 				return e.usageError("%s", msg)
 			}
 			worst := exitOK
-			ran := map[string]cases.Compared{}
+			ran := map[string]results.Compared{}
 			for i, ex := range cases.Examples() {
 				if e.ctx.Err() != nil {
 					fmt.Fprintf(e.stderr, "cureslab demo: interrupted; %s and the examples after it were not run\n", ex.Name)
@@ -63,11 +64,11 @@ as done. Exit status: 0 every example ran, 2 an output could not be written,
 				if code == exitUsage {
 					continue
 				}
-				cases.PrintSummary(e.stdout, s)
+				results.PrintSummary(e.stdout, s)
 				fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
 				// A failed status without a message: the run never started.
-				started := s.Status != cases.StatusFailed || s.Message != ""
-				ran[ex.Name] = cases.Compared{Name: ex.Name, Case: c, Ran: started, Summary: s, Result: r}
+				started := s.Status != results.StatusFailed || s.Message != ""
+				ran[ex.Name] = results.Compared{Name: ex.Name, Case: c, Ran: started, Summary: s, Result: r}
 			}
 			return max(worst, demoCompare(e, ran, filepath.Join(*out, "compare")))
 		}
@@ -80,8 +81,8 @@ var demoComparison = []string{"thick-potting-oven", "thick-potting-microwave"}
 
 // demoCompare prints the comparison of the demoComparison examples that ran
 // and writes dir/compare.csv. It returns the exit status of a write error.
-func demoCompare(e *env, ran map[string]cases.Compared, dir string) int {
-	var rows []cases.Compared
+func demoCompare(e *env, ran map[string]results.Compared, dir string) int {
+	var rows []results.Compared
 	for _, name := range demoComparison {
 		if r, ok := ran[name]; ok {
 			rows = append(rows, r)
@@ -93,14 +94,14 @@ func demoCompare(e *env, ran map[string]cases.Compared, dir string) int {
 	fmt.Fprintf(e.stdout, "\n== comparison: %s\n", strings.Join(demoComparison, " vs "))
 	err := os.MkdirAll(dir, 0o755)
 	if err == nil {
-		err = cases.WriteComparison(dir, rows)
+		err = results.WriteComparison(dir, rows)
 	}
 	if err != nil {
-		fmt.Fprintf(e.stderr, "cureslab demo: writing %s: %v\n", filepath.Join(dir, cases.CompareFile), err)
+		fmt.Fprintf(e.stderr, "cureslab demo: writing %s: %v\n", filepath.Join(dir, results.CompareFile), err)
 		return exitUsage
 	}
-	cases.PrintComparison(e.stdout, rows)
-	fmt.Fprintf(e.stdout, "table in %s\n", filepath.Join(dir, cases.CompareFile))
+	results.PrintComparison(e.stdout, rows)
+	fmt.Fprintf(e.stdout, "table in %s\n", filepath.Join(dir, results.CompareFile))
 	if err := compareReport(e, rows, dir); err != nil {
 		fmt.Fprintf(e.stderr, "cureslab demo: %v\n", err)
 		return exitUsage

@@ -10,7 +10,8 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"cureslab/cases"
+	"cureslab/cases/dscfile"
+	"cureslab/cases/report"
 	"cureslab/cases/units"
 	"cureslab/physics/dsc"
 )
@@ -96,7 +97,7 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 			var scans []*dsc.Scan
 			var bad []string
 			for _, path := range args {
-				s, err := cases.ReadScan(path)
+				s, err := dscfile.ReadScan(path)
 				if err != nil {
 					bad = append(bad, err.Error())
 					continue
@@ -122,12 +123,12 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 				}
 				return exitUsage
 			}
-			if err := cases.PrintFit(e.stdout, an, *name); err != nil {
+			if err := dscfile.PrintFit(e.stdout, an, *name); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab fit: %v\n", err)
 				return exitUsage
 			}
 			if *plotFile != "" {
-				if err := cases.WriteFitPlot(*plotFile, an, *name); err != nil {
+				if err := report.WriteFitPlot(*plotFile, an, *name); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab fit: %v\n", err)
 					return exitUsage
 				}
@@ -138,12 +139,7 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 				return exitUsage
 			}
 			if *out != "" {
-				block := cases.CureBlock(an, *name)
-				err := cases.WriteFileAtomic(filepath.Dir(*out), filepath.Base(*out), func(w io.Writer) error {
-					_, err := io.WriteString(w, block)
-					return err
-				})
-				if err != nil {
+				if err := dscfile.WriteCureBlock(*out, an, *name); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab fit: %v\n", err)
 					return exitUsage
 				}

@@ -11,6 +11,8 @@ import (
 	"testing"
 
 	"cureslab/cases"
+	"cureslab/cases/report"
+	"cureslab/cases/results"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files in testdata")
@@ -110,7 +112,7 @@ func TestHelpGolden(t *testing.T) {
 func TestExitCode(t *testing.T) {
 	// SPEC §2: 0 ok, 1 a criterion failed, 3 runaway or numerical failure.
 	for status, want := range map[string]int{
-		cases.StatusOK: 0, cases.StatusCriteriaFailed: 1, cases.StatusRunaway: 3, cases.StatusFailed: 3, "": 3,
+		results.StatusOK: 0, results.StatusCriteriaFailed: 1, results.StatusRunaway: 3, results.StatusFailed: 3, "": 3,
 	} {
 		if got := exitCode(status); got != want {
 			t.Errorf("exitCode(%q) = %d, want %d", status, got, want)
@@ -200,13 +202,13 @@ func writeExample(t *testing.T, example, name string) {
 	}
 }
 
-func readSummary(t *testing.T, dir string) cases.Summary {
+func readSummary(t *testing.T, dir string) results.Summary {
 	t.Helper()
 	b, err := os.ReadFile(filepath.Join(dir, "summary.json"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	var s cases.Summary
+	var s results.Summary
 	if err := json.Unmarshal(b, &s); err != nil {
 		t.Fatal(err)
 	}
@@ -251,7 +253,7 @@ func TestRunaway(t *testing.T) {
 		t.Fatalf("exit %d\nstdout:\n%s\nstderr:\n%s", code, out, errs)
 	}
 	s := readSummary(t, "hot")
-	if s.Status != cases.StatusRunaway || s.Message == "" {
+	if s.Status != results.StatusRunaway || s.Message == "" {
 		t.Errorf("summary status %q, message %q", s.Status, s.Message)
 	}
 }
@@ -281,7 +283,7 @@ func TestDemo(t *testing.T) {
 	if code != worst {
 		t.Errorf("demo exit %d, want %d from the runs", code, worst)
 	}
-	if _, err := os.Stat(filepath.Join("tmp", "compare", cases.CompareReportFile)); err != nil {
+	if _, err := os.Stat(filepath.Join("tmp", "compare", report.CompareReportFile)); err != nil {
 		t.Errorf("no comparison report: %v", err)
 	}
 }
@@ -298,7 +300,7 @@ func TestInterrupted(t *testing.T) {
 		t.Errorf("run: exit %d, want 3\nstdout:\n%s\nstderr:\n%s", code, out.String(), errb.String())
 	}
 	// The outputs up to the interruption are kept, and say so.
-	if s := readSummary(t, "cut"); s.Status != cases.StatusFailed || s.Message == "" {
+	if s := readSummary(t, "cut"); s.Status != results.StatusFailed || s.Message == "" {
 		t.Errorf("summary status %q, message %q; want failed with a message", s.Status, s.Message)
 	}
 

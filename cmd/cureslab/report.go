@@ -8,6 +8,9 @@ import (
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
+	"cureslab/cases/report"
+	"cureslab/cases/results"
+	"cureslab/cases/sweep"
 )
 
 var reportCmd = &Command{
@@ -41,31 +44,31 @@ line; nothing is written).`,
 			if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
 				return e.usageError("%s is not a directory (give the output directory of 'cureslab run')", dir)
 			}
-			if _, err := os.Stat(filepath.Join(dir, cases.SweepDefinitionFile)); err == nil {
+			if _, err := os.Stat(filepath.Join(dir, results.SweepDefinitionFile)); err == nil {
 				var crit *cases.Criteria
 				if *casePath != "" {
-					c, err := cases.SweepCaseCriteria(dir, *casePath)
+					c, err := sweep.SweepCaseCriteria(dir, *casePath)
 					if err != nil {
 						fmt.Fprintf(e.stderr, "cureslab report: --case: %v\n", err)
 						return exitUsage
 					}
 					crit = c
 				}
-				if err := cases.WriteSweepReport(dir, "", crit); err != nil {
+				if err := report.WriteSweepReport(dir, "", crit); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
 					return exitUsage
 				}
-				fmt.Fprintf(e.stdout, "wrote %s\n", filepath.Join(dir, cases.SweepReportFile))
+				fmt.Fprintf(e.stdout, "wrote %s\n", filepath.Join(dir, report.SweepReportFile))
 				return exitOK
 			}
 			if *casePath != "" {
-				return e.usageError("--case is for sweep directories; %s holds no %s", dir, cases.SweepDefinitionFile)
+				return e.usageError("--case is for sweep directories; %s holds no %s", dir, results.SweepDefinitionFile)
 			}
-			if err := cases.RedrawReport(dir); err != nil {
+			if err := report.RedrawReport(dir); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
 				return exitUsage
 			}
-			fmt.Fprintf(e.stdout, "wrote %s\n", filepath.Join(dir, cases.ReportFile))
+			fmt.Fprintf(e.stdout, "wrote %s\n", filepath.Join(dir, report.ReportFile))
 			return exitOK
 		}
 	},

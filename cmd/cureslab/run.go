@@ -11,6 +11,9 @@ import (
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
+	"cureslab/cases/report"
+	"cureslab/cases/results"
+	"cureslab/cases/uncertain"
 	"cureslab/physics"
 	"cureslab/solver"
 )
@@ -37,14 +40,14 @@ Exit status: 0 every criterion met (or none given), 1 a criterion failed,
 cureslab run potting.toml -o potting-out`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		out := fs.StringP("out", "o", "", "write the outputs to `DIR` (default ./CASE-out)")
-		uncertain := fs.Int("uncertain", 0, "also run `N` Latin-hypercube samples of [uncertainty] (uncertainty.csv)")
+		samples := fs.Int("uncertain", 0, "also run `N` Latin-hypercube samples of [uncertainty] (uncertainty.csv)")
 		seed := fs.Uint64("seed", 1, "seed `S` of the --uncertain samples")
 		jobs := fs.IntP("jobs", "j", 0, "with --uncertain, `N` runs at a time (default: all cores)")
 		return func(e *env, args []string) int {
 			if len(args) != 1 {
 				return e.usageError("expects one case file, got %d arguments", len(args))
 			}
-			if *uncertain < 0 || *jobs < 0 {
+			if *samples < 0 || *jobs < 0 {
 				return e.usageError("--uncertain and --jobs take a positive count")
 			}
 			c, err := cases.Load(args[0])
@@ -53,9 +56,9 @@ cureslab run potting.toml -o potting-out`,
 				return exitUsage
 			}
 			var text []byte
-			if *uncertain > 0 {
+			if *samples > 0 {
 				if text, err = os.ReadFile(args[0]); err == nil {
-					err = cases.CheckUncertain(c, text)
+					err = uncertain.CheckUncertain(c, text)
 				}
 				if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab run: --uncertain: %v\n", err)
@@ -73,22 +76,22 @@ cureslab run potting.toml -o potting-out`,
 			if code == exitUsage {
 				return code
 			}
-			cases.PrintSummary(e.stdout, s)
-			if *uncertain > 0 {
-				opt := cases.UncertainOptions{Samples: *uncertain, Seed: *seed, Jobs: *jobs}
+			results.PrintSummary(e.stdout, s)
+			if *samples > 0 {
+				opt := uncertain.UncertainOptions{Samples: *samples, Seed: *seed, Jobs: *jobs}
 				if isTerminal(e.stderr) {
 					opt.Progress = e.stderr
 				}
-				rep, err := cases.Uncertain(e.ctx, c, text, opt)
+				rep, err := uncertain.Uncertain(e.ctx, c, text, opt)
 				if err == nil {
-					err = cases.WriteUncertainty(dir, s, rep)
+					err = uncertain.WriteUncertainty(dir, s, rep)
 				}
 				if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab run: --uncertain: %v\n", err)
 					return exitUsage
 				}
 				fmt.Fprintln(e.stdout)
-				cases.PrintUncertainty(e.stdout, rep)
+				uncertain.PrintUncertainty(e.stdout, rep)
 				if !rep.Pass() {
 					code = max(code, exitCriteria)
 				}
@@ -110,7 +113,7 @@ func withReportFlag(c *Command) {
 	setup := c.Setup
 	c.Setup = func(fs *pflag.FlagSet) func(*env, []string) int {
 		runner := setup(fs)
-		off := fs.Bool("no-report", false, "do not write "+cases.ReportFile)
+		off := fs.Bool("no-report", false, "do not write "+report.ReportFile)
 		return func(e *env, args []string) int {
 			if *off {
 				e.ctx = context.WithValue(e.ctx, noReportKey{}, true)
@@ -144,26 +147,26 @@ func checkOutDir(dir string) string {
 // to dir (report.html too, unless the command was given --no-report, see
 // withReportFlag) and returns the summary and the exit status. Errors go to
 // stderr under the command name cmd.
-func simulate(e *env, cmd string, c *cases.Case, dir string) (cases.Summary, int) {
+func simulate(e *env, cmd string, c *cases.Case, dir string) (results.Summary, int) {
 	s, _, code := simulateResult(e, cmd, c, dir)
 	return s, code
 }
 
 // simulateResult is simulate that also returns the solver's result (nil
 // when the solver refused to start).
-func simulateResult(e *env, cmd string, c *cases.Case, dir string) (cases.Summary, *solver.Result, int) {
+func simulateResult(e *env, cmd string, c *cases.Case, dir string) (results.Summary, *solver.Result, int) {
 	r, err := solver.Run(e.ctx, c.Problem)
 	if err != nil {
 		fmt.Fprintf(e.stderr, "cureslab %s: %s: %v\n", cmd, c.File, err)
-		return cases.Summary{Title: c.Title, Status: cases.StatusFailed}, nil, exitFailure
+		return results.Summary{Title: c.Title, Status: results.StatusFailed}, nil, exitFailure
 	}
-	s := cases.Summarize(c, r)
-	if err := cases.WriteRun(dir, c, r); err != nil {
+	s := results.Summarize(c, r)
+	if err := results.WriteRun(dir, c, r); err != nil {
 		fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, err)
 		return s, r, exitUsage
 	}
 	if !reportOff(e) {
-		if err := cases.WriteReport(dir, c, r); err != nil {
+		if err := report.WriteReport(dir, c, r); err != nil {
 			fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, err)
 			return s, r, exitUsage
 		}

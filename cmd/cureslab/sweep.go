@@ -12,6 +12,9 @@ import (
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
+	"cureslab/cases/report"
+	"cureslab/cases/results"
+	"cureslab/cases/sweep"
 )
 
 func init() {
@@ -82,18 +85,18 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 			if len(args) != 1 {
 				return e.usageError("expects one case file, got %d arguments", len(args))
 			}
-			set := cases.SweepSettings{Mode: *mode, Samples: *samples}
+			set := sweep.SweepSettings{Mode: *mode, Samples: *samples}
 			if fs.Changed("seed") {
 				set.Seed, set.SeedSet = *seed, true
 			}
 			for _, spec := range *vary {
-				v, err := cases.ParseVary(spec)
+				v, err := sweep.ParseVary(spec)
 				if err != nil {
 					return e.usageError("%v", err)
 				}
 				set.Vary = append(set.Vary, v)
 			}
-			opt := cases.SweepOptions{Jobs: *jobs, KeepFields: *keep}
+			opt := sweep.SweepOptions{Jobs: *jobs, KeepFields: *keep}
 			if *jobs < 0 || fs.Changed("jobs") && *jobs == 0 {
 				return e.usageError("-j wants at least 1, got %d", *jobs)
 			}
@@ -102,7 +105,7 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 			if err != nil {
 				return e.usageError("%v", err)
 			}
-			s, err := cases.LoadSweep(args[0], set)
+			s, err := sweep.LoadSweep(args[0], set)
 			if err != nil {
 				var list cases.ErrorList
 				if errors.As(err, &list) {
@@ -134,17 +137,17 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 			}
 			fmt.Fprintf(e.stdout, ": %d ok, %d criteria-failed, %d runaway, %d failed\n",
 				rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed)
-			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(dir, cases.SweepSummaryFile))
+			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(dir, results.SweepSummaryFile))
 			if !*noReport && !rep.Interrupted {
-				if err := cases.WriteSweepReport(dir, "Sweep of "+s.Name, sweepCriteria(s)); err != nil {
+				if err := report.WriteSweepReport(dir, "Sweep of "+s.Name, sweepCriteria(s)); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab sweep: report: %v\n", err)
 				} else {
-					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(dir, cases.SweepReportFile))
+					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(dir, report.SweepReportFile))
 				}
 			}
 			if rep.Repaired {
 				fmt.Fprintf(e.stderr, "cureslab sweep: the last record of %s was cut short (a crash?); that run was done again\n",
-					filepath.Join(dir, cases.SweepJournalFile))
+					filepath.Join(dir, results.SweepJournalFile))
 			}
 			if rep.Interrupted {
 				fmt.Fprintf(e.stderr, "cureslab sweep: interrupted after %d of %d runs; run the same command again to finish\n", rep.Done, rep.Runs)
@@ -159,7 +162,7 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 
 // sweepCriteria returns the criteria of the first run whose case is valid,
 // for the order of the report's tables; nil when no run's case is.
-func sweepCriteria(s *cases.Sweep) *cases.Criteria {
+func sweepCriteria(s *sweep.Sweep) *cases.Criteria {
 	for r := range s.Runs {
 		if c, err := s.Case(r); err == nil {
 			return &c.Criteria
@@ -302,36 +305,36 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 			var crit *cases.Criteria
 			if *casePath != "" {
 				// Checked before anything is written.
-				c, err := cases.SweepCaseCriteria(args[0], *casePath)
+				c, err := sweep.SweepCaseCriteria(args[0], *casePath)
 				if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab merge: --case: %v\n", err)
 					return exitUsage
 				}
 				crit = c
 			}
-			rep, err := cases.MergeSweeps(*out, args, *allow)
+			rep, err := sweep.MergeSweeps(*out, args, *allow)
 			if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab merge: %v\n", err)
-				if errors.Is(err, cases.ErrSweepIncomplete) {
+				if errors.Is(err, sweep.ErrSweepIncomplete) {
 					fmt.Fprintf(e.stderr, "Finish the shards that own them (run the same sweep command into their directories), or pass --allow-missing.\n")
 				}
 				return exitUsage
 			}
 			fmt.Fprintf(e.stdout, "%d of %d runs merged from %d directories: %d ok, %d criteria-failed, %d runaway, %d failed\n",
 				rep.Rows, rep.Runs, len(args), rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed)
-			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(*out, cases.SweepSummaryFile))
+			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(*out, results.SweepSummaryFile))
 			if !*noReport {
-				if err := cases.WriteSweepReport(*out, "", crit); err != nil {
+				if err := report.WriteSweepReport(*out, "", crit); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab merge: report: %v\n", err)
 				} else {
-					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(*out, cases.SweepReportFile))
+					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(*out, report.SweepReportFile))
 				}
 			}
 			if rep.Conflicts > 0 {
 				fmt.Fprintf(e.stderr, "cureslab merge: %d runs have different rows in different directories (kept the first); did the shards run different versions?\n", rep.Conflicts)
 			}
 			if len(rep.Missing) > 0 {
-				fmt.Fprintf(e.stderr, "cureslab merge: %d runs missing: %s\n", len(rep.Missing), cases.FormatRuns(rep.Missing, 20))
+				fmt.Fprintf(e.stderr, "cureslab merge: %d runs missing: %s\n", len(rep.Missing), sweep.FormatRuns(rep.Missing, 20))
 			}
 			return sweepExit(len(rep.Missing) > 0, rep.CriteriaFailed, rep.Runaway+rep.Failed)
 		}

@@ -2,13 +2,14 @@ package main
 
 import (
 	"fmt"
-	"io"
 	"path/filepath"
 	"strings"
 
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
+	"cureslab/cases/report"
+	"cureslab/cases/ttt"
 	"cureslab/cases/units"
 )
 
@@ -51,7 +52,7 @@ cureslab ttt potting.toml --material potting-resin-A --plot ttt.html`,
 			if *material == "" {
 				return e.usageError("--material NAME is required")
 			}
-			var opt cases.TTTOptions
+			var opt ttt.TTTOptions
 			var err error
 			if opt.From, err = flagTemperature("from", *from); err != nil {
 				return e.usageError("%v", err)
@@ -89,24 +90,22 @@ cureslab ttt potting.toml --material potting-resin-A --plot ttt.html`,
 				fmt.Fprintln(e.stderr, err)
 				return exitUsage
 			}
-			t, err := cases.TTT(c, *material, opt)
+			t, err := ttt.TTT(c, *material, opt)
 			if err != nil {
 				fmt.Fprintln(e.stderr, err)
 				return exitUsage
 			}
-			if err := cases.WriteFileAtomic(filepath.Dir(path), filepath.Base(path), func(w io.Writer) error {
-				return cases.WriteTTTCSV(w, t)
-			}); err != nil {
+			if err := ttt.WriteTTTFile(path, t); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab ttt: %v\n", err)
 				return exitUsage
 			}
-			if err := cases.PrintTTT(e.stdout, t); err != nil {
+			if err := ttt.PrintTTT(e.stdout, t); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab ttt: %v\n", err)
 				return exitUsage
 			}
 			fmt.Fprintf(e.stdout, "table written to %s\n", path)
 			if *plotFile != "" {
-				if err := cases.WriteTTTPlot(*plotFile, t); err != nil {
+				if err := report.WriteTTTPlot(*plotFile, t); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab ttt: %v\n", err)
 					return exitUsage
 				}

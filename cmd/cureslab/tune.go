@@ -10,6 +10,8 @@ import (
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
+	"cureslab/cases/tune"
+	"cureslab/cases/uncertain"
 )
 
 func init() { register(tuneCmd) }
@@ -71,9 +73,9 @@ cureslab tune potting.toml --program oven --robust 20 --seed 7`,
 			if *seed == 0 {
 				return e.usageError("--seed wants a number of at least 1")
 			}
-			opt := cases.TuneOptions{Program: *program, Robust: *robust, Seed: *seed, Jobs: *jobs}
+			opt := tune.TuneOptions{Program: *program, Robust: *robust, Seed: *seed, Jobs: *jobs}
 			for _, spec := range *free {
-				f, err := cases.ParseFree(spec)
+				f, err := tune.ParseFree(spec)
 				if err != nil {
 					return e.usageError("%v", err)
 				}
@@ -95,34 +97,34 @@ cureslab tune potting.toml --program oven --robust 20 --seed 7`,
 			if isTerminal(e.stderr) {
 				opt.Progress = e.stderr
 			}
-			res, err := cases.Tune(e.ctx, args[0], data, filepath.Dir(args[0]), opt)
+			res, err := tune.Tune(e.ctx, args[0], data, filepath.Dir(args[0]), opt)
 			if res == nil {
 				var list cases.ErrorList
 				switch {
 				case errors.As(err, &list):
 					fmt.Fprintln(e.stderr, err)
 					return exitUsage
-				case errors.Is(err, cases.ErrTune), errors.Is(err, cases.ErrNoUncertainty):
+				case errors.Is(err, tune.ErrTune), errors.Is(err, uncertain.ErrNoUncertainty):
 					return e.usageError("%v", err)
 				}
 				fmt.Fprintf(e.stderr, "cureslab tune: %v\n", err)
 				return exitFailure
 			}
-			if werr := cases.WriteTune(dir, res); werr != nil {
+			if werr := tune.WriteTune(dir, res); werr != nil {
 				fmt.Fprintf(e.stderr, "cureslab tune: %v\n", werr)
 				return exitUsage
 			}
 			if err != nil { // interrupted
 				fmt.Fprintf(e.stderr, "cureslab tune: interrupted after %d candidates; %s holds them\n",
-					len(res.Candidates), filepath.Join(dir, cases.TuneFile))
+					len(res.Candidates), filepath.Join(dir, tune.TuneFile))
 				return exitFailure
 			}
-			cases.PrintTune(e.stdout, res)
+			tune.PrintTune(e.stdout, res)
 			if res.Best == nil {
-				fmt.Fprintf(e.stdout, "candidates in %s\n", filepath.Join(dir, cases.TuneFile))
+				fmt.Fprintf(e.stdout, "candidates in %s\n", filepath.Join(dir, tune.TuneFile))
 				return exitCriteria
 			}
-			fmt.Fprintf(e.stdout, "program in %s, candidates in %s\n", filepath.Join(dir, cases.TunedFile), filepath.Join(dir, cases.TuneFile))
+			fmt.Fprintf(e.stdout, "program in %s, candidates in %s\n", filepath.Join(dir, tune.TunedFile), filepath.Join(dir, tune.TuneFile))
 			return exitOK
 		}
 	},

@@ -1,0 +1,117 @@
+package cases_test
+
+import (
+	"bytes"
+	"cureslab/cases"
+	"cureslab/cases/internal/testkit"
+	"cureslab/physics"
+	"errors"
+	"math"
+	"strings"
+	"testing"
+)
+
+func TestCheckGolden(t *testing.T) {
+	testkit.Golden(t, "check_hand_built.golden", checkOutput(t, testkit.HandBuiltCase(t)))
+}
+
+type failWriter struct{ n int }
+
+func (w *failWriter) Write(b []byte) (int, error) {
+	if w.n <= 0 {
+		return 0, errors.New("disk full")
+	}
+	w.n--
+	return len(b), nil
+}
+
+func TestCheckWriteError(t *testing.T) {
+	for _, n := range []int{0, 3, 10} {
+		if err := cases.Check(&failWriter{n}, testkit.HandBuiltCase(t)); err == nil || err.Error() != "disk full" {
+			t.Errorf("writer failing after %d writes: err = %v, want disk full", n, err)
+		}
+	}
+}
+
+func TestCheckExamplesGolden(t *testing.T) {
+	for _, ex := range cases.Examples() {
+		t.Run(ex.Name, func(t *testing.T) {
+			c, err := cases.Parse(ex.Name+".toml", ex.Text, "")
+			if err != nil {
+				t.Fatal(err)
+			}
+			var b bytes.Buffer
+			if err := cases.Check(&b, c); err != nil {
+				t.Fatal(err)
+			}
+			for _, l := range c.Layers {
+				if !strings.Contains(b.String(), l.Name) {
+					t.Errorf("check output does not name layer %s", l.Name)
+				}
+			}
+			testkit.Golden(t, "check_"+ex.Name+".golden", b.Bytes())
+		})
+	}
+}
+
+// checkOutput returns what Check writes for c.
+func checkOutput(t *testing.T, c *cases.Case) []byte {
+	t.Helper()
+	var b bytes.Buffer
+	if err := cases.Check(&b, c); err != nil {
+		t.Fatal(err)
+	}
+	return b.Bytes()
+}
+
+func TestEstimates(t *testing.T) {
+	c := testkit.HandBuiltCase(t)
+	est := cases.Estimates(c)
+	if len(est) != 1 {
+		t.Fatalf("got %d estimates, want 1 (one curing layer)", len(est))
+	}
+	e := est[0]
+	// The hottest driving temperature is the 70 C hold of the oven.
+	if e.T != 343.15 {
+		t.Errorf("reference temperature %g K, want 343.15", e.T)
+	}
+	// Source: REFERENCES §5, first order α = 1 − exp(−k t), so the
+	// half-life is ln 2 / k (analytic), k = A exp(−E/RT).
+	k := 1e5 * math.Exp(-60e3/(physics.GasConstant*343.15))
+	if want := math.Ln2 / k; math.Abs(e.HalfLife-want) > 1e-9*want {
+		t.Errorf("half-life %.12g s, want ln2/k = %.12g s", e.HalfLife, want)
+	}
+	// Conduction time L²ρc_p/k with the uncured c_p (analytic).
+	if want := 6.35e-3 * 6.35e-3 * 1100 * 1500 / 0.2; math.Abs(e.ConductionTime-want) > 1e-12*want {
+		t.Errorf("conduction time %.12g s, want %.12g s", e.ConductionTime, want)
+	}
+	// Frank-Kamenetskii parameter (REFERENCES §2): a first-order rate peaks
+	// at α = 0 with r = k and apparent activation energy E, so
+	// δ = E/(R T²) · ρ w H k · L² / k_th (analytic), with the layer thickness
+	// as the half-width.
+	if want := 60e3 / (physics.GasConstant * 343.15 * 343.15) * 1100 * 400e3 * k * 6.35e-3 * 6.35e-3 / 0.2; math.Abs(e.FK-want) > 1e-9*want || e.PeakCure != 0 {
+		t.Errorf("Frank-Kamenetskii δ = %.12g at cure %g, want %.12g at 0", e.FK, e.PeakCure, want)
+	}
+	if want := cases.AdiabaticRise(400e3, 1500, 1300, 0); e.AdiabaticRise != want {
+		t.Errorf("adiabatic rise %g K, want %g K", e.AdiabaticRise, want)
+	}
+	if e.Layer != "resin" || e.Material != "resin-X" || e.Thickness != 6.35e-3 {
+		t.Errorf("estimate names %q (%q), thickness %g", e.Layer, e.Material, e.Thickness)
+	}
+}
+
+func TestCheckCautions(t *testing.T) {
+	out := string(checkOutput(t, testkit.HandBuiltCase(t)))
+	for _, s := range cases.Cautions() {
+		if !strings.Contains(out, s) {
+			t.Errorf("check output lacks the caution %q", s)
+		}
+	}
+	// SPEC §9 names these subjects; our wording must cover each.
+	all := strings.ToLower(strings.Join(cases.Cautions(), " "))
+	for _, w := range []string{"trial", "data sheets", "fire", "leakage", "interlock", "local codes", "licensed practice"} {
+		if !strings.Contains(all, w) {
+			t.Errorf("the cautions do not mention %q", w)
+		}
+	}
+}

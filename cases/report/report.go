@@ -1,0 +1,350 @@
+package report
+
+import (
+	"bytes"
+	"cureslab/cases"
+	"cureslab/cases/internal/num"
+	"cureslab/cases/internal/textout"
+	"cureslab/cases/results"
+	"cureslab/physics"
+	"cureslab/solver"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strconv"
+	"time"
+)
+
+// ReportFile is the name of the HTML report of a run (SPEC §5).
+const ReportFile = "report.html"
+
+// reportClock gives the time stamped on a report; tests replace it.
+var reportClock = func() time.Time { return time.Now() }
+
+// WriteReport writes report.html for a run of c into dir (SPEC §5): one
+// self-contained page, readable offline and when mailed, with depth–time
+// maps of temperature and of degree of cure (layer faces and the gel front
+// drawn), profiles through the thickness at chosen times, probe histories
+// with the driving air temperatures and the power fraction, the summary and
+// each acceptance criterion, and the cautions of SPEC §9.
+//
+// Method: the page shows exactly what fields.csv, probes.csv and
+// summary.json hold. Values are rounded as WriteRun writes them, so the
+// page equals the one RedrawReport draws from those files, apart from the
+// time stamp. Plots are drawn with gonum.org/v1/plot into inline SVG; the
+// maps are raster images (PNG with a 256-colour palette, cividis) inside
+// the SVG, so a long run stays small. See reportMap for the resampling.
+//
+// Preconditions: as for WriteRun (c validated, r from solver.Run on
+// c.Problem, possibly ended early). The file is written with
+// WriteFileAtomic; dir is created if missing. Cost: linear in the number of
+// snapshots × cells, the maps capped at 1600 × 1200 pixels; for the
+// examples about 0.05 s and 50–130 kB.
+func WriteReport(dir string, c *cases.Case, r *solver.Result) error {
+	if c == nil || c.Problem == nil || c.Problem.Mesh == nil || r == nil {
+		return errors.New("cases.WriteReport: case, problem, mesh and result are required")
+	}
+	d, err := runDataOf(c, r)
+	if err != nil {
+		return fmt.Errorf("report: %w", err)
+	}
+	return writeRunReport(dir, d)
+}
+
+// RedrawReport reads the output files of a run in dir (fields.csv,
+// probes.csv and summary.json, SPEC §5) and writes dir/report.html from
+// them, as WriteReport does at the end of the run; no case file is needed.
+//
+// The layers and their depths are read from fields.csv: the cell faces are
+// rebuilt from the cell centres (the first face is at depth 0 and each face
+// lies as far below a centre as the face above it lies above). The gel front
+// is drawn for a curing layer only when summary.json records its gel point
+// (key "gel_point", an object keyed by layer name); otherwise the page says
+// that it is not drawn.
+//
+// Errors: a missing or unreadable file wraps ErrFile; a malformed one wraps
+// ErrOutputFile. Both are *Error with the file and, where there is one, the
+// line and column. Nothing is written then.
+func RedrawReport(dir string) error {
+	d, err := readRunData(dir)
+	if err != nil {
+		return err
+	}
+	return writeRunReport(dir, d)
+}
+
+func writeRunReport(dir string, d *runData) error {
+	var b bytes.Buffer
+	if err := renderRunReport(&b, d, reportClock()); err != nil {
+		return fmt.Errorf("drawing %s: %w", ReportFile, err)
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return err
+	}
+	if err := textout.WriteFileAtomic(dir, ReportFile, func(w io.Writer) error {
+		_, err := w.Write(b.Bytes())
+		return err
+	}); err != nil {
+		return fmt.Errorf("writing %s: %w", ReportFile, err)
+	}
+	return nil
+}
+
+// runData is what the report of one run shows, in the units of the output
+// files: times in s, depths in mm, temperatures in °C. It is built from the
+// rows of fields.csv and probes.csv and from summary.json, whether those
+// come from memory (runDataOf) or from the files (readRunData), by
+// newRunData.
+type runData struct {
+	Title   string
+	Summary results.Summary
+
+	Times   []float64   // output times, s, strictly increasing
+	Centers []float64   // cell centres, mm, top to bottom
+	Faces   []float64   // cell faces, mm, len(Centers)+1, Faces[0] = 0
+	Layers  []layerData // top to bottom
+	T       [][]float64 // °C, [time][cell]
+	Cure    [][]float64 // [time][cell], NaN in cells that do not cure
+	GelTime []float64   // s per cell; NaN when the cell never gels or its gel point is unknown
+
+	Probes  []probeData
+	Drivers []seriesData // driving temperatures (air), °C per time
+	Power   []float64    // power fraction per time; nil when not controlled
+}
+
+// layerData is one layer of the stack as the report shows it.
+type layerData struct {
+	Name          string
+	Top, Bottom   float64 // mm
+	First, End    int     // cells [First, End)
+	Curing        bool
+	GelPoint      float64 // NaN when the layer does not cure or the gel point is unknown
+	GelPointKnown bool
+}
+
+// probeData is one probe column pair of probes.csv.
+type probeData struct {
+	Label string    // depth in mm as in the column names ("6.35")
+	Depth float64   // mm
+	T     []float64 // °C per time
+	Cure  []float64 // per time; nil when the probe sits in a layer that does not cure
+}
+
+// seriesData is a named series over the output times.
+type seriesData struct {
+	Column string // column name in probes.csv, "air_top_C"
+	Name   string // legend text, "air, top face"
+	Values []float64
+}
+
+// runTable is the raw content of the output files before the report's own
+// derived quantities (faces, layers, gel times) are computed.
+type runTable struct {
+	Summary  results.Summary
+	GelPoint map[string]float64 // by layer name; nil when not recorded
+
+	Times   []float64
+	Centers []float64
+	LayerOf []string // layer name per cell
+	T, Cure [][]float64
+
+	Probes  []probeData
+	Drivers []seriesData
+	Power   []float64
+}
+
+// runDataOf builds the report data of a run in memory, with every value
+// rounded as WriteRun writes it (so that the report does not depend on
+// whether it is drawn from memory or from the files).
+func runDataOf(c *cases.Case, r *solver.Result) (*runData, error) {
+	p := c.Problem
+	m := p.Mesh
+	n := m.Cells()
+	tb := &runTable{Summary: results.Summarize(c, r), GelPoint: map[string]float64{}}
+	curing := make([]bool, n)
+	for i := range n {
+		j := m.Owner[i]
+		tb.Centers = append(tb.Centers, readBack(num.FormatDepth(m.Centers[i])))
+		tb.LayerOf = append(tb.LayerOf, m.Layers[j].Name)
+		if j < len(p.Materials) && p.Materials[j] != nil && p.Materials[j].Cure != nil {
+			curing[i] = true
+			tb.GelPoint[m.Layers[j].Name] = p.Materials[j].Cure.GelPoint
+		}
+	}
+	for _, d := range p.Probes {
+		l := num.FormatDepth(d)
+		tb.Probes = append(tb.Probes, probeData{Label: l, Depth: readBack(l)})
+	}
+	var air []seriesData
+	if p.Top.Kind == physics.Convection {
+		air = append(air, seriesData{Column: "air_top_C"})
+	}
+	if p.Bottom.Kind == physics.Convection {
+		air = append(air, seriesData{Column: "air_bottom_C"})
+	}
+	controlled := p.Volumetric != nil && p.Volumetric.Control != nil // probes.csv has power_fraction
+	for k := range r.Snapshots {
+		s := &r.Snapshots[k]
+		if len(s.T) != n {
+			return nil, fmt.Errorf("snapshot %d has %d temperatures for %d cells", k, len(s.T), n)
+		}
+		tb.Times = append(tb.Times, num.Round(s.Time, 6))
+		T := make([]float64, n)
+		a := make([]float64, n)
+		for i := range n {
+			T[i] = num.Round(num.KtoC(s.T[i]), 6)
+			a[i] = math.NaN()
+			if curing[i] {
+				a[i] = num.RoundSig(num.At(s.Cure, i))
+			}
+		}
+		tb.T = append(tb.T, T)
+		tb.Cure = append(tb.Cure, a)
+		for j := range tb.Probes {
+			pr := &tb.Probes[j]
+			pr.T = append(pr.T, num.Round(num.KtoC(num.At(s.ProbeT, j)), 6))
+			pr.Cure = append(pr.Cure, num.RoundSig(num.At(s.ProbeCure, j)))
+		}
+		for j := range air {
+			v := s.AirTop
+			if air[j].Column == "air_bottom_C" {
+				v = s.AirBottom
+			}
+			air[j].Values = append(air[j].Values, num.Round(num.KtoC(v), 6))
+		}
+		if controlled {
+			tb.Power = append(tb.Power, num.RoundSig(s.PowerFraction))
+		}
+	}
+	for j := range tb.Probes {
+		if allNaN(tb.Probes[j].Cure) {
+			tb.Probes[j].Cure = nil
+		}
+	}
+	for _, a := range air {
+		tb.Drivers = append(tb.Drivers, seriesData{Column: a.Column, Name: driverName(a.Column), Values: a.Values})
+	}
+	return newRunData(tb, "")
+}
+
+// readBack parses a number that this package formatted itself.
+func readBack(s string) float64 {
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		panic("cases: cannot read back " + s)
+	}
+	return v
+}
+
+func allNaN(x []float64) bool {
+	for _, v := range x {
+		if !math.IsNaN(v) {
+			return false
+		}
+	}
+	return true
+}
+
+// driverName is the legend text of a driving-temperature column of
+// probes.csv: "air_top_C" gives "air, top face".
+func driverName(col string) string {
+	switch col {
+	case "air_top_C":
+		return "air, top face"
+	case "air_bottom_C":
+		return "air, bottom face"
+	}
+	name := col[:len(col)-len("_C")]
+	b := []byte(name)
+	for i, c := range b {
+		if c == '_' {
+			b[i] = ' '
+		}
+	}
+	return string(b)
+}
+
+// newRunData derives what the report draws from the tables: the cell faces,
+// the layers and the gel time of every cell. file names the source of the
+// tables in messages ("" for memory).
+//
+// Cell faces: f₀ = 0 and f_{i+1} = 2c_i − f_i, which recovers the faces of
+// any mesh from its centres; the rounding of the centres to 1e-9 mm moves a
+// face by at most 2·n·1e-9 mm.
+//
+// Gel time of a cell: the first output time at which its cure reaches the
+// gel point of its layer, interpolated linearly in time between that output
+// and the one before; so it is as fine as the output interval.
+func newRunData(tb *runTable, file string) (*runData, error) {
+	n := len(tb.Centers)
+	if n == 0 || len(tb.Times) == 0 {
+		return nil, fmt.Errorf("%sno cells or no output times", prefix(file))
+	}
+	d := &runData{
+		Title: tb.Summary.Title, Summary: tb.Summary,
+		Times: tb.Times, Centers: tb.Centers, T: tb.T, Cure: tb.Cure,
+		Probes: tb.Probes, Drivers: tb.Drivers, Power: tb.Power,
+	}
+	d.Faces = make([]float64, n+1)
+	for i, c := range tb.Centers {
+		f := 2*c - d.Faces[i]
+		if !(f > d.Faces[i]) {
+			return nil, fmt.Errorf("%sthe cell centres (depth_mm) do not fit a mesh that starts at depth 0: cell %d at %g mm leaves no room for its width",
+				prefix(file), i+1, c)
+		}
+		d.Faces[i+1] = f
+	}
+	for i := 0; i < n; {
+		j := i
+		for j < n && tb.LayerOf[j] == tb.LayerOf[i] {
+			j++
+		}
+		l := layerData{Name: tb.LayerOf[i], Top: d.Faces[i], Bottom: d.Faces[j], First: i, End: j, GelPoint: math.NaN()}
+		for k := range tb.Cure {
+			for c := i; c < j; c++ {
+				if !math.IsNaN(tb.Cure[k][c]) {
+					l.Curing = true
+				}
+			}
+		}
+		if g, ok := tb.GelPoint[l.Name]; ok && l.Curing {
+			l.GelPoint, l.GelPointKnown = g, true
+		}
+		d.Layers = append(d.Layers, l)
+		i = j
+	}
+	d.GelTime = make([]float64, n)
+	for _, l := range d.Layers {
+		for i := l.First; i < l.End; i++ {
+			d.GelTime[i] = math.NaN()
+			if !l.GelPointKnown {
+				continue
+			}
+			for k := range d.Times {
+				a := d.Cure[k][i]
+				if !(a >= l.GelPoint) {
+					continue
+				}
+				t := d.Times[k]
+				if k > 0 {
+					a0 := d.Cure[k-1][i]
+					if a0 < l.GelPoint && a > a0 {
+						t = d.Times[k-1] + (d.Times[k]-d.Times[k-1])*(l.GelPoint-a0)/(a-a0)
+					}
+				}
+				d.GelTime[i] = t
+				break
+			}
+		}
+	}
+	return d, nil
+}
+
+func prefix(file string) string {
+	if file == "" {
+		return ""
+	}
+	return file + ": "
+}

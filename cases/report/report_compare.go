@@ -1,0 +1,388 @@
+package report
+
+import (
+	"bytes"
+	"cureslab/cases"
+	"cureslab/cases/internal/textout"
+	"cureslab/cases/results"
+	"cureslab/solver"
+	"errors"
+	"fmt"
+	"html/template"
+	"io"
+	"math"
+	"os"
+	"strings"
+	"time"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+)
+
+// CompareReportFile is the name of the HTML report of a comparison.
+const CompareReportFile = "report.html"
+
+// WriteCompareReport writes the report page of a comparison into dir: the
+// summaries and criteria of the cases side by side, their histories
+// overlaid (the hottest cell and the least-cured cell over time, with the
+// air that drives each case), and their final profiles through the
+// thickness overlaid. names[i] names case cs[i] and the subdirectory
+// dir/names[i] that holds its own report.html; rs[i] is its result, nil for
+// a case that did not run (it is listed, not drawn).
+//
+// Method: each case becomes the same report data as WriteReport uses, so
+// values are those of its output files. Cost: as WriteReport per case.
+//
+// Preconditions: len(names) == len(cs) == len(rs) ≥ 1; each cs[i] validated.
+// The file is written with WriteFileAtomic; dir is created if missing.
+func WriteCompareReport(dir string, names []string, cs []*cases.Case, rs []*solver.Result) error {
+	if len(names) == 0 || len(names) != len(cs) || len(cs) != len(rs) {
+		return errors.New("cases.WriteCompareReport: want as many names, cases and results, at least one")
+	}
+	ds := make([]*runData, len(cs))
+	for i := range cs {
+		if rs[i] == nil || cs[i] == nil || cs[i].Problem == nil || cs[i].Problem.Mesh == nil {
+			continue
+		}
+		d, err := runDataOf(cs[i], rs[i])
+		if err != nil {
+			return fmt.Errorf("report of %s: %w", names[i], err)
+		}
+		ds[i] = d
+	}
+	var b bytes.Buffer
+	if err := renderCompareReport(&b, names, ds, reportClock()); err != nil {
+		return fmt.Errorf("drawing %s: %w", CompareReportFile, err)
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return err
+	}
+	return textout.WriteFileAtomic(dir, CompareReportFile, func(w io.Writer) error {
+		_, err := w.Write(b.Bytes())
+		return err
+	})
+}
+
+// renderCompareReport writes the comparison page; ds[i] is nil for a case
+// that did not run.
+func renderCompareReport(w io.Writer, names []string, ds []*runData, now time.Time) error {
+	pg := &page{Title: "Comparison: " + strings.Join(names, " · "), Kind: "comparison", Drawn: stamp(now)}
+	ran := 0
+	worst := ""
+	for i, d := range ds {
+		if d == nil {
+			pg.Alerts = append(pg.Alerts, "✗ "+names[i]+" did not run.")
+			worst = "✗ not every case ran"
+			continue
+		}
+		ran++
+		for _, a := range runAlerts(d) {
+			pg.Alerts = append(pg.Alerts, names[i]+": "+a)
+		}
+	}
+	pg.Status, pg.StatusOK = "✓ every case met its criteria", len(pg.Alerts) == 0
+	if !pg.StatusOK {
+		pg.Status = "✗ not every case met its criteria"
+		if worst != "" {
+			pg.Status = worst
+		}
+	}
+	pg.Sections = append(pg.Sections, section{ID: "summary", Heading: "Summaries side by side",
+		Intro: "Each case's own report, with its maps, is " + strings.Join(withSuffix(names, "/report.html"), ", ") + " beside this page.",
+		Body:  compareTable(names, ds)})
+	if ran == 0 {
+		return renderPage(w, pg)
+	}
+	end := 0.0
+	for _, d := range ds {
+		if d != nil {
+			end = max(end, d.Times[len(d.Times)-1])
+		}
+	}
+	ts := timeScaleFor(end)
+	svg, err := compareHistoryFigure(names, ds, ts)
+	if err != nil {
+		return err
+	}
+	pg.Sections = append(pg.Sections, section{ID: "histories", Heading: "Histories",
+		Body: figureHTML(svg, "Top: temperature of the hottest cell of each case over time (solid), with the air "+
+			"temperature at its top face where it has one (dashed, same colour). Bottom: degree of cure of the least-cured "+
+			"cell of each case's curing layers. Dash-dot lines: limits of the criteria where every case sets the same.")})
+	svg, err = compareProfileFigure(names, ds)
+	if err != nil {
+		return err
+	}
+	pg.Sections = append(pg.Sections, section{ID: "profiles", Heading: "Final profiles through the thickness",
+		Body: figureHTML(svg, "Temperature and degree of cure through the thickness at the last output time of each case. Depth 0 is the top face.")})
+	return renderPage(w, pg)
+}
+
+func withSuffix(names []string, suffix string) []string {
+	out := make([]string, len(names))
+	for i, n := range names {
+		out[i] = n + suffix
+	}
+	return out
+}
+
+// compareTable sets the summaries of the cases side by side, one column per
+// case, with a row per criterion that any case sets.
+func compareTable(names []string, ds []*runData) template.HTML {
+	head := append([]string{""}, names...)
+	type rowFn func(d *runData) string
+	f := func(x results.Float) float64 { return float64(x) }
+	rowsDef := []struct {
+		name string
+		fn   rowFn
+	}{
+		{"status", func(d *runData) string { return d.Summary.Status }},
+		{"peak temperature", func(d *runData) string {
+			s := d.Summary
+			return fmt.Sprintf("%s at %s, t = %s", fmtC(f(s.PeakTemperatureC)), fmtMM(f(s.PeakDepthMM)), fmtTime(f(s.PeakTimeS)))
+		}},
+		{"overshoot", func(d *runData) string {
+			if !results.OutOK(d.Summary.OvershootK) {
+				return "n/a"
+			}
+			return fmt.Sprintf("%+.1f K", f(d.Summary.OvershootK))
+		}},
+		{"largest spread", func(d *runData) string { return fmtK(f(d.Summary.MaxSpreadK)) }},
+		{"least final cure", func(d *runData) string {
+			return fmtCure(f(d.Summary.MinFinalCure)) + " at " + fmtMM(f(d.Summary.MinFinalCureDepthMM))
+		}},
+		{"mean final cure", func(d *runData) string { return fmtCure(f(d.Summary.MeanFinalCure)) }},
+		{"time to min_cure", func(d *runData) string { return fmtTime(f(d.Summary.TimeToMinCureS)) }},
+		{"gel time, first / last", func(d *runData) string {
+			return fmtTime(f(d.Summary.GelTimeFirstS)) + " / " + fmtTime(f(d.Summary.GelTimeLastS))
+		}},
+		{"lowest final glass transition", func(d *runData) string { return fmtC(f(d.Summary.MinFinalGlassTransitionC)) }},
+		{"end time", func(d *runData) string { return fmtTime(f(d.Summary.EndTimeS)) }},
+	}
+	var rows [][]string
+	for _, rd := range rowsDef {
+		r := []string{rd.name}
+		for _, d := range ds {
+			if d == nil {
+				r = append(r, "did not run")
+			} else {
+				r = append(r, rd.fn(d))
+			}
+		}
+		rows = append(rows, r)
+	}
+	var crit []string
+	seen := map[string]bool{}
+	for _, d := range ds {
+		if d == nil {
+			continue
+		}
+		for _, v := range d.Summary.Criteria {
+			if !seen[v.Name] {
+				seen[v.Name] = true
+				crit = append(crit, v.Name)
+			}
+		}
+	}
+	for _, name := range crit {
+		r := []string{"criterion " + name}
+		for _, d := range ds {
+			cell := "not set"
+			if d != nil {
+				for _, v := range d.Summary.Criteria {
+					if v.Name != name {
+						continue
+					}
+					_, value := criterionText(v, d.Summary)
+					cell = value + "  " + passMark
+					if !v.Pass {
+						cell = "!" + value + "  " + failMark
+					}
+				}
+			}
+			r = append(r, cell)
+		}
+		rows = append(rows, r)
+	}
+	return tableHTML(head, rows, nil)
+}
+
+// hottest returns the largest temperature over cells at each output time;
+// leastCure the smallest cure over curing cells (NaN without any).
+func hottest(d *runData) []float64 {
+	out := make([]float64, len(d.Times))
+	for k := range d.Times {
+		_, out[k] = valueRange(d.T[k])
+	}
+	return out
+}
+
+func leastCure(d *runData) []float64 {
+	out := make([]float64, len(d.Times))
+	for k := range d.Times {
+		lo, _ := valueRange(d.Cure[k])
+		if math.IsInf(lo, 1) {
+			lo = math.NaN()
+		}
+		out[k] = lo
+	}
+	return out
+}
+
+// commonLimit returns the limit of criterion name when every case that ran
+// sets it to the same value.
+func commonLimit(ds []*runData, name string) (float64, bool) {
+	lim, n := math.NaN(), 0
+	for _, d := range ds {
+		if d == nil {
+			continue
+		}
+		found := false
+		for _, v := range d.Summary.Criteria {
+			if v.Name == name {
+				if n > 0 && v.Limit != lim {
+					return 0, false
+				}
+				lim, found = v.Limit, true
+			}
+		}
+		if !found {
+			return 0, false
+		}
+		n++
+	}
+	return lim, n > 0
+}
+
+func compareHistoryFigure(names []string, ds []*runData, ts timeScale) (string, error) {
+	withCure := false
+	for _, d := range ds {
+		if d != nil && curingLayers(d) > 0 {
+			withCure = true
+		}
+	}
+	n := 1
+	if withCure {
+		n = 2
+	}
+	return svgFigure(figWidth, vg.Length(panelHeight*n+30), "comparison of histories", func(dc draw.Canvas) error {
+		leg := newLegend()
+		pT := newPlot("time ("+ts.unit+")", "temperature (°C)")
+		addGrid(pT)
+		pA := newPlot("time ("+ts.unit+")", "degree of cure (–)")
+		addGrid(pA)
+		var lines [][]float64
+		x1 := 0.0
+		for i, d := range ds {
+			if d == nil {
+				continue
+			}
+			c, dash := lineColor(i)
+			t := ts.of(d.Times)
+			x1 = max(x1, t[len(t)-1])
+			hot := hottest(d)
+			l, err := addSeries(pT, series{X: t, Y: hot, Color: c, Dash: dash, Width: vg.Points(1.5)})
+			if err != nil {
+				return err
+			}
+			lines = append(lines, hot)
+			if l != nil {
+				leg.Add(names[i], l)
+			}
+			for _, dv := range d.Drivers {
+				if dv.Column != "air_top_C" {
+					continue
+				}
+				if _, err := addSeries(pT, series{X: t, Y: dv.Values, Color: c, Width: vg.Points(0.9),
+					Dash: []vg.Length{vg.Points(4), vg.Points(3)}}); err != nil {
+					return err
+				}
+				lines = append(lines, dv.Values)
+			}
+			if withCure {
+				if _, err := addSeries(pA, series{X: t, Y: leastCure(d), Color: c, Dash: dash, Width: vg.Points(1.5)}); err != nil {
+					return err
+				}
+			}
+		}
+		lo, hi := valueRange(lines...)
+		if lim, ok := commonLimit(ds, results.CriterionMaxTemperature); ok {
+			if err := addLimit(pT, 0, x1, lim, "max_temperature "+fmtG(lim)+" °C"); err != nil {
+				return err
+			}
+			lo, hi = min(lo, lim), max(hi, lim)
+		}
+		pT.Y.Min, pT.Y.Max = niceRange(lo, hi, 0.05, 2)
+		plots := [][]*plot.Plot{{pT}}
+		if withCure {
+			if lim, ok := commonLimit(ds, results.CriterionMinCure); ok {
+				if err := addLimit(pA, 0, x1, lim, "min_cure "+fmtG(lim)); err != nil {
+					return err
+				}
+			}
+			pA.Y.Min, pA.Y.Max = 0, 1.04
+			plots = append(plots, []*plot.Plot{pA})
+			pT.X.Label.Text = ""
+		}
+		for _, row := range plots {
+			row[0].X.Min, row[0].X.Max = 0, x1
+		}
+		lw := legendWidthFor(names)
+		left := draw.Crop(dc, 0, -lw, 0, 0)
+		cs := plot.Align(plots, draw.Tiles{Rows: len(plots), Cols: 1, PadY: vg.Points(8)}, left)
+		for i, row := range plots {
+			row[0].Draw(cs[i][0])
+		}
+		legendAt(draw.Crop(dc, dc.Max.X-dc.Min.X-lw+vg.Points(10), 0, 0, 0), pT.DataCanvas(cs[0][0]), leg)
+		return nil
+	})
+}
+
+func compareProfileFigure(names []string, ds []*runData) (string, error) {
+	L := 0.0
+	withCure := false
+	for _, d := range ds {
+		if d != nil {
+			L = max(L, thickness(d))
+			withCure = withCure || curingLayers(d) > 0
+		}
+	}
+	return svgFigure(figWidth, profileHeight, "comparison of final profiles", func(dc draw.Canvas) error {
+		pT, pA, plots := profilePlots(L, withCure)
+		if pA != nil {
+			pA.X.Min, pA.X.Max = 0, 1
+		}
+		leg := newLegend()
+		var lines [][]float64
+		for i, d := range ds {
+			if d == nil {
+				continue
+			}
+			c, dash := lineColor(i)
+			k := len(d.Times) - 1
+			l, err := addSeries(pT, series{X: d.T[k], Y: d.Centers, Color: c, Dash: dash, Width: vg.Points(1.5)})
+			if err != nil {
+				return err
+			}
+			lines = append(lines, d.T[k])
+			if pA != nil {
+				if _, err := addSeries(pA, series{X: d.Cure[k], Y: d.Centers, Color: c, Dash: dash, Width: vg.Points(1.5)}); err != nil {
+					return err
+				}
+			}
+			if l != nil {
+				leg.Add(names[i], l)
+			}
+		}
+		lo, hi := valueRange(lines...)
+		pT.X.Min, pT.X.Max = niceRange(lo, hi, 0.04, 2)
+		lw := legendWidthFor(names)
+		left := draw.Crop(dc, 0, -lw, 0, 0)
+		cs := plot.Align([][]*plot.Plot{plots}, draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(16)}, left)
+		for i, p := range plots {
+			p.Draw(cs[0][i])
+		}
+		legendAt(draw.Crop(dc, dc.Max.X-dc.Min.X-lw+vg.Points(10), 0, 0, 0), pT.DataCanvas(cs[0][0]), leg)
+		return nil
+	})
+}

@@ -1,0 +1,680 @@
+package report
+
+import (
+	"cureslab/cases/results"
+	"fmt"
+	"html/template"
+	"io"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+)
+
+// Figure sizes, in points.
+const (
+	figWidth      = 520
+	mapHeight     = 225
+	profileHeight = 250
+	panelHeight   = 140
+	legendWidth   = 118
+)
+
+// renderRunReport writes the report page of one run.
+func renderRunReport(w io.Writer, d *runData, now time.Time) error {
+	s := d.Summary
+	pg := &page{Title: d.Title, Kind: "run report", Drawn: stamp(now)}
+	pg.Status, pg.StatusOK = statusBadge(s)
+	pg.Alerts = runAlerts(d)
+	ts := timeScaleFor(d.Times[len(d.Times)-1])
+
+	pg.Sections = append(pg.Sections, section{ID: "summary", Heading: "Summary and criteria", Body: summaryHTML(d)})
+	if len(d.Times) < 2 {
+		pg.Sections = append(pg.Sections, section{Heading: "Plots",
+			Intro: "The run holds a single output time, so there is nothing to plot over time."})
+		return renderPage(w, pg)
+	}
+	svg, err := mapFigure(d, ts, false)
+	if err != nil {
+		return err
+	}
+	pg.Sections = append(pg.Sections, section{ID: "temperature-map", Heading: "Temperature through the thickness",
+		Body: figureHTML(svg, mapCaption(d, false))})
+	if curingLayers(d) > 0 {
+		svg, err := mapFigure(d, ts, true)
+		if err != nil {
+			return err
+		}
+		pg.Sections = append(pg.Sections, section{ID: "cure-map", Heading: "Degree of cure through the thickness",
+			Body: figureHTML(svg, mapCaption(d, true))})
+	}
+	svg, caption, err := profileFigure(d, ts)
+	if err != nil {
+		return err
+	}
+	pg.Sections = append(pg.Sections, section{ID: "profiles", Heading: "Profiles through the thickness",
+		Body: figureHTML(svg, caption)})
+	if len(d.Probes) > 0 || len(d.Drivers) > 0 || d.Power != nil {
+		svg, caption, err := historyFigure(d, ts)
+		if err != nil {
+			return err
+		}
+		pg.Sections = append(pg.Sections, section{ID: "histories", Heading: "Probe histories and the program",
+			Body: figureHTML(svg, caption)})
+	}
+	pg.Sections = append(pg.Sections, section{ID: "stack", Heading: "Stack", Body: stackHTML(d)})
+	return renderPage(w, pg)
+}
+
+// statusBadge returns the word shown next to the title and whether it is
+// good news.
+func statusBadge(s results.Summary) (string, bool) {
+	switch s.Status {
+	case results.StatusOK:
+		if len(s.Criteria) == 0 {
+			return "ran to the end · no criteria set", true
+		}
+		return "✓ every criterion met", true
+	case results.StatusCriteriaFailed:
+		n := 0
+		for _, v := range s.Criteria {
+			if !v.Pass {
+				n++
+			}
+		}
+		if n == 1 {
+			return "✗ 1 criterion FAILED", false
+		}
+		return fmt.Sprintf("✗ %d criteria FAILED", n), false
+	case results.StatusRunaway:
+		return "✗ RUNAWAY", false
+	case results.StatusFailed:
+		return "✗ run FAILED", false
+	}
+	return s.Status, false
+}
+
+// runAlerts lists what went wrong, one sentence each, for the box under the
+// title.
+func runAlerts(d *runData) []string {
+	s := d.Summary
+	var out []string
+	switch s.Status {
+	case results.StatusRunaway:
+		out = append(out, "✗ Runaway: "+s.Message)
+	case results.StatusFailed:
+		out = append(out, "✗ The run failed: "+s.Message)
+	}
+	for _, v := range s.Criteria {
+		if !v.Pass {
+			out = append(out, "✗ "+criterionSentence(v, s))
+		}
+	}
+	return out
+}
+
+// criterionText returns what a criterion requires, the value reached and
+// the limit, with units.
+func criterionText(v results.Verdict, s results.Summary) (req, value string) {
+	val, lim := results.OutPair(v.Value, v.Limit)
+	switch v.Name {
+	case results.CriterionMinCure:
+		req = "final cure ≥ " + lim + " in every curing cell"
+		value = val
+		if !math.IsNaN(v.Value) {
+			value += " at " + fmtMM(float64(s.MinFinalCureDepthMM))
+		}
+	case results.CriterionMaxTemperature:
+		req = "peak temperature ≤ " + lim + " °C"
+		value = val + " °C"
+		if !math.IsNaN(v.Value) {
+			value += " at " + fmtMM(float64(s.PeakDepthMM)) + ", t = " + fmtTime(float64(s.PeakTimeS))
+		}
+	case results.CriterionMaxSpread:
+		req = "spread in the curing layers ≤ " + lim + " K"
+		value = val + " K"
+	default:
+		req, value = v.Name+" limit "+lim, val
+	}
+	if math.IsNaN(v.Value) {
+		value = "n/a (no curing layer)"
+	}
+	return req, value
+}
+
+func criterionSentence(v results.Verdict, s results.Summary) string {
+	req, value := criterionText(v, s)
+	return fmt.Sprintf("%s FAILED: %s, required %s.", v.Name, value, req)
+}
+
+// summaryHTML is the summary table and the criteria table.
+func summaryHTML(d *runData) template.HTML {
+	s := d.Summary
+	f := func(x results.Float) float64 { return float64(x) }
+	var rows [][]string
+	add := func(k, v string) { rows = append(rows, []string{k, v}) }
+	add("status", s.Status)
+	add("peak temperature", fmt.Sprintf("%s at %s, t = %s", fmtC(f(s.PeakTemperatureC)), fmtMM(f(s.PeakDepthMM)), fmtTime(f(s.PeakTimeS))))
+	if results.OutOK(s.OvershootK) {
+		add("overshoot", fmt.Sprintf("%+.1f K over the hottest driving temperature", f(s.OvershootK)))
+	}
+	if results.OutOK(s.MaxSpreadK) {
+		add("largest spread", fmtK(f(s.MaxSpreadK))+" across the curing layers")
+	}
+	if results.OutOK(s.MinFinalCure) {
+		add("final cure", fmt.Sprintf("min %s at %s, mean %s", fmtCure(f(s.MinFinalCure)), fmtMM(f(s.MinFinalCureDepthMM)), fmtCure(f(s.MeanFinalCure))))
+		if results.OutOK(s.TimeToMinCureS) {
+			add("time to min_cure", fmtTime(f(s.TimeToMinCureS)))
+		}
+		gel := "never"
+		if results.OutOK(s.GelTimeFirstS) {
+			last := "some cells never gel"
+			if results.OutOK(s.GelTimeLastS) {
+				last = "last " + fmtTime(f(s.GelTimeLastS))
+			}
+			gel = "first " + fmtTime(f(s.GelTimeFirstS)) + ", " + last
+		}
+		add("gel time", gel)
+		if results.OutOK(s.MinFinalGlassTransitionC) {
+			add("lowest final glass transition", fmtC(f(s.MinFinalGlassTransitionC)))
+		}
+	}
+	add("energy balance error", strconv.FormatFloat(f(s.EnergyBalanceError), 'g', 2, 64)+" (relative)")
+	add("steps", fmt.Sprintf("%d, end t = %s", s.Steps, fmtTime(f(s.EndTimeS))))
+	if s.Message != "" {
+		add("stopped", s.Message)
+	}
+	var b strings.Builder
+	b.WriteString(`<div class="cols"><div>`)
+	b.WriteString(string(tableHTML([]string{"result", "value"}, rows, map[int]bool{1: true})))
+	b.WriteString("</div><div>")
+	if len(s.Criteria) == 0 {
+		b.WriteString("<p>No acceptance criteria were set ([criteria] in the case file).</p>")
+	} else {
+		var cr [][]string
+		for _, v := range s.Criteria {
+			req, value := criterionText(v, s)
+			r := []string{v.Name, req, value, passMark}
+			if !v.Pass {
+				r[0], r[3] = "!"+v.Name, failMark
+			}
+			cr = append(cr, r)
+		}
+		b.WriteString(string(tableHTML([]string{"criterion", "requirement", "reached", "result"}, cr, map[int]bool{2: true})))
+	}
+	b.WriteString("</div></div>\n")
+	return template.HTML(b.String())
+}
+
+// stackHTML lists the layers as the output files hold them.
+func stackHTML(d *runData) template.HTML {
+	var rows [][]string
+	for _, l := range d.Layers {
+		cures, gel := "no", ""
+		if l.Curing {
+			cures = "yes"
+			gel = "not recorded"
+			if l.GelPointKnown {
+				gel = strconv.FormatFloat(l.GelPoint, 'g', 4, 64)
+			}
+		}
+		rows = append(rows, []string{l.Name,
+			strconv.FormatFloat(l.Top, 'g', 5, 64) + " – " + strconv.FormatFloat(l.Bottom, 'g', 5, 64),
+			strconv.FormatFloat(l.Bottom-l.Top, 'g', 5, 64), strconv.Itoa(l.End - l.First), cures, gel})
+	}
+	return tableHTML([]string{"layer", "depth (mm)", "thickness (mm)", "cells", "cures", "gel point"}, rows,
+		map[int]bool{1: true, 2: true, 3: true})
+}
+
+func curingLayers(d *runData) int {
+	n := 0
+	for _, l := range d.Layers {
+		if l.Curing {
+			n++
+		}
+	}
+	return n
+}
+
+func thickness(d *runData) float64 { return d.Faces[len(d.Faces)-1] }
+
+// valueRange returns the smallest and largest value of v that are not NaN.
+func valueRange(v ...[]float64) (lo, hi float64) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, x := range v {
+		for _, y := range x {
+			if !math.IsNaN(y) {
+				lo, hi = min(lo, y), max(hi, y)
+			}
+		}
+	}
+	return lo, hi
+}
+
+// mapFigure draws the depth–time map of temperature (cure false) or degree
+// of cure, with the layer faces, and the peak (temperature) or the gel
+// front (cure), and its colour bar.
+func mapFigure(d *runData, ts timeScale, cure bool) (string, error) {
+	vals, lo, hi := d.T, 0.0, 1.0
+	label, title := "temperature (°C)", "depth–time map of temperature"
+	if cure {
+		vals = d.Cure
+		label, title = "degree of cure (–)", "depth–time map of degree of cure"
+	} else {
+		lo, hi = valueRange(d.T...)
+		if hi-lo < 1 {
+			lo, hi = (lo+hi)/2-0.5, (lo+hi)/2+0.5
+		}
+	}
+	img := mapImage(d.Times, d.Faces, vals, lo, hi)
+	L := thickness(d)
+	x0, x1 := d.Times[0]/ts.div, d.Times[len(d.Times)-1]/ts.div
+	return svgFigure(figWidth, mapHeight, title, func(dc draw.Canvas) error {
+		p := newPlot("time ("+ts.unit+")", "depth (mm)")
+		invertDepth(p, L)
+		p.X.Min, p.X.Max = x0, x1
+		p.Add(&rasterMap{img: img, x0: x0, x1: x1, y0: 0, y1: L})
+		if err := addLayerFaces(p, d, x0, x1, true); err != nil {
+			return err
+		}
+		for _, l := range d.Layers {
+			name := l.Name
+			if cure && !l.Curing {
+				name += " (does not cure)"
+			}
+			p.Add(&tag{X: x0, Y: l.Top, Text: name, XAlign: draw.XLeft, YAlign: draw.YTop,
+				DX: vg.Points(4), DY: vg.Points(-3), MaxHeight: l.Bottom - l.Top})
+		}
+		if cure {
+			if err := addGelFronts(p, d, ts, x0, x1); err != nil {
+				return err
+			}
+		} else if pt, pz := float64(d.Summary.PeakTimeS)/ts.div, float64(d.Summary.PeakDepthMM); results.OutOK(d.Summary.PeakTimeS) && results.OutOK(d.Summary.PeakDepthMM) {
+			p.Add(&marker{X: pt, Y: pz})
+			tg := &tag{X: pt, Y: pz, Text: "peak " + fmtC(float64(d.Summary.PeakTemperatureC)),
+				XAlign: draw.XLeft, YAlign: draw.YCenter, DX: vg.Points(7)}
+			if pt > x0+0.72*(x1-x0) {
+				tg.XAlign, tg.DX = draw.XRight, vg.Points(-7)
+			}
+			p.Add(tg)
+		}
+		left := draw.Crop(dc, 0, -colorBarWidth, 0, 0)
+		p.Draw(left)
+		da := p.DataCanvas(left)
+		strip := draw.Crop(dc, dc.Max.X-dc.Min.X-colorBarWidth, 0, 0, 0)
+		colorBar(strip, da, lo, hi, label)
+		return nil
+	})
+}
+
+// addLayerFaces draws the faces between layers across [x0, x1]: dashed
+// with a white band on a map, dotted grey on a line panel.
+func addLayerFaces(p *plot.Plot, d *runData, x0, x1 float64, onMap bool) error {
+	for _, l := range d.Layers[1:] {
+		s := series{X: []float64{x0, x1}, Y: []float64{l.Top, l.Top}, Color: ink,
+			Width: vg.Points(0.6), Dash: []vg.Length{vg.Points(3), vg.Points(2)}, Halo: true}
+		if !onMap {
+			s.Color, s.Width, s.Dash, s.Halo = inkSoft, vg.Points(0.5), []vg.Length{vg.Points(1), vg.Points(2)}, false
+		}
+		if _, err := addSeries(p, s); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// addGelFronts draws, for every curing layer whose gel point is known, the
+// line through (gel time, depth) of its cells, and a label at its latest
+// point.
+func addGelFronts(p *plot.Plot, d *runData, ts timeScale, x0, x1 float64) error {
+	for _, l := range d.Layers {
+		if !l.GelPointKnown {
+			continue
+		}
+		var x, y []float64
+		last, lastZ := math.Inf(-1), 0.0
+		for i := l.First; i < l.End; i++ {
+			x = append(x, d.GelTime[i]/ts.div)
+			y = append(y, d.Centers[i])
+			if d.GelTime[i] > last {
+				last, lastZ = d.GelTime[i], d.Centers[i]
+			}
+		}
+		if math.IsInf(last, -1) {
+			continue
+		}
+		if _, err := addSeries(p, series{X: x, Y: y, Color: ink, Width: vg.Points(1.3), Halo: true}); err != nil {
+			return err
+		}
+		tg := &tag{X: last / ts.div, Y: lastZ, Text: "gel front (α = " + strconv.FormatFloat(l.GelPoint, 'g', 3, 64) + ")",
+			XAlign: draw.XLeft, YAlign: draw.YCenter, DX: vg.Points(6)}
+		if last/ts.div > x0+0.7*(x1-x0) {
+			tg.XAlign, tg.DX = draw.XRight, vg.Points(-6)
+		}
+		p.Add(tg)
+	}
+	return nil
+}
+
+func mapCaption(d *runData, cure bool) string {
+	var b strings.Builder
+	if cure {
+		b.WriteString("Degree of cure (0 uncured, 1 fully cured) over time and depth; depth 0 is the top face. " +
+			"Dashed lines: faces between layers; light grey: layers that do not cure. " +
+			"Solid black line: the gel front, the time at which each depth reaches its layer's gel point (read from the output times, linearly interpolated).")
+		for _, l := range d.Layers {
+			if l.Curing && !l.GelPointKnown {
+				fmt.Fprintf(&b, " The gel front of %q is not drawn: the output files do not record its gel point.", l.Name)
+			}
+		}
+		return b.String()
+	}
+	b.WriteString("Temperature over time and depth; depth 0 is the top face. Dashed lines: faces between layers. " +
+		"The ring marks the hottest point of the run.")
+	return b.String()
+}
+
+// profileTimes picks the output times of the profiles: the ones nearest to
+// 1/5, 2/5, …, 5/5 of the run, and the one nearest to the peak. It returns
+// indices into times, increasing, and the index of the peak's (or −1).
+func profileTimes(times []float64, peak float64) ([]int, int) {
+	nt := len(times)
+	near := func(t float64) int {
+		k := sort.SearchFloat64s(times, t)
+		switch {
+		case k >= nt:
+			return nt - 1
+		case k > 0 && t-times[k-1] <= times[k]-t:
+			return k - 1
+		}
+		return k
+	}
+	seen := map[int]bool{}
+	var idx []int
+	for k := 1; k <= 5; k++ {
+		i := near(times[0] + (times[nt-1]-times[0])*float64(k)/5)
+		if !seen[i] {
+			seen[i] = true
+			idx = append(idx, i)
+		}
+	}
+	pk := -1
+	if !math.IsNaN(peak) {
+		pk = near(peak)
+		if !seen[pk] {
+			idx = append(idx, pk)
+		}
+	}
+	sort.Ints(idx)
+	return idx, pk
+}
+
+// profileFigure draws temperature and degree of cure against depth at the
+// times of profileTimes, side by side, with one legend of the times.
+func profileFigure(d *runData, ts timeScale) (string, string, error) {
+	idx, pk := profileTimes(d.Times, float64(d.Summary.PeakTimeS))
+	L := thickness(d)
+	withCure := curingLayers(d) > 0
+	caption := "Temperature"
+	if withCure {
+		caption += " (left) and degree of cure (right)"
+	}
+	caption += " through the thickness at five output times spread evenly over the run, and at the output time nearest the peak (thick line). " +
+		"Depth 0 is the top face; dotted lines: faces between layers."
+	svg, err := svgFigure(figWidth, profileHeight, "profiles through the thickness", func(dc draw.Canvas) error {
+		pT, pA, plots := profilePlots(L, withCure)
+		var sel [][]float64
+		for _, k := range idx {
+			sel = append(sel, d.T[k])
+		}
+		lo, hi := valueRange(sel...)
+		pT.X.Min, pT.X.Max = niceRange(lo, hi, 0.04, 2)
+		if err := addLayerFaces(pT, d, pT.X.Min, pT.X.Max, false); err != nil {
+			return err
+		}
+		if pA != nil {
+			pA.X.Min, pA.X.Max = 0, 1.0
+			if err := addLayerFaces(pA, d, 0, 1, false); err != nil {
+				return err
+			}
+		}
+		leg := newLegend()
+		var labels []string
+		for j, k := range idx {
+			c, dash := lineColor(j)
+			w := vg.Points(1.3)
+			name := "t = " + strconv.FormatFloat(d.Times[k]/ts.div, 'g', 3, 64) + " " + ts.unit
+			if k == pk {
+				w = vg.Points(2.6)
+				name += " (peak)"
+			}
+			l, err := addSeries(pT, series{X: d.T[k], Y: d.Centers, Color: c, Width: w, Dash: dash})
+			if err != nil {
+				return err
+			}
+			if pA != nil {
+				if _, err := addSeries(pA, series{X: d.Cure[k], Y: d.Centers, Color: c, Width: w, Dash: dash}); err != nil {
+					return err
+				}
+			}
+			if l != nil {
+				leg.Add(name, l)
+				labels = append(labels, name)
+			}
+		}
+		lw := legendWidthFor(labels)
+		left := draw.Crop(dc, 0, -lw, 0, 0)
+		tiles := draw.Tiles{Rows: 1, Cols: len(plots), PadX: vg.Points(16)}
+		cs := plot.Align([][]*plot.Plot{plots}, tiles, left)
+		for i, p := range plots {
+			p.Draw(cs[0][i])
+		}
+		da := pT.DataCanvas(cs[0][0])
+		legendAt(draw.Crop(dc, dc.Max.X-dc.Min.X-lw+vg.Points(10), 0, 0, 0), da, leg)
+		return nil
+	})
+	return svg, caption, err
+}
+
+// legendWidthFor returns the width of a legend strip for the given entry
+// texts: at least legendWidth, at most 40 % of the figure.
+func legendWidthFor(labels []string) vg.Length {
+	sty := textStyle(legendSize)
+	w := vg.Length(0)
+	for _, l := range labels {
+		w = max(w, sty.Width(l))
+	}
+	return min(max(legendWidth, w+vg.Points(22+5+14)), 0.4*figWidth)
+}
+
+// legendAt draws leg in the strip c, its top level with the top of the data
+// area da.
+func legendAt(c draw.Canvas, da draw.Canvas, leg plot.Legend) {
+	c.Max.Y = da.Max.Y
+	leg.Draw(c)
+}
+
+// historyFigure draws the probe temperatures with the driving temperatures,
+// the probe cures, and the power fraction, over time, in panels one above
+// the other with a shared time axis.
+func historyFigure(d *runData, ts timeScale) (string, string, error) {
+	t := ts.of(d.Times)
+	x0, x1 := t[0], t[len(t)-1]
+	var withCure bool
+	for _, pr := range d.Probes {
+		if pr.Cure != nil {
+			withCure = true
+		}
+	}
+	limits := map[string]float64{}
+	for _, v := range d.Summary.Criteria {
+		limits[v.Name] = v.Limit
+	}
+	nPanels := 1
+	if withCure {
+		nPanels++
+	}
+	if d.Power != nil {
+		nPanels++
+	}
+	caption := "Temperature at each probe depth"
+	if len(d.Drivers) > 0 {
+		caption += ", with the air temperatures that drive the part (black and grey, dashed)"
+	}
+	if withCure {
+		caption += "; degree of cure at the probes in curing layers"
+	}
+	if d.Power != nil {
+		caption += "; the power fraction of the controlled volumetric heating"
+	}
+	caption += ". Horizontal dash-dot lines: the limits of the criteria."
+	h := vg.Length(panelHeight*nPanels + 20)
+	svg, err := svgFigure(figWidth, h, "probe histories", func(dc draw.Canvas) error {
+		xl := "time (" + ts.unit + ")"
+		leg := newLegend()
+		var labels []string
+		legAdd := func(name string, l plot.Thumbnailer) {
+			leg.Add(name, l)
+			labels = append(labels, name)
+		}
+		pT := newPlot(xl, "temperature (°C)")
+		addGrid(pT)
+		var lines [][]float64
+		for j, pr := range d.Probes {
+			c, dash := lineColor(j)
+			l, err := addSeries(pT, series{X: t, Y: pr.T, Color: c, Dash: dash})
+			if err != nil {
+				return err
+			}
+			lines = append(lines, pr.T)
+			if l != nil {
+				legAdd("at "+pr.Label+" mm", l)
+			}
+		}
+		for j, dv := range d.Drivers {
+			c, dash := ink, []vg.Length{vg.Points(5), vg.Points(3)}
+			if j%2 == 1 {
+				c, dash = inkSoft, []vg.Length{vg.Points(1.5), vg.Points(2.5)}
+			}
+			l, err := addSeries(pT, series{X: t, Y: dv.Values, Color: c, Width: vg.Points(1.1), Dash: dash})
+			if err != nil {
+				return err
+			}
+			lines = append(lines, dv.Values)
+			if l != nil {
+				legAdd(dv.Name, l)
+			}
+		}
+		lo, hi := valueRange(lines...)
+		if lim, ok := limits[results.CriterionMaxTemperature]; ok && !math.IsNaN(lim) {
+			if err := addLimit(pT, x0, x1, lim, "max_temperature "+strconv.FormatFloat(lim, 'g', 4, 64)+" °C"); err != nil {
+				return err
+			}
+			lo, hi = min(lo, lim), max(hi, lim)
+		}
+		if math.IsInf(lo, 1) {
+			lo, hi = 0, 1
+		}
+		pT.Y.Min, pT.Y.Max = niceRange(lo, hi, 0.05, 2)
+		plots := [][]*plot.Plot{{pT}}
+		if withCure {
+			pA := newPlot(xl, "degree of cure (–)")
+			addGrid(pA)
+			for j, pr := range d.Probes {
+				if pr.Cure == nil {
+					continue
+				}
+				c, dash := lineColor(j)
+				if _, err := addSeries(pA, series{X: t, Y: pr.Cure, Color: c, Dash: dash}); err != nil {
+					return err
+				}
+			}
+			if lim, ok := limits[results.CriterionMinCure]; ok && !math.IsNaN(lim) {
+				if err := addLimit(pA, x0, x1, lim, "min_cure "+strconv.FormatFloat(lim, 'g', 4, 64)); err != nil {
+					return err
+				}
+			}
+			pA.Y.Min, pA.Y.Max = 0, 1.04
+			plots = append(plots, []*plot.Plot{pA})
+		}
+		if d.Power != nil {
+			pP := newPlot(xl, "power fraction (–)")
+			addGrid(pP)
+			l, err := addSeries(pP, series{X: t, Y: d.Power, Color: ink, Width: vg.Points(1.1)})
+			if err != nil {
+				return err
+			}
+			if l != nil {
+				legAdd("power fraction", l)
+			}
+			pP.Y.Min, pP.Y.Max = 0, 1.04
+			plots = append(plots, []*plot.Plot{pP})
+		}
+		for i, row := range plots {
+			row[0].X.Min, row[0].X.Max = x0, x1
+			if i < len(plots)-1 {
+				row[0].X.Label.Text = "" // the panels share the time axis of the lowest
+			}
+		}
+		lw := legendWidthFor(labels)
+		left := draw.Crop(dc, 0, -lw, 0, 0)
+		cs := plot.Align(plots, draw.Tiles{Rows: len(plots), Cols: 1, PadY: vg.Points(8)}, left)
+		for i, row := range plots {
+			row[0].Draw(cs[i][0])
+		}
+		da := pT.DataCanvas(cs[0][0])
+		legendAt(draw.Crop(dc, dc.Max.X-dc.Min.X-lw+vg.Points(10), 0, 0, 0), da, leg)
+		return nil
+	})
+	return svg, caption, err
+}
+
+// addLimit draws a criterion limit as a horizontal dash-dot line across the
+// panel, labelled at its right end.
+func addLimit(p *plot.Plot, x0, x1, y float64, label string) error {
+	if _, err := addSeries(p, series{X: []float64{x0, x1}, Y: []float64{y, y}, Color: ink, Width: vg.Points(0.9),
+		Dash: []vg.Length{vg.Points(6), vg.Points(2), vg.Points(1.5), vg.Points(2)}}); err != nil {
+		return err
+	}
+	// The label goes below the line in the upper part of the panel and above
+	// it in the lower part, so that it stays inside (see limitLabels).
+	p.Add(&limitTag{tag{X: x1, Y: y, Text: label, XAlign: draw.XRight, DX: vg.Points(-3)}})
+	return nil
+}
+
+// limitTag is a tag on a limit line that sits below the line when the line
+// is in the upper half of the panel, above it otherwise.
+type limitTag struct{ tag }
+
+// Plot implements plot.Plotter.
+func (t *limitTag) Plot(c draw.Canvas, p *plot.Plot) {
+	tg := t.tag
+	if p.Y.Norm(tg.Y) > 0.5 {
+		tg.YAlign, tg.DY = draw.YTop, vg.Points(-3)
+	} else {
+		tg.YAlign, tg.DY = draw.YBottom, vg.Points(3)
+	}
+	tg.Plot(c, p)
+}
+
+// profilePlots returns the empty plots of profiles through a stack of
+// thickness L (mm): temperature, and degree of cure when withCure (else nil),
+// depth downward, with grids; plots lists them left to right.
+func profilePlots(L float64, withCure bool) (pT, pA *plot.Plot, plots []*plot.Plot) {
+	pT = newPlot("temperature (°C)", "depth (mm)")
+	invertDepth(pT, L)
+	addGrid(pT)
+	plots = []*plot.Plot{pT}
+	if withCure {
+		pA = newPlot("degree of cure (–)", "depth (mm)")
+		invertDepth(pA, L)
+		addGrid(pA)
+		plots = append(plots, pA)
+	}
+	return pT, pA, plots
+}

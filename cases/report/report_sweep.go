@@ -1,0 +1,717 @@
+package report
+
+import (
+	"bytes"
+	"cureslab/cases"
+	"cureslab/cases/internal/num"
+	"cureslab/cases/internal/textout"
+	"cureslab/cases/results"
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"html/template"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+)
+
+// SweepReportFile is the name of the HTML report of a sweep.
+const SweepReportFile = "report.html"
+
+// WriteSweepReport reads dir/summary.csv and dir/sweep.json (as written by
+// Sweep.Run or MergeSweeps) and writes dir/report.html: one self-contained
+// page in the style of the run report.
+//
+//   - two varied keys in grid mode: process-window maps of min_final_cure
+//     and of peak_temperature_C, one cell per run (first key across, second
+//     key up, in the order of the values as written), coloured with the
+//     cividis palette; a cell whose run did not pass (a criterion failed,
+//     or the run failed or ran away) is outlined and crossed;
+//   - one varied key: min_final_cure and peak_temperature_C against it,
+//     runs that did not pass marked with a cross;
+//   - otherwise (more keys, or latin-hypercube with two or more keys): a
+//     table of every run, the worst first.
+//
+// Every page also lists the runs that did not pass. Axes take their unit
+// from the values as written ("4mm" → "(mm)"); values without a common
+// unit are placed in order, one step apart, and labelled as written.
+//
+// Order of the tables: with crit (the case's criteria, nil when unknown),
+// by the smallest relative margin over the criteria that crit sets,
+// smallest first, where the margin of min_cure is (v − L)/L, of
+// max_temperature (L − v)/L with both in kelvin, and of max_spread
+// (L − v)/L; runs without a value (failed) come first. crit is ignored
+// when a varied key is under "criteria." (the limits differ between runs).
+// Without limits: by status (failed, runaway, criteria-failed, ok), then
+// by min_final_cure, smallest first.
+//
+// title heads the page ("" gives "Sweep in DIR"). Errors: a missing or
+// malformed summary.csv or sweep.json, with the file named; nothing is
+// written then. Cost: linear in the number of runs.
+func WriteSweepReport(dir, title string, crit *cases.Criteria) error {
+	sd, err := readSweepData(dir)
+	if err != nil {
+		return err
+	}
+	if title == "" {
+		title = "Sweep in " + filepath.Base(filepath.Clean(dir))
+	}
+	for _, k := range sd.Keys {
+		if strings.HasPrefix(k, "criteria.") {
+			crit = nil
+		}
+	}
+	var b bytes.Buffer
+	if err := renderSweepReport(&b, sd, title, crit, reportClock()); err != nil {
+		return fmt.Errorf("drawing %s: %w", SweepReportFile, err)
+	}
+	if err := textout.WriteFileAtomic(dir, SweepReportFile, func(w io.Writer) error {
+		_, err := w.Write(b.Bytes())
+		return err
+	}); err != nil {
+		return fmt.Errorf("writing %s: %w", filepath.Join(dir, SweepReportFile), err)
+	}
+	return nil
+}
+
+// sweepData is the content of a sweep directory as the report shows it.
+type sweepData struct {
+	Mode   string
+	Keys   []string
+	Values [][]string  // grid: the values of each key as written, in order
+	Ranges [][2]string // latin-hypercube: the range of each key, as written
+	Runs   int         // runs of the sweep (rows may be fewer)
+	Rows   []sweepRow  // in the order of summary.csv
+	Crit   []string    // criteria with a _pass column set in some row
+}
+
+// sweepRow is one row of summary.csv.
+type sweepRow struct {
+	Run    int
+	Vals   []string           // varied values as written, one per key
+	Num    map[string]float64 // summary columns; NaN when empty
+	Pass   map[string]string  // criterion -> "true", "false" or ""
+	Status string
+	Error  string
+}
+
+// passed reports whether the run is ok and fails no criterion.
+func (r *sweepRow) passed() bool {
+	if r.Status != results.StatusOK {
+		return false
+	}
+	for _, p := range r.Pass {
+		if p == "false" {
+			return false
+		}
+	}
+	return true
+}
+
+func (r *sweepRow) num(col string) float64 {
+	if v, ok := r.Num[col]; ok {
+		return v
+	}
+	return math.NaN()
+}
+
+func readSweepData(dir string) (*sweepData, error) {
+	defPath := filepath.Join(dir, results.SweepDefinitionFile)
+	b, err := os.ReadFile(defPath)
+	if err != nil {
+		return nil, fmt.Errorf("sweep report: cannot read %s: %w", defPath, err)
+	}
+	var def results.SweepDef
+	if err := json.Unmarshal(b, &def); err != nil {
+		return nil, fmt.Errorf("sweep report: %s is not a sweep definition: %v", defPath, err)
+	}
+	if def.Format != results.SweepFormat || len(def.Vary) == 0 {
+		return nil, fmt.Errorf("sweep report: %s is not a sweep definition of format %s with varied keys", defPath, results.SweepFormat)
+	}
+	sd := &sweepData{Mode: def.Mode, Runs: def.Runs}
+	for _, v := range def.Vary {
+		sd.Keys = append(sd.Keys, v.Key)
+		sd.Values = append(sd.Values, v.Values)
+		sd.Ranges = append(sd.Ranges, [2]string{v.From, v.To})
+	}
+	sumPath := filepath.Join(dir, results.SweepSummaryFile)
+	f, err := os.Open(sumPath)
+	if err != nil {
+		return nil, fmt.Errorf("sweep report: cannot read %s: %w", sumPath, err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		return nil, fmt.Errorf("sweep report: %s: %v", sumPath, err)
+	}
+	if len(recs) == 0 {
+		return nil, fmt.Errorf("sweep report: %s is empty", sumPath)
+	}
+	col := map[string]int{}
+	for i, h := range recs[0] {
+		col[h] = i
+	}
+	for _, need := range append(append([]string{"run"}, sd.Keys...), "status") {
+		if _, ok := col[need]; !ok {
+			return nil, fmt.Errorf("sweep report: %s has no column %q", sumPath, need)
+		}
+	}
+	seenCrit := map[string]bool{}
+	for li, rec := range recs[1:] {
+		line := li + 2
+		if len(rec) != len(recs[0]) {
+			return nil, fmt.Errorf("sweep report: %s:%d: %d fields, want %d", sumPath, line, len(rec), len(recs[0]))
+		}
+		run, err := strconv.Atoi(rec[col["run"]])
+		if err != nil || run < 0 {
+			return nil, fmt.Errorf("sweep report: %s:%d: run %q is not a run index", sumPath, line, rec[col["run"]])
+		}
+		r := sweepRow{Run: run, Num: map[string]float64{}, Pass: map[string]string{}, Status: rec[col["status"]]}
+		if i, ok := col["error"]; ok {
+			r.Error = rec[i]
+		}
+		for _, k := range sd.Keys {
+			r.Vals = append(r.Vals, rec[col[k]])
+		}
+		for _, c := range results.SweepColumns {
+			i, ok := col[c.Name]
+			if !ok {
+				continue
+			}
+			v := math.NaN()
+			if s := rec[i]; s != "" {
+				if v, err = strconv.ParseFloat(s, 64); err != nil {
+					return nil, fmt.Errorf("sweep report: %s:%d: %s %q is not a number", sumPath, line, c.Name, s)
+				}
+			}
+			r.Num[c.Name] = v
+		}
+		for _, c := range results.SweepCriteria {
+			if i, ok := col[c+"_pass"]; ok && rec[i] != "" {
+				r.Pass[c] = rec[i]
+				seenCrit[c] = true
+			}
+		}
+		sd.Rows = append(sd.Rows, r)
+	}
+	for _, c := range results.SweepCriteria {
+		if seenCrit[c] {
+			sd.Crit = append(sd.Crit, c)
+		}
+	}
+	return sd, nil
+}
+
+// Columns drawn, with their axis labels.
+const (
+	colCure = "min_final_cure"
+	colPeak = "peak_temperature_C"
+)
+
+var sweepLabels = map[string]string{
+	colCure: "least final degree of cure (–)",
+	colPeak: "peak temperature (°C)",
+}
+
+func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Criteria, now time.Time) error {
+	pg := &page{Title: title, Kind: "sweep", Drawn: stamp(now)}
+	bad := 0
+	for i := range sd.Rows {
+		if !sd.Rows[i].passed() {
+			bad++
+		}
+	}
+	pg.Status, pg.StatusOK = fmt.Sprintf("✓ all %d runs passed", len(sd.Rows)), bad == 0
+	if bad > 0 {
+		pg.Status = fmt.Sprintf("✗ %d of %d runs did not pass", bad, len(sd.Rows))
+	}
+	if len(sd.Rows) < sd.Runs {
+		pg.Alerts = append(pg.Alerts, fmt.Sprintf("%d of the sweep's %d runs are missing from %s (an unfinished sweep or shard).",
+			sd.Runs-len(sd.Rows), sd.Runs, results.SweepSummaryFile))
+		pg.StatusOK = false
+	}
+	pg.Sections = append(pg.Sections, section{ID: "sweep", Heading: "The sweep",
+		Body: tableHTML([]string{"", "value"}, sweepFacts(sd), nil)})
+	order := sweepOrder(sd, crit)
+	switch {
+	case len(sd.Rows) == 0:
+	case len(sd.Keys) == 2 && sd.Mode == cases.ModeGrid:
+		for _, c := range []string{colCure, colPeak} {
+			svg, _, err := sweepMapFigure(sd, c)
+			if err != nil {
+				return err
+			}
+			pg.Sections = append(pg.Sections, section{ID: "map-" + c, Heading: "Process window: " + sweepLabels[c],
+				Body: figureHTML(svg, "One cell per run, coloured by "+c+" ("+results.SweepSummaryFile+"). Outlined and crossed cells: "+
+					"runs that did not pass (a criterion failed, or the run failed or ran away). Grey: no value.")})
+		}
+	case len(sd.Keys) == 1:
+		svg, err := sweepLineFigure(sd)
+		if err != nil {
+			return err
+		}
+		pg.Sections = append(pg.Sections, section{ID: "lines", Heading: "Against " + sd.Keys[0],
+			Body: figureHTML(svg, "Least final degree of cure and peak temperature of each run. Crosses: runs that did not pass "+
+				"(a criterion failed, or the run failed or ran away).")})
+	default:
+		pg.Sections = append(pg.Sections, section{ID: "runs", Heading: "Every run, the worst first",
+			Intro: sweepOrderText(crit), Body: sweepTable(sd, order, crit)})
+		return renderPage(w, pg)
+	}
+	var failing []int
+	for _, i := range order {
+		if !sd.Rows[i].passed() {
+			failing = append(failing, i)
+		}
+	}
+	if len(failing) > 0 {
+		pg.Sections = append(pg.Sections, section{ID: "not-passed", Heading: "Runs that did not pass",
+			Intro: sweepOrderText(crit), Body: sweepTable(sd, failing, crit)})
+	}
+	return renderPage(w, pg)
+}
+
+func sweepFacts(sd *sweepData) [][]string {
+	mode := sd.Mode
+	if mode == cases.ModeGrid {
+		mode = "grid (every combination)"
+	}
+	rows := [][]string{{"mode", mode}, {"runs", fmt.Sprintf("%d in %s of %d", len(sd.Rows), results.SweepSummaryFile, sd.Runs)}}
+	for k, key := range sd.Keys {
+		v := "sampled from " + sd.Ranges[k][0] + " to " + sd.Ranges[k][1]
+		if len(sd.Values[k]) > 0 {
+			v = strings.Join(sd.Values[k], ", ")
+		}
+		rows = append(rows, []string{"varied: " + key, v})
+	}
+	return rows
+}
+
+func sweepOrderText(crit *cases.Criteria) string {
+	if sweepLimits(crit) == nil {
+		return "Sorted by status (failed, runaway, criteria-failed, ok), then by least final cure."
+	}
+	return "Sorted by the smallest margin to a criterion limit, as a fraction of the limit (temperatures in kelvin); negative margins fail."
+}
+
+// sweepLimits returns the limits that crit sets, by criterion, in the units
+// of summary.csv (°C for max_temperature); nil when none.
+func sweepLimits(crit *cases.Criteria) map[string]float64 {
+	if crit == nil {
+		return nil
+	}
+	m := map[string]float64{}
+	if !math.IsNaN(crit.MinCure) {
+		m[results.CriterionMinCure] = crit.MinCure
+	}
+	if !math.IsNaN(crit.MaxTemperature) {
+		m[results.CriterionMaxTemperature] = num.Celsius(crit.MaxTemperature)
+	}
+	if !math.IsNaN(crit.MaxSpread) {
+		m[results.CriterionMaxSpread] = crit.MaxSpread
+	}
+	if len(m) == 0 {
+		return nil
+	}
+	return m
+}
+
+// sweepMargin returns the smallest relative margin of r over lim (see
+// WriteSweepReport); NaN when a limited quantity has no value in a run that
+// did not finish, +Inf when no criterion applies.
+func sweepMargin(r *sweepRow, lim map[string]float64) float64 {
+	m := math.Inf(1)
+	for c, L := range lim {
+		var v, x float64
+		switch c {
+		case results.CriterionMinCure:
+			v = r.num(colCure)
+			x = (v - L) / L
+		case results.CriterionMaxTemperature:
+			v = r.num(colPeak)
+			x = (L - v) / (L + 273.15)
+		case results.CriterionMaxSpread:
+			v = r.num("max_spread_K")
+			x = (L - v) / L
+		}
+		if math.IsNaN(v) {
+			if r.Status == results.StatusFailed || r.Status == results.StatusRunaway {
+				return math.NaN()
+			}
+			continue // the quantity does not exist: holds vacuously
+		}
+		m = min(m, x)
+	}
+	return m
+}
+
+var statusRank = map[string]int{results.StatusFailed: 0, results.StatusRunaway: 1, results.StatusCriteriaFailed: 2, results.StatusOK: 3}
+
+// sweepOrder returns the row indices, the worst first (see WriteSweepReport).
+func sweepOrder(sd *sweepData, crit *cases.Criteria) []int {
+	idx := make([]int, len(sd.Rows))
+	for i := range idx {
+		idx[i] = i
+	}
+	lim := sweepLimits(crit)
+	// key: NaN sorts first, then ascending; ties by run index.
+	less := func(a, b float64) (bool, bool) {
+		na, nb := math.IsNaN(a), math.IsNaN(b)
+		switch {
+		case na && nb:
+			return false, false
+		case na:
+			return true, true
+		case nb:
+			return false, true
+		case a != b:
+			return a < b, true
+		}
+		return false, false
+	}
+	sort.SliceStable(idx, func(i, j int) bool {
+		ri, rj := &sd.Rows[idx[i]], &sd.Rows[idx[j]]
+		if lim != nil {
+			if l, ok := less(sweepMargin(ri, lim), sweepMargin(rj, lim)); ok {
+				return l
+			}
+		} else {
+			si, ok1 := statusRank[ri.Status]
+			sj, ok2 := statusRank[rj.Status]
+			if !ok1 {
+				si = -1
+			}
+			if !ok2 {
+				sj = -1
+			}
+			if si != sj {
+				return si < sj
+			}
+			// Without a value (no curing layer) last.
+			if l, ok := less(-ri.num(colCure), -rj.num(colCure)); ok {
+				return !l
+			}
+		}
+		return ri.Run < rj.Run
+	})
+	return idx
+}
+
+// sweepTable lists the rows idx in that order; a run that did not pass is
+// marked failed.
+func sweepTable(sd *sweepData, idx []int, crit *cases.Criteria) template.HTML {
+	lim := sweepLimits(crit)
+	head := append([]string{"run"}, sd.Keys...)
+	head = append(head, "status", "least final cure (–)", "peak temperature (°C)", "largest spread (K)")
+	if lim != nil {
+		head = append(head, "smallest margin")
+	}
+	head = append(head, "failed criteria / error")
+	num := map[int]bool{}
+	var rows [][]string
+	for _, i := range idx {
+		r := &sd.Rows[i]
+		run := strconv.Itoa(r.Run)
+		if !r.passed() {
+			run = "!" + run
+		}
+		row := append([]string{run}, r.Vals...)
+		row = append(row, r.Status, fmtCure(r.num(colCure)), fmtNum(r.num(colPeak), 1), fmtNum(r.num("max_spread_K"), 1))
+		if lim != nil {
+			m := sweepMargin(r, lim)
+			s := "n/a"
+			if !math.IsNaN(m) && !math.IsInf(m, 0) {
+				s = fmt.Sprintf("%+.1f %%", 100*m)
+			}
+			row = append(row, s)
+		}
+		var why []string
+		for _, c := range results.SweepCriteria {
+			if r.Pass[c] == "false" {
+				why = append(why, c)
+			}
+		}
+		if r.Error != "" {
+			why = append(why, r.Error)
+		}
+		row = append(row, strings.Join(why, "; "))
+		rows = append(rows, row)
+	}
+	for k := len(sd.Keys) + 2; k < len(head)-1; k++ {
+		num[k] = true
+	}
+	return tableHTML(head, rows, num)
+}
+
+func fmtNum(v float64, dec int) string {
+	if math.IsNaN(v) {
+		return "n/a"
+	}
+	return strconv.FormatFloat(v, 'f', dec, 64)
+}
+
+var valueUnit = regexp.MustCompile(`^\s*([-+]?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][-+]?[0-9]+)?)\s*(.*?)\s*$`)
+
+// sweepAxis places values as written on an axis: at their numbers when all
+// share one unit (numeric), else at 0, 1, 2 ... labelled as written.
+type sweepAxis struct {
+	Label   string
+	Pos     map[string]float64 // value as written -> position
+	Numeric bool
+	Ticks   []plot.Tick // for a categorical axis (and for a map)
+}
+
+// newSweepAxis builds the axis of key over vals (distinct, in order). With
+// cells true the axis is always categorical (a map has one cell per value)
+// and the tick labels are the numbers when the unit is common.
+func newSweepAxis(key string, vals []string, cells bool) sweepAxis {
+	ax := sweepAxis{Pos: map[string]float64{}}
+	unit, common := "", true
+	nums := make([]string, len(vals))
+	numV := make([]float64, len(vals))
+	for i, v := range vals {
+		m := valueUnit.FindStringSubmatch(v)
+		if m == nil {
+			common = false
+			break
+		}
+		x, err := strconv.ParseFloat(m[1], 64)
+		if err != nil || (i > 0 && m[2] != unit) {
+			common = false
+			break
+		}
+		unit, nums[i], numV[i] = m[2], m[1], x
+	}
+	shown := unit
+	if shown == "" {
+		shown = "–"
+	}
+	ax.Label = key
+	if common && len(vals) > 0 {
+		ax.Label = key + " (" + shown + ")"
+	}
+	if common && !cells {
+		ax.Numeric = true
+		for i, v := range vals {
+			ax.Pos[v] = numV[i]
+		}
+		return ax
+	}
+	step := max(1, (len(vals)+9)/10)
+	for i, v := range vals {
+		ax.Pos[v] = float64(i)
+		lbl := v
+		if common {
+			lbl = nums[i]
+		}
+		if i%step != 0 {
+			lbl = ""
+		}
+		ax.Ticks = append(ax.Ticks, plot.Tick{Value: float64(i), Label: lbl})
+	}
+	return ax
+}
+
+func (ax sweepAxis) apply(a *plot.Axis) {
+	a.Label.Text = ax.Label
+	if !ax.Numeric {
+		a.Tick.Marker = plot.ConstantTicks(ax.Ticks)
+	}
+}
+
+// distinctValues returns the values of key k in the rows, in order of first
+// appearance, or as listed in sweep.json when it lists them.
+func distinctValues(sd *sweepData, k int) []string {
+	if len(sd.Values[k]) > 0 {
+		return sd.Values[k]
+	}
+	var out []string
+	seen := map[string]bool{}
+	for _, r := range sd.Rows {
+		if !seen[r.Vals[k]] {
+			seen[r.Vals[k]] = true
+			out = append(out, r.Vals[k])
+		}
+	}
+	return out
+}
+
+// cellMap is a plotter that draws one coloured cell per grid point at
+// integer positions, and outlines and crosses the cells marked failed. It
+// counts what it draws (for tests).
+type cellMap struct {
+	nx, ny int
+	idx    []uint8 // palette index, [iy*nx+ix]
+	fail   []bool
+	drawn  int
+	marked []int // cells crossed, iy*nx+ix
+}
+
+// Plot implements plot.Plotter.
+func (m *cellMap) Plot(c draw.Canvas, p *plot.Plot) {
+	trX, trY := p.Transforms(&c)
+	m.drawn, m.marked = 0, nil
+	out := draw.LineStyle{Color: ink, Width: vg.Points(1.4)}
+	under := draw.LineStyle{Color: white, Width: vg.Points(2.6)}
+	for iy := range m.ny {
+		for ix := range m.nx {
+			k := iy*m.nx + ix
+			x0, x1 := trX(float64(ix)-0.5), trX(float64(ix)+0.5)
+			y0, y1 := trY(float64(iy)-0.5), trY(float64(iy)+0.5)
+			box := []vg.Point{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}}
+			c.FillPolygon(mapPalette[m.idx[k]], box)
+			m.drawn++
+			if !m.fail[k] {
+				continue
+			}
+			d := (x1 - x0) * 0.12
+			e := (y1 - y0) * 0.12
+			in := []vg.Point{{X: x0 + d, Y: y0 + e}, {X: x1 - d, Y: y0 + e}, {X: x1 - d, Y: y1 - e}, {X: x0 + d, Y: y1 - e}, {X: x0 + d, Y: y0 + e}}
+			for _, ls := range []draw.LineStyle{under, out} {
+				c.StrokeLines(ls, in)
+				c.StrokeLine2(ls, in[0].X, in[0].Y, in[2].X, in[2].Y)
+				c.StrokeLine2(ls, in[1].X, in[1].Y, in[3].X, in[3].Y)
+			}
+			m.marked = append(m.marked, k)
+		}
+	}
+}
+
+// DataRange implements plot.DataRanger.
+func (m *cellMap) DataRange() (xmin, xmax, ymin, ymax float64) {
+	return -0.5, float64(m.nx) - 0.5, -0.5, float64(m.ny) - 0.5
+}
+
+// sweepMapFigure draws the process-window map of column col over the two
+// keys of a grid sweep, with its colour bar.
+func sweepMapFigure(sd *sweepData, col string) (string, *cellMap, error) {
+	xv, yv := distinctValues(sd, 0), distinctValues(sd, 1)
+	xa, ya := newSweepAxis(sd.Keys[0], xv, true), newSweepAxis(sd.Keys[1], yv, true)
+	m := &cellMap{nx: len(xv), ny: len(yv)}
+	m.idx = make([]uint8, m.nx*m.ny)
+	m.fail = make([]bool, m.nx*m.ny)
+	vals := make([]float64, m.nx*m.ny)
+	for i := range vals {
+		vals[i] = math.NaN()
+	}
+	for _, r := range sd.Rows {
+		ix, ok1 := xa.Pos[r.Vals[0]]
+		iy, ok2 := ya.Pos[r.Vals[1]]
+		if !ok1 || !ok2 {
+			continue
+		}
+		k := int(iy)*m.nx + int(ix)
+		vals[k] = r.num(col)
+		m.fail[k] = !r.passed()
+	}
+	lo, hi := valueRange(vals)
+	if math.IsInf(lo, 0) {
+		lo, hi = 0, 1
+	}
+	minSpan := 1.0
+	if col == colCure {
+		minSpan = 0.01
+	}
+	if hi-lo < minSpan {
+		lo, hi = (lo+hi)/2-minSpan/2, (lo+hi)/2+minSpan/2
+	}
+	for k, v := range vals {
+		m.idx[k] = mapIndex(v, lo, hi)
+	}
+	h := vg.Length(mapHeight + 35)
+	svg, err := svgFigure(figWidth, h, "process window of "+col, func(dc draw.Canvas) error {
+		p := newPlot("", "")
+		xa.apply(&p.X)
+		ya.apply(&p.Y)
+		p.X.Min, p.X.Max = -0.5, float64(m.nx)-0.5
+		p.Y.Min, p.Y.Max = -0.5, float64(m.ny)-0.5
+		p.Add(m)
+		left := draw.Crop(dc, 0, -colorBarWidth, 0, 0)
+		p.Draw(left)
+		colorBar(draw.Crop(dc, dc.Max.X-dc.Min.X-colorBarWidth, 0, 0, 0), p.DataCanvas(left), lo, hi, sweepLabels[col])
+		return nil
+	})
+	return svg, m, err
+}
+
+// sweepLineFigure draws min_final_cure and peak_temperature_C against the
+// one varied key, a cross on each run that did not pass.
+func sweepLineFigure(sd *sweepData) (string, error) {
+	ax := newSweepAxis(sd.Keys[0], distinctValues(sd, 0), false)
+	rows := append([]sweepRow(nil), sd.Rows...)
+	sort.SliceStable(rows, func(i, j int) bool { return ax.Pos[rows[i].Vals[0]] < ax.Pos[rows[j].Vals[0]] })
+	return svgFigure(figWidth, vg.Length(2*panelHeight+40), "sweep over "+sd.Keys[0], func(dc draw.Canvas) error {
+		var plots [][]*plot.Plot
+		for n, col := range []string{colCure, colPeak} {
+			p := newPlot(ax.Label, sweepLabels[col])
+			addGrid(p)
+			ax.apply(&p.X)
+			var xs, ys []float64
+			var bad plotter.XYs
+			for i := range rows {
+				x, y := ax.Pos[rows[i].Vals[0]], rows[i].num(col)
+				xs, ys = append(xs, x), append(ys, y)
+				if !rows[i].passed() && !math.IsNaN(y) {
+					bad = append(bad, plotter.XY{X: x, Y: y})
+				}
+			}
+			c, _ := lineColor(n)
+			if _, err := addSeries(p, series{X: xs, Y: ys, Color: c, Width: vg.Points(1.3)}); err != nil {
+				return err
+			}
+			var pts plotter.XYs
+			for i := range xs {
+				if !math.IsNaN(ys[i]) {
+					pts = append(pts, plotter.XY{X: xs[i], Y: ys[i]})
+				}
+			}
+			if len(pts) > 0 {
+				sc, err := plotter.NewScatter(pts)
+				if err != nil {
+					return err
+				}
+				sc.GlyphStyle = draw.GlyphStyle{Color: c, Radius: vg.Points(2.2), Shape: draw.CircleGlyph{}}
+				p.Add(sc)
+			}
+			if len(bad) > 0 {
+				sc, err := plotter.NewScatter(bad)
+				if err != nil {
+					return err
+				}
+				sc.GlyphStyle = draw.GlyphStyle{Color: ink, Radius: vg.Points(4.5), Shape: draw.CrossGlyph{}}
+				p.Add(sc)
+			}
+			lo, hi := valueRange(ys)
+			if !math.IsInf(lo, 0) {
+				span := 1.0
+				if col == colCure {
+					span = 0.01
+				}
+				p.Y.Min, p.Y.Max = niceRange(lo, hi, 0.08, span)
+			}
+			if !ax.Numeric {
+				p.X.Min, p.X.Max = -0.5, float64(len(ax.Ticks))-0.5
+			} else if xlo, xhi := valueRange(xs); !math.IsInf(xlo, 0) {
+				p.X.Min, p.X.Max = niceRange(xlo, xhi, 0.04, 1e-9*max(1, math.Abs(xlo)))
+			}
+			plots = append(plots, []*plot.Plot{p})
+		}
+		plots[0][0].X.Label.Text = ""
+		cs := plot.Align(plots, draw.Tiles{Rows: 2, Cols: 1, PadY: vg.Points(8)}, dc)
+		for i, row := range plots {
+			row[0].Draw(cs[i][0])
+		}
+		return nil
+	})
+}

@@ -1,0 +1,134 @@
+package results
+
+import (
+	"context"
+	"cureslab/cases"
+	"cureslab/solver"
+	"fmt"
+	"math"
+	"os"
+	"testing"
+)
+
+// runExample parses and runs one embedded example.
+func runExample(t *testing.T, name string) (*cases.Case, *solver.Result) {
+	t.Helper()
+	ex, ok := cases.ExampleByName(name)
+	if !ok {
+		t.Fatalf("no example %s", name)
+	}
+	c, err := cases.Parse(name+".toml", ex.Text, "")
+	if err != nil {
+		t.Fatalf("example %s does not load:\n%v", name, err)
+	}
+	r, err := solver.Run(context.Background(), c.Problem)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return c, r
+}
+
+func TestExampleTileOnSpreader(t *testing.T) {
+	c, r := runExample(t, "tile-on-spreader")
+	s := Summarize(c, r)
+	if s.Status != StatusOK {
+		t.Errorf("status %q (%s), want ok", s.Status, s.Message)
+	}
+	// No layer cures: every cure quantity is null.
+	for name, v := range map[string]Float{"min_final_cure": s.MinFinalCure, "max_spread_K": s.MaxSpreadK, "gel_time_first_s": s.GelTimeFirstS} {
+		if !math.IsNaN(float64(v)) {
+			t.Errorf("%s = %v, want null for a case without cure", name, v)
+		}
+	}
+	// Maximum principle of the heat equation without sources (analytic):
+	// every temperature stays between the lowest and highest of the initial
+	// temperature and the air program, up to the 0.05 K step tolerance.
+	oven := c.Schedules["oven"]
+	_, v := oven.Points()
+	lo, hi := c.Problem.InitialTemperature, c.Problem.InitialTemperature
+	for _, x := range v {
+		lo, hi = min(lo, x), max(hi, x)
+	}
+	for _, snap := range r.Snapshots {
+		for i, T := range snap.T {
+			if T < lo-0.05 || T > hi+0.05 {
+				t.Fatalf("t = %g s, cell %d: %.4f K outside [%.2f, %.2f] K", snap.Time, i, T, lo, hi)
+			}
+		}
+	}
+	if s.EnergyBalanceError > 1e-9 {
+		t.Errorf("energy balance error %g", s.EnergyBalanceError)
+	}
+}
+
+func TestExampleThickPotting(t *testing.T) {
+	c, r := runExample(t, "thick-potting-oven")
+	s := Summarize(c, r)
+	if r.Status != solver.OK {
+		t.Fatalf("run ended %v: %v", r.Status, r.Err)
+	}
+	prog, _ := cases.DrivingMax(c.Problem)
+	est := cases.Estimates(c)
+	if len(est) != 1 {
+		t.Fatalf("%d curing layers, want 1", len(est))
+	}
+	// Energy bound (analytic): no cell exceeds the hottest program
+	// temperature by more than the adiabatic rise of the resin.
+	peak := r.Summary.PeakTemperature
+	if peak > prog+est[0].AdiabaticRise {
+		t.Errorf("peak %.2f K above the adiabatic bound %.2f K", peak, prog+est[0].AdiabaticRise)
+	}
+	// Design intent of the example (not a reference value): a real
+	// exotherm overshoot of tens of kelvin, and the least-cured cell in
+	// the bottom half of the potting, which lags.
+	if s.OvershootK < 20 {
+		t.Errorf("overshoot %.1f K, the example is meant to show tens of kelvin", s.OvershootK)
+	}
+	if d := float64(s.MinFinalCureDepthMM); !(d > 6 && d <= 12) {
+		t.Errorf("least-cured depth %g mm, the example is meant to show the bottom of the potting lagging", d)
+	}
+	if s.EnergyBalanceError > 1e-9 {
+		t.Errorf("energy balance error %g", s.EnergyBalanceError)
+	}
+}
+
+func ExampleJudge() {
+	nan := math.NaN()
+	c := &cases.Case{Criteria: cases.Criteria{MinCure: 0.9, MaxTemperature: 413.15, MaxSpread: nan}}
+	r := &solver.Result{Summary: solver.Summary{MinFinalCure: 0.82, PeakTemperature: 393.15}}
+	v := Judge(c, r)
+	for _, x := range v {
+		fmt.Printf("%s: value %g, limit %g, pass %v\n", x.Name, x.Value, x.Limit, x.Pass)
+	}
+	fmt.Println(StatusOf(r, v))
+	// Output:
+	// min_cure: value 0.82, limit 0.9, pass false
+	// max_temperature: value 120, limit 140, pass true
+	// criteria-failed
+}
+
+func ExamplePrintSummary() {
+	nan := Float(math.NaN())
+	s := Summary{
+		Title: "bond line", Status: StatusCriteriaFailed,
+		PeakTemperatureC: 131.5, PeakTimeS: 5400, PeakDepthMM: 0.2, OvershootK: 11.5,
+		MaxSpreadK: 0.8, MinFinalCure: 0.86, MinFinalCureDepthMM: 0.45, MeanFinalCure: 0.91,
+		TimeToMinCureS: nan, GelTimeFirstS: 2400, GelTimeLastS: 2460, MinFinalGlassTransitionC: 95,
+		EnergyBalanceError: 3e-15, Steps: 210, EndTimeS: 9000,
+		Criteria: Verdicts{{CriterionMinCure, 0.86, 0.9, false}},
+	}
+	PrintSummary(os.Stdout, s)
+	// Output:
+	// bond line
+	//   status              criteria-failed
+	//   peak temperature    131.5 C at 0.2 mm, t = 90.0 min
+	//   overshoot           +11.5 K over the hottest driving temperature
+	//   max spread          0.8 K (curing layers)
+	//   final cure          min 0.860 at 0.45 mm, mean 0.910
+	//   gel time            first 40.0 min, last 41.0 min
+	//   min final Tg        95.0 C
+	//   energy balance      3e-15 (relative error)
+	//   steps               210, end t = 2.50 h
+	//   criterion min_cure  0.86 >= 0.9  FAILED
+	// FAILED min_cure: 0.86 at 0.45 mm < 0.9
+}

@@ -1,0 +1,424 @@
+package results
+
+import (
+	"bytes"
+	"cureslab/cases"
+	"cureslab/cases/internal/num"
+	"cureslab/solver"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+)
+
+// The statuses of a run as written in summary.json (SPEC §5).
+const (
+	StatusOK             = "ok"
+	StatusCriteriaFailed = "criteria-failed"
+	StatusRunaway        = "runaway"
+	StatusFailed         = "failed"
+)
+
+// Names of the acceptance criteria, as written in [criteria].
+const (
+	CriterionMinCure        = "min_cure"
+	CriterionMaxTemperature = "max_temperature"
+	CriterionMaxSpread      = "max_spread"
+)
+
+// Verdict is the judgement of one acceptance criterion. Value and Limit are
+// in the units of the summary: dimensionless for min_cure, °C for
+// max_temperature, K for max_spread. Value is NaN when the quantity does not
+// exist in the case (max_spread or min_cure without a curing layer); such a
+// criterion holds vacuously.
+type Verdict struct {
+	Name         string
+	Value, Limit float64
+	Pass         bool
+}
+
+// Judge returns the verdicts of the criteria that c sets, in the order
+// min_cure, max_temperature, max_spread:
+//
+//	min_cure:        min final cure over curing cells ≥ limit
+//	max_temperature: peak cell temperature           ≤ limit
+//	max_spread:      largest spread in curing layers ≤ limit
+//
+// The comparison is made in SI units on the solver's values, before any
+// rounding for display. A run that stopped early is judged on what it
+// reached (its status, not the verdicts, decides the outcome then).
+func Judge(c *cases.Case, r *solver.Result) []Verdict {
+	cr := c.Criteria
+	s := r.Summary
+	var out []Verdict
+	if !math.IsNaN(cr.MinCure) {
+		out = append(out, Verdict{CriterionMinCure, num.RoundSig(s.MinFinalCure), cr.MinCure,
+			math.IsNaN(s.MinFinalCure) || s.MinFinalCure >= cr.MinCure})
+	}
+	if !math.IsNaN(cr.MaxTemperature) {
+		out = append(out, Verdict{CriterionMaxTemperature, num.Celsius(s.PeakTemperature), num.Celsius(cr.MaxTemperature),
+			math.IsNaN(s.PeakTemperature) || s.PeakTemperature <= cr.MaxTemperature})
+	}
+	if !math.IsNaN(cr.MaxSpread) {
+		out = append(out, Verdict{CriterionMaxSpread, num.Round6(s.MaxSpread), num.Round6(cr.MaxSpread),
+			math.IsNaN(s.MaxSpread) || s.MaxSpread <= cr.MaxSpread})
+	}
+	return out
+}
+
+// StatusOf returns the status of a run as written in summary.json: "runaway"
+// or "failed" when the solver stopped early, else "criteria-failed" when a
+// verdict fails, else "ok".
+func StatusOf(r *solver.Result, verdicts []Verdict) string {
+	switch r.Status {
+	case solver.Runaway:
+		return StatusRunaway
+	case solver.Failed:
+		return StatusFailed
+	}
+	for _, v := range verdicts {
+		if !v.Pass {
+			return StatusCriteriaFailed
+		}
+	}
+	return StatusOK
+}
+
+// Float is a float64 that is written to JSON as null when it is NaN or
+// infinite (not applicable, never happened) and read back from null as NaN.
+type Float float64
+
+// MarshalJSON implements json.Marshaler.
+func (f Float) MarshalJSON() ([]byte, error) {
+	v := float64(f)
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return []byte("null"), nil
+	}
+	return json.Marshal(v)
+}
+
+// UnmarshalJSON implements json.Unmarshaler.
+func (f *Float) UnmarshalJSON(b []byte) error {
+	if string(bytes.TrimSpace(b)) == "null" {
+		*f = Float(math.NaN())
+		return nil
+	}
+	var v float64
+	if err := json.Unmarshal(b, &v); err != nil {
+		return err
+	}
+	*f = Float(v)
+	return nil
+}
+
+// Verdicts is the list of criteria of a summary. In JSON it is one object
+// keyed by criterion name, in the order min_cure, max_temperature,
+// max_spread, each entry {"value": v, "limit": l, "pass": true|false}; a
+// value that does not exist is null, and a case without criteria gives {}.
+type Verdicts []Verdict
+
+type verdictJSON struct {
+	Value Float `json:"value"`
+	Limit Float `json:"limit"`
+	Pass  bool  `json:"pass"`
+}
+
+// MarshalJSON implements json.Marshaler.
+func (vs Verdicts) MarshalJSON() ([]byte, error) {
+	var b bytes.Buffer
+	b.WriteByte('{')
+	for i, v := range vs {
+		if i > 0 {
+			b.WriteByte(',')
+		}
+		k, err := json.Marshal(v.Name)
+		if err != nil {
+			return nil, err
+		}
+		e, err := json.Marshal(verdictJSON{Float(v.Value), Float(v.Limit), v.Pass})
+		if err != nil {
+			return nil, err
+		}
+		b.Write(k)
+		b.WriteByte(':')
+		b.Write(e)
+	}
+	b.WriteByte('}')
+	return b.Bytes(), nil
+}
+
+// UnmarshalJSON implements json.Unmarshaler, keeping the order of the keys.
+func (vs *Verdicts) UnmarshalJSON(b []byte) error {
+	dec := json.NewDecoder(bytes.NewReader(b))
+	tok, err := dec.Token()
+	if err != nil {
+		return err
+	}
+	if tok == nil {
+		*vs = nil
+		return nil
+	}
+	if d, ok := tok.(json.Delim); !ok || d != '{' {
+		return fmt.Errorf("criteria: want an object, got %v", tok)
+	}
+	var out Verdicts
+	for dec.More() {
+		tok, err := dec.Token()
+		if err != nil {
+			return err
+		}
+		name, _ := tok.(string)
+		var e verdictJSON
+		if err := dec.Decode(&e); err != nil {
+			return fmt.Errorf("criteria.%s: %w", name, err)
+		}
+		out = append(out, Verdict{name, float64(e.Value), float64(e.Limit), e.Pass})
+	}
+	*vs = out
+	return nil
+}
+
+// Summary is the content of summary.json (SPEC §5, §10): temperatures in °C,
+// temperature differences in K, times in s, depths in mm. A Float that does
+// not apply is NaN (null in JSON). Values are rounded like the CSV files
+// (1e-6 for °C, K and s, 1e-9 mm for depths, 9 significant digits for
+// dimensionless values).
+//
+// Beyond SPEC §5 it carries end_time_s (the time the run reached, which is
+// less than the case's end after a runaway or failure), message (why the
+// run stopped early; omitted when it ran to the end) and, under closed-loop
+// volumetric heating only, control_max_error_K (ControlError), and
+// gel_point, the degree of cure at gelation of each curing layer by name
+// (omitted without curing layers; the report draws the gel front from it).
+type Summary struct {
+	Title                    string   `json:"title"`
+	Status                   string   `json:"status"`
+	PeakTemperatureC         Float    `json:"peak_temperature_C"`
+	PeakTimeS                Float    `json:"peak_time_s"`
+	PeakDepthMM              Float    `json:"peak_depth_mm"`
+	OvershootK               Float    `json:"overshoot_K"`
+	MaxSpreadK               Float    `json:"max_spread_K"`
+	MinFinalCure             Float    `json:"min_final_cure"`
+	MinFinalCureDepthMM      Float    `json:"min_final_cure_depth_mm"`
+	MeanFinalCure            Float    `json:"mean_final_cure"`
+	TimeToMinCureS           Float    `json:"time_to_min_cure_s"`
+	GelTimeFirstS            Float    `json:"gel_time_first_s"`
+	GelTimeLastS             Float    `json:"gel_time_last_s"`
+	MinFinalGlassTransitionC Float    `json:"min_final_glass_transition_C"`
+	EnergyBalanceError       Float    `json:"energy_balance_error"`
+	Steps                    int      `json:"steps"`
+	Criteria                 Verdicts `json:"criteria"`
+	EndTimeS                 Float    `json:"end_time_s"`
+	Message                  string   `json:"message,omitempty"`
+	// ControlMaxErrorK is set only under closed-loop volumetric heating
+	// (see ControlError); omitted otherwise.
+	ControlMaxErrorK *Float `json:"control_max_error_K,omitempty"`
+	// GelPoint is the gel point of each curing layer, by layer name.
+	GelPoint map[string]float64 `json:"gel_point,omitempty"`
+}
+
+// Summarize returns the summary of a run of c: the solver's summary in the
+// units of summary.json, the verdicts of c's criteria (Judge) and the
+// status (StatusOf). time_to_min_cure_s is null when c sets no min_cure.
+func Summarize(c *cases.Case, r *solver.Result) Summary {
+	s := r.Summary
+	v := Judge(c, r)
+	out := Summary{
+		Title:                    c.Title,
+		Status:                   StatusOf(r, v),
+		PeakTemperatureC:         Float(num.Celsius(s.PeakTemperature)),
+		PeakTimeS:                Float(num.Round6(s.PeakTime)),
+		PeakDepthMM:              Float(num.MM(s.PeakDepth)),
+		OvershootK:               Float(num.Round6(s.Overshoot)),
+		MaxSpreadK:               Float(num.Round6(s.MaxSpread)),
+		MinFinalCure:             Float(num.RoundSig(s.MinFinalCure)),
+		MinFinalCureDepthMM:      Float(num.MM(s.MinFinalCureDepth)),
+		MeanFinalCure:            Float(num.RoundSig(s.MeanFinalCure)),
+		TimeToMinCureS:           Float(math.NaN()),
+		GelTimeFirstS:            Float(num.Round6(s.GelTimeFirst)),
+		GelTimeLastS:             Float(num.Round6(s.GelTimeLast)),
+		MinFinalGlassTransitionC: Float(num.Celsius(s.MinFinalGlass)),
+		EnergyBalanceError:       Float(num.RoundSig(s.EnergyBalanceError)),
+		Steps:                    s.Steps,
+		Criteria:                 Verdicts(v),
+		EndTimeS:                 Float(num.Round6(r.EndTime)),
+	}
+	if out.Criteria == nil {
+		out.Criteria = Verdicts{}
+	}
+	if !math.IsNaN(c.Criteria.MinCure) {
+		out.TimeToMinCureS = Float(num.Round6(s.TimeToMinCure))
+	}
+	for j, l := range c.Problem.Mesh.Layers {
+		if j >= len(c.Problem.Materials) || c.Problem.Materials[j] == nil {
+			continue
+		}
+		if cu := c.Problem.Materials[j].Cure; cu != nil {
+			if out.GelPoint == nil {
+				out.GelPoint = map[string]float64{}
+			}
+			out.GelPoint[l.Name] = cu.GelPoint
+		}
+	}
+	if cases.Controlled(c.Problem) {
+		e := Float(num.Round6(ControlError(c, r)))
+		out.ControlMaxErrorK = &e
+	}
+	if r.Status != solver.OK {
+		msg := "the run stopped early"
+		if r.Err != nil {
+			msg = r.Err.Error()
+		}
+		out.Message = fmt.Sprintf("%s; the outputs hold the state up to t = %s s", msg, num.Fixed(r.EndTime, 6))
+	}
+	return out
+}
+
+// PrintSummary writes a short table of s for a terminal: the headline
+// numbers, the criteria, and then one line per failed criterion, such as
+//
+//	FAILED min_cure: 0.82 at 11.3 mm < 0.9
+//
+// and, after a runaway or a failure, a line saying so.
+func PrintSummary(w io.Writer, s Summary) error {
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	row := func(k, format string, a ...any) { fmt.Fprintf(tw, "  %s\t"+format+"\n", append([]any{k}, a...)...) }
+	if s.Title != "" {
+		fmt.Fprintf(tw, "%s\n", s.Title)
+	}
+	row("status", "%s", s.Status)
+	row("peak temperature", "%s C at %s mm, t = %s", outT(s.PeakTemperatureC), outDepth(s.PeakDepthMM), outTime(s.PeakTimeS))
+	if OutOK(s.OvershootK) {
+		row("overshoot", "%+.1f K over the hottest driving temperature", float64(s.OvershootK))
+	}
+	if OutOK(s.MaxSpreadK) {
+		row("max spread", "%.1f K (curing layers)", float64(s.MaxSpreadK))
+	}
+	if s.ControlMaxErrorK != nil && OutOK(*s.ControlMaxErrorK) {
+		row("control", "sensor within %.2f K of its program at every output time", float64(*s.ControlMaxErrorK))
+	}
+	if OutOK(s.MinFinalCure) {
+		row("final cure", "min %s at %s mm, mean %s", outCure(s.MinFinalCure), outDepth(s.MinFinalCureDepthMM), outCure(s.MeanFinalCure))
+		if OutOK(s.TimeToMinCureS) {
+			row("time to min_cure", "%s", outTime(s.TimeToMinCureS))
+		}
+		gel := "never"
+		if OutOK(s.GelTimeFirstS) {
+			last := "some cells never gel"
+			if OutOK(s.GelTimeLastS) {
+				last = "last " + outTime(s.GelTimeLastS)
+			}
+			gel = "first " + outTime(s.GelTimeFirstS) + ", " + last
+		}
+		row("gel time", "%s", gel)
+		if OutOK(s.MinFinalGlassTransitionC) {
+			row("min final Tg", "%s C", outT(s.MinFinalGlassTransitionC))
+		}
+	}
+	row("energy balance", "%.2g (relative error)", float64(s.EnergyBalanceError))
+	row("steps", "%d, end t = %s", s.Steps, outTime(s.EndTimeS))
+	for _, v := range s.Criteria {
+		res := "pass"
+		if !v.Pass {
+			res = "FAILED"
+		}
+		op := map[string]string{CriterionMinCure: ">="}[v.Name]
+		if op == "" {
+			op = "<="
+		}
+		val, lim := OutPair(v.Value, v.Limit)
+		u := criterionUnit(v.Name)
+		if u != "" {
+			u = " " + u
+		}
+		row("criterion "+v.Name, "%s %s %s%s  %s", val, op, lim, u, res)
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	var b strings.Builder
+	for _, v := range s.Criteria {
+		if v.Pass {
+			continue
+		}
+		val, lim := OutPair(v.Value, v.Limit)
+		u := criterionUnit(v.Name)
+		if u != "" {
+			u = " " + u
+		}
+		switch v.Name {
+		case CriterionMinCure:
+			fmt.Fprintf(&b, "FAILED %s: %s at %s mm < %s\n", v.Name, val, outDepth(s.MinFinalCureDepthMM), lim)
+		case CriterionMaxTemperature:
+			fmt.Fprintf(&b, "FAILED %s: %s%s at %s mm, t = %s > %s%s\n", v.Name, val, u, outDepth(s.PeakDepthMM), outTime(s.PeakTimeS), lim, u)
+		default:
+			fmt.Fprintf(&b, "FAILED %s: %s%s > %s%s\n", v.Name, val, u, lim, u)
+		}
+	}
+	switch s.Status {
+	case StatusRunaway:
+		fmt.Fprintf(&b, "RUNAWAY: %s\n", s.Message)
+	case StatusFailed:
+		fmt.Fprintf(&b, "FAILED run: %s\n", s.Message)
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+func criterionUnit(name string) string {
+	switch name {
+	case CriterionMaxTemperature:
+		return "C"
+	case CriterionMaxSpread:
+		return "K"
+	}
+	return ""
+}
+
+func OutOK(f Float) bool { return !math.IsNaN(float64(f)) && !math.IsInf(float64(f), 0) }
+
+// dispPair formats a criterion's value and limit with 4 significant digits,
+// or with every digit needed when that would make them look equal.
+func OutPair(v, l float64) (string, string) {
+	if math.IsNaN(v) {
+		return "n/a", strconv.FormatFloat(l, 'g', 4, 64)
+	}
+	a, b := strconv.FormatFloat(v, 'g', 4, 64), strconv.FormatFloat(l, 'g', 4, 64)
+	if a == b && v != l {
+		a, b = strconv.FormatFloat(v, 'g', -1, 64), strconv.FormatFloat(l, 'g', -1, 64)
+	}
+	return a, b
+}
+
+func outT(f Float) string {
+	if !OutOK(f) {
+		return "n/a"
+	}
+	return strconv.FormatFloat(float64(f), 'f', 1, 64)
+}
+
+func outCure(f Float) string {
+	if !OutOK(f) {
+		return "n/a"
+	}
+	return strconv.FormatFloat(float64(f), 'f', 3, 64)
+}
+
+func outDepth(f Float) string {
+	if !OutOK(f) {
+		return "n/a"
+	}
+	return strconv.FormatFloat(float64(f), 'g', 4, 64)
+}
+
+// dispTime formats a time in s for reading: seconds below 2 min, minutes
+// below 2 h, hours above.
+func outTime(f Float) string {
+	if !OutOK(f) {
+		return "n/a"
+	}
+	return num.HumanTime(float64(f))
+}

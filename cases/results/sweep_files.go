@@ -1,0 +1,130 @@
+package results
+
+import (
+	"encoding/json"
+	"fmt"
+	"strconv"
+	"strings"
+)
+
+// Files of a sweep directory.
+const (
+	// SweepSummaryFile is the table of every run (SPEC §6, §10).
+	SweepSummaryFile = "summary.csv"
+	// SweepDefinitionFile records what the sweep is; resuming or merging
+	// checks it.
+	SweepDefinitionFile = "sweep.json"
+	// SweepJournalFile holds the committed rows, one appended (and synced)
+	// per finished run, in the order they finished.
+	SweepJournalFile = "journal.csv"
+	// SweepLogFile records when, where and how long each run ran.
+	SweepLogFile = "sweep.log"
+	// SweepRunsDir holds the output files of each run with KeepFields,
+	// in RUNS/NNNNN/.
+	SweepRunsDir = "runs"
+)
+
+// sweepColumns are the summary columns of summary.csv after the varied
+// keys, named like the keys of summary.json, in this order. Criteria come
+// next as min_cure_pass, max_temperature_pass, max_spread_pass ("true",
+// "false", or empty when the case does not set the criterion), then status
+// and error.
+var SweepColumns = []struct {
+	Name string
+	Get  func(*Summary) string
+}{
+	{"peak_temperature_C", func(s *Summary) string { return csvFloat(s.PeakTemperatureC) }},
+	{"peak_time_s", func(s *Summary) string { return csvFloat(s.PeakTimeS) }},
+	{"peak_depth_mm", func(s *Summary) string { return csvFloat(s.PeakDepthMM) }},
+	{"overshoot_K", func(s *Summary) string { return csvFloat(s.OvershootK) }},
+	{"max_spread_K", func(s *Summary) string { return csvFloat(s.MaxSpreadK) }},
+	{"min_final_cure", func(s *Summary) string { return csvFloat(s.MinFinalCure) }},
+	{"min_final_cure_depth_mm", func(s *Summary) string { return csvFloat(s.MinFinalCureDepthMM) }},
+	{"mean_final_cure", func(s *Summary) string { return csvFloat(s.MeanFinalCure) }},
+	{"time_to_min_cure_s", func(s *Summary) string { return csvFloat(s.TimeToMinCureS) }},
+	{"gel_time_first_s", func(s *Summary) string { return csvFloat(s.GelTimeFirstS) }},
+	{"gel_time_last_s", func(s *Summary) string { return csvFloat(s.GelTimeLastS) }},
+	{"min_final_glass_transition_C", func(s *Summary) string { return csvFloat(s.MinFinalGlassTransitionC) }},
+	{"energy_balance_error", func(s *Summary) string { return csvFloat(s.EnergyBalanceError) }},
+	{"steps", func(s *Summary) string { return strconv.Itoa(s.Steps) }},
+	{"end_time_s", func(s *Summary) string { return csvFloat(s.EndTimeS) }},
+}
+
+// sweepCriteria are the criteria columns, in order.
+var SweepCriteria = []string{CriterionMinCure, CriterionMaxTemperature, CriterionMaxSpread}
+
+// csvFloat writes a summary value as summary.json does; null is empty.
+func csvFloat(f Float) string {
+	b, err := f.MarshalJSON()
+	if err != nil || string(b) == "null" {
+		return ""
+	}
+	return string(b)
+}
+
+// sweepHeader is the header of summary.csv for the varied keys.
+func SweepHeader(keys []string) []string {
+	h := append([]string{"run"}, keys...)
+	for _, c := range SweepColumns {
+		h = append(h, c.Name)
+	}
+	for _, c := range SweepCriteria {
+		h = append(h, c+"_pass")
+	}
+	return append(h, "status", "error")
+}
+
+// sweepDef is the content of sweep.json: what defines a sweep, and nothing
+// that depends on where or how it runs, so that every shard of one sweep
+// writes the same bytes.
+type SweepDef struct {
+	Format     string    `json:"format"`
+	CaseSHA256 string    `json:"case_sha256"`
+	Mode       string    `json:"mode"`
+	Samples    int       `json:"samples,omitempty"`
+	Seed       *uint64   `json:"seed,omitempty"`
+	Vary       []VaryDef `json:"vary"`
+	Runs       int       `json:"runs"`
+	RunsSHA256 string    `json:"runs_sha256"`
+}
+
+type VaryDef struct {
+	Key    string   `json:"key"`
+	Values []string `json:"values,omitempty"`
+	From   string   `json:"from,omitempty"`
+	To     string   `json:"to,omitempty"`
+}
+
+const SweepFormat = "cureslab-sweep-1"
+
+// differs says how the sweep.json b differs from a (both valid), for a
+// message: "the case file differs", ...
+func DefDiff(a, b []byte) string {
+	var x, y SweepDef
+	if json.Unmarshal(a, &x) != nil || json.Unmarshal(b, &y) != nil || x.Format != y.Format {
+		return "it was written in another format"
+	}
+	var why []string
+	if x.CaseSHA256 != y.CaseSHA256 {
+		why = append(why, "the case file differs")
+	}
+	if x.Mode != y.Mode || x.Samples != y.Samples || (x.Seed == nil) != (y.Seed == nil) || x.Seed != nil && *x.Seed != *y.Seed {
+		why = append(why, "the mode, samples or seed differ")
+	}
+	xk, yk := make([]string, len(x.Vary)), make([]string, len(y.Vary))
+	for i, v := range x.Vary {
+		xk[i] = v.Key
+	}
+	for i, v := range y.Vary {
+		yk[i] = v.Key
+	}
+	if strings.Join(xk, "\x00") != strings.Join(yk, "\x00") {
+		why = append(why, fmt.Sprintf("the varied keys differ (%s against %s)", strings.Join(xk, ", "), strings.Join(yk, ", ")))
+	} else if x.RunsSHA256 != y.RunsSHA256 || x.Runs != y.Runs {
+		why = append(why, "the varied values differ")
+	}
+	if len(why) == 0 {
+		return "its definition differs"
+	}
+	return strings.Join(why, "; ")
+}

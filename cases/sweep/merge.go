@@ -1,0 +1,208 @@
+package sweep
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"cureslab/cases"
+	"cureslab/cases/internal/textout"
+	"cureslab/cases/results"
+	"encoding/csv"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+)
+
+// MergeReport is the outcome of MergeSweeps.
+type MergeReport struct {
+	Runs    int   // runs of the sweep
+	Rows    int   // runs found in the directories
+	Missing []int // runs found in none, in order
+	// Statuses of the rows found: they add up to Rows.
+	StatusCounts
+	// Conflicts counts runs committed in several directories with rows
+	// that differ (the first directory given wins). Runs of one sweep are
+	// deterministic on one machine; a conflict means the shards ran on
+	// machines or versions that compute differently.
+	Conflicts int
+}
+
+// MergeSweeps joins the directories of the shards of one sweep into out:
+// out gets the sweep.json they share, a journal.csv holding every row, and
+// the summary.csv that the whole sweep run in one directory writes, byte
+// for byte (SPEC §6, §10); a line goes to out/sweep.log.
+//
+// Every directory must hold the same sweep.json (else an error wrapping
+// ErrSweepMismatch, naming the directory and what differs), and so must out
+// if it already is a sweep directory. Rows are read from each journal as
+// Sweep.Run does (a torn tail is ignored; the inputs are not changed). A run
+// found in no directory is missing: then nothing is written and the error
+// wraps ErrSweepIncomplete, unless allowMissing, which writes the rows
+// found (out can then be finished by running the sweep into it). out may
+// be one of dirs. Cost: memory and time linear in the rows.
+func MergeSweeps(out string, dirs []string, allowMissing bool) (MergeReport, error) {
+	var rep MergeReport
+	if len(dirs) == 0 {
+		return rep, &sweepError{msg: "no directories to merge"}
+	}
+	var def []byte
+	var d results.SweepDef
+	rows := make(map[int][]string)
+	var header []string
+	for i, dir := range dirs {
+		b, err := os.ReadFile(filepath.Join(dir, results.SweepDefinitionFile))
+		if errors.Is(err, fs.ErrNotExist) {
+			return rep, &sweepError{msg: fmt.Sprintf("%s is not a sweep directory: it has no %s", dir, results.SweepDefinitionFile)}
+		}
+		if err != nil {
+			return rep, err
+		}
+		if i == 0 {
+			def = b
+			if err := json.Unmarshal(b, &d); err != nil || d.Format != results.SweepFormat || d.Runs < 1 {
+				return rep, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf("%s: %s is not a sweep definition of this version", dir, results.SweepDefinitionFile)}
+			}
+			keys := make([]string, len(d.Vary))
+			for k, v := range d.Vary {
+				keys[k] = v.Key
+			}
+			header = results.SweepHeader(keys)
+			rep.Runs = d.Runs
+		} else if !bytes.Equal(b, def) {
+			return rep, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+				"%s and %s hold different sweeps: %s", dirs[0], dir, results.DefDiff(def, b))}
+		}
+		rs, _, err := readJournal(filepath.Join(dir, results.SweepJournalFile), header, d.Runs)
+		if errors.Is(err, fs.ErrNotExist) {
+			continue // the shard has not committed anything yet
+		}
+		if err != nil {
+			return rep, err
+		}
+		for r, rec := range rs {
+			if prev, ok := rows[r]; !ok {
+				rows[r] = rec
+			} else if !slices.Equal(prev, rec) {
+				rep.Conflicts++
+			}
+		}
+	}
+	rep.Rows = len(rows)
+	statusCol := len(header) - 2
+	for r := range rep.Runs {
+		rec, ok := rows[r]
+		if !ok {
+			rep.Missing = append(rep.Missing, r)
+			continue
+		}
+		rep.add(rec[statusCol])
+	}
+	if len(rep.Missing) > 0 && !allowMissing {
+		return rep, &sweepError{kind: ErrSweepIncomplete, msg: fmt.Sprintf(
+			"%d of %d runs are missing (%s); nothing was written", len(rep.Missing), rep.Runs, FormatRuns(rep.Missing, 10))}
+	}
+
+	if fi, err := os.Stat(out); err == nil && !fi.IsDir() {
+		return rep, &sweepError{msg: fmt.Sprintf("%s exists and is not a directory", out)}
+	}
+	if old, err := os.ReadFile(filepath.Join(out, results.SweepDefinitionFile)); err == nil && !bytes.Equal(old, def) {
+		return rep, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+			"%s holds another sweep: %s; give another output directory (-o)", out, results.DefDiff(old, def))}
+	}
+	if err := os.MkdirAll(out, 0o755); err != nil {
+		return rep, err
+	}
+	runs := make([]int, 0, len(rows))
+	for r := range rows {
+		runs = append(runs, r)
+	}
+	slices.Sort(runs)
+	if err := textout.WriteFileAtomic(out, results.SweepDefinitionFile, func(w io.Writer) error { _, err := w.Write(def); return err }); err != nil {
+		return rep, err
+	}
+	err := textout.WriteFileAtomic(out, results.SweepJournalFile, func(w io.Writer) error {
+		cw := csv.NewWriter(w)
+		cw.Write(append(slices.Clip(header), "crc32"))
+		for _, r := range runs {
+			cw.Write(append(slices.Clip(rows[r]), recordCRC(rows[r])))
+		}
+		cw.Flush()
+		return cw.Error()
+	})
+	if err != nil {
+		return rep, err
+	}
+	if err := writeSweepSummary(out, header, rows); err != nil {
+		return rep, err
+	}
+	syncDir(out)
+	log := openSweepLog(out)
+	defer log.close()
+	host, _ := os.Hostname()
+	log.printf("merge host=%s dirs=%q rows=%d/%d missing=%d conflicts=%d", host, dirs, rep.Rows, rep.Runs, len(rep.Missing), rep.Conflicts)
+	return rep, nil
+}
+
+// FormatRuns writes run indices compactly for a message, with ranges:
+// "3, 6-8, 12", at most limit items followed by "…" (limit ≤ 0: all).
+func FormatRuns(runs []int, limit int) string {
+	var parts []string
+	for i := 0; i < len(runs); {
+		j := i
+		for j+1 < len(runs) && runs[j+1] == runs[j]+1 {
+			j++
+		}
+		if limit > 0 && len(parts) == limit {
+			parts = append(parts, "…")
+			break
+		}
+		if j > i {
+			parts = append(parts, strconv.Itoa(runs[i])+"-"+strconv.Itoa(runs[j]))
+		} else {
+			parts = append(parts, strconv.Itoa(runs[i]))
+		}
+		i = j + 1
+	}
+	return strings.Join(parts, ", ")
+}
+
+// SweepCaseCriteria returns the criteria of the case file at casePath for
+// the report of the sweep directory dir (WriteSweepReport), after checking
+// that it is the sweep's case: its SHA-256 must be the case_sha256 of
+// dir/sweep.json (else an error wrapping ErrSweepMismatch). Errors of the
+// case file itself are returned as Parse gives them. Cost: one read and
+// one validation of the case.
+func SweepCaseCriteria(dir, casePath string) (*cases.Criteria, error) {
+	b, err := os.ReadFile(filepath.Join(dir, results.SweepDefinitionFile))
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil, &sweepError{msg: fmt.Sprintf("%s is not a sweep directory: it has no %s", dir, results.SweepDefinitionFile)}
+	}
+	if err != nil {
+		return nil, err
+	}
+	var d results.SweepDef
+	if err := json.Unmarshal(b, &d); err != nil || d.Format != results.SweepFormat {
+		return nil, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf("%s: %s is not a sweep definition of this version", dir, results.SweepDefinitionFile)}
+	}
+	data, err := os.ReadFile(casePath)
+	if err != nil {
+		return nil, err
+	}
+	if sum := sha256.Sum256(data); hex.EncodeToString(sum[:]) != d.CaseSHA256 {
+		return nil, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+			"%s is not the case of the sweep in %s: its SHA-256 differs from the case_sha256 in %s (edited since?)",
+			casePath, dir, results.SweepDefinitionFile)}
+	}
+	c, err := cases.Parse(casePath, data, filepath.Dir(casePath))
+	if err != nil {
+		return nil, err
+	}
+	return &c.Criteria, nil
+}

@@ -1,0 +1,606 @@
+package sweep
+
+import (
+	"bytes"
+	"context"
+	"cureslab/cases"
+	"cureslab/cases/internal/textout"
+	"cureslab/cases/results"
+	"cureslab/solver"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"hash/crc32"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"runtime"
+	"slices"
+	"strconv"
+	"strings"
+	"sync"
+	"time"
+)
+
+// SweepOptions say how to run a sweep. The zero value runs every run on
+// all cores, without per-run outputs and without progress.
+type SweepOptions struct {
+	// Jobs is the number of runs at a time; 0 means runtime.NumCPU().
+	Jobs int
+	// Shard and Shards select the runs whose index is ≡ Shard mod Shards
+	// (0 ≤ Shard < Shards); Shards 0 means 1 (every run).
+	Shard, Shards int
+	// KeepFields writes each run's output files (as `run` does) into
+	// DIR/runs/NNNNN/.
+	KeepFields bool
+	// Progress, when not nil, gets one line updated in place (\r): runs
+	// done of total, failures, rate and time left. Pass a terminal only.
+	Progress io.Writer
+
+	// afterCommit, when not nil, is called after each commit with the
+	// number of runs done (tests use it to interrupt a sweep part-way).
+	afterCommit func(done int)
+	// commitEvery replaces sweepCommitEvery when not 0 (tests that
+	// interrupt after a number of commits use a nanosecond).
+	commitEvery time.Duration
+}
+
+// The collector commits finished runs at most sweepCommitEvery apart (the
+// first at once), or as soon as sweepCommitMax are waiting.
+const (
+	sweepCommitEvery = 200 * time.Millisecond
+	sweepCommitMax   = 1024
+)
+
+// StatusCounts counts runs by status (SPEC §5).
+type StatusCounts struct {
+	OK, CriteriaFailed, Runaway, Failed int
+}
+
+// add counts one run of the given status; anything unforeseen is a failure.
+func (c *StatusCounts) add(status string) {
+	switch status {
+	case results.StatusOK:
+		c.OK++
+	case results.StatusCriteriaFailed:
+		c.CriteriaFailed++
+	case results.StatusRunaway:
+		c.Runaway++
+	default:
+		c.Failed++
+	}
+}
+
+// SweepReport is the outcome of Sweep.Run over the runs of its shard.
+type SweepReport struct {
+	Runs    int // runs of the shard
+	Done    int // of them, committed in the directory (including Resumed)
+	Resumed int // of Done, committed by an earlier run of the same sweep
+	// Statuses of the committed runs (SPEC §5): they add up to Done.
+	StatusCounts
+	// Repaired reports that the journal ended in a record cut short (a
+	// crash while committing) or damaged: it was cut off and its runs are
+	// done again.
+	Repaired bool
+	// Interrupted reports that ctx was cancelled before every run was done.
+	Interrupted bool
+}
+
+// Run runs the sweep, or the runs of one shard of it, into dir, skipping
+// the runs that dir already holds, and writes dir/summary.csv.
+//
+// Layout of dir: sweep.json (the definition; an existing one must match,
+// else an error wrapping ErrSweepMismatch and nothing is touched),
+// journal.csv (the committed rows), summary.csv (every committed row in run
+// order, rewritten at the end), sweep.log (start, each run with its wall
+// time, end, host), and with KeepFields runs/NNNNN/ (the files of `run`).
+//
+// Method: opt.Jobs workers take the runs in index order; each builds its own
+// copy of the case with the run's values (Sweep.Case), validates it, runs
+// solver.Run, and writes its outputs when asked; one collector appends the
+// run's row to the journal and syncs it before counting the run as done. A
+// run whose case is invalid, or which fails numerically or runs away, is a
+// row with that status and its error; the sweep goes on. A torn record at
+// the end of the journal (a crash while appending) is dropped and its run
+// done again, so the journal never holds half a row.
+//
+// Cancelling ctx stops handing out runs; the runs in progress are dropped
+// (not committed), summary.csv is written from what was committed, and the
+// report says Interrupted: running the same sweep into dir again finishes
+// it, and summary.csv is then byte-identical to that of an uninterrupted
+// sweep. Commits are grouped: the runs that finish within 0.2 s of the
+// last sync are written in one call and synced once (sweepCommitEvery), so
+// a crash costs at most the runs of that window, run again on resume. The
+// error is for problems with dir (cannot write, another sweep) and bad
+// options; a failed run is not an error.
+func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepReport, error) {
+	var rep SweepReport
+	shards := opt.Shards
+	if shards == 0 {
+		shards = 1
+	}
+	if shards < 1 || opt.Shard < 0 || opt.Shard >= shards {
+		return rep, &sweepError{msg: fmt.Sprintf("shard %d/%d: want 0 <= I < N", opt.Shard, opt.Shards)}
+	}
+	jobs := opt.Jobs
+	if jobs == 0 {
+		jobs = runtime.NumCPU()
+	}
+	if jobs < 1 {
+		return rep, &sweepError{msg: fmt.Sprintf("-j %d: want at least 1 job", opt.Jobs)}
+	}
+	if err := claimSweepDir(dir, s.def); err != nil {
+		return rep, err
+	}
+	header := results.SweepHeader(s.Keys)
+	j, err := openJournal(dir, header, s.Runs)
+	if err != nil {
+		return rep, err
+	}
+	defer j.close()
+	rep.Repaired = j.repaired
+
+	statusCol := len(header) - 2
+	count := func(rec []string) { rep.add(rec[statusCol]) }
+	var todo []int
+	for r := opt.Shard; r < s.Runs; r += shards {
+		rep.Runs++
+		if rec, ok := j.rows[r]; ok {
+			rep.Done++
+			rep.Resumed++
+			count(rec)
+		} else {
+			todo = append(todo, r)
+		}
+	}
+	width := max(5, len(strconv.Itoa(s.Runs-1)))
+	log := openSweepLog(dir)
+	defer log.close()
+	host, _ := os.Hostname()
+	log.printf("start case=%s sha256=%x host=%s pid=%d shard=%d/%d jobs=%d runs=%d done=%d todo=%d repaired=%v",
+		s.Name, s.hash[:6], host, os.Getpid(), opt.Shard, shards, jobs, rep.Runs, rep.Done, len(todo), j.repaired)
+
+	prog := &sweepProgress{w: opt.Progress, start: time.Now(), total: rep.Runs, done: rep.Done,
+		bad: rep.Failed + rep.Runaway, crit: rep.CriteriaFailed}
+	ictx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	work := make(chan int)
+	done := make(chan sweepResult, jobs)
+	go func() {
+		defer close(work)
+		for _, r := range todo {
+			select {
+			case work <- r:
+			case <-ictx.Done():
+				return
+			}
+		}
+	}()
+	var wg sync.WaitGroup
+	for range min(jobs, len(todo)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var ws solver.Workspace // the worker's solver buffers, reused run after run
+			for r := range work {
+				if ictx.Err() != nil {
+					continue
+				}
+				res := s.runOne(ictx, &ws, r, dir, opt.KeepFields, width)
+				if ictx.Err() != nil && res.err == nil {
+					continue // cut short: not committed, run again on resume
+				}
+				done <- res
+			}
+		}()
+	}
+	go func() {
+		wg.Wait()
+		close(done)
+	}()
+	var firstErr error
+	var batch []sweepResult
+	every := opt.commitEvery
+	if every == 0 {
+		every = sweepCommitEvery
+	}
+	// commit writes the batch in one call and syncs once.
+	commit := func() {
+		if len(batch) == 0 || firstErr != nil {
+			batch = batch[:0]
+			return
+		}
+		recs := make([][]string, 0, len(batch))
+		for _, r := range batch {
+			if r.err != nil {
+				firstErr = r.err
+				break
+			}
+			recs = append(recs, r.rec)
+		}
+		if firstErr == nil {
+			firstErr = j.append(recs)
+		}
+		if firstErr != nil {
+			cancel()
+			batch = batch[:0]
+			return
+		}
+		for _, r := range batch {
+			rep.Done++
+			count(r.rec)
+			prog.record(r.rec[statusCol])
+			log.printf("run %0*d %s %.3fs", width, r.run, r.rec[statusCol], r.wall.Seconds())
+		}
+		batch = batch[:0]
+		if opt.afterCommit != nil {
+			opt.afterCommit(rep.Done)
+		}
+	}
+	// Group commit: a finished run waits at most `every` for the next sync,
+	// so that a sweep of millisecond runs syncs a few times a second, not
+	// once per run (a sync stalls the workers' processor time too).
+	var last time.Time
+	var due <-chan time.Time
+	for done != nil {
+		select {
+		case r, ok := <-done:
+			if !ok {
+				done = nil
+				break
+			}
+			batch = append(batch, r)
+			if wait := every - time.Since(last); wait <= 0 || len(batch) >= sweepCommitMax {
+				commit()
+				last, due = time.Now(), nil
+			} else if due == nil {
+				due = time.After(wait)
+			}
+		case <-due:
+			commit()
+			last, due = time.Now(), nil
+		}
+	}
+	commit()
+	prog.finish()
+	rep.Interrupted = ctx.Err() != nil && rep.Done < rep.Runs
+	if firstErr != nil {
+		log.printf("stop error=%q done=%d/%d", firstErr.Error(), rep.Done, rep.Runs)
+		return rep, firstErr
+	}
+	if err := writeSweepSummary(dir, header, j.rows); err != nil {
+		return rep, fmt.Errorf("writing %s: %w", filepath.Join(dir, results.SweepSummaryFile), err)
+	}
+	log.printf("stop done=%d/%d ok=%d criteria-failed=%d runaway=%d failed=%d interrupted=%v",
+		rep.Done, rep.Runs, rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed, rep.Interrupted)
+	return rep, nil
+}
+
+// sweepResult is one finished run on its way to the collector.
+type sweepResult struct {
+	run  int
+	rec  []string // the row of summary.csv
+	wall time.Duration
+	err  error // writing its outputs failed: stops the sweep
+}
+
+// runOne runs run r and returns its row.
+func (s *Sweep) runOne(ctx context.Context, ws *solver.Workspace, r int, dir string, keep bool, width int) sweepResult {
+	start := time.Now()
+	shown, vals := s.point(r)
+	rec := make([]string, 0, 1+len(shown)+len(results.SweepColumns)+len(results.SweepCriteria)+2)
+	rec = append(rec, strconv.Itoa(r))
+	rec = append(rec, shown...)
+	failed := func(msg string) sweepResult {
+		for range len(results.SweepColumns) + len(results.SweepCriteria) {
+			rec = append(rec, "")
+		}
+		rec = append(rec, results.StatusFailed, cases.OneLine(msg))
+		return sweepResult{run: r, rec: rec, wall: time.Since(start)}
+	}
+	c, err := s.caseOf(vals)
+	if err != nil {
+		return failed(cases.FlattenErrors(err))
+	}
+	// Without kept fields the row needs only the summary.
+	c.Problem.NoFields = !keep
+	res, err := ws.Run(ctx, c.Problem)
+	if err != nil {
+		return failed(err.Error())
+	}
+	sum := results.Summarize(c, res)
+	if keep {
+		out := filepath.Join(dir, results.SweepRunsDir, fmt.Sprintf("%0*d", width, r))
+		if err := results.WriteRun(out, c, res); err != nil {
+			return sweepResult{run: r, err: fmt.Errorf("run %d: writing its outputs to %s: %w", r, out, err)}
+		}
+	}
+	for _, col := range results.SweepColumns {
+		rec = append(rec, col.Get(&sum))
+	}
+	for _, name := range results.SweepCriteria {
+		pass := ""
+		for _, v := range sum.Criteria {
+			if v.Name == name {
+				pass = strconv.FormatBool(v.Pass)
+			}
+		}
+		rec = append(rec, pass)
+	}
+	msg := ""
+	if res.Status != solver.OK {
+		msg = "the run stopped early"
+		if res.Err != nil {
+			msg = res.Err.Error()
+		}
+	}
+	rec = append(rec, sum.Status, cases.OneLine(msg))
+	return sweepResult{run: r, rec: rec, wall: time.Since(start)}
+}
+
+// claimSweepDir creates dir if needed and checks or writes its sweep.json.
+func claimSweepDir(dir string, def []byte) error {
+	if fi, err := os.Stat(dir); err == nil && !fi.IsDir() {
+		return &sweepError{msg: fmt.Sprintf("%s exists and is not a directory", dir)}
+	}
+	old, err := os.ReadFile(filepath.Join(dir, results.SweepDefinitionFile))
+	switch {
+	case err == nil:
+		if !bytes.Equal(old, def) {
+			return &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+				"%s holds another sweep: %s; give another output directory (-o), or remove %s to start over",
+				dir, results.DefDiff(old, def), dir)}
+		}
+		return nil
+	case !errors.Is(err, fs.ErrNotExist):
+		return err
+	}
+	if _, err := os.Stat(filepath.Join(dir, results.SweepJournalFile)); err == nil {
+		return &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+			"%s has a %s but no %s: it is not a sweep directory this version can resume", dir, results.SweepJournalFile, results.SweepDefinitionFile)}
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return err
+	}
+	if err := textout.WriteFileAtomic(dir, results.SweepDefinitionFile, func(w io.Writer) error { _, err := w.Write(def); return err }); err != nil {
+		return err
+	}
+	syncDir(dir)
+	return nil
+}
+
+// syncDir flushes the directory entry of a new or renamed file to disk,
+// where the system supports it.
+func syncDir(dir string) {
+	if d, err := os.Open(dir); err == nil {
+		d.Sync()
+		d.Close()
+	}
+}
+
+// journal is the append-only file of committed rows: a header record, then
+// one CSV record per finished run — its row of summary.csv plus the CRC-32
+// (IEEE) of the row's fields joined by U+001F, as 8 hex digits.
+type journal struct {
+	f        *os.File
+	rows     map[int][]string
+	repaired bool // a torn or damaged tail was cut off
+	buf      bytes.Buffer
+}
+
+// readJournal reads the rows of the journal at path. A record that does not
+// check (wrong field count, CRC, run index) ends the reading: it and what
+// follows are left out, and good is the byte offset where they start. A
+// header that differs from header is an error (ErrSweepMismatch).
+func readJournal(path string, header []string, runs int) (rows map[int][]string, good int64, err error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, 0, err
+	}
+	defer f.Close()
+	r := csv.NewReader(f)
+	r.FieldsPerRecord = -1
+	h, err := r.Read()
+	if err != nil || !slices.Equal(h, append(slices.Clip(header), "crc32")) {
+		return nil, 0, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+			"%s does not have the columns of this sweep (written by another version?)", path)}
+	}
+	good = r.InputOffset()
+	rows = make(map[int][]string)
+	for {
+		rec, err := r.Read()
+		if err != nil || !checkRecord(rec, len(header), runs) {
+			break // io.EOF, or a torn or damaged record
+		}
+		good = r.InputOffset()
+		n, _ := strconv.Atoi(rec[0])
+		if _, ok := rows[n]; !ok {
+			rows[n] = rec[:len(header)]
+		}
+	}
+	return rows, good, nil
+}
+
+// checkRecord reports whether rec is a whole journal record.
+func checkRecord(rec []string, n, runs int) bool {
+	if len(rec) != n+1 {
+		return false
+	}
+	r, err := strconv.Atoi(rec[0])
+	if err != nil || r < 0 || r >= runs || strconv.Itoa(r) != rec[0] {
+		return false
+	}
+	return rec[n] == recordCRC(rec[:n])
+}
+
+func recordCRC(fields []string) string {
+	return fmt.Sprintf("%08x", crc32.ChecksumIEEE([]byte(strings.Join(fields, "\x1f"))))
+}
+
+// openJournal opens dir's journal for appending, creating it with its
+// header, and cuts off a torn tail.
+func openJournal(dir string, header []string, runs int) (*journal, error) {
+	path := filepath.Join(dir, results.SweepJournalFile)
+	if _, err := os.Stat(path); errors.Is(err, fs.ErrNotExist) {
+		err := textout.WriteFileAtomic(dir, results.SweepJournalFile, func(w io.Writer) error {
+			cw := csv.NewWriter(w)
+			cw.Write(append(slices.Clip(header), "crc32"))
+			cw.Flush()
+			return cw.Error()
+		})
+		if err != nil {
+			return nil, err
+		}
+		syncDir(dir)
+	}
+	rows, good, err := readJournal(path, header, runs)
+	if err != nil {
+		return nil, err
+	}
+	fi, err := os.Stat(path)
+	if err != nil {
+		return nil, err
+	}
+	repaired := fi.Size() > good
+	if repaired {
+		if err := os.Truncate(path, good); err != nil {
+			return nil, err
+		}
+	}
+	f, err := os.OpenFile(path, os.O_RDWR|os.O_APPEND, 0)
+	if err != nil {
+		return nil, err
+	}
+	// A last record without its newline (cut just before it) is whole:
+	// end its line before appending.
+	last := make([]byte, 1)
+	if good > 0 {
+		if _, err := f.ReadAt(last, good-1); err == nil && last[0] != '\n' {
+			if _, err := f.Write([]byte("\n")); err != nil {
+				f.Close()
+				return nil, err
+			}
+		}
+	}
+	return &journal{f: f, rows: rows, repaired: repaired}, nil
+}
+
+// append commits rows: written in one call and synced; they count as
+// committed only when the sync has returned.
+func (j *journal) append(recs [][]string) error {
+	j.buf.Reset()
+	cw := csv.NewWriter(&j.buf)
+	for _, rec := range recs {
+		cw.Write(append(slices.Clip(rec), recordCRC(rec)))
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return err
+	}
+	if _, err := j.f.Write(j.buf.Bytes()); err != nil {
+		return fmt.Errorf("committing runs to %s: %w", j.f.Name(), err)
+	}
+	if err := j.f.Sync(); err != nil {
+		return fmt.Errorf("committing runs to %s: %w", j.f.Name(), err)
+	}
+	for _, rec := range recs {
+		n, _ := strconv.Atoi(rec[0])
+		j.rows[n] = rec
+	}
+	return nil
+}
+
+func (j *journal) close() { j.f.Close() }
+
+// writeSweepSummary writes dir/summary.csv: the header and the rows in run
+// order.
+func writeSweepSummary(dir string, header []string, rows map[int][]string) error {
+	runs := make([]int, 0, len(rows))
+	for r := range rows {
+		runs = append(runs, r)
+	}
+	slices.Sort(runs)
+	return textout.WriteFileAtomic(dir, results.SweepSummaryFile, func(w io.Writer) error {
+		cw := csv.NewWriter(w)
+		cw.Write(header)
+		for _, r := range runs {
+			cw.Write(rows[r])
+		}
+		cw.Flush()
+		return cw.Error()
+	})
+}
+
+// sweepLog appends lines to dir/sweep.log; a log that cannot be opened is
+// skipped (it is informative only).
+type sweepLog struct{ f *os.File }
+
+func openSweepLog(dir string) *sweepLog {
+	f, err := os.OpenFile(filepath.Join(dir, results.SweepLogFile), os.O_WRONLY|os.O_APPEND|os.O_CREATE, 0o644)
+	if err != nil {
+		return &sweepLog{}
+	}
+	return &sweepLog{f: f}
+}
+
+func (l *sweepLog) printf(format string, a ...any) {
+	if l.f == nil {
+		return
+	}
+	fmt.Fprintf(l.f, "%s %s\n", time.Now().UTC().Format(time.RFC3339), fmt.Sprintf(format, a...))
+}
+
+func (l *sweepLog) close() {
+	if l.f != nil {
+		l.f.Close()
+	}
+}
+
+// sweepProgress draws the progress line.
+type sweepProgress struct {
+	w               io.Writer
+	start, last     time.Time
+	total, done     int
+	bad, crit       int
+	session, length int
+}
+
+func (p *sweepProgress) record(status string) {
+	p.done++
+	p.session++
+	switch status {
+	case results.StatusOK:
+	case results.StatusCriteriaFailed:
+		p.crit++
+	default:
+		p.bad++
+	}
+	if now := time.Now(); now.Sub(p.last) >= 100*time.Millisecond || p.done == p.total {
+		p.last = now
+		p.draw()
+	}
+}
+
+func (p *sweepProgress) draw() {
+	if p.w == nil {
+		return
+	}
+	line := fmt.Sprintf("%d/%d runs, %d failed, %d criteria-failed", p.done, p.total, p.bad, p.crit)
+	if el := time.Since(p.start).Seconds(); p.session > 0 && el > 0 {
+		rate := float64(p.session) / el
+		left := time.Duration(float64(p.total-p.done) / rate * float64(time.Second)).Round(time.Second)
+		line += fmt.Sprintf(", %.3g runs/s, %v left", rate, left)
+	}
+	pad := max(0, p.length-len(line))
+	p.length = len(line)
+	fmt.Fprintf(p.w, "\r%s%s", line, strings.Repeat(" ", pad))
+}
+
+func (p *sweepProgress) finish() {
+	if p.w == nil {
+		return
+	}
+	p.draw()
+	fmt.Fprintln(p.w)
+}
