@@ -63,7 +63,7 @@ func hottestProgram(pr *solver.Problem) *physics.Schedule {
 			consider(s)
 		}
 	}
-	if controlled(pr) {
+	if Controlled(pr) {
 		consider(&pr.Volumetric.Control.Program)
 	}
 	return best
