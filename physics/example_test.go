@@ -191,4 +191,35 @@ func ExampleLeeLoosSpringer() {
 	// 150 C: α = 0.9 after 106.2 min, α(60 min) = 0.745
 	// 177 C: α = 0.9 after 39.1 min, α(60 min) = 0.967
 	// viscosity at 120 C: 1.32 Pa·s uncured, 45.5 Pa·s at α = 0.4
+
+// 12 mm of an uncured resin (ε′ = 4, ε″ = 0.4) in a metal cup, a plane
+// wave at 2.45 GHz from above, then swept over 2.40–2.50 GHz: the share of
+// the incident power reflected and absorbed, and the absorbed power at the
+// top, middle and bottom of the resin for 1 kW/m² incident. The metal holds
+// a node of the field on its face: the bottom of the resin barely heats,
+// whatever the frequency within this narrow band. (The single-frequency
+// values agree with an independent midpoint quadrature, 20000 points per
+// cell, of the metal-backed slab's closed form E = E_s sin(k(d − z)).)
+func ExampleWave_Absorb() {
+	const cells = 12
+	stack := make([]physics.Slab, cells+1)
+	for i := range cells {
+		stack[i] = physics.Slab{Width: 0.001, Permittivity: 4, Loss: 0.4}
+	}
+	stack[cells] = physics.Slab{Width: 0.002, Conductor: true}
+	K := make([]float64, len(stack))
+	const S = 1000.0 // W/m²
+	for _, b := range []physics.Band{
+		{Lo: 2.45e9, Hi: 2.45e9, Points: 1},
+		{Lo: 2.40e9, Hi: 2.50e9, Points: 101},
+	} {
+		sh := physics.NewWave(len(stack), b).Absorb(K, stack, physics.IncidentTop)
+		fmt.Printf("%d point(s): reflected %.3f, absorbed %.3f; P top %.0f, middle %.0f, bottom %.0f W/m³\n",
+			b.Points, sh.Reflected, sh.Absorbed, S*0.4*K[0], S*0.4*K[6], S*0.4*K[11])
+	}
+	fmt.Printf("wavelength in the resin: %.1f mm\n", physics.Wavelength(2.45e9, 4, 0.4)*1e3)
+	// Output:
+	// 1 point(s): reflected 0.759, absorbed 0.241; P top 46038, middle 15444, bottom 189 W/m³
+	// 101 point(s): reflected 0.759, absorbed 0.241; P top 46045, middle 15454, bottom 189 W/m³
+	// wavelength in the resin: 61.1 mm
 }

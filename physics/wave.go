@@ -96,7 +96,7 @@ type Wave struct {
 	dk     float64 // its step between frequencies, 1/m
 	cells  int
 	seg    []segment
-	gam    []complex128 // Γ at the top of each segment, per frequency (segment-major)
+	gam    []complex128 // Γ at the bottom of each segment, per frequency (segment-major)
 	tr     []complex128 // field transmission to the next segment, per frequency
 	run    []complex128 // per frequency: Γ below, then the forward amplitude
 	rev    []Slab       // the stack reversed, for incidence from the bottom
@@ -283,8 +283,8 @@ func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 			rho, tau = (1-n0)/(1+n0), 2/(1+n0)
 		}
 		for f := range run {
+			gam[f] = run[f] // Γ at the bottom of this segment
 			g := run[f] * z2
-			gam[f] = g
 			// 1/(1 + ρ g) without the library's scaled complex division:
 			// |ρ| < 1 and |g| ≤ 1 keep the denominator away from zero.
 			d := 1 + rho*g
@@ -362,21 +362,26 @@ func (w *Wave) phase(sg *segment, m float64) (z, zd complex128) {
 }
 
 // absorbSegment returns the band-mean K of a lossy one-slab segment from
-// the amplitudes at its top (w.run) and Γ at its top (gam), and moves the
-// amplitudes on: to the top of the next segment (through next), or to the
-// bottom of the segment when it is the last.
+// the amplitudes at its top (w.run) and Γ at its bottom (gam), and moves
+// the amplitudes on: to the top of the next segment (through next), or to
+// the bottom of the segment when it is the last.
+//
+// With Γ_top = Γ_bot z², z = e^{−jkw} = e^{−αw} e^{−jβw}, the closed form of
+// Wave.Absorb becomes, per unit |A|²,
+//
+//	k0 ∫₀ʷ |E|² dζ = q/(2n″) (1 + |Γ_bot|² (1 − q)) − (2/n′) Re(Γ_bot z) Im(z),  q = 1 − e^{−2αw},
+//
+// (k0/(2α) = 1/(2n″), k0/β = 1/n′), which holds no growing exponential.
 func (w *Wave) absorbSegment(sg *segment, z, zd complex128, gam, next []complex128, last bool) float64 {
 	n1, n2 := real(sg.n), -imag(sg.n)
 	wd := sg.width
-	// q = 1 − e^{−2αw} = 1 − |z|² and e = e^{2αw} = 1/|z|², each by its
-	// own recurrence in frequency: q_{f+1} = q_f + p (1 − q_f) with
-	// p = 1 − e^{−2Δα w} has no cancellation for thin slabs.
+	// q = 1 − |z|² by its own recurrence in frequency: q_{f+1} = q_f +
+	// p (1 − q_f) with p = 1 − e^{−2Δα w} has no cancellation for thin
+	// slabs.
 	q := -math.Expm1(-2 * w.kLo * n2 * wd)
 	p := -math.Expm1(-2 * w.dk * n2 * wd)
-	e := math.Exp(2 * w.kLo * n2 * wd)
-	ed := math.Exp(2 * w.dk * n2 * wd)
-	c1 := 1 / (2 * n2) // k0/(2α)
-	c2 := 2 / n1       // 2 k0/β
+	c1 := 1 / (2 * n2)
+	c2 := 2 / n1
 	run := w.run[:w.band.Points]
 	gam = gam[:len(run)]
 	next = next[:len(run)]
@@ -384,9 +389,8 @@ func (w *Wave) absorbSegment(sg *segment, z, zd complex128, gam, next []complex1
 	for f, a := range run {
 		g := gam[f]
 		gg := real(g)*real(g) + imag(g)*imag(g)
-		// e^{jβw} sin(βw) = −conj(z) Im(z) e^{2αw}; Re(Γ conj z).
-		gz := real(g)*real(z) + imag(g)*imag(z)
-		in := q*c1*(1+gg*e) - c2*gz*imag(z)*e
+		gz := real(g)*real(z) - imag(g)*imag(z) // Re(Γ_bot z)
+		in := q*c1*(1+gg*(1-q)) - c2*gz*imag(z)
 		sum += (real(a)*real(a) + imag(a)*imag(a)) * in
 		if last {
 			run[f] = a * z
@@ -395,7 +399,6 @@ func (w *Wave) absorbSegment(sg *segment, z, zd complex128, gam, next []complex1
 		}
 		z *= zd
 		q += p * (1 - q)
-		e *= ed
 	}
 	return sum / (float64(len(run)) * wd)
 }

@@ -361,3 +361,16 @@ func BenchmarkWaveAbsorb150Cells101Points(b *testing.B) {
 		w.Absorb(K, st, IncidentTop)
 	}
 }
+
+func TestWaveVeryThickCell(t *testing.T) {
+	// One cell 2000 penetration depths thick (e^{2αw} would overflow): the
+	// closed form holds no growing exponential, so the result is finite and
+	// the reflectance is Fresnel's (Born & Wolf §1.5.2, from memory).
+	const f, eps1, eps2 = 2.45e9, 78.0, 10.0
+	K, sh := absorb(t, []Slab{{Width: 2000 * PenetrationDepth(f, eps1, eps2), Permittivity: eps1, Loss: eps2}}, single(f), IncidentTop)
+	n := RefractiveIndex(eps1, eps2)
+	r := (1 - n) / (1 + n)
+	if want := real(r * cmplx.Conj(r)); math.Abs(sh.Reflected-want) > 1e-12 || math.IsNaN(K[0]) || math.IsInf(K[0], 0) {
+		t.Errorf("R = %.15g (want %.15g), K = %g", sh.Reflected, want, K[0])
+	}
+}
