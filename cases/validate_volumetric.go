@@ -10,13 +10,24 @@ import (
 )
 
 var (
-	volumetricKeys   = []string{"frequency", "field", "attenuation", "control"}
+	volumetricKeys   = []string{"frequency", "field", "attenuation", "control", "incident", "incident_power", "band", "band_points"}
 	controlKeys      = []string{"sensor", "program", "max_field", "period", "gain", "integral_time"}
-	attenuationNames = []string{"none", "top", "bottom", "both"}
+	attenuationNames = []string{"none", "top", "bottom", "both", "standing-wave"}
 	attenuationModes = map[string]physics.Attenuation{
 		"none": physics.Uniform, "top": physics.FromTop, "bottom": physics.FromBottom, "both": physics.FromBoth,
+		"standing-wave": physics.StandingWave,
 	}
+	incidenceNames = []string{"top", "bottom", "both"}
+	incidenceModes = map[string]physics.Incidence{
+		"top": physics.IncidentTop, "bottom": physics.IncidentBottom, "both": physics.IncidentBoth,
+	}
+	// standingKeys go with attenuation = "standing-wave" only.
+	standingKeys = []string{"incident", "incident_power", "band", "band_points"}
 )
+
+// maxBandPoints bounds band_points: each point costs a field solution per
+// cell at every step whose loss factors moved.
+const maxBandPoints = 10001
 
 // maxControlSamples bounds the controller samples of one run (End/period):
 // the solver lands a step on every one of them.
@@ -34,6 +45,9 @@ type VolumetricInfo struct {
 	// Defaults lists the controller settings left at their defaults, in
 	// the order period, gain, integral_time.
 	Defaults []string
+	// BandPointsDefault reports a band whose band_points was not given
+	// (physics.DefaultBandPoints).
+	BandPointsDefault bool
 }
 
 // volDef is a resolved [volumetric].
@@ -43,18 +57,23 @@ type volDef struct {
 	end  float64 // end of the control program, s (0 without one)
 }
 
-// volumetric reads [volumetric] and [volumetric.control] (SPEC §4, §10):
-// frequency (required, positive); the field, positive: field without
-// control, under control max_field, or field when max_field is not given
-// (a field given beside max_field is checked but not used, and check says
-// so); attenuation (default "none"); and the controller: sensor and program
-// (required), period, gain and integral_time (defaults
-// physics.DefaultControlPeriod, DefaultControlGain, DefaultIntegralTime).
-// The program is a schedule name or a constant, as a face's air. layers are
-// the resolved layers (judged only when layersOK): at least one must absorb
-// and be reached by the field (checkAbsorbers), and the sensor must lie in
-// the stack. It returns nil when the section is absent; ok is false when it
-// has errors.
+// volumetric reads [volumetric] and [volumetric.control]. attenuation
+// (default "none") decides the rest. For none|top|bottom|both: frequency
+// (required, positive) and the field, positive: field without control,
+// under control max_field, or field when max_field is not given (a field
+// given beside max_field is checked but not used, and check says so). For
+// "standing-wave": incident (top|bottom|both, required), incident_power
+// (W/m², positive, required), and either frequency or band = [lo, hi]
+// (0 < lo < hi) with band_points (2 to maxBandPoints, default
+// physics.DefaultBandPoints); field and max_field are errors there, and
+// the standing-wave keys are errors in the other modes. The controller:
+// sensor and program (required), period, gain and integral_time (defaults
+// physics.DefaultControlPeriod, DefaultControlGain, DefaultIntegralTime);
+// the program is a schedule name or a constant, as a face's air. layers are
+// the resolved layers (judged only when layersOK): at least one must absorb,
+// and the field may not pass a shield to reach one (checkAbsorbers); the
+// sensor must lie in the stack. It returns nil when the section is absent;
+// ok is false when it has errors.
 func (l *loader) volumetric(root *table, scheds map[string]*physics.Schedule, layers []layerDef, layersOK bool) (*volDef, bool) {
 	t := l.sub(root, "volumetric", volumetricKeys, nil)
 	if t == nil {
@@ -65,13 +84,66 @@ func (l *loader) volumetric(root *table, scheds map[string]*physics.Schedule, la
 	d := &volDef{vol: v, info: &VolumetricInfo{}}
 	ct := l.sub(t, "control", controlKeys, nil)
 
-	l.require(t, "frequency")
-	if f, ok := l.quantity(t, "frequency", units.Frequency); ok {
-		if !(f > 0) {
-			l.rangeErr(t.keyPath("frequency"), t.m["frequency"], "frequency must be positive")
+	attOK := true
+	if s, ok := l.str(t, "attenuation"); ok {
+		if a, known := attenuationModes[s]; known {
+			v.Attenuation = a
+		} else {
+			attOK = false
+			msg := fmt.Sprintf("unknown attenuation %q", s)
+			if g := Suggest(s, attenuationNames); g != "" {
+				msg += fmt.Sprintf("; did you mean %q?", g)
+			}
+			l.atValue(t.keyPath("attenuation"), ErrRange, "%s", msg).Hint =
+				`"none": a uniform field; "top", "bottom": the field enters through that face and decays with the penetration depth; "both": the mean of the two; ` +
+					`"standing-wave": a plane wave enters from incident and is reflected at every face (metal layers reflect it all)`
 		}
-		v.Frequency = f
+	} else if t.has("attenuation") {
+		attOK = false
 	}
+	frequency := func() {
+		if f, ok := l.quantity(t, "frequency", units.Frequency); ok {
+			if !(f > 0) {
+				l.rangeErr(t.keyPath("frequency"), t.m["frequency"], "frequency must be positive")
+			}
+			v.Frequency = f
+		}
+	}
+	switch {
+	case !attOK:
+	case v.Attenuation == physics.StandingWave:
+		l.standingWave(t, ct, d)
+	default:
+		for _, k := range standingKeys {
+			if t.has(k) {
+				l.atKey(t.keyPath(k), ErrRange, "%s goes with attenuation = \"standing-wave\" only (attenuation is %q)", k, v.Attenuation.String()).Hint =
+					"for a plane wave reflected at every face, write attenuation = \"standing-wave\" with incident, incident_power and frequency (or band); otherwise remove " + k
+			}
+		}
+		l.require(t, "frequency")
+		frequency()
+		l.fieldKeys(t, ct, d)
+	}
+	total := 0.0
+	for _, ld := range layers {
+		total += ld.geom.Thickness
+	}
+	if ct != nil {
+		v.Control = l.control(ct, scheds, d, total, layersOK)
+	}
+	if layersOK && attOK {
+		l.checkAbsorbers(layers, v)
+	}
+	if len(l.errs) > before {
+		return nil, false
+	}
+	return d, true
+}
+
+// fieldKeys reads the rms field of the exponential and uniform modes:
+// field, or under control max_field (see volumetric).
+func (l *loader) fieldKeys(t, ct *table, d *volDef) {
+	v := d.vol
 	field := func(tt *table, key string) float64 {
 		E, ok := l.quantity(tt, key, units.ElectricField)
 		if ok && !(E > 0) {
@@ -97,32 +169,98 @@ func (l *loader) volumetric(root *table, scheds map[string]*physics.Schedule, la
 		l.require(t, "field")
 		v.Field = field(t, "field")
 	}
-	if s, ok := l.str(t, "attenuation"); ok {
-		if a, known := attenuationModes[s]; known {
-			v.Attenuation = a
+}
+
+// standingWave reads the keys of attenuation = "standing-wave" (see
+// volumetric).
+func (l *loader) standingWave(t, ct *table, d *volDef) {
+	v := d.vol
+	if t.has("field") {
+		l.atKey(t.keyPath("field"), ErrRange, "field is not used with attenuation = \"standing-wave\": the wave is set by incident_power, the power per area it brings from the air").Hint =
+			"replace it, for example: incident_power = \"4 kW/m^2\""
+	}
+	if ct != nil && ct.has("max_field") {
+		l.atKey(ct.keyPath("max_field"), ErrRange, "max_field is not used with attenuation = \"standing-wave\": the controller scales incident_power by the power fraction").Hint =
+			"remove max_field; incident_power in [volumetric] is the power at full output"
+	}
+	l.require(t, "incident", "incident_power")
+	if s, ok := l.str(t, "incident"); ok {
+		if inc, known := incidenceModes[s]; known {
+			v.Incident = inc
 		} else {
-			msg := fmt.Sprintf("unknown attenuation %q", s)
-			if g := Suggest(s, attenuationNames); g != "" {
+			msg := fmt.Sprintf("unknown incident face %q", s)
+			if g := Suggest(s, incidenceNames); g != "" {
 				msg += fmt.Sprintf("; did you mean %q?", g)
 			}
-			l.atValue(t.keyPath("attenuation"), ErrRange, "%s", msg).Hint =
-				`"none": a uniform field; "top", "bottom": the field enters through that face and decays with the penetration depth; "both": the mean of the two`
+			l.atValue(t.keyPath("incident"), ErrRange, "%s", msg).Hint =
+				`"top" or "bottom": the face the wave enters by from the air; "both": one wave from each side, each with the full incident_power`
 		}
 	}
-	total := 0.0
-	for _, ld := range layers {
-		total += ld.geom.Thickness
+	if S, ok := l.quantity(t, "incident_power", units.PowerPerArea); ok {
+		if !(S > 0) {
+			l.rangeErr(t.keyPath("incident_power"), t.m["incident_power"], "incident_power must be positive")
+		}
+		v.IncidentPower = S
 	}
-	if ct != nil {
-		v.Control = l.control(ct, scheds, d, total, layersOK)
+	switch {
+	case t.has("frequency") && t.has("band"):
+		l.atKey(t.keyPath("band"), ErrRange, "give frequency or band, not both").Hint =
+			"one frequency: frequency = \"2.45 GHz\"; a swept band: band = [\"2.40 GHz\", \"2.50 GHz\"] (with band_points, default 101)"
+	case t.has("band"):
+		l.band(t, d)
+	default:
+		if !t.has("frequency") {
+			l.add(l.loc.table(t.path), t.keyPath("frequency"), ErrMissing, nil,
+				"missing: [volumetric] needs \"frequency\" or \"band\"").Hint =
+				"for example: frequency = \"2.45 GHz\", or band = [\"5.85 GHz\", \"6.65 GHz\"] for a swept source"
+		}
+		if f, ok := l.quantity(t, "frequency", units.Frequency); ok {
+			if !(f > 0) {
+				l.rangeErr(t.keyPath("frequency"), t.m["frequency"], "frequency must be positive")
+			}
+			v.Frequency = f
+		}
+		if t.has("band_points") {
+			l.atKey(t.keyPath("band_points"), ErrRange, "band_points goes with band only").Hint =
+				"for a swept source give band = [\"LO GHz\", \"HI GHz\"] instead of frequency"
+		}
 	}
-	if layersOK {
-		l.checkAbsorbers(layers, v.Attenuation)
+}
+
+// band reads band = [lo, hi] and band_points.
+func (l *loader) band(t *table, d *volDef) {
+	v := d.vol
+	path := t.keyPath("band")
+	hint := "for example: band = [\"5.85 GHz\", \"6.65 GHz\"] (the lowest and highest frequency of the sweep)"
+	arr, ok := l.array(t, "band")
+	if !ok {
+		return
 	}
-	if len(l.errs) > before {
-		return nil, false
+	if len(arr) != 2 {
+		l.atValue(path, ErrRange, "band needs two frequencies, the lowest and the highest, got %d values", len(arr)).Hint = hint
+		return
 	}
-	return d, true
+	lo, okLo := l.quantityAt(path+".0", arr[0], units.Frequency)
+	hi, okHi := l.quantityAt(path+".1", arr[1], units.Frequency)
+	if !okLo || !okHi {
+		return
+	}
+	if !(lo > 0) || !(hi > lo) {
+		l.atValue(path, ErrRange, "band must run from a positive lowest frequency to a higher one, got %s to %s",
+			formatFrequency(lo), formatFrequency(hi)).Hint = hint + "; for one frequency write frequency = \"2.45 GHz\""
+		return
+	}
+	n := int64(physics.DefaultBandPoints)
+	if !t.has("band_points") {
+		d.info.BandPointsDefault = true
+	} else if k, ok := l.integer(t, "band_points"); ok {
+		if k < 2 || k > maxBandPoints {
+			l.rangeErr(t.keyPath("band_points"), t.m["band_points"], "band_points must be between 2 and %d (both ends of the band are included)", maxBandPoints)
+		}
+		n = k
+	}
+	v.Band = physics.Band{Lo: lo, Hi: hi, Points: int(n)}
+	v.Frequency = 0.5 * (lo + hi) // the centre, for estimates
 }
 
 // control reads [volumetric.control]; nil when it has errors.
@@ -180,51 +318,81 @@ func (l *loader) checkControlSamples(c *physics.Control, end float64) {
 		"give a longer period (1 s suits a part that takes minutes to heat)"
 }
 
-// checkAbsorbers reports a [volumetric] that heats nothing: no layer whose
-// material has a dielectric section with a loss factor (a shield absorbs
-// nothing), or, for an attenuated field, none that the field reaches
-// without first passing a shield.
-func (l *loader) checkAbsorbers(layers []layerDef, a physics.Attenuation) {
+// checkAbsorbers reports a [volumetric] that heats nothing — no layer
+// whose material has a dielectric section with a loss factor (a shield
+// absorbs nothing) — and a field that would have to pass a shield (a
+// metal reflects it) to reach an absorbing layer: for each face the field
+// enters by (attenuation top, bottom or both, or the standing wave's
+// incident face), the first shield met from that face must have no
+// absorbing layer beyond it. A uniform field ("none") enters by no face.
+func (l *loader) checkAbsorbers(layers []layerDef, v *physics.Volumetric) {
 	absorbs := func(m *physics.Material) bool {
 		d := m.Dielectric
 		return d != nil && !d.Shield && (d.LossFactor > 0 || d.LossFactorCured > 0)
 	}
 	shield := func(m *physics.Material) bool { return m.Dielectric != nil && m.Dielectric.Shield }
-	some, fromTop, fromBottom := false, false, false
-	blocked := false
+	some := false
+	var names []string
 	for _, ld := range layers {
 		if ld.mat == nil {
 			return // the material has errors of its own
 		}
-		if shield(ld.mat) {
-			blocked = true
-		}
-		if absorbs(ld.mat) {
-			some = true
-			fromTop = fromTop || !blocked
-		}
-	}
-	blocked = false
-	for i := len(layers) - 1; i >= 0; i-- {
-		if shield(layers[i].mat) {
-			blocked = true
-		}
-		if absorbs(layers[i].mat) {
-			fromBottom = fromBottom || !blocked
-		}
-	}
-	var names []string
-	for _, ld := range layers {
+		some = some || absorbs(ld.mat)
 		names = append(names, fmt.Sprintf("%s (%s)", ld.info.Name, ld.info.Material))
 	}
-	switch {
-	case !some:
+	if !some {
 		l.add(l.loc.table("volumetric"), "volumetric", ErrRange, nil,
 			fmt.Sprintf("no layer absorbs: none of the materials of %s has a [materials.NAME.dielectric] section with a loss factor", strings.Join(names, ", "))).Hint =
 			"add to the absorbing material, for example:\n[materials.NAME.dielectric]\npermittivity = 4.0\nloss_factor = 0.4\nloss_factor_cured = 0.05"
-	case a == physics.FromTop && !fromTop, a == physics.FromBottom && !fromBottom, a == physics.FromBoth && !fromTop && !fromBottom:
-		l.atValue("volumetric.attenuation", ErrRange, "the field never reaches an absorbing layer: a shield lies between every absorbing layer and the face the field enters by (attenuation %q)", a).Hint =
-			"choose the face the field enters by, or remove shield = true from the layer in the way"
+		return
+	}
+	var fromTop, fromBottom bool
+	key := "volumetric.attenuation"
+	switch v.Attenuation {
+	case physics.FromTop:
+		fromTop = true
+	case physics.FromBottom:
+		fromBottom = true
+	case physics.FromBoth:
+		fromTop, fromBottom = true, true
+	case physics.StandingWave:
+		key = "volumetric.incident"
+		fromTop = v.Incident == physics.IncidentTop || v.Incident == physics.IncidentBoth
+		fromBottom = v.Incident == physics.IncidentBottom || v.Incident == physics.IncidentBoth
+	}
+	// blocked walks the layers from one face and returns the first shield
+	// and the first absorbing layer beyond it, or −1s.
+	blocked := func(order []int) (int, int) {
+		sh := -1
+		for _, i := range order {
+			switch m := layers[i].mat; {
+			case sh < 0 && shield(m):
+				sh = i
+			case sh >= 0 && absorbs(m):
+				return sh, i
+			}
+		}
+		return -1, -1
+	}
+	down, up := make([]int, len(layers)), make([]int, len(layers))
+	for i := range layers {
+		down[i], up[i] = i, len(layers)-1-i
+	}
+	for _, c := range []struct {
+		on    bool
+		face  string
+		order []int
+		other string
+	}{{fromTop, "top", down, "bottom"}, {fromBottom, "bottom", up, "top"}} {
+		if !c.on {
+			continue
+		}
+		if sh, ab := blocked(c.order); sh >= 0 {
+			s, a := layers[sh].info, layers[ab].info
+			l.atValue(key, ErrRange, "the field entering by the %s face would have to pass the shield %q (%s) to reach the absorbing layer %q (%s); a metal reflects microwaves",
+				c.face, s.Name, s.Material, a.Name, a.Material).Hint =
+				fmt.Sprintf("let the field enter by the %s face, or, if %q is no metal, give %s a dielectric section without shield = true", c.other, s.Name, s.Material)
+		}
 	}
 }
 

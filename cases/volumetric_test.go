@@ -132,7 +132,7 @@ func TestCheckVolumetric(t *testing.T) {
 		// Source: analytic, 2π f ε0 ε″ E² / (ρ c_p) at 1 GHz, 0.5 kV/m:
 		// 5.5633e-11 × 1e9 × 10 × 2.5e5 / 4.18e6 = 0.0333 K/s = 2.0 K/min,
 		// below the program's 5 C/min.
-		"ramps at up to 5 K/min, faster than the full field heats any absorbing layer (2 K/min",
+		"ramps at up to 5 K/min, faster than the full power heats any absorbing layer (2 K/min",
 	} {
 		if !strings.Contains(out, want) {
 			t.Errorf("check output lacks %q:\n%s", want, out)

@@ -191,6 +191,7 @@ func ExampleLeeLoosSpringer() {
 	// 150 C: α = 0.9 after 106.2 min, α(60 min) = 0.745
 	// 177 C: α = 0.9 after 39.1 min, α(60 min) = 0.967
 	// viscosity at 120 C: 1.32 Pa·s uncured, 45.5 Pa·s at α = 0.4
+}
 
 // 12 mm of an uncured resin (ε′ = 4, ε″ = 0.4) in a metal cup, a plane
 // wave at 2.45 GHz from above, then swept over 2.40–2.50 GHz: the share of

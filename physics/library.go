@@ -10,6 +10,7 @@ type builtin struct {
 	cp     float64 // J/(kg·K)
 	k      float64 // W/(m·K)
 	source string
+	metal  bool // reflects microwaves: a shield (Dielectric.Shield)
 }
 
 // incropera names the heat-transfer textbook most of the library is taken
@@ -23,47 +24,56 @@ const incropera = "Incropera, DeWitt, Bergman & Lavine, Fundamentals of Heat and
 // against the original before they are relied on.
 var library = []builtin{
 	{"alumina", 3970, 765, 36.0,
-		incropera + " (Table A.2, table number from memory), aluminium oxide (polycrystalline) at 300 K: rho, cp, k confirmed"},
+		incropera + " (Table A.2, table number from memory), aluminium oxide (polycrystalline) at 300 K: rho, cp, k confirmed", false},
 	{"aluminium", 2702, 903, 237,
-		incropera + " (Table A.1, table number from memory), pure aluminium at 300 K: rho, cp, k confirmed"},
+		incropera + " (Table A.1, table number from memory), pure aluminium at 300 K: rho, cp, k confirmed", true},
 	{"aluminium-2024", 2770, 875, 177,
-		incropera + " (Table A.1, table number from memory), aluminium alloy 2024-T6 at 300 K: rho, cp, k confirmed"},
+		incropera + " (Table A.1, table number from memory), aluminium alloy 2024-T6 at 300 K: rho, cp, k confirmed", true},
 	{"aluminium-6061", 2700, 896, 167,
-		"aluminium alloy 6061-T6, typical handbook values: rho, cp from memory; k from a secondary table (unconfirmed)"},
+		"aluminium alloy 6061-T6, typical handbook values: rho, cp from memory; k from a secondary table (unconfirmed)", true},
 	{"borosilicate-glass", 2225, 835, 1.4,
-		incropera + " (Table A.3, table number from memory), borosilicate glass at 300 K: rho, cp, k from memory"},
+		incropera + " (Table A.3, table number from memory), borosilicate glass at 300 K: rho, cp, k from memory", false},
 	{"carbon-steel", 7854, 434, 60.5,
-		incropera + " (Table A.1, table number from memory), plain carbon steel at 300 K: rho, cp, k from memory"},
+		incropera + " (Table A.1, table number from memory), plain carbon steel at 300 K: rho, cp, k from memory", true},
 	{"copper", 8933, 385, 401,
-		incropera + " (Table A.1, table number from memory), pure copper at 300 K: rho, cp, k confirmed"},
+		incropera + " (Table A.1, table number from memory), pure copper at 300 K: rho, cp, k confirmed", true},
 	{"epoxy-cured", 1200, 1050, 0.20,
-		"cured unfilled epoxy: cp Callister, Materials Science and Engineering: An Introduction, Table 19.1 (confirmed); rho about 1200 and k 0.19-0.20 typical (from memory)"},
+		"cured unfilled epoxy: cp Callister, Materials Science and Engineering: An Introduction, Table 19.1 (confirmed); rho about 1200 and k 0.19-0.20 typical (from memory)", false},
 	{"fr4", 1850, 1150, 0.343,
-		"FR-4 glass-epoxy laminate, through-plane: k Sarvar, Poole & Witting, J. Electron. Mater. 19:1345 (1990) (confirmed); rho 1850 (confirmed); cp 1100-1200 typical (from memory)"},
+		"FR-4 glass-epoxy laminate, through-plane: k Sarvar, Poole & Witting, J. Electron. Mater. 19:1345 (1990) (confirmed); rho 1850 (confirmed); cp 1100-1200 typical (from memory)", false},
 	{"ptfe", 2200, 1050, 0.35,
-		incropera + " (Table A.3, table number from memory), polytetrafluoroethylene (PTFE) at 300 K: rho, k from memory; cp Callister, Materials Science and Engineering: An Introduction, Table 19.1 (confirmed; Callister gives k 0.25)"},
+		incropera + " (Table A.3, table number from memory), polytetrafluoroethylene (PTFE) at 300 K: rho, k from memory; cp Callister, Materials Science and Engineering: An Introduction, Table 19.1 (confirmed; Callister gives k 0.25)", false},
 	{"silicon", 2330, 712, 148,
-		incropera + " (Table A.1, table number from memory), silicon at 300 K: rho, cp, k confirmed"},
+		incropera + " (Table A.1, table number from memory), silicon at 300 K: rho, cp, k confirmed", false},
 	{"soda-lime-glass", 2500, 750, 1.4,
-		incropera + " (Table A.3, table number from memory), plate (soda-lime) glass at 300 K: rho, cp, k from memory"},
+		incropera + " (Table A.3, table number from memory), plate (soda-lime) glass at 300 K: rho, cp, k from memory", false},
 	{"stainless-304", 7900, 477, 14.9,
-		incropera + " (Table A.1, table number from memory), stainless steel AISI 304 at 300 K: rho, cp, k from memory"},
+		incropera + " (Table A.1, table number from memory), stainless steel AISI 304 at 300 K: rho, cp, k from memory", true},
 }
 
 func (b *builtin) material() *Material {
-	return &Material{
+	m := &Material{
 		Name:         b.name,
 		Density:      b.rho,
 		SpecificHeat: Inert(Constant(b.cp)),
 		Conductivity: Inert(Constant(b.k)),
 		Source:       b.source,
 	}
+	if b.metal {
+		// A metal reflects microwaves: its skin depth at 2.45 GHz is
+		// a few micrometres (about 1.7 µm for aluminium, δ = 1/√(π f μ0 σ);
+		// Pozar, Microwave Engineering, §1.7, from memory), so a layer of
+		// any practical thickness is a perfect conductor to the field.
+		m.Dielectric = &Dielectric{Shield: true}
+	}
+	return m
 }
 
 // Library returns the built-in materials, sorted by name. Each call returns
 // fresh copies that the caller may modify. The built-in materials are inert:
 // constant room-temperature properties, no cure (Cure nil) and no dielectric
-// absorption (Dielectric nil); Source gives the published source of each value
+// absorption; the metals are shields (Dielectric{Shield: true}: they reflect
+// microwaves), the others have no dielectric section. Source gives the published source of each value
 // and whether it was confirmed or recalled from memory.
 //
 // Cost: one allocation per material.

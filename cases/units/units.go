@@ -34,6 +34,7 @@ const (
 	Power                                  // W
 	InverseTemperature                     // 1/K
 	PowerDensity                           // W/m^3
+	PowerPerArea                           // W/m^2, carried by a wave
 )
 
 // vec holds the exponents of the SI base units m, kg, s, K, mol, A.
@@ -83,9 +84,10 @@ var dims = [...]dimInfo{
 	Power:                   {"power", "100 W", "W", watt},
 	InverseTemperature:      {"inverse temperature", "0.0052 1/K", "1/K", vec{0, 0, 0, -1, 0, 0}},
 	PowerDensity:            {"power density", "50 kW/m^3", "W/m^3", vec{-1, 1, -3, 0, 0, 0}},
+	PowerPerArea:            {"power per area", "4 kW/m^2", "W/m^2", vec{0, 1, -3, 0, 0, 0}},
 }
 
-func (d Dim) valid() bool { return d >= Length && d <= PowerDensity }
+func (d Dim) valid() bool { return d >= Length && d <= PowerPerArea }
 
 // String returns the dimension word used in messages ("length", "heat
 // transfer coefficient", ...), or "Dim(N)" for an invalid Dim.
@@ -669,7 +671,7 @@ func editDistance(a, b string) int {
 // of ours: "is a heat transfer coefficient, not a conductivity".
 func (p *parser) mismatch(v vec) *Error {
 	var names []string
-	for d := Length; d <= PowerDensity; d++ {
+	for d := Length; d <= PowerPerArea; d++ {
 		if dims[d].v == v {
 			names = append(names, d.withArticle())
 		}

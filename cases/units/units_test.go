@@ -184,6 +184,7 @@ func TestParseAccepted(t *testing.T) {
 		// Source: analytic.
 		{"50 kW/m^3", PowerDensity, 5e4, 0},
 		{"0.05 W/cm^3", PowerDensity, 5e4, 0},
+		{"4 kW/m^2", PowerPerArea, 4e3, 0}, // a wave's power per area
 	}
 	for _, tt := range tests {
 		t.Run(tt.dim.String()+"/"+tt.in, func(t *testing.T) {
@@ -288,7 +289,7 @@ func TestParseRejected(t *testing.T) {
 // Every Dim: its example parses as itself, and 1 of its SI unit is 1.
 func TestDimTable(t *testing.T) {
 	seen := map[string]bool{}
-	for d := Length; d <= PowerDensity; d++ {
+	for d := Length; d <= PowerPerArea; d++ {
 		if seen[d.String()] {
 			t.Errorf("%v: duplicate word", d)
 		}
@@ -300,20 +301,20 @@ func TestDimTable(t *testing.T) {
 		if got, err := Parse("1 "+d.SIUnit(), d); err != nil || got != 1 {
 			t.Errorf("%v: Parse(\"1 %s\") = %g, %v; want 1", d, d.SIUnit(), got, err)
 		}
-		if _, err := Parse("1 "+d.SIUnit(), d%PowerDensity+1); err == nil && dims[d].v != dims[d%PowerDensity+1].v {
-			t.Errorf("%v: %q accepted as %v", d, d.SIUnit(), d%PowerDensity+1)
+		if _, err := Parse("1 "+d.SIUnit(), d%PowerPerArea+1); err == nil && dims[d].v != dims[d%PowerPerArea+1].v {
+			t.Errorf("%v: %q accepted as %v", d, d.SIUnit(), d%PowerPerArea+1)
 		}
 	}
 	// Source: SPEC §10, dimension words used in messages.
-	words := "length, time, temperature, temperature difference, heating rate, density, specific heat, conductivity, heat transfer coefficient, contact resistance, energy per mass, energy per mole, rate constant, frequency, electric field, heat flux, power, inverse temperature, power density"
+	words := "length, time, temperature, temperature difference, heating rate, density, specific heat, conductivity, heat transfer coefficient, contact resistance, energy per mass, energy per mole, rate constant, frequency, electric field, heat flux, power, inverse temperature, power density, power per area"
 	var got []string
-	for d := Length; d <= PowerDensity; d++ {
+	for d := Length; d <= PowerPerArea; d++ {
 		got = append(got, d.String())
 	}
 	if g := strings.Join(got, ", "); g != words {
 		t.Errorf("dimension words\n got  %s\n want %s", g, words)
 	}
-	for _, d := range []Dim{0, PowerDensity + 1} {
+	for _, d := range []Dim{0, PowerPerArea + 1} {
 		if d.Example() != "" || d.SIUnit() != "" || !strings.HasPrefix(d.String(), "Dim(") {
 			t.Errorf("invalid %d: String %q, Example %q, SIUnit %q", int(d), d.String(), d.Example(), d.SIUnit())
 		}
