@@ -391,7 +391,7 @@ func (l *loader) checkAbsorbers(layers []layerDef, v *physics.Volumetric) {
 			s, a := layers[sh].info, layers[ab].info
 			l.atValue(key, ErrRange, "the field entering by the %s face would have to pass the shield %q (%s) to reach the absorbing layer %q (%s); a metal reflects microwaves",
 				c.face, s.Name, s.Material, a.Name, a.Material).Hint =
-				fmt.Sprintf("let the field enter by the %s face, or, if %q is no metal, give %s a dielectric section without shield = true", c.other, s.Name, s.Material)
+				fmt.Sprintf("let the field enter by the %s face only; a layer that is no metal needs a dielectric section without shield = true", c.other)
 		}
 	}
 }

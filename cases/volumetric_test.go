@@ -211,3 +211,38 @@ func mustRead(t *testing.T, path string) []byte {
 	}
 	return b
 }
+
+// TestStandingWaveCase loads a standing wave over a band under control and
+// checks the resolved values and what check prints: the band with its
+// default number of points, the plane wave's shares and the wavelength in
+// the material.
+func TestStandingWaveCase(t *testing.T) {
+	c := volCase(t, "permittivity = 78\nloss_factor = 10",
+		"[volumetric]\nattenuation = \"standing-wave\"\nincident = \"both\"\nincident_power = \"3 kW/m^2\"\nband = [\"2.4 GHz\", \"2.5GHz\"]\n"+
+			"[volumetric.control]\nsensor = \"5 mm\"\nprogram = \"cure\"\n")
+	v := c.Problem.Volumetric
+	// Source: units, 3 kW/m² = 3000 W/m²; the band's ends in Hz; the
+	// default of 101 points.
+	if v.Attenuation != physics.StandingWave || v.Incident != physics.IncidentBoth || v.IncidentPower != 3000 ||
+		v.Band != (physics.Band{Lo: 2.4e9, Hi: 2.5e9, Points: physics.DefaultBandPoints}) || v.Field != 0 {
+		t.Errorf("Volumetric = %+v", v)
+	}
+	if !c.Volumetric.BandPointsDefault {
+		t.Errorf("band_points default not recorded: %+v", c.Volumetric)
+	}
+	out := chkOutput(t, c)
+	for _, want := range []string{
+		"band            2.4 GHz to 2.5 GHz (inside an ISM band), 101 equally spaced frequencies (default)",
+		"incident        both: one plane wave from each side",
+		"incident power  3 kW/m^2 at full power; the controller scales it by the power fraction",
+		// Source: water, ε′ 78, ε″ 10 (Metaxas & Meredith, from memory): at
+		// 2.45 GHz n′ = √(ε′/2 (√(1 + (ε″/ε′)²) + 1)) = 8.847 (analytic),
+		// λ = c/(f n′) = 13.8 mm.
+		"13.8 mm",
+		"Plane wave at full power, uncured -> cured: reflected",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("check output lacks %q:\n%s", want, out)
+		}
+	}
+}
