@@ -12,6 +12,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"slices"
 )
 
 // Names of the files that WriteRun writes (SPEC §5).
@@ -56,13 +57,24 @@ func WriteRun(dir string, c *cases.Case, r *solver.Result) error {
 	return nil
 }
 
-// fieldsHeader is the header row of fields.csv (SPEC §5).
+// FieldsHeader is the header row of fields.csv; a case with volumetric
+// heating adds PowerColumn.
 var FieldsHeader = []string{"time_s", "depth_mm", "layer", "temperature_C", "cure", "cure_rate_per_s", "glass_transition_C"}
+
+// PowerColumn is the last column of fields.csv under volumetric heating:
+// the power absorbed per volume in the cell at that time (W/m³), with the
+// controller's power fraction held from that time on.
+const PowerColumn = "power_W_per_m3"
 
 // writeFields writes fields.csv: one row per (output time, cell centre).
 func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
 	cw := csv.NewWriter(w)
-	if err := cw.Write(FieldsHeader); err != nil {
+	head := FieldsHeader
+	power := c.Problem.Volumetric != nil
+	if power {
+		head = append(slices.Clip(FieldsHeader), PowerColumn)
+	}
+	if err := cw.Write(head); err != nil {
 		return err
 	}
 	m := c.Problem.Mesh
@@ -76,7 +88,7 @@ func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
 		depth[i] = num.FormatDepth(m.Centers[i])
 		layer[i] = m.Layers[j].Name
 	}
-	row := make([]string, len(FieldsHeader))
+	row := make([]string, len(head))
 	for k := range r.Snapshots {
 		s := &r.Snapshots[k]
 		if len(s.T) != n {
@@ -91,6 +103,9 @@ func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
 				row[4] = num.Sig(num.At(s.Cure, i))
 				row[5] = num.Sig(num.At(s.Rate, i))
 				row[6] = num.Fixed(num.KtoC(num.At(s.Tg, i)), 6)
+			}
+			if power {
+				row[7] = num.Sig(num.At(s.Power, i))
 			}
 			if err := cw.Write(row); err != nil {
 				return err
