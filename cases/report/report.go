@@ -42,11 +42,11 @@ var reportClock = func() time.Time { return time.Now() }
 // WriteFileAtomic; dir is created if missing. Cost: linear in the number of
 // snapshots × cells, the maps capped at 1600 × 1200 pixels; for the
 // examples about 0.05 s and 50–130 kB.
-func WriteReport(dir string, c *cases.Case, r *solver.Result) error {
+func WriteReport(dir string, c *cases.Case, r *solver.Result, s results.Summary) error {
 	if c == nil || c.Problem == nil || c.Problem.Mesh == nil || r == nil {
-		return errors.New("cases.WriteReport: case, problem, mesh and result are required")
+		return errors.New("report.WriteReport: case, problem, mesh and result are required")
 	}
-	d, err := runDataOf(c, r)
+	d, err := runDataOf(c, r, s)
 	if err != nil {
 		return fmt.Errorf("report: %w", err)
 	}
@@ -158,11 +158,11 @@ type runTable struct {
 // runDataOf builds the report data of a run in memory, with every value
 // rounded as WriteRun writes it (so that the report does not depend on
 // whether it is drawn from memory or from the files).
-func runDataOf(c *cases.Case, r *solver.Result) (*runData, error) {
+func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, error) {
 	p := c.Problem
 	m := p.Mesh
 	n := m.Cells()
-	tb := &runTable{Summary: results.Summarize(c, r), GelPoint: map[string]float64{}}
+	tb := &runTable{Summary: s, GelPoint: map[string]float64{}}
 	curing := make([]bool, n)
 	for i := range n {
 		j := m.Owner[i]

@@ -2,10 +2,8 @@ package report
 
 import (
 	"bytes"
-	"cureslab/cases"
 	"cureslab/cases/internal/textout"
 	"cureslab/cases/results"
-	"cureslab/solver"
 	"errors"
 	"fmt"
 	"html/template"
@@ -27,25 +25,29 @@ const CompareReportFile = "report.html"
 // summaries and criteria of the cases side by side, their histories
 // overlaid (the hottest cell and the least-cured cell over time, with the
 // air that drives each case), and their final profiles through the
-// thickness overlaid. names[i] names case cs[i] and the subdirectory
-// dir/names[i] that holds its own report.html; rs[i] is its result, nil for
-// a case that did not run (it is listed, not drawn).
+// thickness overlaid. Each row names its case and the subdirectory
+// dir/NAME that holds its own report.html; a row without a result is a case
+// that did not run (it is listed, not drawn).
 //
 // Method: each case becomes the same report data as WriteReport uses, so
 // values are those of its output files. Cost: as WriteReport per case.
 //
-// Preconditions: len(names) == len(cs) == len(rs) ≥ 1; each cs[i] validated.
+// Preconditions: at least one row; each case validated, each summary that
+// of its result (results.Summarize).
 // The file is written with WriteFileAtomic; dir is created if missing.
-func WriteCompareReport(dir string, names []string, cs []*cases.Case, rs []*solver.Result) error {
-	if len(names) == 0 || len(names) != len(cs) || len(cs) != len(rs) {
-		return errors.New("cases.WriteCompareReport: want as many names, cases and results, at least one")
+func WriteCompareReport(dir string, rows []results.Compared) error {
+	if len(rows) == 0 {
+		return errors.New("report.WriteCompareReport: no case to compare")
 	}
-	ds := make([]*runData, len(cs))
-	for i := range cs {
-		if rs[i] == nil || cs[i] == nil || cs[i].Problem == nil || cs[i].Problem.Mesh == nil {
+	names := make([]string, len(rows))
+	ds := make([]*runData, len(rows))
+	for i, row := range rows {
+		names[i] = row.Name
+		c := row.Case
+		if row.Result == nil || c == nil || c.Problem == nil || c.Problem.Mesh == nil {
 			continue
 		}
-		d, err := runDataOf(cs[i], rs[i])
+		d, err := runDataOf(c, row.Result, row.Summary)
 		if err != nil {
 			return fmt.Errorf("report of %s: %w", names[i], err)
 		}

@@ -1,8 +1,7 @@
 package report
 
 import (
-	"cureslab/cases"
-	"cureslab/solver"
+	"cureslab/cases/results"
 	"os"
 	"path/filepath"
 	"strings"
@@ -14,8 +13,12 @@ func TestWriteCompareReport(t *testing.T) {
 	c1, r1 := runReportCase(t, "150 C")
 	c2, r2 := runReportCase(t, "40 C")
 	dir := t.TempDir()
-	names := []string{"cool-limit", "tight-limit", "never-ran"}
-	err := WriteCompareReport(dir, names, []*cases.Case{c1, c2, c2}, []*solver.Result{r1, r2, nil})
+	rows := []results.Compared{
+		{Name: "cool-limit", Case: c1, Ran: true, Result: r1, Summary: results.Summarize(c1, r1)},
+		{Name: "tight-limit", Case: c2, Ran: true, Result: r2, Summary: results.Summarize(c2, r2)},
+		{Name: "never-ran", Case: c2, Summary: results.Summary{Title: c2.Title, Status: results.StatusFailed}},
+	}
+	err := WriteCompareReport(dir, rows)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -53,7 +56,7 @@ func TestWriteCompareReport(t *testing.T) {
 			t.Errorf("comparison page lacks %q", want)
 		}
 	}
-	if err := WriteCompareReport(dir, names[:1], []*cases.Case{c1, c2}, []*solver.Result{r1, r2}); err == nil {
-		t.Error("mismatched lengths accepted")
+	if err := WriteCompareReport(dir, nil); err == nil {
+		t.Error("an empty comparison accepted")
 	}
 }

@@ -95,7 +95,7 @@ func fixedClock(t *testing.T) {
 
 func renderFromMemory(t *testing.T, c *cases.Case, r *solver.Result) string {
 	t.Helper()
-	d, err := runDataOf(c, r)
+	d, err := runDataOf(c, r, results.Summarize(c, r))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -221,7 +221,7 @@ func TestReportMapPixels(t *testing.T) {
 	if len(imgs) != 4 {
 		t.Fatalf("%d images, want 4 (two maps and two colour bars)", len(imgs))
 	}
-	d, err := runDataOf(c, r)
+	d, err := runDataOf(c, r, results.Summarize(c, r))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -348,7 +348,7 @@ func writeRunFiles(t *testing.T, maxT string, gelPoint bool) (string, *cases.Cas
 	t.Helper()
 	c, r := runReportCase(t, maxT)
 	dir := t.TempDir()
-	if err := results.WriteRun(dir, c, r); err != nil {
+	if err := results.WriteRun(dir, c, r, results.Summarize(c, r)); err != nil {
 		t.Fatal(err)
 	}
 	path := filepath.Join(dir, results.SummaryFile)
@@ -378,7 +378,7 @@ func TestReportFromFilesEqualsFromMemory(t *testing.T) {
 	fixedClock(t)
 	for _, maxT := range []string{"40 C", "150 C"} {
 		dir, c, r := writeRunFiles(t, maxT, true)
-		if err := WriteReport(dir, c, r); err != nil {
+		if err := WriteReport(dir, c, r, results.Summarize(c, r)); err != nil {
 			t.Fatal(err)
 		}
 		mem, err := os.ReadFile(filepath.Join(dir, ReportFile))

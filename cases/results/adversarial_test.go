@@ -56,7 +56,7 @@ func advEndToEnd(t *testing.T, text string) *advOutcome {
 		t.Fatalf("Run: %v", err)
 	}
 	out := &advOutcome{c: c, r: r, dir: filepath.Join(t.TempDir(), "out")}
-	if err := WriteRun(out.dir, c, r); err != nil {
+	if err := WriteRun(out.dir, c, r, Summarize(c, r)); err != nil {
 		t.Fatalf("WriteRun: %v", err)
 	}
 	fields := advCSV(t, filepath.Join(out.dir, FieldsFile))
@@ -747,7 +747,7 @@ func TestAdversarialCasesStoppedRun(t *testing.T) {
 		t.Fatalf("status %v (%v) with %d snapshots, want a failed run with some output", r.Status, r.Err, len(r.Snapshots))
 	}
 	dir := filepath.Join(t.TempDir(), "out")
-	if err := WriteRun(dir, c, r); err != nil {
+	if err := WriteRun(dir, c, r, Summarize(c, r)); err != nil {
 		t.Fatal(err)
 	}
 	data, err := os.ReadFile(filepath.Join(dir, SummaryFile))

@@ -1,7 +1,6 @@
 package results
 
 import (
-	"context"
 	"cureslab/cases"
 	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/textout"
@@ -10,7 +9,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -20,11 +18,11 @@ import (
 // CompareFile is the table Compare writes into its output directory.
 const CompareFile = "compare.csv"
 
-// compareHeader is the header row of compare.csv: the case (its output
+// CompareHeader is the header row of compare.csv: the case (its output
 // subdirectory), then summary.json fields, gel_front_spread_s =
 // gel_time_last_s − gel_time_first_s, and control_max_error_K (empty for a
 // case without closed-loop volumetric heating).
-var compareHeader = []string{"case", "title", "status", "peak_temperature_C", "peak_depth_mm", "overshoot_K",
+var CompareHeader = []string{"case", "title", "status", "peak_temperature_C", "peak_depth_mm", "overshoot_K",
 	"max_spread_K", "min_final_cure", "min_final_cure_depth_mm", "time_to_min_cure_s", "gel_time_first_s",
 	"gel_time_last_s", "gel_front_spread_s", "energy_balance_error", "control_max_error_K"}
 
@@ -37,31 +35,11 @@ type Compared struct {
 	// not start or was not started.
 	Ran     bool
 	Summary Summary
-	// Result is the solver's result; nil when the Runner does not return
-	// one or the case did not run.
+	// Result is the solver's result; nil when the case did not run.
 	Result *solver.Result
 	// Err says what went wrong: the run could not start, its outputs could
 	// not be written, or it was not started (interrupted).
 	Err error
-}
-
-// Runner runs c until it ends or ctx is cancelled, writes its output files
-// into dir, and returns Ran, Summary, Result (optional) and Err of its
-// Compared; Compare fills Name and Case.
-type Runner func(ctx context.Context, c *cases.Case, dir string) Compared
-
-// RunCase is the Runner of Compare when none is given: solver.Run, then
-// WriteRun into dir (fields.csv, probes.csv, summary.json). A run that ends
-// early (runaway, failure, cancellation) still ran: its outputs are written
-// and its summary says why it stopped.
-func RunCase(ctx context.Context, c *cases.Case, dir string) Compared {
-	r, err := solver.Run(ctx, c.Problem)
-	if err != nil {
-		return Compared{Summary: Summary{Title: c.Title, Status: StatusFailed}, Err: err}
-	}
-	out := Compared{Ran: true, Summary: Summarize(c, r), Result: r}
-	out.Err = WriteRun(dir, c, r)
-	return out
 }
 
 // CompareNames returns the output subdirectory of each case: the base name
@@ -85,54 +63,14 @@ func CompareNames(cs []*cases.Case) []string {
 	return names
 }
 
-// Compare runs every case of cs, one after the other, into dir/NAME/
-// (CompareNames) with run (RunCase when nil), then writes dir/compare.csv
-// (WriteComparison), and returns one Compared per case in the order of cs.
-//
-// The cases must be validated (Load) beforehand: Compare is the first thing
-// that touches dir, which it creates if needed. When ctx is cancelled, the
-// cases not yet started are not run and are recorded as such; the table is
-// still written. A case that fails to run does not stop the others. The
-// error is about dir or compare.csv only.
-//
-// Cost: the sum of the runs.
-func Compare(ctx context.Context, cs []*cases.Case, dir string, run Runner) ([]Compared, error) {
-	if run == nil {
-		run = RunCase
-	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return nil, err
-	}
-	names := CompareNames(cs)
-	out := make([]Compared, len(cs))
-	for i, c := range cs {
-		if err := ctx.Err(); err != nil {
-			out[i] = Compared{Summary: Summary{Title: c.Title, Status: StatusFailed}, Err: fmt.Errorf("not run: %w", err)}
-		} else {
-			out[i] = run(ctx, c, filepath.Join(dir, names[i]))
-		}
-		out[i].Name, out[i].Case = names[i], c
-		if out[i].Summary.Status == "" {
-			out[i].Summary.Status = StatusFailed
-		}
-		if out[i].Summary.Title == "" {
-			out[i].Summary.Title = c.Title
-		}
-	}
-	if err := WriteComparison(dir, out); err != nil {
-		return out, fmt.Errorf("writing %s: %w", CompareFile, err)
-	}
-	return out, nil
-}
-
 // WriteComparison writes dir/compare.csv (WriteFileAtomic): the header
-// compareHeader, then one row per case in the order of rows, with the
+// CompareHeader, then one row per case in the order of rows, with the
 // values of summary.json as written there (null is an empty cell). A case
 // that did not run has only its name, title and status.
 func WriteComparison(dir string, rows []Compared) error {
 	return textout.WriteFileAtomic(dir, CompareFile, func(w io.Writer) error {
 		cw := csv.NewWriter(w)
-		if err := cw.Write(compareHeader); err != nil {
+		if err := cw.Write(CompareHeader); err != nil {
 			return err
 		}
 		for _, r := range rows {
@@ -150,7 +88,7 @@ func compareRow(r Compared) []string {
 	s := r.Summary
 	row := []string{r.Name, s.Title, s.Status}
 	if !r.Ran {
-		return append(row, make([]string, len(compareHeader)-len(row))...)
+		return append(row, make([]string, len(CompareHeader)-len(row))...)
 	}
 	ctl := math.NaN()
 	if s.ControlMaxErrorK != nil {

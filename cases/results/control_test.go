@@ -61,7 +61,7 @@ func TestControlledProbesAndSummary(t *testing.T) {
 		t.Fatalf("run: %v %v", err, r.Err)
 	}
 	dir := t.TempDir()
-	if err := WriteRun(dir, c, r); err != nil {
+	if err := WriteRun(dir, c, r, Summarize(c, r)); err != nil {
 		t.Fatal(err)
 	}
 	rows := testkit.ReadCSV(t, filepath.Join(dir, ProbesFile))

@@ -37,9 +37,9 @@ const (
 // then written as the shortest decimal; cure, cure rate and heat are written
 // with 9 significant digits. A value that does not apply (NaN) is an empty
 // cell.
-func WriteRun(dir string, c *cases.Case, r *solver.Result) error {
+func WriteRun(dir string, c *cases.Case, r *solver.Result, s Summary) error {
 	if c == nil || c.Problem == nil || c.Problem.Mesh == nil || r == nil {
-		return errors.New("cases.WriteRun: case, problem, mesh and result are required")
+		return errors.New("results.WriteRun: case, problem, mesh and result are required")
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
@@ -50,7 +50,6 @@ func WriteRun(dir string, c *cases.Case, r *solver.Result) error {
 	if err := textout.WriteFileAtomic(dir, ProbesFile, func(w io.Writer) error { return writeProbes(w, c, r) }); err != nil {
 		return fmt.Errorf("writing %s: %w", ProbesFile, err)
 	}
-	s := Summarize(c, r)
 	if err := textout.WriteFileAtomic(dir, SummaryFile, func(w io.Writer) error { return writeSummary(w, s) }); err != nil {
 		return fmt.Errorf("writing %s: %w", SummaryFile, err)
 	}

@@ -19,7 +19,7 @@ import (
 func TestWriteRunGolden(t *testing.T) {
 	dir := t.TempDir()
 	c, r := testkit.HandBuiltCase(t), testkit.HandBuiltResult()
-	if err := WriteRun(dir, c, r); err != nil {
+	if err := WriteRun(dir, c, r, Summarize(c, r)); err != nil {
 		t.Fatal(err)
 	}
 	for _, name := range []string{FieldsFile, ProbesFile, SummaryFile} {
@@ -34,7 +34,7 @@ func TestWriteRunGolden(t *testing.T) {
 func TestWriteRunColumns(t *testing.T) {
 	dir := t.TempDir()
 	c, r := testkit.HandBuiltCase(t), testkit.HandBuiltResult()
-	if err := WriteRun(dir, c, r); err != nil {
+	if err := WriteRun(dir, c, r, Summarize(c, r)); err != nil {
 		t.Fatal(err)
 	}
 	fields := testkit.ReadCSV(t, filepath.Join(dir, FieldsFile))
@@ -189,12 +189,12 @@ func TestWriteFileAtomic(t *testing.T) {
 func TestWriteRunCreatesDirAndReplaces(t *testing.T) {
 	dir := filepath.Join(t.TempDir(), "a", "b")
 	c, r := testkit.HandBuiltCase(t), testkit.HandBuiltResult()
-	if err := WriteRun(dir, c, r); err != nil {
+	if err := WriteRun(dir, c, r, Summarize(c, r)); err != nil {
 		t.Fatal(err)
 	}
 	// A second run into the same directory replaces the files one by one.
 	r.Snapshots = r.Snapshots[:1]
-	if err := WriteRun(dir, c, r); err != nil {
+	if err := WriteRun(dir, c, r, Summarize(c, r)); err != nil {
 		t.Fatal(err)
 	}
 	rows := testkit.ReadCSV(t, filepath.Join(dir, ProbesFile))
@@ -205,7 +205,7 @@ func TestWriteRunCreatesDirAndReplaces(t *testing.T) {
 	if len(entries) != 3 {
 		t.Errorf("output directory holds %d entries, want 3", len(entries))
 	}
-	if err := WriteRun(dir, nil, r); err == nil {
+	if err := WriteRun(dir, nil, r, Summary{}); err == nil {
 		t.Error("WriteRun with a nil case succeeded")
 	}
 }

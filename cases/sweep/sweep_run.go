@@ -312,7 +312,7 @@ func (s *Sweep) runOne(ctx context.Context, ws *solver.Workspace, r int, dir str
 	sum := results.Summarize(c, res)
 	if keep {
 		out := filepath.Join(dir, results.SweepRunsDir, fmt.Sprintf("%0*d", width, r))
-		if err := results.WriteRun(out, c, res); err != nil {
+		if err := results.WriteRun(out, c, res, sum); err != nil {
 			return sweepResult{run: r, err: fmt.Errorf("run %d: writing its outputs to %s: %w", r, out, err)}
 		}
 	}

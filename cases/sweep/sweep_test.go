@@ -393,7 +393,7 @@ func TestSweepRows(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := results.WriteRun(one, c, res); err != nil {
+	if err := results.WriteRun(one, c, res, results.Summarize(c, res)); err != nil {
 		t.Fatal(err)
 	}
 	var sum map[string]any

@@ -349,7 +349,7 @@ func TestWriteUncertainty(t *testing.T) {
 		t.Fatal(err)
 	}
 	dir := t.TempDir()
-	if err := results.WriteRun(dir, c, r); err != nil {
+	if err := results.WriteRun(dir, c, r, results.Summarize(c, r)); err != nil {
 		t.Fatal(err)
 	}
 	before, err := os.ReadFile(filepath.Join(dir, results.SummaryFile))

@@ -1,16 +1,14 @@
 package main
 
 import (
-	"context"
+	"cureslab/cases/simulate"
 	"errors"
 	"fmt"
 
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
-	"cureslab/cases/report"
 	"cureslab/cases/results"
-	"cureslab/solver"
 )
 
 var compareCmd = &Command{
@@ -78,48 +76,32 @@ var errOutputs = errors.New("its outputs could not be written")
 // compareRun runs cs into dir through simulate (the path of 'cureslab run')
 // and writes compare.csv. It returns the comparison and the worst exit
 // status of the runs.
+// compareRun runs the cases into dir (simulate.Compare, with the
+// comparison page) and returns the rows and the worst exit status. Each
+// failed case is reported on stderr; its row then says only that it could
+// not start or that its outputs could not be written.
 func compareRun(e *env, cs []*cases.Case, dir string) ([]results.Compared, int, error) {
+	rows, err := simulate.Compare(e.ctx, cs, dir, simulate.Options{Report: true})
 	worst := exitOK
-	run := func(ctx context.Context, c *cases.Case, sub string) results.Compared {
-		s, r, code := simulateResult(e, "compare", c, sub)
-		worst = max(worst, code)
+	for i := range rows {
+		r := &rows[i]
 		switch {
-		case code == exitUsage:
-			return results.Compared{Ran: true, Summary: s, Result: r, Err: errOutputs}
-		case r == nil:
-			// The solver refused to start (simulate reported why).
-			return results.Compared{Summary: s, Err: errors.New("the run could not start")}
-		}
-		return results.Compared{Ran: true, Summary: s, Result: r}
-	}
-	rows, err := results.Compare(e.ctx, cs, dir, run)
-	for _, r := range rows {
-		if !r.Ran {
+		case errors.Is(r.Err, simulate.ErrNotRun):
 			worst = max(worst, exitFailure)
+		case !r.Ran:
+			fmt.Fprintf(e.stderr, "cureslab compare: %s: %v\n", r.Case.File, r.Err)
+			r.Err = errors.New("the run could not start")
+			worst = max(worst, exitFailure)
+		case r.Err != nil:
+			fmt.Fprintf(e.stderr, "cureslab compare: %v\n", r.Err)
+			r.Err = errOutputs
+			worst = max(worst, exitUsage)
+		default:
+			worst = max(worst, exitCode(r.Summary.Status))
+			if exitCode(r.Summary.Status) == exitFailure {
+				fmt.Fprintf(e.stderr, "cureslab compare: %s: %s: %s\n", r.Case.File, r.Summary.Status, r.Summary.Message)
+			}
 		}
-	}
-	if err == nil {
-		err = compareReport(e, rows, dir)
 	}
 	return rows, worst, err
-}
-
-// compareReport writes dir/compare.html of the rows that ran, unless the
-// report is off.
-func compareReport(e *env, rows []results.Compared, dir string) error {
-	if reportOff(e) {
-		return nil
-	}
-	var names []string
-	var cs []*cases.Case
-	var rs []*solver.Result
-	for _, r := range rows {
-		if r.Result != nil {
-			names, cs, rs = append(names, r.Name), append(cs, r.Case), append(rs, r.Result)
-		}
-	}
-	if len(rs) == 0 {
-		return nil
-	}
-	return report.WriteCompareReport(dir, names, cs, rs)
 }

@@ -1,6 +1,8 @@
 package main
 
 import (
+	"cureslab/cases/report"
+	"cureslab/cases/simulate"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -29,6 +31,7 @@ as done. Exit status: 0 every example ran, 2 an output could not be written,
 	Example: "cureslab demo -o demo-out",
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		out := fs.StringP("out", "o", "./cureslab-demo", "write the outputs under `DIR`")
+		noReport := fs.Bool("no-report", false, "do not write "+report.ReportFile)
 		return func(e *env, args []string) int {
 			if len(args) != 0 {
 				return e.usageError("takes no arguments, got %d", len(args))
@@ -36,6 +39,7 @@ as done. Exit status: 0 every example ran, 2 an output could not be written,
 			if msg := checkOutDir(*out); msg != "" {
 				return e.usageError("%s", msg)
 			}
+			opt := simulate.Options{Report: !*noReport}
 			worst := exitOK
 			ran := map[string]results.Compared{}
 			for i, ex := range cases.Examples() {
@@ -54,7 +58,8 @@ as done. Exit status: 0 every example ran, 2 an output could not be written,
 					continue
 				}
 				dir := filepath.Join(*out, ex.Name)
-				s, r, code := simulateResult(e, "demo", c, dir)
+				o, code := runCase(e, "demo", c, dir, opt)
+				s, r := o.Summary, o.Result
 				if code == exitCriteria {
 					// An example may fail a criterion on purpose: the
 					// demo shows it and still counts as having run.
@@ -70,7 +75,7 @@ as done. Exit status: 0 every example ran, 2 an output could not be written,
 				started := s.Status != results.StatusFailed || s.Message != ""
 				ran[ex.Name] = results.Compared{Name: ex.Name, Case: c, Ran: started, Summary: s, Result: r}
 			}
-			return max(worst, demoCompare(e, ran, filepath.Join(*out, "compare")))
+			return max(worst, demoCompare(e, ran, filepath.Join(*out, "compare"), opt))
 		}
 	},
 }
@@ -81,7 +86,7 @@ var demoComparison = []string{"thick-potting-oven", "thick-potting-microwave"}
 
 // demoCompare prints the comparison of the demoComparison examples that ran
 // and writes dir/compare.csv. It returns the exit status of a write error.
-func demoCompare(e *env, ran map[string]results.Compared, dir string) int {
+func demoCompare(e *env, ran map[string]results.Compared, dir string, opt simulate.Options) int {
 	var rows []results.Compared
 	for _, name := range demoComparison {
 		if r, ok := ran[name]; ok {
@@ -102,9 +107,11 @@ func demoCompare(e *env, ran map[string]results.Compared, dir string) int {
 	}
 	results.PrintComparison(e.stdout, rows)
 	fmt.Fprintf(e.stdout, "table in %s\n", filepath.Join(dir, results.CompareFile))
-	if err := compareReport(e, rows, dir); err != nil {
-		fmt.Fprintf(e.stderr, "cureslab demo: %v\n", err)
-		return exitUsage
+	if opt.Report {
+		if err := simulate.CompareReport(dir, rows); err != nil {
+			fmt.Fprintf(e.stderr, "cureslab demo: %v\n", err)
+			return exitUsage
+		}
 	}
 	return exitOK
 }

@@ -74,8 +74,4 @@ line; nothing is written).`,
 	},
 }
 
-func init() {
-	register(reportCmd)
-	withReportFlag(runCmd)
-	withReportFlag(demoCmd)
-}
+func init() { register(reportCmd) }

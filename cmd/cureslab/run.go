@@ -1,7 +1,7 @@
 package main
 
 import (
-	"context"
+	"cureslab/cases/simulate"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -15,7 +15,6 @@ import (
 	"cureslab/cases/results"
 	"cureslab/cases/uncertain"
 	"cureslab/physics"
-	"cureslab/solver"
 )
 
 var runCmd = &Command{
@@ -43,6 +42,7 @@ cureslab run potting.toml -o potting-out`,
 		samples := fs.Int("uncertain", 0, "also run `N` Latin-hypercube samples of [uncertainty] (uncertainty.csv)")
 		seed := fs.Uint64("seed", 1, "seed `S` of the --uncertain samples")
 		jobs := fs.IntP("jobs", "j", 0, "with --uncertain, `N` runs at a time (default: all cores)")
+		noReport := fs.Bool("no-report", false, "do not write "+report.ReportFile)
 		return func(e *env, args []string) int {
 			if len(args) != 1 {
 				return e.usageError("expects one case file, got %d arguments", len(args))
@@ -72,10 +72,11 @@ cureslab run potting.toml -o potting-out`,
 			if msg := checkOutDir(dir); msg != "" {
 				return e.usageError("%s", msg)
 			}
-			s, code := simulate(e, "run", c, dir)
+			o, code := runCase(e, "run", c, dir, simulate.Options{Report: !*noReport})
 			if code == exitUsage {
 				return code
 			}
+			s := o.Summary
 			results.PrintSummary(e.stdout, s)
 			if *samples > 0 {
 				opt := uncertain.UncertainOptions{Samples: *samples, Seed: *seed, Jobs: *jobs}
@@ -102,33 +103,6 @@ cureslab run potting.toml -o potting-out`,
 	},
 }
 
-// noReportKey marks, in the context of a command, that --no-report was
-// given: simulate then writes no report.html.
-type noReportKey struct{}
-
-// withReportFlag gives the command c the flag --no-report, which the runs
-// that c makes through simulate obey. It wraps c.Setup, so the command's own
-// file needs no change; call it from an init function.
-func withReportFlag(c *Command) {
-	setup := c.Setup
-	c.Setup = func(fs *pflag.FlagSet) func(*env, []string) int {
-		runner := setup(fs)
-		off := fs.Bool("no-report", false, "do not write "+report.ReportFile)
-		return func(e *env, args []string) int {
-			if *off {
-				e.ctx = context.WithValue(e.ctx, noReportKey{}, true)
-			}
-			return runner(e, args)
-		}
-	}
-}
-
-// reportOff reports whether the running command was given --no-report.
-func reportOff(e *env) bool {
-	off, _ := e.ctx.Value(noReportKey{}).(bool)
-	return off
-}
-
 // defaultOutDir is ./NAME-out for the case file path/NAME.toml.
 func defaultOutDir(path string) string {
 	base := filepath.Base(path)
@@ -143,39 +117,24 @@ func checkOutDir(dir string) string {
 	return ""
 }
 
-// simulate runs c until it ends or e.ctx is cancelled, writes its outputs
-// to dir (report.html too, unless the command was given --no-report, see
-// withReportFlag) and returns the summary and the exit status. Errors go to
-// stderr under the command name cmd.
-func simulate(e *env, cmd string, c *cases.Case, dir string) (results.Summary, int) {
-	s, _, code := simulateResult(e, cmd, c, dir)
-	return s, code
-}
-
-// simulateResult is simulate that also returns the solver's result (nil
-// when the solver refused to start).
-func simulateResult(e *env, cmd string, c *cases.Case, dir string) (results.Summary, *solver.Result, int) {
-	r, err := solver.Run(e.ctx, c.Problem)
-	if err != nil {
-		fmt.Fprintf(e.stderr, "cureslab %s: %s: %v\n", cmd, c.File, err)
-		return results.Summary{Title: c.Title, Status: results.StatusFailed}, nil, exitFailure
+// runCase runs c into dir through the one run path (simulate.Case) and
+// returns its outcome and the exit status. Errors go to stderr under the
+// command name cmd.
+func runCase(e *env, cmd string, c *cases.Case, dir string, opt simulate.Options) (results.Compared, int) {
+	o := simulate.Case(e.ctx, c, dir, opt)
+	switch {
+	case !o.Ran:
+		fmt.Fprintf(e.stderr, "cureslab %s: %s: %v\n", cmd, c.File, o.Err)
+		return o, exitFailure
+	case o.Err != nil:
+		fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, o.Err)
+		return o, exitUsage
 	}
-	s := results.Summarize(c, r)
-	if err := results.WriteRun(dir, c, r); err != nil {
-		fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, err)
-		return s, r, exitUsage
-	}
-	if !reportOff(e) {
-		if err := report.WriteReport(dir, c, r); err != nil {
-			fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, err)
-			return s, r, exitUsage
-		}
-	}
-	code := exitCode(s.Status)
+	code := exitCode(o.Summary.Status)
 	if code == exitFailure {
-		fmt.Fprintf(e.stderr, "cureslab %s: %s: %s: %s\n", cmd, c.File, s.Status, s.Message)
+		fmt.Fprintf(e.stderr, "cureslab %s: %s: %s: %s\n", cmd, c.File, o.Summary.Status, o.Summary.Message)
 	}
-	return s, r, code
+	return o, code
 }
 
 var checkCmd = &Command{

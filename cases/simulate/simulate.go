@@ -1,0 +1,106 @@
+// Package simulate is the one path of a simulation from a validated case to its
+// output files: solve (solver.Run) → summarise once (results.Summarize) →
+// write fields.csv, probes.csv and summary.json (results.WriteRun) → draw
+// report.html (report.WriteReport). The commands run, demo and compare go
+// through it; sweeps, tuning and uncertainty runs use the same steps
+// without the report.
+package simulate
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+
+	"cureslab/cases"
+	"cureslab/cases/report"
+	"cureslab/cases/results"
+	"cureslab/solver"
+)
+
+// ErrNotRun is wrapped by the error of a case that Compare did not start
+// because the context was cancelled.
+var ErrNotRun = errors.New("not run")
+
+// Options say what a run writes besides fields.csv, probes.csv and
+// summary.json. The zero value writes no report.
+type Options struct {
+	// Report also writes report.html into the run's directory (and, for
+	// Compare, the comparison page).
+	Report bool
+}
+
+// Case runs c until it ends or ctx is cancelled and writes its outputs into
+// dir (created if missing). The outcome has Ran false and Err set when the
+// solver refused to start; Ran true and Err set when an output could not be
+// written. A run that ends early (runaway, failure, cancellation) still ran:
+// its outputs are written and its summary says why it stopped.
+//
+// Preconditions: c validated (cases.Load or cases.Parse). Cost: one solve,
+// one summary, the writes (and the report, about 0.05 s on the examples).
+func Case(ctx context.Context, c *cases.Case, dir string, opt Options) results.Compared {
+	r, err := solver.Run(ctx, c.Problem)
+	if err != nil {
+		return results.Compared{Case: c, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed}, Err: err}
+	}
+	out := results.Compared{Case: c, Ran: true, Summary: results.Summarize(c, r), Result: r}
+	if err := results.WriteRun(dir, c, r, out.Summary); err != nil {
+		out.Err = err
+		return out
+	}
+	if opt.Report {
+		out.Err = report.WriteReport(dir, c, r, out.Summary)
+	}
+	return out
+}
+
+// Compare runs every case of cs with Case, one after the other, into
+// dir/NAME/ (results.CompareNames), writes dir/compare.csv and, with
+// opt.Report, the comparison page of the cases that ran; it returns one row
+// per case in the order of cs.
+//
+// The cases must be validated beforehand: Compare is the first thing that
+// touches dir, which it creates if needed. When ctx is cancelled, the cases
+// not yet started are not run and are recorded as such; the table is still
+// written. A case that fails to run does not stop the others. The error is
+// about dir, compare.csv or the comparison page only.
+//
+// Cost: the sum of the runs.
+func Compare(ctx context.Context, cs []*cases.Case, dir string, opt Options) ([]results.Compared, error) {
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return nil, err
+	}
+	names := results.CompareNames(cs)
+	rows := make([]results.Compared, len(cs))
+	for i, c := range cs {
+		if err := ctx.Err(); err != nil {
+			rows[i] = results.Compared{Case: c, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed}, Err: fmt.Errorf("%w: %w", ErrNotRun, err)}
+		} else {
+			rows[i] = Case(ctx, c, filepath.Join(dir, names[i]), opt)
+		}
+		rows[i].Name = names[i]
+	}
+	if err := results.WriteComparison(dir, rows); err != nil {
+		return rows, fmt.Errorf("writing %s: %w", results.CompareFile, err)
+	}
+	if opt.Report {
+		return rows, CompareReport(dir, rows)
+	}
+	return rows, nil
+}
+
+// CompareReport writes the comparison page of the rows that ran into dir
+// (report.WriteCompareReport); with none, it writes nothing.
+func CompareReport(dir string, rows []results.Compared) error {
+	var ran []results.Compared
+	for _, r := range rows {
+		if r.Result != nil {
+			ran = append(ran, r)
+		}
+	}
+	if len(ran) == 0 {
+		return nil
+	}
+	return report.WriteCompareReport(dir, ran)
+}
