@@ -65,7 +65,7 @@ frequency = "2.45 GHz"
 		t.Fatalf("run: %v %v", err, r)
 	}
 	dir := t.TempDir()
-	if err := WriteRun(dir, c, r); err != nil {
+	if err := WriteRun(dir, c, r, Summarize(c, r)); err != nil {
 		t.Fatal(err)
 	}
 	rows := testkit.ReadCSV(t, filepath.Join(dir, FieldsFile))
