@@ -5,7 +5,7 @@
 GO ?= go
 FUZZTIME ?= 10m
 
-.PHONY: ci build test vet bench bench-scaling demo fuzz e2e clean
+.PHONY: ci build test vet bench bench-scaling bench-process demo fuzz e2e clean
 
 ci:
 	bash .ci/run
@@ -36,6 +36,11 @@ bench-scaling:
 		echo "j1 $$a runs/s  j2 $$b runs/s  ratio $$(awk "BEGIN{printf \"%.2f\", $$b/$$a}")"; \
 	done
 	rm -f cases.test
+
+# Whole-process timings (hello world, cureslab help, run --no-report of the
+# coupled bench case), alternated, N rounds: minimum and median of each.
+bench-process:
+	bash testdata/bench/time-process.sh $(N)
 
 demo:
 	$(GO) run ./cmd/cureslab demo -o cureslab-demo

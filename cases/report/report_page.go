@@ -8,6 +8,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"sync"
 	"time"
 )
 
@@ -38,7 +39,7 @@ type section struct {
 // renderPage writes p as one HTML document.
 func renderPage(w io.Writer, p *page) error {
 	p.Cautions = cases.Cautions()
-	return pageTemplate.Execute(w, p)
+	return pageTemplate().Execute(w, p)
 }
 
 // stamp formats the time a report is drawn: UTC, to the minute.
@@ -47,7 +48,8 @@ func stamp(t time.Time) string { return t.UTC().Format("2006-01-02 15:04 UTC") }
 // pageTemplate is the shell of every report. The style is our own: a
 // neutral system-font page, one accent colour, failed checks in bold with a
 // symbol as well as colour. No script, no external resource.
-var pageTemplate = template.Must(template.New("page").Parse(`<!DOCTYPE html>
+var pageTemplate = sync.OnceValue(func() *template.Template {
+	return template.Must(template.New("page").Parse(`<!DOCTYPE html>
 <html lang="en">
 <head>
 <meta charset="utf-8">
@@ -111,6 +113,7 @@ footer ul { margin: 4px 0 8px; padding-left: 1.2em; }
 </body>
 </html>
 `))
+})
 
 // tableHTML builds a table with a header row; a row whose first cell starts
 // with "!" is marked failed, and so is any other cell that starts with "!"

@@ -11,6 +11,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
@@ -442,7 +443,9 @@ func svgFigure(w, h vg.Length, label string, drawFn func(dc draw.Canvas) error) 
 	return fixSVG(b.String(), label)
 }
 
-var svgOpen = regexp.MustCompile(`(?s)^<svg width="[^"]*" height="[^"]*" viewBox="0 0 ([0-9.e+-]+) ([0-9.e+-]+)"[^>]*>`)
+var svgOpen = sync.OnceValue(func() *regexp.Regexp {
+	return regexp.MustCompile(`(?s)^<svg width="[^"]*" height="[^"]*" viewBox="0 0 ([0-9.e+-]+) ([0-9.e+-]+)"[^>]*>`)
+})
 
 // fixSVG turns the document that vgsvg writes into an element to inline in
 // HTML:
@@ -464,7 +467,7 @@ func fixSVG(s, label string) (string, error) {
 		return "", errors.New("vgsvg wrote no <svg> element")
 	}
 	s = s[i:]
-	m := svgOpen.FindStringSubmatchIndex(s)
+	m := svgOpen().FindStringSubmatchIndex(s)
 	if m == nil {
 		return "", errors.New("vgsvg wrote an <svg> element of unexpected form")
 	}

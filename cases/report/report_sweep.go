@@ -18,6 +18,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 	"time"
 
 	"gonum.org/v1/plot"
@@ -461,7 +462,9 @@ func fmtNum(v float64, dec int) string {
 	return strconv.FormatFloat(v, 'f', dec, 64)
 }
 
-var valueUnit = regexp.MustCompile(`^\s*([-+]?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][-+]?[0-9]+)?)\s*(.*?)\s*$`)
+var valueUnit = sync.OnceValue(func() *regexp.Regexp {
+	return regexp.MustCompile(`^\s*([-+]?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][-+]?[0-9]+)?)\s*(.*?)\s*$`)
+})
 
 // sweepAxis places values as written on an axis: at their numbers when all
 // share one unit (numeric), else at 0, 1, 2 ... labelled as written.
@@ -481,7 +484,7 @@ func newSweepAxis(key string, vals []string, cells bool) sweepAxis {
 	nums := make([]string, len(vals))
 	numV := make([]float64, len(vals))
 	for i, v := range vals {
-		m := valueUnit.FindStringSubmatch(v)
+		m := valueUnit().FindStringSubmatch(v)
 		if m == nil {
 			common = false
 			break

@@ -1,6 +1,7 @@
 package results
 
 import (
+	"bytes"
 	"cureslab/cases"
 	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/textout"
@@ -65,54 +66,87 @@ var FieldsHeader = []string{"time_s", "depth_mm", "layer", "temperature_C", "cur
 // controller's power fraction held from that time on.
 const PowerColumn = "power_W_per_m3"
 
+// csvChunk is the size at which the CSV writers hand their buffer to the
+// writer: rows are formatted in place (num.AppendFixed, num.AppendSig) and
+// written in chunks of about this size, so memory stays bounded for any run.
+const csvChunk = 64 << 10
+
+// appendCSVRecord appends rec as encoding/csv writes a record: fields
+// quoted where encoding/csv quotes them, "\n" at the end.
+func appendCSVRecord(b []byte, rec []string) []byte {
+	var sb bytes.Buffer
+	cw := csv.NewWriter(&sb)
+	cw.Write(rec) // writing to a bytes.Buffer does not fail
+	cw.Flush()
+	return append(b, sb.Bytes()...)
+}
+
+// flushCSV writes b to w when it has reached csvChunk, and returns the
+// buffer to append to next.
+func flushCSV(w io.Writer, b []byte) ([]byte, error) {
+	if len(b) < csvChunk {
+		return b, nil
+	}
+	_, err := w.Write(b)
+	return b[:0], err
+}
+
 // writeFields writes fields.csv: one row per (output time, cell centre).
+// The bytes are those encoding/csv writes for the header and the formatted
+// fields (num.Fixed, num.Sig; the layer name quoted as encoding/csv quotes
+// it), built with append-style formatting: the columns that never change
+// (depth, layer) once per cell, the time once per snapshot.
 func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
-	cw := csv.NewWriter(w)
 	head := FieldsHeader
 	power := c.Problem.Volumetric != nil
 	if power {
 		head = append(slices.Clip(FieldsHeader), PowerColumn)
 	}
-	if err := cw.Write(head); err != nil {
-		return err
-	}
 	m := c.Problem.Mesh
 	n := m.Cells()
 	curing := make([]bool, n)
-	depth := make([]string, n)
-	layer := make([]string, n)
+	mid := make([][]byte, n) // ",depth,layer," of each cell
 	for i := range n {
 		j := m.Owner[i]
 		curing[i] = j < len(c.Problem.Materials) && c.Problem.Materials[j] != nil && c.Problem.Materials[j].Cure != nil
-		depth[i] = num.FormatDepth(m.Centers[i])
-		layer[i] = m.Layers[j].Name
+		rec := appendCSVRecord(nil, []string{"", num.FormatDepth(m.Centers[i]), m.Layers[j].Name, ""})
+		mid[i] = rec[:len(rec)-1] // without its newline
 	}
-	row := make([]string, len(head))
+	b := appendCSVRecord(make([]byte, 0, csvChunk+512), head)
+	var t []byte
 	for k := range r.Snapshots {
 		s := &r.Snapshots[k]
 		if len(s.T) != n {
 			return fmt.Errorf("snapshot %d has %d temperatures for %d cells", k, len(s.T), n)
 		}
-		t := num.Fixed(s.Time, 6)
+		t = num.AppendFixed(t[:0], s.Time, 6)
 		for i := range n {
-			row[0], row[1], row[2] = t, depth[i], layer[i]
-			row[3] = num.Fixed(num.KtoC(s.T[i]), 6)
-			row[4], row[5], row[6] = "", "", ""
+			b = append(b, t...)
+			b = append(b, mid[i]...)
+			b = num.AppendFixed(b, num.KtoC(s.T[i]), 6)
 			if curing[i] {
-				row[4] = num.Sig(num.At(s.Cure, i))
-				row[5] = num.Sig(num.At(s.Rate, i))
-				row[6] = num.Fixed(num.KtoC(num.At(s.Tg, i)), 6)
+				b = append(b, ',')
+				b = num.AppendSig(b, num.At(s.Cure, i))
+				b = append(b, ',')
+				b = num.AppendSig(b, num.At(s.Rate, i))
+				b = append(b, ',')
+				b = num.AppendFixed(b, num.KtoC(num.At(s.Tg, i)), 6)
+			} else {
+				b = append(b, ",,,"...)
 			}
 			if power {
-				row[7] = num.Sig(num.At(s.Power, i))
+				b = append(b, ',')
+				b = num.AppendSig(b, num.At(s.Power, i))
 			}
-			if err := cw.Write(row); err != nil {
+			b = append(b, '\n')
+			var err error
+			if b, err = flushCSV(w, b); err != nil {
 				return err
 			}
 		}
 	}
-	cw.Flush()
-	return cw.Error()
+	_, err := w.Write(b)
+	return err
 }
 
 // probesHeader returns the header row of probes.csv for c.
@@ -135,37 +169,42 @@ func probesHeader(c *cases.Case) []string {
 	return append(h, "heat_in_J_per_m2")
 }
 
-// writeProbes writes probes.csv: one row per output time.
+// writeProbes writes probes.csv: one row per output time, formatted like
+// writeFields.
 func writeProbes(w io.Writer, c *cases.Case, r *solver.Result) error {
-	cw := csv.NewWriter(w)
-	h := probesHeader(c)
-	if err := cw.Write(h); err != nil {
-		return err
-	}
 	p := c.Problem
-	row := make([]string, 0, len(h))
+	b := appendCSVRecord(make([]byte, 0, csvChunk+512), probesHeader(c))
 	for k := range r.Snapshots {
 		s := &r.Snapshots[k]
-		row = append(row[:0], num.Fixed(s.Time, 6))
+		b = num.AppendFixed(b, s.Time, 6)
 		for i := range p.Probes {
-			row = append(row, num.Fixed(num.KtoC(num.At(s.ProbeT, i)), 6), num.Sig(num.At(s.ProbeCure, i)))
+			b = append(b, ',')
+			b = num.AppendFixed(b, num.KtoC(num.At(s.ProbeT, i)), 6)
+			b = append(b, ',')
+			b = num.AppendSig(b, num.At(s.ProbeCure, i))
 		}
 		if p.Top.Kind == physics.Convection {
-			row = append(row, num.Fixed(num.KtoC(s.AirTop), 6))
+			b = append(b, ',')
+			b = num.AppendFixed(b, num.KtoC(s.AirTop), 6)
 		}
 		if p.Bottom.Kind == physics.Convection {
-			row = append(row, num.Fixed(num.KtoC(s.AirBottom), 6))
+			b = append(b, ',')
+			b = num.AppendFixed(b, num.KtoC(s.AirBottom), 6)
 		}
 		if cases.Controlled(p) {
-			row = append(row, num.Sig(s.PowerFraction))
+			b = append(b, ',')
+			b = num.AppendSig(b, s.PowerFraction)
 		}
-		row = append(row, num.Sig(s.HeatIn))
-		if err := cw.Write(row); err != nil {
+		b = append(b, ',')
+		b = num.AppendSig(b, s.HeatIn)
+		b = append(b, '\n')
+		var err error
+		if b, err = flushCSV(w, b); err != nil {
 			return err
 		}
 	}
-	cw.Flush()
-	return cw.Error()
+	_, err := w.Write(b)
+	return err
 }
 
 // writeSummary writes summary.json: one indented object and a newline.

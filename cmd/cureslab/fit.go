@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"regexp"
 	"strings"
+	"sync"
 
 	"github.com/spf13/pflag"
 
@@ -81,7 +82,7 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 			if opt.Window.Onset != 0 && opt.Window.End != 0 && !(opt.Window.End > opt.Window.Onset) {
 				return e.usageError("--end must be above --onset")
 			}
-			if !materialName.MatchString(*name) {
+			if !materialName().MatchString(*name) {
 				return e.usageError("--name %q: a material name is letters, digits, - and _ (it becomes a TOML key)", *name)
 			}
 			if *out != "" {
@@ -153,7 +154,7 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 func init() { register(fitCmd) }
 
 // materialName is what --name accepts: a TOML bare key.
-var materialName = regexp.MustCompile(`^[A-Za-z0-9_-]+$`)
+var materialName = sync.OnceValue(func() *regexp.Regexp { return regexp.MustCompile(`^[A-Za-z0-9_-]+$`) })
 
 // flagTemperature reads the temperature flag --name; "" gives 0.
 func flagTemperature(name, s string) (float64, error) {
