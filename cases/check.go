@@ -15,8 +15,7 @@ import (
 	"cureslab/solver"
 )
 
-// Cautions returns the cautions that cureslab shows with its results (SPEC
-// §9), one sentence per element, in plain text. check prints them; the
+// Cautions returns the cautions that cureslab shows with its results, one sentence per element, in plain text. check prints them; the
 // README and the report show the same list.
 func Cautions() []string {
 	return []string{
@@ -39,7 +38,7 @@ const MaxNeighbourRatio = 5
 // pre-trial estimates (Biot numbers
 // of the faces, and for each curing layer the adiabatic temperature rise
 // and conduction time against reaction half-life, see Estimate), warnings,
-// and the cautions of SPEC §9.
+// and the cautions (cases.Cautions).
 //
 // The only error it returns is a write error of w.
 func Check(w io.Writer, c *Case) error {
@@ -452,10 +451,10 @@ const CriticalFK = 0.8785
 //	ΔT_ad = ∫_{α0}^{1} w·H / c_p(α) dα
 //	      = w·H / (c_c − c_u) · ln(c_c / (c_u + (c_c − c_u)·α0))
 //
-// the adiabatic rise of the capacity form of the energy equation (SPEC §10)
+// the adiabatic rise of the capacity form of the energy equation (README, Case file reference)
 // with c_p linear in cure between its uncured and cured values at T; for a
 // cure-independent c_p it is the familiar w·H·(1 − α0)/c_p (energy balance;
-// REFERENCES §9). The conduction time is L²/a with L the layer thickness
+// analytic). The conduction time is L²/a with L the layer thickness
 // and a = k/(ρ c_p) uncured at T; the half-life is physics.Cure's
 // IsothermalTime from α0 to 0.5 at T.
 //
@@ -514,7 +513,7 @@ func Estimates(c *Case) []Estimate {
 //
 //	ΔT = q / (cc − cu) · ln(cc / (cu + (cc − cu)·a0)),
 //
-// which is q·(1 − a0)/cu when cc = cu (REFERENCES §9). Preconditions: cu,
+// which is q·(1 − a0)/cu when cc = cu (energy balance; analytic). Preconditions: cu,
 // cc > 0 and a0 in [0, 1].
 func AdiabaticRise(q, cu, cc, a0 float64) float64 {
 	c0 := cu + (cc-cu)*a0

@@ -75,7 +75,7 @@ func TestEstimates(t *testing.T) {
 	if e.T != 343.15 {
 		t.Errorf("reference temperature %g K, want 343.15", e.T)
 	}
-	// Source: REFERENCES §5, first order α = 1 − exp(−k t), so the
+	// Source: first order α = 1 − exp(−k t), so the
 	// half-life is ln 2 / k (analytic), k = A exp(−E/RT).
 	k := 1e5 * math.Exp(-60e3/(physics.GasConstant*343.15))
 	if want := math.Ln2 / k; math.Abs(e.HalfLife-want) > 1e-9*want {
@@ -85,7 +85,8 @@ func TestEstimates(t *testing.T) {
 	if want := 6.35e-3 * 6.35e-3 * 1100 * 1500 / 0.2; math.Abs(e.ConductionTime-want) > 1e-12*want {
 		t.Errorf("conduction time %.12g s, want %.12g s", e.ConductionTime, want)
 	}
-	// Frank-Kamenetskii parameter (REFERENCES §2): a first-order rate peaks
+	// Frank-Kamenetskii parameter (Frank-Kamenetskii, Diffusion and Heat
+	// Exchange in Chemical Kinetics, 1955/1969): a first-order rate peaks
 	// at α = 0 with r = k and apparent activation energy E, so
 	// δ = E/(R T²) · ρ w H k · L² / k_th (analytic), with the layer thickness
 	// as the half-width.
@@ -107,7 +108,8 @@ func TestCheckCautions(t *testing.T) {
 			t.Errorf("check output lacks the caution %q", s)
 		}
 	}
-	// SPEC §9 names these subjects; our wording must cover each.
+	// The subjects every caution list must cover (common practice for
+	// exotherm, fire and microwave exposure); our wording must cover each.
 	all := strings.ToLower(strings.Join(cases.Cautions(), " "))
 	for _, w := range []string{"trial", "data sheets", "fire", "leakage", "interlock", "local codes", "licensed practice"} {
 		if !strings.Contains(all, w) {

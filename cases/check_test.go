@@ -16,7 +16,7 @@ func TestAdiabaticRise(t *testing.T) {
 		q, cu, cc, a0  float64
 		want, relative float64
 	}{
-		// Source: REFERENCES §9, ΔT_ad = w·H·(1 − α0)/c_p (energy balance;
+		// Source: ΔT_ad = w·H·(1 − α0)/c_p (energy balance;
 		// analytic): 0.6 × 400 J/g / 1.5 J/g/K = 160 K.
 		{"constant cp", 0.6 * 400e3, 1500, 1500, 0, 160, 1e-15},
 		// Same balance from α0 = 0.25: 160 × 0.75 = 120 K.

@@ -11,16 +11,15 @@ import (
 // Sentinel errors that the errors of Load and Parse wrap, for errors.Is.
 // Every *Error wraps exactly one of them.
 var (
-	ErrSyntax      = errors.New("TOML syntax error")
-	ErrUnknownKey  = errors.New("unknown key")
-	ErrType        = errors.New("wrong kind of value")
-	ErrUnit        = errors.New("bad quantity or unit")
-	ErrRange       = errors.New("value out of range")
-	ErrMissing     = errors.New("missing value")
-	ErrDuplicate   = errors.New("duplicate name")
-	ErrReference   = errors.New("unknown name")
-	ErrUnsupported = errors.New("not supported yet")
-	ErrFile        = errors.New("cannot read file")
+	ErrSyntax     = errors.New("TOML syntax error")
+	ErrUnknownKey = errors.New("unknown key")
+	ErrType       = errors.New("wrong kind of value")
+	ErrUnit       = errors.New("bad quantity or unit")
+	ErrRange      = errors.New("value out of range")
+	ErrMissing    = errors.New("missing value")
+	ErrDuplicate  = errors.New("duplicate name")
+	ErrReference  = errors.New("unknown name")
+	ErrFile       = errors.New("cannot read file")
 )
 
 // Error is one problem in a case file (or in a file it refers to), with its

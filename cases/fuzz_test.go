@@ -39,7 +39,7 @@ import (
 
 // fzSentinels are the kinds every *Error wraps exactly one of.
 var fzSentinels = []error{ErrSyntax, ErrUnknownKey, ErrType, ErrUnit, ErrRange, ErrMissing,
-	ErrDuplicate, ErrReference, ErrUnsupported, ErrFile}
+	ErrDuplicate, ErrReference, ErrFile}
 
 // fzSeedFiles adds every file matching the globs to f.
 func fzSeedFiles(f *testing.F, globs ...string) {

@@ -19,9 +19,6 @@ import (
 var topKeys = []string{"title", "initial", "time", "layer", "mesh", "materials", "schedules",
 	"top", "bottom", "volumetric", "output", "criteria", "sweep", "uncertainty"}
 
-// unsupported are the sections of SPEC §4 that this version refuses.
-var unsupported = map[string]string{}
-
 // Load reads, validates and resolves the case file at path (see Parse);
 // relative paths inside it are taken from its directory.
 func Load(path string) (*Case, error) {
@@ -32,7 +29,7 @@ func Load(path string) (*Case, error) {
 	return Parse(path, data, filepath.Dir(path))
 }
 
-// Parse reads, validates and resolves a case file (SPEC §4, §10) given as
+// Parse reads, validates and resolves a case file (README, Case file reference) given as
 // data; name is the file name used in messages and dir the directory that
 // relative paths in the case (schedule files) refer to.
 //
@@ -76,12 +73,6 @@ func parseTree(name, text string, doc map[string]any, dir string) (*Case, error)
 // build reads the whole document; the Case is nil when there are errors.
 func (l *loader) build(doc map[string]any) *Case {
 	root := l.open("", doc, topKeys, nil)
-	for _, k := range sortedKeys(doc) {
-		if what, ok := unsupported[k]; ok {
-			l.add(l.loc.table(k), k, ErrUnsupported, nil, fmt.Sprintf("[%s] (%s) is not supported yet in this version", k, what)).Hint =
-				fmt.Sprintf("remove [%s] to run the case without it", k)
-		}
-	}
 	c := &Case{File: l.file, Dir: l.dir, Title: strings.TrimSuffix(filepath.Base(l.file), filepath.Ext(l.file))}
 	if s, ok := l.str(root, "title"); ok {
 		c.Title = s
@@ -161,7 +152,8 @@ func (l *loader) build(doc map[string]any) *Case {
 	{
 		// A depth typed as a layer face ("0.4 mm") may differ by rounding
 		// from the face the mesh built by adding thicknesses: put it on the
-		// face, so that it reads the upper layer's side (SPEC §10).
+		// face, so that it reads the upper layer's side (README, Case file
+		// reference).
 		for i, z := range p.Probes {
 			p.Probes[i] = snapToLayerFace(p.Mesh, z)
 		}

@@ -45,7 +45,7 @@ const (
 var kinds = map[string]error{
 	"syntax": ErrSyntax, "unknown": ErrUnknownKey, "type": ErrType, "unit": ErrUnit,
 	"range": ErrRange, "missing": ErrMissing, "duplicate": ErrDuplicate,
-	"reference": ErrReference, "unsupported": ErrUnsupported, "file": ErrFile,
+	"reference": ErrReference, "file": ErrFile,
 }
 
 // TestBad parses every malformed case of testdata/bad. Each file has one
@@ -203,7 +203,7 @@ func TestGoodPotting(t *testing.T) {
 	if c.Title != "10 mm potting over a board in an aluminium cup" {
 		t.Errorf("Title = %q", c.Title)
 	}
-	// Source: analytic, T/K = t/°C + 273.15 (SPEC §3).
+	// Source: SI definition, T/K = t/°C + 273.15.
 	checkNear(t, "InitialTemperature", p.InitialTemperature, 296.15)
 	checkNear(t, "InitialCure", p.InitialCure, 0.01)
 
@@ -230,7 +230,7 @@ func TestGoodPotting(t *testing.T) {
 	checkNear(t, "CureTolerance", p.CureTolerance, 0.002)
 	checkNear(t, "AbortTemperature", p.AbortTemperature, 523.15)
 
-	// Source: SPEC §10, cells = max(4, ceil(thickness/max_cell)) unless given:
+	// Source: the README's Case file reference, cells = max(4, ceil(thickness/max_cell)) unless given:
 	// 40 given; 1.6/0.25 = 6.4 -> 7; 2/0.25 = 8.
 	if got, want := cellsPerLayer(c), []int{40, 7, 8}; !reflect.DeepEqual(got, want) {
 		t.Errorf("cells per layer = %v, want %v", got, want)
@@ -316,12 +316,13 @@ func TestGoodPlaten(t *testing.T) {
 	p := c.Problem
 	// Source: analytic, End defaults to the last point of the platen program, 50 min.
 	checkNear(t, "End", p.End, 3000)
-	// Source: SPEC §10, output_every defaults to end/100.
+	// Source: the README's Case file reference, output_every defaults to end/100.
 	checkNear(t, "OutputEvery", c.OutputEvery, 30)
 	if len(p.OutputTimes) != 100 || !near(p.OutputTimes[0], 30) || !near(p.OutputTimes[99], 3000) {
 		t.Errorf("OutputTimes = %v", p.OutputTimes)
 	}
-	// Source: solver.DefaultAbortTemperature, 400 C (SPEC §8).
+	// Source: solver.DefaultAbortTemperature, 400 C (README, Case file
+	// reference).
 	checkNear(t, "AbortTemperature", p.AbortTemperature, 673.15)
 	if p.MaxStep != 0 || p.TemperatureTolerance != 0 || p.CureTolerance != 0 {
 		t.Errorf("unset step controls should stay 0 (solver defaults): %g %g %g", p.MaxStep, p.TemperatureTolerance, p.CureTolerance)
@@ -335,7 +336,7 @@ func TestGoodPlaten(t *testing.T) {
 	if c.TopAir != "20 C" || c.BottomAir != "platen" {
 		t.Errorf("TopAir, BottomAir = %q, %q", c.TopAir, c.BottomAir)
 	}
-	// Source: SPEC §10: 3/0.25 = 12; 10 given; 1/0.25 = 4.
+	// Source: the README's Case file reference, 3/0.25 = 12; 10 given; 1/0.25 = 4.
 	if got, want := cellsPerLayer(c), []int{12, 10, 4}; !reflect.DeepEqual(got, want) {
 		t.Errorf("cells per layer = %v, want %v", got, want)
 	}
@@ -369,7 +370,7 @@ func TestGoodLamp(t *testing.T) {
 	// Source: analytic, linear from 0 to 1.5 kW/m^2 over 10 min, held after.
 	checkNear(t, "flux at 5 min", p.Top.Flux.At(300), 750)
 	checkNear(t, "flux at 20 min", p.Top.Flux.At(1200), 1500)
-	// Source: SPEC §10, max(4, ceil(0.2/0.25)) = 4 and ceil(0.8/0.25) = 4.
+	// Source: the README's Case file reference, max(4, ceil(0.2/0.25)) = 4 and ceil(0.8/0.25) = 4.
 	if got, want := cellsPerLayer(c), []int{4, 4}; !reflect.DeepEqual(got, want) {
 		t.Errorf("cells per layer = %v, want %v", got, want)
 	}

@@ -4,7 +4,7 @@ import (
 	"fmt"
 )
 
-// The modes of a sweep (SPEC §6).
+// The modes of a sweep (README, Case file reference).
 const (
 	ModeGrid           = "grid"            // every combination of the varied values
 	ModeLatinHypercube = "latin-hypercube" // samples drawn by Latin hypercube sampling
@@ -50,7 +50,7 @@ type sweepSpec struct {
 	Vary    []Vary
 }
 
-// sweepSection reads and checks [sweep] (SPEC §6): mode, samples, seed and
+// sweepSection reads and checks [sweep] (README, Case file reference): mode, samples, seed and
 // every [[sweep.vary]]: its key path must lead to an existing table of the
 // case (whether the last key itself is valid is checked by NewSweep, which
 // tries it), its values must be single values, a range needs both ends of

@@ -14,7 +14,7 @@ import (
 	"cureslab/cases/units"
 )
 
-// The distributions of an uncertain input (SPEC §11).
+// The distributions of an uncertain input (README, Case file reference).
 const (
 	DistUniform = "uniform" // the value is spread evenly over nominal ± spread
 	DistNormal  = "normal"  // Gaussian, the spread is 2σ
@@ -29,7 +29,7 @@ var (
 	distributions        = []string{DistUniform, DistNormal}
 )
 
-// Uncertainty is the [uncertainty] section of a case (SPEC §11): the inputs
+// Uncertainty is the [uncertainty] section of a case (README, Case file reference): the inputs
 // whose values are not known exactly, and the share of samples that must
 // meet the criteria.
 type Uncertainty struct {
@@ -55,7 +55,7 @@ type UncertainInput struct {
 	Path []string // resolved path in the decoded case (layer names become indices)
 }
 
-// uncertaintySection reads and checks [uncertainty] (SPEC §11) of the
+// uncertaintySection reads and checks [uncertainty] (README, Case file reference) of the
 // decoded case root: every key path must lead to a number or a quantity of
 // the case (as sweep keys do, resolveKey), each spread must be a spread of
 // that quantity's dimension (units.ParseSpread), the distribution uniform

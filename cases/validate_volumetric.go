@@ -410,9 +410,8 @@ func frequencyNote(f float64) string {
 }
 
 // ismBands are the industrial, scientific and medical bands used for
-// dielectric heating, Hz (ITU Radio Regulations 5.138, 5.150, 5.280;
-// REFERENCES §8 confirms the centre frequencies; the band edges are from
-// memory).
+// dielectric heating, Hz (ITU Radio Regulations 5.138, 5.150, 5.280,
+// for the centre frequencies; the band edges are from memory).
 var ismBands = []struct{ lo, hi float64 }{
 	{13.553e6, 13.567e6},
 	{26.957e6, 27.283e6},

@@ -19,24 +19,24 @@ func TestGoodVolumetricControlled(t *testing.T) {
 	if v == nil || v.Control == nil {
 		t.Fatalf("Volumetric = %+v, want controlled heating", v)
 	}
-	// Source: SPEC §3 units, 915 MHz = 9.15e8 Hz.
+	// Source: SI units, 915 MHz = 9.15e8 Hz.
 	checkNear(t, "Frequency", v.Frequency, 915e6)
-	// Source: SPEC §10, under control E = max_field·√u: the field at full
+	// Source: the README's Case file reference, under control E = max_field·√u: the field at full
 	// power is max_field (3 kV/m), not field (1.5 kV/m).
 	checkNear(t, "Field", v.Field, 3000)
 	if v.Attenuation != physics.FromBoth {
 		t.Errorf("Attenuation = %v, want both", v.Attenuation)
 	}
 	ctl := v.Control
-	// Source: SPEC §3, 5 mm = 0.005 m; 0.08 1/K; 2 min = 120 s.
+	// Source: SI units, 5 mm = 0.005 m; 0.08 1/K; 2 min = 120 s.
 	checkNear(t, "Sensor", ctl.Sensor, 0.005)
 	checkNear(t, "Gain", ctl.Gain, 0.08)
 	checkNear(t, "IntegralTime", ctl.IntegralTime, 120)
-	// Source: SPEC §10, period defaults to 1 s.
+	// Source: the README's Case file reference, period defaults to 1 s.
 	checkNear(t, "Period", ctl.Period, 1)
 	// Source: analytic, 20 C + 30 min × 1 C/min = 50 C on the program's ramp.
 	checkNear(t, "program at 30 min", ctl.Program.At(1800), 323.15)
-	// Source: SPEC §10, time.end defaults to the end of the longest schedule
+	// Source: the README's Case file reference, time.end defaults to the end of the longest schedule
 	// the case uses: the control program, 60 min of ramp + 90 min of hold
 	// (the face's "room" schedule ends at 30 min).
 	checkNear(t, "End", p.End, 9000)
@@ -98,7 +98,8 @@ func TestCheckVolumetric(t *testing.T) {
 		"frequency    2.45 GHz (an ISM band)",
 		"field        1 kV/m rms, on from start to end",
 		"attenuation  top: the field enters through the top face",
-		// Source: REFERENCES §8 (derived from Metaxas & Meredith 1983): water
+		// Source: derived from P = 2π f ε0 ε″ E² and the power penetration depth
+		// (Metaxas & Meredith, Industrial Microwave Heating, 1983, ch. 2): water
 		// ε′ 78, ε″ 10 at 2.45 GHz, E = 1 kV/m: P = 1.36 MW/m³, D_p = 1.72 cm.
 		"1.36 -> 1.36 MW/m^3",
 		"17.2 -> 17.2 mm",
@@ -114,7 +115,7 @@ func TestCheckVolumetric(t *testing.T) {
 		t.Errorf("check output notes an ISM problem or a controller that is not there:\n%s", out)
 	}
 
-	// Not an ISM frequency (REFERENCES §8: 13.56, 27.12, 40.68 MHz, 915,
+	// Not an ISM frequency (ITU Radio Regulations 5.138, 5.150, 5.280: 13.56, 27.12, 40.68 MHz, 915,
 	// 2450, 5800 MHz); control with its defaults; a field that control
 	// does not use; a 5 C/min ramp faster than the full field heats.
 	c = volCase(t, "permittivity = 78\nloss_factor = 10",
@@ -140,7 +141,7 @@ func TestCheckVolumetric(t *testing.T) {
 	}
 }
 
-// TestFrequencyNote checks the ISM bands of REFERENCES §8 (ITU Radio
+// TestFrequencyNote checks the ISM bands (ITU Radio
 // Regulations 5.138, 5.150, 5.280: 13.56, 27.12, 40.68 MHz, 915 MHz,
 // 2450 MHz, 5800 MHz, confirmed).
 func TestFrequencyNote(t *testing.T) {
@@ -190,7 +191,7 @@ func TestVolumetricOneError(t *testing.T) {
 
 	// A constant program is accepted (like a face's air) and sets no end:
 	// time.end is then the end of the face's "room" schedule, 30 min
-	// (SPEC §10: the longest schedule the case uses).
+	// (README, Case file reference: the longest schedule the case uses).
 	src := strings.Replace(base, `program = "cure"`, `program = "60 C"`, 1)
 	c, err := Parse("v.toml", []byte(src), goodDir)
 	if err != nil {

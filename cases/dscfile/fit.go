@@ -18,7 +18,7 @@ import (
 // ErrScan is the sentinel of every problem in a DSC scan file.
 var ErrScan = errors.New("bad DSC scan")
 
-// ScanHeader is the header row of a DSC scan file (SPEC §7): time in s,
+// ScanHeader is the header row of a DSC scan file (README, Case file reference): time in s,
 // sample temperature in °C, heat flow in W/g, exothermic positive.
 var ScanHeader = []string{"time_s", "temperature_C", "heat_flow_W_per_g"}
 

@@ -17,18 +17,18 @@ import (
 	"time"
 )
 
-// ReportFile is the name of the HTML report of a run (SPEC §5).
+// ReportFile is the name of the HTML report of a run (README, Case file reference).
 const ReportFile = "report.html"
 
 // reportClock gives the time stamped on a report; tests replace it.
 var reportClock = func() time.Time { return time.Now() }
 
-// WriteReport writes report.html for a run of c into dir (SPEC §5): one
+// WriteReport writes report.html for a run of c into dir (README, Case file reference): one
 // self-contained page, readable offline and when mailed, with depth–time
 // maps of temperature and of degree of cure (layer faces and the gel front
 // drawn), profiles through the thickness at chosen times, probe histories
 // with the driving air temperatures and the power fraction, the summary and
-// each acceptance criterion, and the cautions of SPEC §9.
+// each acceptance criterion, and the cautions (cases.Cautions).
 //
 // Method: the page shows exactly what fields.csv, probes.csv and
 // summary.json hold. Values are rounded as WriteRun writes them, so the
@@ -54,7 +54,7 @@ func WriteReport(dir string, c *cases.Case, r *solver.Result, s results.Summary)
 }
 
 // RedrawReport reads the output files of a run in dir (fields.csv,
-// probes.csv and summary.json, SPEC §5) and writes dir/report.html from
+// probes.csv and summary.json, README, Case file reference) and writes dir/report.html from
 // them, as WriteReport does at the end of the run; no case file is needed.
 //
 // The layers and their depths are read from fields.csv: the cell faces are

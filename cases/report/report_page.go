@@ -13,7 +13,7 @@ import (
 )
 
 // page is one self-contained HTML report: a header, an optional alert,
-// sections of tables and figures, and the cautions of SPEC §9 at the foot.
+// sections of tables and figures, and the cautions (cases.Cautions) at the foot.
 // The run report fills it now; the compare and sweep reports fill it with
 // their own sections.
 type page struct {

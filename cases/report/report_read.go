@@ -117,7 +117,7 @@ func (t *csvTable) errAt(i int, col, format string, a ...any) *cases.Error {
 	return outputError(t.path, line, c, col, format, a...)
 }
 
-// readFieldsCSV reads fields.csv (SPEC §5): one block of rows per output
+// readFieldsCSV reads fields.csv (README, Case file reference): one block of rows per output
 // time, the same cells in the same order in every block.
 func readFieldsCSV(path string, tb *runTable) error {
 	f, err := openOutput(path)

@@ -158,7 +158,7 @@ func (o *advOutcome) ok(t *testing.T) {
 	if o.r.Status != solver.OK || o.r.EndTime != o.c.Problem.End {
 		t.Fatalf("status %v at %g s of %g s: %v", o.r.Status, o.r.EndTime, o.c.Problem.End, o.r.Err)
 	}
-	// The ledger balances to round-off (SPEC §10); 1e-8 leaves room for the
+	// The ledger balances to round-off (energy conservation); 1e-8 leaves room for the
 	// Newton tolerance over many steps.
 	if e := o.num(t, "energy_balance_error"); !(e < 1e-8) {
 		t.Errorf("energy_balance_error %g", e)
@@ -244,8 +244,8 @@ thickness = "50 mm"
 				t.Errorf("peak %g C above the oven's 120 C", pk)
 			}
 		}},
-		// Source: copper k = 401 W/m/K (Incropera Appendix A, REFERENCES.md §7,
-		// confirmed); the foam (k = 0.004 W/m/K) is invented: a ratio of 1e5.
+		// Source: copper k = 401 W/m/K (Incropera & DeWitt, Fundamentals of Heat
+		// and Mass Transfer, Appendix A); the foam (k = 0.004 W/m/K) is invented: a ratio of 1e5.
 		{"copper against foam", oven + `
 [[layer]]
 name = "skin"
@@ -365,7 +365,7 @@ kind = "insulated"
 [bottom]
 kind = "insulated"
 `, func(t *testing.T, o *advOutcome) {
-			// Insulated: the adiabatic rise H/c_p = 280 K (REFERENCES.md §9,
+			// Insulated: the adiabatic rise H/c_p = 280 K (energy balance,
 			// analytic), all of it, since the part cures fully.
 			if a := o.num(t, "min_final_cure"); a < 1-1e-6 {
 				t.Errorf("min final cure %g, want full cure", a)
@@ -420,8 +420,8 @@ func TestAdversarialCasesDuplicateSection(t *testing.T) {
 }
 
 // advContactCase is a stack on a platen: epoxy layers (k = 0.2 W/m/K)
-// totalling top mm, then 2 mm of aluminium (k = 237 W/m/K, REFERENCES.md §7,
-// confirmed) behind a contact resistance rc (m²K/W), the platen at 120 °C,
+// totalling top mm, then 2 mm of aluminium (k = 237 W/m/K, Incropera & DeWitt,
+// Fundamentals of Heat and Mass Transfer, Appendix A) behind a contact resistance rc (m²K/W), the platen at 120 °C,
 // the bottom held at the initial 20 °C; probes at the given depths.
 func advContactCase(epoxy []string, rc string, probes ...string) string {
 	var b strings.Builder
@@ -456,7 +456,7 @@ temperature = "20 C"
 
 // TestAdversarialCasesProbeOnFace: contact resistances of 0 and 1 m²K/W,
 // and a probe exactly on the epoxy/aluminium face, which reads the upper
-// (epoxy) side (SPEC §10). In the steady state reached after 20 min (the
+// (epoxy) side (README, Case file reference). In the steady state reached after 20 min (the
 // aluminium is pinned to the bottom platen by its own conductance k/L =
 // 1.2e5 W/m²K, far above the gap's 1/R_c ≤ 100 W/m²K, so the slowest time
 // constant is the epoxy's L²/α ≈ 35 s; analytic estimates) the sides are
@@ -505,7 +505,7 @@ func TestAdversarialCasesProbeOnFace(t *testing.T) {
 // whose depth, added up from the layer thicknesses in floating point, comes
 // out an ulp short of the probe's own value: 0.1 mm + 0.3 mm =
 // 0.39999999999999996 mm, while "0.4 mm" is 0.4 mm. The probe must still
-// read the upper layer's side (SPEC §10), 103.3 C here, not the lower
+// read the upper layer's side (README, Case file reference), 103.3 C here, not the lower
 // side at 20.1 C.
 func TestAdversarialCasesProbeOnFaceRounding(t *testing.T) {
 	advKnown(t, "a probe written on a layer face reads the lower layer when the face depth, summed from the "+
@@ -524,7 +524,7 @@ func TestAdversarialCasesProbeOnFaceRounding(t *testing.T) {
 // advFK is the Frank-Kamenetskii slab of solver/adversarial_test.go as a
 // case file: 10 mm of resin (ρ 1150, c_p 1500, k 0.2) between platens at
 // T0 = 400 K, zero-order kinetics with E = 40 R T0 and A set for δ
-// (REFERENCES.md §2), abort at T0 + 50 K.
+// (Frank-Kamenetskii, Diffusion and Heat Exchange in Chemical Kinetics), abort at T0 + 50 K.
 func advFK(delta float64) string {
 	const T0, a, rho, k, H, eps = 400.0, 5e-3, 1150.0, 0.2, 420e3, 1.0 / 40
 	E := physics.GasConstant * T0 / eps
@@ -562,7 +562,8 @@ probes = ["5 mm"]
 }
 
 // TestAdversarialCasesRunaway: the Frank-Kamenetskii slab end to end. At
-// δ = 0.5 the centre settles at θ(0) = 0.328952 (REFERENCES.md §2, within
+// δ = 0.5 the centre settles at θ(0) = 0.328952 (lower branch of the exact slab solution of
+// Frank-Kamenetskii, Diffusion and Heat Exchange in Chemical Kinetics; within
 // 2 % for E/(R T0) = 40; see TestAdversarialFrankKamenetskii), i.e. 3.29 K
 // above the walls; at δ = 1.2 > δc = 0.8785 it runs away: status "runaway"
 // (exit code 3 in the command), the outputs kept up to that moment and the

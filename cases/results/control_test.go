@@ -24,15 +24,15 @@ func TestGoodVolumetricOpenLoop(t *testing.T) {
 	if v == nil || v.Control != nil {
 		t.Fatalf("Volumetric = %+v, want open-loop heating", v)
 	}
-	// Source: SPEC §3 units: 27.12 MHz, 20 kV/m.
+	// Source: SI units: 27.12 MHz, 20 kV/m.
 	checkNear(t, "Frequency", v.Frequency, 27.12e6)
 	checkNear(t, "Field", v.Field, 20e3)
-	// Source: SPEC §4, attenuation defaults to "none", a uniform field.
+	// Source: the README's Case file reference, attenuation defaults to "none", a uniform field.
 	if v.Attenuation != physics.Uniform {
 		t.Errorf("Attenuation = %v, want none", v.Attenuation)
 	}
 	coat, plate := p.Materials[0].Dielectric, p.Materials[1].Dielectric
-	// Source: SPEC §4, loss_factor_cured defaults to loss_factor.
+	// Source: the README's Case file reference, loss_factor_cured defaults to loss_factor.
 	if coat == nil || coat.Shield || !near(coat.LossFactor, 0.2) || !near(coat.LossFactorCured, 0.2) {
 		t.Errorf("coat dielectric = %+v", coat)
 	}
@@ -49,7 +49,7 @@ func TestGoodVolumetricOpenLoop(t *testing.T) {
 }
 
 // TestControlledProbesAndSummary runs a short controlled case: probes.csv
-// has power_fraction after the air columns (SPEC §5) with values in [0, 1],
+// has power_fraction after the air columns (README, Case file reference) with values in [0, 1],
 // and summary.json carries control_max_error_K.
 func TestControlledProbesAndSummary(t *testing.T) {
 	c := volCase(t, "permittivity = 20\nloss_factor = 5",
@@ -65,7 +65,7 @@ func TestControlledProbesAndSummary(t *testing.T) {
 		t.Fatal(err)
 	}
 	rows := testkit.ReadCSV(t, filepath.Join(dir, ProbesFile))
-	// Source: SPEC §5 column order; the sensor at 5 mm is added as a probe.
+	// Source: the README's Case file reference, column order; the sensor at 5 mm is added as a probe.
 	want := []string{"time_s", "T_0mm_C", "cure_0mm", "T_5mm_C", "cure_5mm", "air_top_C", "power_fraction", "heat_in_J_per_m2"}
 	if !reflect.DeepEqual(rows[0], want) {
 		t.Fatalf("probes.csv header %v, want %v", rows[0], want)

@@ -14,7 +14,7 @@ import (
 	"text/tabwriter"
 )
 
-// The statuses of a run as written in summary.json (SPEC §5).
+// The statuses of a run as written in summary.json (README, Case file reference).
 const (
 	StatusOK             = "ok"
 	StatusCriteriaFailed = "criteria-failed"
@@ -181,13 +181,13 @@ func (vs *Verdicts) UnmarshalJSON(b []byte) error {
 	return nil
 }
 
-// Summary is the content of summary.json (SPEC §5, §10): temperatures in °C,
+// Summary is the content of summary.json (README, Case file reference): temperatures in °C,
 // temperature differences in K, times in s, depths in mm. A Float that does
 // not apply is NaN (null in JSON). Values are rounded like the CSV files
 // (1e-6 for °C, K and s, 1e-9 mm for depths, 9 significant digits for
 // dimensionless values).
 //
-// Beyond SPEC §5 it carries end_time_s (the time the run reached, which is
+// Beyond the fields of the README's Case file reference it carries end_time_s (the time the run reached, which is
 // less than the case's end after a runaway or failure), message (why the
 // run stopped early; omitted when it ran to the end) and, under closed-loop
 // volumetric heating only, control_max_error_K (ControlError), and

@@ -60,7 +60,7 @@ func TestSummaryJSONNulls(t *testing.T) {
 			t.Errorf("%s = %v (present %v), want null", k, v, ok)
 		}
 	}
-	// Every key of SPEC §5 is present.
+	// Every key of the README's Case file reference is present.
 	for _, k := range []string{"title", "status", "peak_temperature_C", "peak_time_s", "peak_depth_mm", "overshoot_K",
 		"max_spread_K", "min_final_cure", "min_final_cure_depth_mm", "mean_final_cure", "time_to_min_cure_s",
 		"gel_time_first_s", "gel_time_last_s", "min_final_glass_transition_C", "energy_balance_error", "steps", "criteria"} {

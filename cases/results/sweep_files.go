@@ -9,7 +9,7 @@ import (
 
 // Files of a sweep directory.
 const (
-	// SweepSummaryFile is the table of every run (SPEC §6, §10).
+	// SweepSummaryFile is the table of every run (README, Case file reference).
 	SweepSummaryFile = "summary.csv"
 	// SweepDefinitionFile records what the sweep is; resuming or merging
 	// checks it.

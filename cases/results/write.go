@@ -16,7 +16,7 @@ import (
 	"slices"
 )
 
-// Names of the files that WriteRun writes (SPEC §5).
+// Names of the files that WriteRun writes (README, Case file reference).
 const (
 	FieldsFile  = "fields.csv"
 	ProbesFile  = "probes.csv"
@@ -24,7 +24,7 @@ const (
 )
 
 // WriteRun writes the output files of one run into dir, creating dir if it
-// does not exist: fields.csv, probes.csv and summary.json (SPEC §5, §10).
+// does not exist: fields.csv, probes.csv and summary.json (README, Case file reference).
 // Each file is written with WriteFileAtomic, so an existing directory gets
 // its files replaced one by one and a failed write leaves the previous file.
 //

@@ -38,7 +38,7 @@ func TestWriteRunColumns(t *testing.T) {
 		t.Fatal(err)
 	}
 	fields := testkit.ReadCSV(t, filepath.Join(dir, FieldsFile))
-	// Header names are fixed by SPEC §5.
+	// Header names are fixed (README, Case file reference).
 	if got, want := strings.Join(fields[0], ","), "time_s,depth_mm,layer,temperature_C,cure,cure_rate_per_s,glass_transition_C"; got != want {
 		t.Errorf("fields.csv header = %q, want %q", got, want)
 	}
@@ -68,7 +68,7 @@ func TestWriteRunColumns(t *testing.T) {
 	}
 
 	probes := testkit.ReadCSV(t, filepath.Join(dir, ProbesFile))
-	// Shortest decimal depth names (SPEC §10); no air_bottom_C for an
+	// Shortest decimal depth names (README, Case file reference); no air_bottom_C for an
 	// insulated bottom face.
 	want := "time_s,T_0mm_C,cure_0mm,T_6.35mm_C,cure_6.35mm,T_17.4625mm_C,cure_17.4625mm,air_top_C,heat_in_J_per_m2"
 	if got := strings.Join(probes[0], ","); got != want {

@@ -36,7 +36,8 @@ func TestCompareOvenMicrowave(t *testing.T) {
 				t.Error(err)
 			}
 		}
-		// Source: SPEC §8, the energy ledger balances to round-off.
+		// Source: energy conservation; the ledger balances to round-off by
+		// construction of the scheme (DEVELOPERS.md, One time step).
 		if e := float64(r.Summary.EnergyBalanceError); e > 1e-9 {
 			t.Errorf("%s: energy balance error %g", r.Name, e)
 		}

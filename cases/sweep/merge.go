@@ -37,7 +37,7 @@ type MergeReport struct {
 // MergeSweeps joins the directories of the shards of one sweep into out:
 // out gets the sweep.json they share, a journal.csv holding every row, and
 // the summary.csv that the whole sweep run in one directory writes, byte
-// for byte (SPEC §6, §10); a line goes to out/sweep.log.
+// for byte (README, Case file reference); a line goes to out/sweep.log.
 //
 // Every directory must hold the same sweep.json (else an error wrapping
 // ErrSweepMismatch, naming the directory and what differs), and so must out

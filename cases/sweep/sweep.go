@@ -65,7 +65,7 @@ type SweepSettings struct {
 }
 
 // Sweep is a batch of runs of one case with some of its values changed
-// (SPEC §6, §10), ready to run (Sweep.Run) or to inspect. Every run has a
+// (README, Case file reference), ready to run (Sweep.Run) or to inspect. Every run has a
 // stable 0-based index; run i is the case with the values Values(i) put in
 // place of the varied keys, and is validated exactly like a case file.
 //

@@ -53,7 +53,7 @@ const (
 	sweepCommitMax   = 1024
 )
 
-// StatusCounts counts runs by status (SPEC §5).
+// StatusCounts counts runs by status (README, Case file reference).
 type StatusCounts struct {
 	OK, CriteriaFailed, Runaway, Failed int
 }
@@ -77,7 +77,7 @@ type SweepReport struct {
 	Runs    int // runs of the shard
 	Done    int // of them, committed in the directory (including Resumed)
 	Resumed int // of Done, committed by an earlier run of the same sweep
-	// Statuses of the committed runs (SPEC §5): they add up to Done.
+	// Statuses of the committed runs (README, Case file reference): they add up to Done.
 	StatusCounts
 	// Repaired reports that the journal ended in a record cut short (a
 	// crash while committing) or damaged: it was cut off and its runs are

@@ -7,7 +7,7 @@ import (
 	"strings"
 )
 
-// ParseVary reads a --vary option (SPEC §6):
+// ParseVary reads a --vary option:
 //
 //	KEY=V1,V2,...        a list of values
 //	KEY=FROM:TO:COUNT    COUNT values from FROM to TO, both included, linear
@@ -17,7 +17,7 @@ import (
 // "4mm"); a plain number is a number and true/false a boolean. A list must
 // not repeat a value; a range needs COUNT ≥ 2 and both ends of one
 // dimension. Whether KEY exists in the case is checked by NewSweep. Errors
-// read "--vary SPEC: what is wrong".
+// read "--vary KEY=VALUES: what is wrong".
 func ParseVary(spec string) (cases.Vary, error) {
 	fail := func(format string, a ...any) (cases.Vary, error) {
 		return cases.Vary{}, &sweepError{msg: fmt.Sprintf("--vary %s: %s", spec, fmt.Sprintf(format, a...))}

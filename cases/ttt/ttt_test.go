@@ -57,7 +57,7 @@ func TestTTT(t *testing.T) {
 			}
 			continue
 		}
-		// Source: DiBenedetto in the Pascault–Williams form, REFERENCES §4
+		// Source: DiBenedetto in the Pascault–Williams form
 		// (Pascault & Williams, J. Polym. Sci. B 28:85, 1990; formula from
 		// memory): the cure av at which Tg(av) = T, found here by bisection
 		// of the forward formula, independently of CureAt.

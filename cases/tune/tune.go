@@ -206,7 +206,7 @@ const (
 
 // Tune searches the free values of the program opt.Program of the case
 // file data (named name, relative paths from dir) for the shortest program
-// that meets every [criteria] limit (SPEC §11).
+// that meets every [criteria] limit (README, Case file reference).
 //
 // Problem: minimise the cycle time C(x), the end of the program, over the
 // box of the free values x (each mapped to [0, 1]), subject to every

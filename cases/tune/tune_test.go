@@ -356,7 +356,7 @@ func TestTuneDefaultRanges(t *testing.T) {
 	if err := tu.defaultFree(); err != nil {
 		t.Fatal(err)
 	}
-	// Source: SPEC §11 (±50 %); the hold temperature within ±50 % of the
+	// Source: the README's Case file reference (±50 %); the hold temperature within ±50 % of the
 	// 77 K its ramp climbs from 23 C (analytic: 100 ± 38.5 C). The last
 	// ramp feeds no hold: its to stays.
 	want := [][3]string{

@@ -81,7 +81,7 @@ type CriterionShare struct {
 
 // UncertainReport is the outcome of Uncertain: every sample, and the
 // spread of each summary field and the share of samples meeting each
-// criterion (SPEC §11).
+// criterion (README, Case file reference).
 type UncertainReport struct {
 	Samples  int
 	Seed     uint64
@@ -434,7 +434,7 @@ func (r *UncertainReport) jsonObject() uncertaintyJSON {
 }
 
 // WriteUncertainty writes the results of Uncertain into the output
-// directory dir of the nominal run (SPEC §11): uncertainty.csv, one row per
+// directory dir of the nominal run (README, Case file reference): uncertainty.csv, one row per
 // sample (the sample index, the uncertain values as they went into the
 // case, then the columns of a sweep's summary.csv: the summary fields,
 // <criterion>_pass, status, error), and summary.json again: the nominal

@@ -90,7 +90,7 @@ func TestUncertaintyDefaultShare(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	// Source: SPEC §11, share defaults to 0.95.
+	// Source: the README's Case file reference, share defaults to 0.95.
 	if u.Share != 0.95 {
 		t.Errorf("default share = %v, want 0.95", u.Share)
 	}

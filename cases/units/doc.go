@@ -1,6 +1,6 @@
 // Package units reads the dimensional values of a case file: a number
 // followed by its unit, such as "12 mm", "25 C", "2 C/min", "15 W/m^2/K",
-// "420 J/g" or "1.2e5 1/s", and converts them to SI (SPEC §3, §10).
+// "420 J/g" or "1.2e5 1/s", and converts them to SI (README, Case file reference).
 //
 // The caller states the dimension it expects (a Dim); Parse checks the unit
 // against it by dimensional analysis and returns the value in the SI unit of

@@ -305,7 +305,7 @@ func TestDimTable(t *testing.T) {
 			t.Errorf("%v: %q accepted as %v", d, d.SIUnit(), d%PowerPerArea+1)
 		}
 	}
-	// Source: SPEC §10, dimension words used in messages.
+	// Source: the README's Case file reference, dimension words used in messages.
 	words := "length, time, temperature, temperature difference, heating rate, density, specific heat, conductivity, heat transfer coefficient, contact resistance, energy per mass, energy per mole, rate constant, frequency, electric field, heat flux, power, inverse temperature, power density, power per area"
 	var got []string
 	for d := Length; d <= PowerPerArea; d++ {
@@ -350,7 +350,7 @@ func TestParseSpread(t *testing.T) {
 		dim      Dim
 		abs, rel float64
 	}{
-		// Source: analytic (SPEC §11 spreads).
+		// Source: analytic.
 		{"±20 %", HeatTransferCoefficient, 0, 0.2},
 		{"±20%", Length, 0, 0.2},
 		{" ± 2.5 % ", EnergyPerMole, 0, 0.025},

@@ -16,7 +16,7 @@ import (
 	"cureslab/cases/results"
 )
 
-// Exit statuses (SPEC §2).
+// Exit statuses, as the README and printUsage state them.
 const (
 	exitOK       = 0 // ran, every criterion met (or none given)
 	exitCriteria = 1 // ran, a criterion failed
@@ -43,17 +43,14 @@ type Command struct {
 	Short   string // one line for the command list
 	Long    string // paragraph(s) for 'cureslab help NAME'
 	Example string // one or more example command lines
-	// Planned commands are listed in help but not available yet.
-	Planned bool
 	// Setup defines the command's flags on fs and returns the function that
 	// runs the command on the positional arguments left after parsing.
 	Setup func(fs *pflag.FlagSet) func(e *env, args []string) int
 }
 
 // commands is the command table, in the order of 'cureslab help'. It is
-// assembled once from commandOrder: a command implemented in its own file
-// registers itself with register (from that file's init); a name nobody
-// registered is listed as planned, from plannedInfo.
+// assembled once from commandOrder: each command, implemented in its own
+// file, registers itself with register (from that file's init).
 var commands []*Command
 
 // commandOrder is the order of 'cureslab help'.
@@ -65,23 +62,6 @@ var registered = map[string]*Command{}
 
 // register adds an implemented command. Call it from an init function.
 func register(c *Command) { registered[c.Name] = c }
-
-// plannedInfo describes SPEC §2 commands that are not implemented yet:
-// synopsis, one-line description, example.
-var plannedInfo = map[string][3]string{
-	"sweep": {"CASE.toml [--vary KEY=SPEC]... [-j N] [--shard I/N] [-o DIR]", "batch runs over varied inputs",
-		"cureslab sweep potting.toml --vary layer.potting.thickness=4mm,8mm,12mm -o sweep-out"},
-	"merge": {"DIR... [-o OUT]", "merge the shard outputs of one sweep",
-		"cureslab merge shard-0 shard-1 -o merged"},
-	"compare": {"CASE.toml CASE.toml... [-o DIR]", "run several cases and set their results side by side",
-		"cureslab compare oven.toml platen.toml -o compare-out"},
-	"fit": {"SCAN.csv... [--model M]", "kinetic parameters from DSC scans",
-		"cureslab fit scan-2K.csv scan-5K.csv scan-10K.csv --model autocatalytic"},
-	"ttt": {"CASE.toml --material NAME", "isothermal time-temperature-transformation table",
-		"cureslab ttt potting.toml --material potting-resin-A"},
-	"tune": {"CASE.toml --program NAME", "the shortest program that meets the criteria",
-		"cureslab tune potting.toml --program oven"},
-}
 
 func init() {
 	for _, c := range []*Command{runCmd, checkCmd, demoCmd, exampleCmd, materialsCmd, helpCmd} {
@@ -95,17 +75,12 @@ func buildCommands() {
 		return
 	}
 	for _, name := range commandOrder {
-		if c, ok := registered[name]; ok {
-			commands = append(commands, c)
-		} else if p, ok := plannedInfo[name]; ok {
-			commands = append(commands, planned(name, p[0], p[1], p[2]))
+		c, ok := registered[name]
+		if !ok {
+			panic("cureslab: command " + name + " is listed in commandOrder but not registered")
 		}
+		commands = append(commands, c)
 	}
-}
-
-func planned(name, args, short, example string) *Command {
-	return &Command{Name: name, Args: args, Short: short, Planned: true, Example: example,
-		Long: "Planned: " + short + ". Not available yet in this version."}
 }
 
 func lookup(name string) *Command {
@@ -147,16 +122,6 @@ func (c *Command) flagSet(stderr io.Writer) (*pflag.FlagSet, *bool) {
 
 // run parses args with c's flags and runs c.
 func (c *Command) run(e *env, args []string) int {
-	if c.Planned {
-		for _, a := range args {
-			if a == "-h" || a == "--help" {
-				c.printHelp(e.stdout)
-				return exitOK
-			}
-		}
-		fmt.Fprintf(e.stderr, "cureslab %s: not available yet in this version\nRun 'cureslab help' for the commands available.\n", c.Name)
-		return exitUsage
-	}
 	// Ctrl-C or SIGTERM cancels the work in progress (a run keeps its
 	// outputs up to that moment) and stops what would follow.
 	ctx, stop := signal.NotifyContext(e.ctx, os.Interrupt, syscall.SIGTERM)
@@ -195,11 +160,9 @@ func (e *env) usageError(format string, a ...any) int {
 func (c *Command) printHelp(w io.Writer) {
 	fmt.Fprintf(w, "Usage: cureslab %s %s\n\n", c.Name, c.Args)
 	fmt.Fprintf(w, "%s\n", strings.TrimSpace(c.Long))
-	if !c.Planned {
-		fs, _ := c.flagSet(io.Discard)
-		c.Setup(fs)
-		fmt.Fprintf(w, "\nFlags:\n%s", fs.FlagUsages())
-	}
+	fs, _ := c.flagSet(io.Discard)
+	c.Setup(fs)
+	fmt.Fprintf(w, "\nFlags:\n%s", fs.FlagUsages())
 	fmt.Fprintf(w, "\nExample:\n")
 	for _, line := range strings.Split(strings.TrimSpace(c.Example), "\n") {
 		fmt.Fprintf(w, "  %s\n", line)
@@ -218,17 +181,7 @@ Commands:
 `)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	for _, c := range commands {
-		if !c.Planned {
-			fmt.Fprintf(tw, "  %s\t%s\n", c.Name, c.Short)
-		}
-	}
-	tw.Flush()
-	header := "\nPlanned (not available yet in this version):\n"
-	for _, c := range commands {
-		if c.Planned {
-			fmt.Fprintf(tw, "%s  %s\t%s\n", header, c.Name, c.Short)
-			header = ""
-		}
+		fmt.Fprintf(tw, "  %s\t%s\n", c.Name, c.Short)
 	}
 	tw.Flush()
 	fmt.Fprint(w, `

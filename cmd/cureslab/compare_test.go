@@ -11,8 +11,8 @@ import (
 	"cureslab/cases/results"
 )
 
-// TestCompareBadCase: one bad case among good ones is bad input (exit 2,
-// SPEC §2): every error is reported and nothing is written.
+// TestCompareBadCase: one bad case among good ones is bad input (exit 2):
+// every error is reported and nothing is written.
 func TestCompareBadCase(t *testing.T) {
 	chdir(t)
 	writeExample(t, "tile-on-spreader", "tile.toml")

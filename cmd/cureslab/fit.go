@@ -2,7 +2,6 @@ package main
 
 import (
 	"fmt"
-	"io"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -109,7 +108,7 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 				fmt.Fprintln(e.stderr, strings.Join(bad, "\n"))
 				return exitUsage
 			}
-			if fitTerminal(e.stderr) {
+			if isTerminal(e.stderr) {
 				opt.Progress = func(it int, rms float64) {
 					fmt.Fprintf(e.stderr, "\rfit: iteration %d, RMS residual %.3g %% ", it, 100*rms)
 				}
@@ -177,16 +176,6 @@ func checkOutFile(path string) string {
 		return fmt.Sprintf("the directory of the output %s does not exist", path)
 	}
 	return ""
-}
-
-// fitTerminal reports whether w is a terminal (for progress output).
-func fitTerminal(w io.Writer) bool {
-	f, ok := w.(*os.File)
-	if !ok {
-		return false
-	}
-	fi, err := f.Stat()
-	return err == nil && fi.Mode()&os.ModeCharDevice != 0
 }
 
 // unjoin returns the errors joined in err (errors.Join), or err alone.

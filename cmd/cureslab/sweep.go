@@ -24,7 +24,7 @@ func init() {
 
 var sweepCmd = &Command{
 	Name:  "sweep",
-	Args:  "CASE.toml [--vary KEY=SPEC]... [-j N] [--shard I/N] [-o DIR]",
+	Args:  "CASE.toml [--vary KEY=VALUES]... [-j N] [--shard I/N] [-o DIR]",
 	Short: "batch runs over varied inputs, resumable and shardable",
 	Long: `Run the case many times with some of its values changed, and write one row
 per run to DIR/summary.csv (default ./CASE-sweep): the run index, the varied
@@ -34,7 +34,7 @@ each criterion, status and error.
 What varies comes from [sweep] in the case or from --vary, which replaces the
 case's whole [[sweep.vary]] list. A key is a path into the case:
 layer.NAME.thickness, materials.NAME.cure.E1, schedules.NAME.segments.I.to
-(I from 0), top.h, initial.temperature, time.end ... A SPEC is a list
+(I from 0), top.h, initial.temperature, time.end ... VALUES is a list
 (4mm,8mm,12mm) or a range FROM:TO:COUNT (1C/min:5C/min:5, both ends
 included; FROM:TO for latin-hypercube); values keep their units and may
 omit the space. A grid runs every combination, the last key varying
