@@ -117,7 +117,7 @@ func TestIsoconversionalReproducesTwoStepScans(t *testing.T) {
 
 func TestIsoconversionalTableOfSingleStep(t *testing.T) {
 	// A first-order resin: E = 80 kJ/mol at every α, and ln[A f(α)] =
-	// ln A + ln(1 − α) (REFERENCES §6 worked set: A = 1e10 1/min).
+	// ln A + ln(1 − α) (the synthetic first-order set of refFirstOrder: A = 1e10 1/min).
 	curves := firstOrderScans(t, []float64{1, 2, 5, 10, 20}, 0)
 	res, err := Fit(curves, nil, FitSpec{Model: Isoconversional})
 	if err != nil {
