@@ -1,0 +1,533 @@
+// Package outdir keeps an output directory to one complete set of files
+// from one command: a run's, a sweep's, a comparison's. A directory never
+// mixes two runs.
+//
+// # How
+//
+// A writer opens the directory for a kind of output (Open), writes every
+// file under a staging name beside its final name (Stage, StageDir), and
+// puts them all in place at the end (Commit). Commit first moves the files
+// of the previous set aside, then renames the staged files into place, the
+// manifest last, then deletes what was set aside: the files the tool wrote
+// there before and does not write now go with them (a report after
+// --no-report, an uncertainty table, a runs/ folder). A writer that fails
+// or is stopped before Commit calls Abort, which removes what it staged;
+// the previous set stays as it was.
+//
+// The manifest (ManifestFile, a small JSON file) names the kind and the
+// files of the set. Its presence in place marks a commit as done. Open
+// finishes a commit that was cut short (the process killed between two
+// renames): if the new manifest is in place the new set is kept and the
+// old files set aside are deleted; otherwise the files set aside are put
+// back and the new ones removed, leaving the previous set. Either way the
+// directory holds one complete set or, when there was none, nothing.
+//
+// A directory holding another kind of output (a sweep's summary.csv and
+// sweep.json where a run's files would go, or the reverse) is refused with
+// a *KindError that names what is there. Directories written before the
+// manifest existed are recognised by their files (see Kinds).
+//
+// One writer at a time: Open takes a lock file (LockFile) holding the
+// process id and refuses (*BusyError) while another live process holds it;
+// a lock left by a process that no longer runs is taken over.
+//
+// # Invariants
+//
+//   - Only names the manifest lists, names a kind declares, and the staging,
+//     set-aside and lock names of this package are ever removed; other files
+//     in the directory are left alone.
+//   - Staging and set-aside files live in the directory itself, so every
+//     rename stays on one file system.
+package outdir
+
+import (
+	"bufio"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+	"syscall"
+)
+
+// File names this package uses inside an output directory.
+const (
+	ManifestFile = ".cureslab-set.json"
+	LockFile     = ".cureslab.lock"
+	stagingExt   = ".staging"
+	asideExt     = ".previous"
+)
+
+// Kind describes one kind of output set: its name as shown in messages,
+// the files that identify a directory of that kind written without a
+// manifest, and every name the tool may write for it (files or folders),
+// which Commit may remove when a new set does not write them again.
+type Kind struct {
+	Name  string   // "run", "sweep", "comparison"…
+	Marks []string // files whose presence identifies the kind (all must be there)
+	Names []string // every name the tool writes for this kind
+}
+
+// Kinds are the kinds of output set the tool writes; Open recognises an
+// older directory without a manifest by the first kind whose Marks are all
+// present.
+var Kinds []Kind
+
+// Register adds k to Kinds (at package initialisation of the writers) and
+// returns it.
+func Register(k Kind) Kind {
+	Kinds = append(Kinds, k)
+	return k
+}
+
+// KindError refuses a directory that holds another kind of output.
+type KindError struct {
+	Dir   string
+	Want  string   // the kind the command writes
+	Found string   // the kind found there
+	Files []string // what identifies it
+}
+
+func (e *KindError) Error() string {
+	return fmt.Sprintf("the output directory %s holds a %s's output (%s), not a %s's: give another directory (-o), or remove those files first",
+		e.Dir, e.Found, strings.Join(e.Files, ", "), e.Want)
+}
+
+// BusyError refuses a directory that another process is writing.
+type BusyError struct {
+	Dir string
+	PID int
+}
+
+func (e *BusyError) Error() string {
+	return fmt.Sprintf("the output directory %s is being written by another cureslab (process %d, lock file %s): wait for it to finish, or give another directory",
+		e.Dir, e.PID, LockFile)
+}
+
+// manifest is the content of ManifestFile.
+type manifest struct {
+	Kind  string   `json:"kind"`
+	Files []string `json:"files"`
+}
+
+// Set is an output directory open for writing one set of files.
+type Set struct {
+	Dir    string
+	kind   Kind
+	old    []string // the files of the previous set (manifest or kind names present)
+	staged []string // final names staged so far, in order
+	locked bool
+	done   bool
+}
+
+// Open prepares dir (created if missing, with its parents) to receive a set
+// of kind k: it takes the lock, finishes a commit that was cut short, and
+// refuses a directory holding another kind of output.
+//
+// Errors: *BusyError, *KindError, and file-system errors. On error nothing
+// in dir has changed except the recovery of a cut-short commit.
+func Open(dir string, k Kind) (*Set, error) {
+	if dir == "" {
+		return nil, errors.New("the output directory name is empty")
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return nil, err
+	}
+	s := &Set{Dir: dir, kind: k}
+	if err := s.lock(); err != nil {
+		return nil, err
+	}
+	if err := s.prepare(); err != nil {
+		s.unlock()
+		return nil, err
+	}
+	return s, nil
+}
+
+func (s *Set) prepare() error {
+	if err := recoverCommit(s.Dir); err != nil {
+		return err
+	}
+	m, err := readManifest(s.Dir)
+	if err != nil {
+		return err
+	}
+	if m != nil {
+		if m.Kind != s.kind.Name {
+			return &KindError{Dir: s.Dir, Want: s.kind.Name, Found: m.Kind, Files: present(s.Dir, m.Files)}
+		}
+		s.old = m.Files
+		return nil
+	}
+	// No manifest: an older directory, recognised by its files.
+	for _, k := range Kinds {
+		if k.Name == s.kind.Name || len(k.Marks) == 0 {
+			continue
+		}
+		if p := present(s.Dir, k.Marks); len(p) == len(k.Marks) && !slices.Equal(k.Marks, commonMarks(k, s.kind)) {
+			return &KindError{Dir: s.Dir, Want: s.kind.Name, Found: k.Name, Files: p}
+		}
+	}
+	s.old = present(s.Dir, s.kind.Names)
+	return nil
+}
+
+// commonMarks returns the marks of a that b declares as its own names too
+// (a file both kinds write does not tell them apart).
+func commonMarks(a, b Kind) []string {
+	var out []string
+	for _, m := range a.Marks {
+		if slices.Contains(b.Names, m) {
+			out = append(out, m)
+		}
+	}
+	return out
+}
+
+// present returns the names that exist in dir.
+func present(dir string, names []string) []string {
+	var out []string
+	for _, n := range names {
+		if _, err := os.Lstat(filepath.Join(dir, n)); err == nil {
+			out = append(out, n)
+		}
+	}
+	return out
+}
+
+func readManifest(dir string) (*manifest, error) {
+	b, err := os.ReadFile(filepath.Join(dir, ManifestFile))
+	if errors.Is(err, os.ErrNotExist) {
+		return nil, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	var m manifest
+	if err := json.Unmarshal(b, &m); err != nil || m.Kind == "" {
+		return nil, fmt.Errorf("%s: the record of the files in this directory is damaged: remove it and the files it named, or give another directory", filepath.Join(dir, ManifestFile))
+	}
+	for _, f := range m.Files {
+		if !localName(f) {
+			return nil, fmt.Errorf("%s names %q, which is not a file of this directory: remove the record, or give another directory", filepath.Join(dir, ManifestFile), f)
+		}
+	}
+	return &m, nil
+}
+
+// localName reports whether name is one plain name inside the directory.
+func localName(name string) bool {
+	return name != "" && name != "." && name != ".." && !strings.ContainsAny(name, `/\`) && filepath.Base(name) == name
+}
+
+// Stage writes the file name of the set under its staging name through
+// write (buffered, synced and closed before Stage returns); the file goes
+// in place at Commit. On error the staging file is removed.
+func (s *Set) Stage(name string, write func(io.Writer) error) (err error) {
+	if s.done {
+		panic("outdir: Stage after Commit or Abort")
+	}
+	if !localName(name) || !slices.Contains(s.kind.Names, name) {
+		panic("outdir: " + name + " is not a name the kind " + s.kind.Name + " declares")
+	}
+	path := filepath.Join(s.Dir, name+stagingExt)
+	f, err := os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_TRUNC, 0o644)
+	if err != nil {
+		return err
+	}
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(path)
+		}
+	}()
+	bw := bufio.NewWriterSize(f, 64<<10)
+	if err = write(bw); err != nil {
+		return err
+	}
+	if err = bw.Flush(); err != nil {
+		return err
+	}
+	if err = f.Sync(); err != nil {
+		return err
+	}
+	if err = f.Close(); err != nil {
+		return err
+	}
+	s.add(name)
+	return nil
+}
+
+// StageDir creates the folder name of the set under its staging name and
+// returns the staging path to write into; the folder goes in place at
+// Commit.
+func (s *Set) StageDir(name string) (string, error) {
+	if s.done {
+		panic("outdir: StageDir after Commit or Abort")
+	}
+	if !localName(name) || !slices.Contains(s.kind.Names, name) {
+		panic("outdir: " + name + " is not a name the kind " + s.kind.Name + " declares")
+	}
+	path := filepath.Join(s.Dir, name+stagingExt)
+	if err := os.RemoveAll(path); err != nil {
+		return "", err
+	}
+	if err := os.Mkdir(path, 0o755); err != nil {
+		return "", err
+	}
+	s.add(name)
+	return path, nil
+}
+
+func (s *Set) add(name string) {
+	if !slices.Contains(s.staged, name) {
+		s.staged = append(s.staged, name)
+	}
+}
+
+// Staged returns the names staged so far.
+func (s *Set) Staged() []string { return slices.Clone(s.staged) }
+
+// Abort removes everything staged and releases the directory; the previous
+// set stays as it was. Abort after Commit does nothing.
+func (s *Set) Abort() {
+	if s.done {
+		return
+	}
+	s.done = true
+	for _, n := range s.staged {
+		os.RemoveAll(filepath.Join(s.Dir, n+stagingExt))
+	}
+	os.Remove(filepath.Join(s.Dir, ManifestFile+stagingExt))
+	s.unlock()
+}
+
+// rename is os.Rename; tests replace it to fail or stop part-way.
+var rename = os.Rename
+
+// Commit puts the staged files in place as the directory's one set: the
+// previous set's files (and any name of the kind not written now) are moved
+// aside, the staged ones renamed into place with the manifest last, and
+// the files set aside deleted. If a rename fails, the files put in place are
+// removed and the previous ones put back, and the error returned; the
+// directory then holds the previous set. The lock is released either way.
+func (s *Set) Commit() error {
+	if s.done {
+		panic("outdir: Commit after Commit or Abort")
+	}
+	defer s.unlock()
+	s.done = true
+	m := manifest{Kind: s.kind.Name, Files: slices.Clone(s.staged)}
+	b, _ := json.MarshalIndent(m, "", "  ")
+	if err := writeSynced(filepath.Join(s.Dir, ManifestFile+stagingExt), append(b, '\n')); err != nil {
+		s.removeStaged()
+		return err
+	}
+	// Everything of the previous set, of this kind, and the manifest goes
+	// aside.
+	var aside []string
+	for _, n := range union(s.old, s.kind.Names, s.staged, []string{ManifestFile}) {
+		p := filepath.Join(s.Dir, n)
+		if _, err := os.Lstat(p); err != nil {
+			continue
+		}
+		os.RemoveAll(p + asideExt)
+		if err := rename(p, p+asideExt); err != nil {
+			s.rollback(aside, nil)
+			return fmt.Errorf("putting the previous %s aside: %w", n, err)
+		}
+		aside = append(aside, n)
+	}
+	var placed []string
+	for _, n := range append(slices.Clone(s.staged), ManifestFile) {
+		p := filepath.Join(s.Dir, n)
+		if err := rename(p+stagingExt, p); err != nil {
+			s.rollback(aside, placed)
+			return fmt.Errorf("putting %s in place: %w", n, err)
+		}
+		placed = append(placed, n)
+	}
+	for _, n := range aside {
+		os.RemoveAll(filepath.Join(s.Dir, n+asideExt))
+	}
+	syncDir(s.Dir)
+	return nil
+}
+
+// rollback removes the placed files and the staged ones, and puts the
+// files set aside back.
+func (s *Set) rollback(aside, placed []string) {
+	for _, n := range placed {
+		os.RemoveAll(filepath.Join(s.Dir, n))
+	}
+	s.removeStaged()
+	for _, n := range aside {
+		p := filepath.Join(s.Dir, n)
+		os.Rename(p+asideExt, p)
+	}
+}
+
+func (s *Set) removeStaged() {
+	for _, n := range s.staged {
+		os.RemoveAll(filepath.Join(s.Dir, n+stagingExt))
+	}
+	os.Remove(filepath.Join(s.Dir, ManifestFile+stagingExt))
+}
+
+// recoverCommit finishes a commit that was cut short in dir (see the
+// package doc).
+func recoverCommit(dir string) error {
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		return err
+	}
+	// Only names this tool writes are considered: a user's own file that
+	// happens to end in .staging or .previous is left alone.
+	ours := []string{ManifestFile}
+	for _, k := range Kinds {
+		ours = append(ours, k.Names...)
+	}
+	for _, f := range []string{ManifestFile, ManifestFile + stagingExt} {
+		if b, err := os.ReadFile(filepath.Join(dir, f)); err == nil {
+			var m manifest
+			if json.Unmarshal(b, &m) == nil {
+				ours = append(ours, m.Files...)
+			}
+		}
+	}
+	var aside, staged []string
+	for _, e := range ents {
+		n := e.Name()
+		switch {
+		case strings.HasSuffix(n, asideExt) && slices.Contains(ours, strings.TrimSuffix(n, asideExt)):
+			aside = append(aside, strings.TrimSuffix(n, asideExt))
+		case strings.HasSuffix(n, stagingExt) && slices.Contains(ours, strings.TrimSuffix(n, stagingExt)):
+			staged = append(staged, strings.TrimSuffix(n, stagingExt))
+		}
+	}
+	if len(aside) == 0 && len(staged) == 0 {
+		return nil
+	}
+	// The commit was done when the new manifest is in place: it is renamed
+	// last, and its staging file exists until then.
+	_, errM := os.Stat(filepath.Join(dir, ManifestFile))
+	done := errM == nil && !slices.Contains(staged, ManifestFile)
+	if !done {
+		// Roll back: the new files already in place are those named by
+		// the staged manifest without a staging file left.
+		if b, err := os.ReadFile(filepath.Join(dir, ManifestFile+stagingExt)); err == nil {
+			var m manifest
+			if json.Unmarshal(b, &m) == nil {
+				for _, n := range m.Files {
+					if localName(n) && !slices.Contains(staged, n) {
+						os.RemoveAll(filepath.Join(dir, n))
+					}
+				}
+			}
+		}
+		for _, n := range aside {
+			p := filepath.Join(dir, n)
+			if err := os.Rename(p+asideExt, p); err != nil {
+				return fmt.Errorf("restoring %s after an interrupted write: %w", p, err)
+			}
+		}
+	} else {
+		for _, n := range aside {
+			os.RemoveAll(filepath.Join(dir, n+asideExt))
+		}
+	}
+	for _, n := range staged {
+		os.RemoveAll(filepath.Join(dir, n+stagingExt))
+	}
+	return nil
+}
+
+func union(lists ...[]string) []string {
+	var out []string
+	for _, l := range lists {
+		for _, n := range l {
+			if !slices.Contains(out, n) {
+				out = append(out, n)
+			}
+		}
+	}
+	return out
+}
+
+func writeSynced(path string, b []byte) error {
+	f, err := os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_TRUNC, 0o644)
+	if err != nil {
+		return err
+	}
+	if _, err := f.Write(b); err != nil {
+		f.Close()
+		return err
+	}
+	if err := f.Sync(); err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
+}
+
+// syncDir makes the renames in dir durable where the system allows it.
+func syncDir(dir string) {
+	if f, err := os.Open(dir); err == nil {
+		f.Sync()
+		f.Close()
+	}
+}
+
+// lock takes dir's lock file: created exclusively with this process's id;
+// a lock whose process no longer runs is replaced.
+func (s *Set) lock() error {
+	path := filepath.Join(s.Dir, LockFile)
+	for range 3 {
+		f, err := os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
+		if err == nil {
+			_, err = fmt.Fprintf(f, "%d\n", os.Getpid())
+			f.Close()
+			if err != nil {
+				os.Remove(path)
+				return err
+			}
+			s.locked = true
+			return nil
+		}
+		if !errors.Is(err, os.ErrExist) {
+			return err
+		}
+		b, _ := os.ReadFile(path)
+		pid, perr := strconv.Atoi(strings.TrimSpace(string(b)))
+		if perr == nil && pid > 0 && pid != os.Getpid() && alive(pid) {
+			return &BusyError{Dir: s.Dir, PID: pid}
+		}
+		if perr == nil && pid == os.Getpid() {
+			return &BusyError{Dir: s.Dir, PID: pid}
+		}
+		// Stale (its process is gone) or unreadable: take it over.
+		os.Remove(path)
+	}
+	return fmt.Errorf("cannot take the lock %s", path)
+}
+
+func (s *Set) unlock() {
+	if s.locked {
+		os.Remove(filepath.Join(s.Dir, LockFile))
+		s.locked = false
+	}
+}
+
+// alive reports whether a process with this id runs.
+func alive(pid int) bool {
+	p, err := os.FindProcess(pid)
+	if err != nil {
+		return false
+	}
+	err = p.Signal(syscall.Signal(0))
+	return err == nil || errors.Is(err, syscall.EPERM)
+}
