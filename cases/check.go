@@ -941,16 +941,20 @@ func chkVolumetric(p *textout.Printer, c *Case) []string {
 type chkWave struct {
 	pUncured, pCured []float64
 	uncured, cured   physics.WaveShares
-	S                float64 // incident power density, W/m²; 1 for an exponential mode
+	S                float64 // incident power density of each source, W/m²; 1 for an exponential mode
+	sources          float64 // 2 under IncidentBoth, else 1
 }
 
 // chkStanding solves the plane wave of the stack of pr over band from inc
 // (stackWave) at the start and fully cured, scaled by v's incident power
 // (per W/m² when there is none).
 func chkStanding(pr *solver.Problem, v *physics.Volumetric, band physics.Band, inc physics.Incidence) *chkWave {
-	w := &chkWave{S: v.IncidentPower}
+	w := &chkWave{S: v.IncidentPower, sources: 1}
 	if !(w.S > 0) {
 		w.S = 1
+	}
+	if inc == physics.IncidentBoth {
+		w.sources = 2
 	}
 	w.pUncured, w.uncured = stackWave(pr, band, inc, pr.InitialTemperature, pr.InitialCure)
 	w.pCured, w.cured = stackWave(pr, band, inc, pr.InitialTemperature, 1)
@@ -962,8 +966,8 @@ func chkStanding(pr *solver.Problem, v *physics.Volumetric, band physics.Band, i
 }
 
 // layer returns the thickness-weighted mean, least and largest of P (per
-// cell) over layer j, and the layer's share of the incident power (both
-// sources counted once each).
+// cell) over layer j, and the layer's share of the incident power (of both
+// sources together under IncidentBoth).
 func (w *chkWave) layer(m *mesh.Mesh, j int, P []float64) (mean, lo, hi, share float64) {
 	lo = math.Inf(1)
 	sum := 0.0
@@ -972,7 +976,7 @@ func (w *chkWave) layer(m *mesh.Mesh, j int, P []float64) (mean, lo, hi, share f
 		lo, hi = min(lo, P[i]), max(hi, P[i])
 	}
 	th := m.Faces[m.First[j+1]] - m.Faces[m.First[j]]
-	return sum / th, lo, hi, sum / w.S
+	return sum / th, lo, hi, sum / (w.S * w.sources)
 }
 
 // chkPowerUnit returns the scale and unit for power densities up to m W/m³.

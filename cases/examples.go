@@ -20,9 +20,11 @@ type Example struct {
 // exampleSummaries lists the embedded examples, each stored as
 // examples/<name>.toml; a test checks that the two agree.
 var exampleSummaries = map[string]string{
-	"thick-potting-microwave": "the same potting cured by controlled microwave heating, the bottom of the resin held on a 65 C program",
-	"thick-potting-oven":      "12 mm of an invented potting epoxy in an aluminium cup cured at 65 C: exotherm overshoot, lagging bottom",
-	"tile-on-spreader":        "alumina tile bonded to an aluminium spreader warming in an oven: pure conduction, no cure",
+	"thick-potting-6ghz":       "the microwave potting at 6.25 GHz: a second node of the standing wave under the surface, the sensor at mid-depth",
+	"thick-potting-6ghz-swept": "the same part with the frequency swept over 5.85-6.65 GHz: what a band changes (and what it cannot)",
+	"thick-potting-microwave":  "the same potting under a 2.45 GHz plane wave in its metal cup: a node on the metal, the sensor where the resin is hottest",
+	"thick-potting-oven":       "12 mm of an invented potting epoxy in an aluminium cup cured at 65 C: exotherm overshoot, lagging bottom",
+	"tile-on-spreader":         "alumina tile bonded to an aluminium spreader warming in an oven: pure conduction, no cure",
 }
 
 // Examples returns the embedded examples sorted by name. Each call returns

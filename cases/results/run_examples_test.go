@@ -132,3 +132,49 @@ func ExamplePrintSummary() {
 	//   criterion min_cure  0.86 >= 0.9  FAILED
 	// FAILED min_cure: 0.86 at 0.45 mm < 0.9
 }
+
+// TestControlledExamplesHoldSensor runs every example under closed-loop
+// volumetric control and checks that its sensor stays within ±1 K of the
+// program at every output time after the first 10 minutes while the
+// controller is not saturated (0 < u < 1; at u = 0 an exotherm may carry the
+// part above the program, at u = 1 the power may not suffice). Closed-loop
+// microwave cure systems hold about ±1 °C (common practice). Every one of
+// these examples meets its criteria.
+func TestControlledExamplesHoldSensor(t *testing.T) {
+	n := 0
+	for _, ex := range cases.Examples() {
+		c, err := cases.Parse(ex.Name+".toml", ex.Text, "")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !cases.Controlled(c.Problem) {
+			continue
+		}
+		n++
+		r, err := solver.Run(context.Background(), c.Problem)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ctl := c.Problem.Volumetric.Control
+		k := cases.SensorProbe(c.Problem.Probes, ctl.Sensor)
+		worst, free := 0.0, 0
+		for _, s := range r.Snapshots {
+			if s.Time < 600 || !(s.PowerFraction > 0 && s.PowerFraction < 1) {
+				continue
+			}
+			free++
+			worst = max(worst, math.Abs(s.ProbeT[k]-ctl.Program.At(s.Time)))
+		}
+		sum := Summarize(c, r)
+		t.Logf("%s: worst %.3f K over %d unsaturated output times; status %s", ex.Name, worst, free, sum.Status)
+		if worst > 1 || free < len(r.Snapshots)/2 {
+			t.Errorf("%s: sensor off its program by %.3f K while unsaturated (%d of %d output times unsaturated)", ex.Name, worst, free, len(r.Snapshots))
+		}
+		if sum.Status != StatusOK {
+			t.Errorf("%s: status %q, want every criterion met", ex.Name, sum.Status)
+		}
+	}
+	if n < 3 {
+		t.Errorf("%d controlled examples, want at least 3", n)
+	}
+}

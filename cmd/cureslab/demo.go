@@ -19,14 +19,14 @@ var demoCmd = &Command{
 	Args:  "[-o DIR]",
 	Short: "run the embedded examples end to end",
 	Long: `Run every embedded example case (see 'cureslab example') into DIR/NAME/
-(default ./cureslab-demo) and print the summary of each, then set the same
-potting cured in an oven and by controlled microwave heating side by side
-(as 'cureslab compare' does; the table goes to DIR/compare/compare.csv). The
-examples use invented resins: they show the tool, not any real product.
+(default ./cureslab-demo) and print the summary of each, then set examples
+side by side as 'cureslab compare' does: the same potting cured in an oven and
+by controlled microwave heating (DIR/compare/), and the microwave potting at
+one frequency and swept over a band (DIR/compare-6ghz/). The examples use
+invented resins: they show the tool, not any real product.
 
-Some examples fail a criterion on purpose (the microwave potting does not reach
-its minimum cure at 65 C): the demo prints the verdicts and counts such a run
-as done. Exit status: 0 every example ran, 2 an output could not be written,
+The demo prints each example's verdicts and counts a run that fails a
+criterion as done. Exit status: 0 every example ran, 2 an output could not be written,
 3 an example ran away or failed numerically.`,
 	Example: "cureslab demo -o demo-out",
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
@@ -75,20 +75,31 @@ as done. Exit status: 0 every example ran, 2 an output could not be written,
 				started := s.Status != results.StatusFailed || s.Message != ""
 				ran[ex.Name] = results.Compared{Name: ex.Name, Case: c, Ran: started, Summary: s, Result: r}
 			}
-			return max(worst, demoCompare(e, ran, filepath.Join(*out, "compare"), opt))
+			for _, dc := range demoComparisons {
+				worst = max(worst, demoCompare(e, ran, dc.names, filepath.Join(*out, dc.dir), opt))
+			}
+			return worst
 		}
 	},
 }
 
-// demoComparison names the examples the demo sets side by side: the same
-// potting cured in an oven and by controlled volumetric heating.
-var demoComparison = []string{"thick-potting-oven", "thick-potting-microwave"}
+// demoComparisons are the examples the demo sets side by side, each into
+// its own directory: the same potting cured in an oven and by controlled
+// volumetric heating; the microwave potting at one frequency and swept over
+// a band.
+var demoComparisons = []struct {
+	dir   string
+	names []string
+}{
+	{"compare", []string{"thick-potting-oven", "thick-potting-microwave"}},
+	{"compare-6ghz", []string{"thick-potting-6ghz", "thick-potting-6ghz-swept"}},
+}
 
-// demoCompare prints the comparison of the demoComparison examples that ran
-// and writes dir/compare.csv. It returns the exit status of a write error.
-func demoCompare(e *env, ran map[string]results.Compared, dir string, opt simulate.Options) int {
+// demoCompare prints the comparison of the named examples that ran and
+// writes dir/compare.csv. It returns the exit status of a write error.
+func demoCompare(e *env, ran map[string]results.Compared, names []string, dir string, opt simulate.Options) int {
 	var rows []results.Compared
-	for _, name := range demoComparison {
+	for _, name := range names {
 		if r, ok := ran[name]; ok {
 			rows = append(rows, r)
 		}
@@ -96,7 +107,7 @@ func demoCompare(e *env, ran map[string]results.Compared, dir string, opt simula
 	if len(rows) < 2 {
 		return exitOK
 	}
-	fmt.Fprintf(e.stdout, "\n== comparison: %s\n", strings.Join(demoComparison, " vs "))
+	fmt.Fprintf(e.stdout, "\n== comparison: %s\n", strings.Join(names, " vs "))
 	err := os.MkdirAll(dir, 0o755)
 	if err == nil {
 		err = results.WriteComparison(dir, rows)
