@@ -30,6 +30,11 @@ type Case struct {
 	// Volumetric describes [volumetric] as written, nil without one; the
 	// resolved heating is Problem.Volumetric.
 	Volumetric *VolumetricInfo
+
+	// Notes says, one sentence each, what a sweep or an uncertainty sample
+	// changed in the case beyond its values (a probe below a thinner stack
+	// left out); empty for a case loaded from its file.
+	Notes []string
 }
 
 // LayerInfo is one layer as the user described it.

@@ -15,16 +15,58 @@ import (
 	"cureslab/solver"
 )
 
-// Cautions returns the cautions that cureslab shows with its results, one sentence per element, in plain text. check prints them; the
-// README and the report show the same list.
-func Cautions() []string {
-	return []string{
-		"A simulation does not replace a qualified trial on the real part: confirm what it predicts with measurements before relying on it.",
-		"Take resin data from the supplier's technical and safety data sheets and from your own measurements (DSC, thermal properties); the built-in values are generic handbook figures.",
-		"A large mass of reacting resin can heat itself until it smokes or catches fire: keep batch sizes, oven loads and casting thicknesses within the supplier's limits.",
-		"Microwave and dielectric heating equipment must meet the leakage limits and interlock rules that apply where it is used.",
-		"Local codes and your site's licensed practice come first wherever they differ from anything this tool suggests.",
+// CautionScope says what a printout or a page is about, so that it carries
+// the cautions that apply to it and no others. The zero value is a page
+// about heat conduction alone.
+type CautionScope struct {
+	Curing     bool // a reacting resin: self-heating, smoke and fire
+	Volumetric bool // microwave or dielectric heating equipment
+}
+
+// The cautions, one sentence each, in plain text; which apply is decided
+// by Cautions.
+const (
+	cautionTrial       = "A simulation does not replace a qualified trial on the real part: confirm what it predicts with measurements before relying on it."
+	cautionData        = "Take resin data from the supplier's technical and safety data sheets and from your own measurements (DSC, thermal properties); the built-in values are generic handbook figures."
+	cautionSelfHeating = "A large mass of reacting resin can heat itself until it smokes or catches fire: keep batch sizes, oven loads and casting thicknesses within the supplier's limits."
+	cautionMicrowave   = "Microwave and dielectric heating equipment must meet the leakage limits and interlock rules that apply where it is used."
+	cautionCodes       = "Local codes and your site's licensed practice come first wherever they differ from anything this tool suggests."
+)
+
+// Cautions returns the cautions that cureslab shows with its results for
+// the given scope: always that a simulation is no substitute for a trial,
+// where resin and material data must come from, and that local codes and
+// licensed practice come first; the self-heating caution when a resin
+// cures; the leakage and interlock caution under volumetric heating. check
+// prints them for its case, and each report page for what it shows.
+func Cautions(sc CautionScope) []string {
+	out := []string{cautionTrial, cautionData}
+	if sc.Curing {
+		out = append(out, cautionSelfHeating)
 	}
+	if sc.Volumetric {
+		out = append(out, cautionMicrowave)
+	}
+	return append(out, cautionCodes)
+}
+
+// AllCautions returns every caution (the README lists them all).
+func AllCautions() []string { return Cautions(CautionScope{Curing: true, Volumetric: true}) }
+
+// ScopeOf returns the caution scope of the case c: whether a layer cures and
+// whether it has volumetric heating.
+func ScopeOf(c *Case) CautionScope {
+	var sc CautionScope
+	if c == nil || c.Problem == nil {
+		return sc
+	}
+	for _, m := range c.Problem.Materials {
+		if m != nil && m.Cure != nil {
+			sc.Curing = true
+		}
+	}
+	sc.Volumetric = c.Problem.Volumetric != nil
+	return sc
 }
 
 // MaxNeighbourRatio is the size ratio of neighbouring cells above which
@@ -61,7 +103,7 @@ func Check(w io.Writer, c *Case) error {
 		p.Printf("  - %s\n", s)
 	}
 	p.Printf("\nCautions\n")
-	for _, s := range Cautions() {
+	for _, s := range Cautions(ScopeOf(c)) {
 		p.Printf("  - %s\n", s)
 	}
 	return p.Err

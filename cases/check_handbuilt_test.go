@@ -102,18 +102,56 @@ func TestEstimates(t *testing.T) {
 }
 
 func TestCheckCautions(t *testing.T) {
-	out := string(checkOutput(t, testkit.HandBuiltCase(t)))
-	for _, s := range cases.Cautions() {
+	c := testkit.HandBuiltCase(t)
+	out := string(checkOutput(t, c))
+	for _, s := range cases.Cautions(cases.ScopeOf(c)) {
 		if !strings.Contains(out, s) {
 			t.Errorf("check output lacks the caution %q", s)
 		}
 	}
 	// The subjects every caution list must cover (common practice for
 	// exotherm, fire and microwave exposure); our wording must cover each.
-	all := strings.ToLower(strings.Join(cases.Cautions(), " "))
+	all := strings.ToLower(strings.Join(cases.AllCautions(), " "))
 	for _, w := range []string{"trial", "data sheets", "fire", "leakage", "interlock", "local codes", "licensed practice"} {
 		if !strings.Contains(all, w) {
 			t.Errorf("the cautions do not mention %q", w)
+		}
+	}
+}
+
+// TestCheckCautionsApply: check shows the cautions that apply to its case
+// and no others: the leakage and interlock caution only with volumetric
+// heating, the self-heating caution only with a curing layer.
+func TestCheckCautionsApply(t *testing.T) {
+	leak := "leakage limits and interlock rules"
+	fire := "smokes or catches fire"
+	for _, tc := range []struct {
+		example            string
+		wantLeak, wantFire bool
+	}{
+		{"thick-potting-oven", false, true},
+		{"thick-potting-microwave", true, true},
+		{"tile-on-spreader", false, false},
+	} {
+		ex, ok := cases.ExampleByName(tc.example)
+		if !ok {
+			t.Fatalf("no example %s", tc.example)
+		}
+		c, err := cases.Parse(tc.example+".toml", ex.Text, "")
+		if err != nil {
+			t.Fatal(err)
+		}
+		out := string(checkOutput(t, c))
+		if got := strings.Contains(out, leak); got != tc.wantLeak {
+			t.Errorf("%s: leakage caution shown %v, want %v", tc.example, got, tc.wantLeak)
+		}
+		if got := strings.Contains(out, fire); got != tc.wantFire {
+			t.Errorf("%s: self-heating caution shown %v, want %v", tc.example, got, tc.wantFire)
+		}
+		for _, always := range []string{"qualified trial", "Local codes"} {
+			if !strings.Contains(out, always) {
+				t.Errorf("%s: the caution on %q is missing", tc.example, always)
+			}
 		}
 	}
 }

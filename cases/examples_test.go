@@ -61,7 +61,7 @@ func ExampleAdiabaticRise() {
 
 func ExampleExampleByName() {
 	ex, ok := ExampleByName("tile-on-spreader")
-	fmt.Println(ok, strings.Contains(string(ex.Text), `material = "alumina"`))
+	fmt.Println(ok, strings.Contains(string(ex.Text), `material = "alumina-96"`))
 	// Output:
 	// true true
 }

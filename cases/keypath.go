@@ -1,6 +1,7 @@
 package cases
 
 import (
+	"cureslab/cases/internal/num"
 	"cureslab/cases/units"
 	"cureslab/physics"
 	"errors"
@@ -17,7 +18,8 @@ import (
 // [output] probes below the stack, and keep does not claim them (a varied
 // probe must fail its run), those probes are dropped from t and the tree is
 // parsed again: a probe that a thinner sample puts outside the stack does not
-// enter the summary, so the run goes on without it.
+// enter the summary, so the run goes on without it, and the case's Notes
+// say which probes were left out.
 func parseDroppingProbes(name, text, dir string, t map[string]any, keep func(path string) bool) (*Case, error) {
 	c, err := parseTree(name, text, t, dir)
 	var list ErrorList
@@ -36,13 +38,25 @@ func parseDroppingProbes(name, text, dir string, t map[string]any, keep func(pat
 		drop[i] = true
 	}
 	kept := make([]any, 0, len(probes))
+	var left []string
 	for i, p := range probes {
 		if !drop[i] {
 			kept = append(kept, p)
+		} else {
+			left = append(left, fmt.Sprintf("output.probes.%d (%v)", i, p))
 		}
 	}
 	out["probes"] = kept
-	return parseTree(name, text, t, dir)
+	c, err = parseTree(name, text, t, dir)
+	if err == nil {
+		word := "probe"
+		if len(left) > 1 {
+			word = "probes"
+		}
+		c.Notes = append(c.Notes, fmt.Sprintf("left out the %s below the %s mm stack of this run: %s",
+			word, num.FormatDepth(c.Problem.Mesh.Thickness()), strings.Join(left, ", ")))
+	}
+	return c, err
 }
 
 // leaf returns the value at a path found by resolveKey.
@@ -581,12 +595,12 @@ func (v *CaseVariant) Parse(t map[string]any) (*Case, error) {
 
 // sweepSection returns the [sweep] section of the case (empty when it has
 // none). The case was validated by newCaseVariant, so it has no errors.
-func (v *CaseVariant) SweepSection() *SweepSpec {
+func (v *CaseVariant) SweepSection() *sweepSpec {
 	l := &loader{file: v.Name, dir: v.dir, loc: newLocator(v.Text)}
 	if spec := l.sweepSection(&table{m: v.Doc}); spec != nil {
 		return spec
 	}
-	return &SweepSpec{}
+	return &sweepSpec{}
 }
 
 // errorAt returns an error of the given kind positioned at the value of the

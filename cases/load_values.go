@@ -19,8 +19,12 @@ type loader struct {
 	loc  *locator
 	errs ErrorList
 	// suggested holds the key paths offered as "did you mean" for an
-	// unknown key; require does not also report them as missing.
+	// unknown key; require does not also report them as missing, and
+	// [uncertainty] does not report them as absent.
 	suggested map[string]bool
+	// unknown holds the key paths reported as unknown keys; no message
+	// offers them as a suggestion.
+	unknown map[string]bool
 }
 
 // add records an error at p for key path key.
@@ -88,6 +92,10 @@ func (l *loader) open(path string, v any, valid []string, note func(key string) 
 			continue
 		}
 		kp := t.keyPath(k)
+		if l.unknown == nil {
+			l.unknown = make(map[string]bool)
+		}
+		l.unknown[kp] = true
 		if note != nil {
 			if s := note(k); s != "" {
 				l.atKey(kp, ErrUnknownKey, "unknown key %q: %s", k, s)

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -178,9 +179,20 @@ func (l *loader) uncertainInput(root *table, key, lp, spread, dist string) (Unce
 		return in, false
 	}
 	if !exists {
+		if l.suggested[strings.Join(path, ".")] {
+			// The key is misspelt where it is set: the unknown-key
+			// message says so and offers this one.
+			return in, false
+		}
 		hint := ""
 		if m, ok := Leaf(root.m, path[:len(path)-1]).(map[string]any); ok {
-			hint = DidYouMeanKey(path[len(path)-1], sortedKeys(m))
+			var known []string
+			for _, k := range sortedKeys(m) {
+				if !l.unknown[strings.Join(append(slices.Clip(path[:len(path)-1]), k), ".")] {
+					known = append(known, k)
+				}
+			}
+			hint = DidYouMeanKey(path[len(path)-1], known)
 		}
 		l.atKey("uncertainty."+key, ErrReference, "the case has no value at %s to be uncertain%s", key, hint).Hint =
 			"only a value written in the case can be uncertain: set it in the case first"

@@ -98,6 +98,7 @@ func ExampleLibrary() {
 	// Output:
 	// name                ρ kg/m³  cp J/(kg·K)  k W/(m·K)
 	// alumina             3970     765          36
+	// alumina-96          3720     880          24.7
 	// aluminium           2702     903          237
 	// aluminium-2024      2770     875          177
 	// aluminium-6061      2700     896          167

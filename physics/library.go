@@ -25,6 +25,8 @@ const incropera = "Incropera, DeWitt, Bergman & Lavine, Fundamentals of Heat and
 var library = []builtin{
 	{"alumina", 3970, 765, 36.0,
 		incropera + " (Table A.2, table number from memory), aluminium oxide (polycrystalline) at 300 K: rho, cp, k confirmed", false},
+	{"alumina-96", 3720, 880, 24.7,
+		"96 % alumina (Al2O3) ceramic, the usual grade of substrates and tiles, at 20 C: rho 3720, cp 880, k 24.7, as tabulated in alumina makers' data sheets for the grade (e.g. CoorsTek, Kyocera; from memory: check your supplier's sheet, k of 96 % grades spans about 20-26)", false},
 	{"aluminium", 2702, 903, 237,
 		incropera + " (Table A.1, table number from memory), pure aluminium at 300 K: rho, cp, k confirmed", true},
 	{"aluminium-2024", 2770, 875, 177,

@@ -8,7 +8,7 @@ import (
 
 // libraryNames are the built-in names other packages and the examples use.
 var libraryNames = []string{
-	"alumina", "aluminium", "aluminium-2024", "aluminium-6061", "borosilicate-glass",
+	"alumina", "alumina-96", "aluminium", "aluminium-2024", "aluminium-6061", "borosilicate-glass",
 	"carbon-steel", "copper", "epoxy-cured", "fr4", "ptfe", "silicon",
 	"soda-lime-glass", "stainless-304",
 }
@@ -72,6 +72,8 @@ func TestLibraryValues(t *testing.T) {
 		{"silicon", 2330, 712, 148, "confirmed"},
 		// Source: Incropera App. A Table A.2, polycrystalline aluminium oxide, 300 K (confirmed)
 		{"alumina", 3970, 765, 36.0, "polycrystalline"},
+		// Source: 96 % alumina ceramic, makers' data sheets for the grade (from memory)
+		{"alumina-96", 3720, 880, 24.7, "from memory"},
 		// Source: Incropera App. A, plain carbon steel (from memory)
 		{"carbon-steel", 7854, 434, 60.5, "from memory"},
 		// Source: Incropera App. A, AISI 304 (from memory)

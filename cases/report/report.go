@@ -112,9 +112,9 @@ type runData struct {
 	Probes  []probeData
 	Drivers []seriesData // driving temperatures (air), °C per time
 	Power   []float64    // power fraction per time; nil when not controlled
-	// Absorbed is the volumetric power absorbed per cell, W/m³ [time][cell]
-	// (fields.csv power_W_per_m3); nil without volumetric heating.
-	Absorbed [][]float64
+	// Volumetric reports that the run had volumetric heating (from the
+	// case, or from the output files: a power column).
+	Volumetric bool
 }
 
 // layerData is one layer of the stack as the report shows it.
@@ -153,10 +153,10 @@ type runTable struct {
 	LayerOf []string // layer name per cell
 	T, Cure [][]float64
 
-	Probes   []probeData
-	Drivers  []seriesData
-	Power    []float64
-	Absorbed [][]float64 // nil without the power column
+	Probes     []probeData
+	Drivers    []seriesData
+	Power      []float64
+	Volumetric bool
 }
 
 // runDataOf builds the report data of a run in memory, with every value
@@ -166,7 +166,7 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 	p := c.Problem
 	m := p.Mesh
 	n := m.Cells()
-	tb := &runTable{Summary: s, GelPoint: map[string]float64{}}
+	tb := &runTable{Summary: s, GelPoint: map[string]float64{}, Volumetric: p.Volumetric != nil}
 	curing := make([]bool, n)
 	for i := range n {
 		j := m.Owner[i]
@@ -188,7 +188,8 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 	if p.Bottom.Kind == physics.Convection {
 		air = append(air, seriesData{Column: "air_bottom_C"})
 	}
-	controlled := p.Volumetric != nil && p.Volumetric.Control != nil // probes.csv has power_fraction
+	controlled := p.Volumetric != nil && p.Volumetric.Control != nil // probes.csv has program_C and power_fraction
+	var prog []float64
 	for k := range r.Snapshots {
 		s := &r.Snapshots[k]
 		if len(s.T) != n {
@@ -206,13 +207,6 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 		}
 		tb.T = append(tb.T, T)
 		tb.Cure = append(tb.Cure, a)
-		if p.Volumetric != nil {
-			P := make([]float64, n)
-			for i := range n {
-				P[i] = num.RoundSig(num.At(s.Power, i))
-			}
-			tb.Absorbed = append(tb.Absorbed, P)
-		}
 		for j := range tb.Probes {
 			pr := &tb.Probes[j]
 			pr.T = append(pr.T, num.Round(num.KtoC(num.At(s.ProbeT, j)), 6))
@@ -226,6 +220,7 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 			air[j].Values = append(air[j].Values, num.Round(num.KtoC(v), 6))
 		}
 		if controlled {
+			prog = append(prog, num.Round(num.KtoC(p.Volumetric.Control.Program.At(s.Time)), 6))
 			tb.Power = append(tb.Power, num.RoundSig(s.PowerFraction))
 		}
 	}
@@ -236,6 +231,9 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 	}
 	for _, a := range air {
 		tb.Drivers = append(tb.Drivers, seriesData{Column: a.Column, Name: driverName(a.Column), Values: a.Values})
+	}
+	if controlled {
+		tb.Drivers = append(tb.Drivers, seriesData{Column: results.ProgramColumn, Name: driverName(results.ProgramColumn), Values: prog})
 	}
 	return newRunData(tb, "")
 }
@@ -266,6 +264,8 @@ func driverName(col string) string {
 		return "air, top face"
 	case "air_bottom_C":
 		return "air, bottom face"
+	case results.ProgramColumn:
+		return "control program"
 	}
 	name := col[:len(col)-len("_C")]
 	b := []byte(name)
@@ -296,7 +296,8 @@ func newRunData(tb *runTable, file string) (*runData, error) {
 	d := &runData{
 		Title: tb.Summary.Title, Summary: tb.Summary,
 		Times: tb.Times, Centers: tb.Centers, T: tb.T, Cure: tb.Cure,
-		Probes: tb.Probes, Drivers: tb.Drivers, Power: tb.Power, Absorbed: tb.Absorbed,
+		Probes: tb.Probes, Drivers: tb.Drivers, Power: tb.Power,
+		Volumetric: tb.Volumetric || tb.Power != nil,
 	}
 	d.Faces = make([]float64, n+1)
 	for i, c := range tb.Centers {

@@ -70,6 +70,12 @@ func WriteCompareReport(dir string, rows []results.Compared) error {
 // that did not run.
 func renderCompareReport(w io.Writer, names []string, ds []*runData, now time.Time) error {
 	pg := &page{Title: "Comparison: " + strings.Join(names, " · "), Kind: "comparison", Drawn: stamp(now)}
+	for _, d := range ds {
+		if d != nil {
+			pg.Scope.Curing = pg.Scope.Curing || curingLayers(d) > 0
+			pg.Scope.Volumetric = pg.Scope.Volumetric || d.Volumetric
+		}
+	}
 	ran := 0
 	worst := ""
 	for i, d := range ds {
@@ -117,16 +123,6 @@ func renderCompareReport(w io.Writer, names []string, ds []*runData, now time.Ti
 	}
 	pg.Sections = append(pg.Sections, section{ID: "profiles", Heading: "Final profiles through the thickness",
 		Body: figureHTML(svg, "Temperature and degree of cure through the thickness at the last output time of each case. Depth 0 is the top face.")})
-	svg, err = compareAbsorbedFigure(names, ds)
-	if err != nil {
-		return err
-	}
-	if svg != "" {
-		pg.Sections = append(pg.Sections, section{ID: "absorbed-power", Heading: "Absorbed power through the thickness",
-			Body: figureHTML(svg, "Power absorbed per unit volume at full output (the power divided by the controller's power fraction), "+
-				"through the thickness of each case with volumetric heating, at its first output time with power: the field in the uncured part. "+
-				"One frequency against a swept band shows what the sweep fills in; a node on the face of a metal stays whatever the frequency. Depth 0 is the top face.")})
-	}
 	return renderPage(w, pg)
 }
 
@@ -141,47 +137,22 @@ func withSuffix(names []string, suffix string) []string {
 // compareTable sets the summaries of the cases side by side, one column per
 // case, with a row per criterion that any case sets.
 func compareTable(names []string, ds []*runData) template.HTML {
-	head := append([]string{""}, names...)
-	type rowFn func(d *runData) string
-	f := func(x results.Float) float64 { return float64(x) }
-	rowsDef := []struct {
-		name string
-		fn   rowFn
-	}{
-		{"status", func(d *runData) string { return d.Summary.Status }},
-		{"peak temperature", func(d *runData) string {
-			s := d.Summary
-			return fmt.Sprintf("%s at %s, t = %s", fmtC(f(s.PeakTemperatureC)), fmtMM(f(s.PeakDepthMM)), fmtTime(f(s.PeakTimeS)))
-		}},
-		{"overshoot", func(d *runData) string {
-			if !results.OutOK(d.Summary.OvershootK) {
-				return "n/a"
-			}
-			return fmt.Sprintf("%+.1f K", f(d.Summary.OvershootK))
-		}},
-		{"largest spread", func(d *runData) string { return fmtK(f(d.Summary.MaxSpreadK)) }},
-		{"least final cure", func(d *runData) string {
-			return fmtCure(f(d.Summary.MinFinalCure)) + " at " + fmtMM(f(d.Summary.MinFinalCureDepthMM))
-		}},
-		{"mean final cure", func(d *runData) string { return fmtCure(f(d.Summary.MeanFinalCure)) }},
-		{"time to min_cure", func(d *runData) string { return fmtTime(f(d.Summary.TimeToMinCureS)) }},
-		{"gel time, first / last", func(d *runData) string {
-			return fmtTime(f(d.Summary.GelTimeFirstS)) + " / " + fmtTime(f(d.Summary.GelTimeLastS))
-		}},
-		{"lowest final glass transition", func(d *runData) string { return fmtC(f(d.Summary.MinFinalGlassTransitionC)) }},
-		{"end time", func(d *runData) string { return fmtTime(f(d.Summary.EndTimeS)) }},
+	var cmp []results.Compared
+	for i, d := range ds {
+		c := results.Compared{Name: names[i], Ran: d != nil}
+		if d != nil {
+			c.Summary = d.Summary
+		}
+		cmp = append(cmp, c)
 	}
-	var rows [][]string
-	for _, rd := range rowsDef {
-		r := []string{rd.name}
-		for _, d := range ds {
-			if d == nil {
-				r = append(r, "did not run")
-			} else {
-				r = append(r, rd.fn(d))
+	table := results.ComparisonRows(cmp)
+	head, rows := table[0], table[1:]
+	for _, r := range rows {
+		for j := 1; j < len(r); j++ {
+			if ds[j-1] == nil {
+				r[j] = "did not run"
 			}
 		}
-		rows = append(rows, r)
 	}
 	var crit []string
 	seen := map[string]bool{}

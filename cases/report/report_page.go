@@ -5,15 +5,14 @@ import (
 	"cureslab/cases/internal/num"
 	"html/template"
 	"io"
-	"math"
-	"strconv"
 	"strings"
 	"sync"
 	"time"
 )
 
 // page is one self-contained HTML report: a header, an optional alert,
-// sections of tables and figures, and the cautions (cases.Cautions) at the foot.
+// sections of tables and figures, and at the foot the cautions that apply
+// to what the page shows (Scope).
 // The run report fills it now; the compare and sweep reports fill it with
 // their own sections.
 type page struct {
@@ -24,6 +23,8 @@ type page struct {
 	StatusOK bool
 	Alerts   []string // shown in a framed box under the title (failed criteria, runaway)
 	Sections []section
+	// Scope selects the cautions at the foot of the page (cases.Cautions).
+	Scope    cases.CautionScope
 	Cautions []string
 }
 
@@ -38,16 +39,33 @@ type section struct {
 
 // renderPage writes p as one HTML document.
 func renderPage(w io.Writer, p *page) error {
-	p.Cautions = cases.Cautions()
+	p.Cautions = cases.Cautions(p.Scope)
 	return pageTemplate().Execute(w, p)
 }
 
 // stamp formats the time a report is drawn: UTC, to the minute.
 func stamp(t time.Time) string { return t.UTC().Format("2006-01-02 15:04 UTC") }
 
-// pageTemplate is the shell of every report. The style is our own: a
-// neutral system-font page, one accent colour, failed checks in bold with a
-// symbol as well as colour. No script, no external resource.
+// pageTemplate is the shell of every report. The look is our own, chosen
+// for print and for readers with a colour-vision deficiency:
+//
+//   - Type: the text in a serif face for long reading on paper (Charter,
+//     then the common serifs with the same role), headings, tables and
+//     figure text in the sans face the plots are drawn with (Liberation
+//     Sans and the faces with its metrics), so that a table's numbers read
+//     like the axis labels next to it; figures in tables are tabular.
+//   - Colour: a warm off-black ink (#1c1c1a, 17:1 on white) and a warm grey
+//     (#4f4d47, 8.4:1) for secondary text, warm grey rules (#a09c92) dark
+//     enough to survive a laser printer, a paper tint (#f4f1ea) behind table
+//     heads; headings in a deep teal (#00565f, 8.4:1). Passed checks in
+//     blue (#0b5394, 7.8:1), failed ones in dark vermillion (#a83200,
+//     6.7:1, bold, on #fbeae0): blue against orange-red is the pair that
+//     the common colour-vision deficiencies keep apart (Okabe & Ito, Color
+//     Universal Design, 2008), and every result also carries a symbol and
+//     a word (✓ pass, ✗ FAILED), so a grey print loses nothing.
+//
+// Contrast ratios are WCAG 2.x relative-luminance ratios against white
+// (TestPaletteContrast). No script, no external resource.
 var pageTemplate = sync.OnceValue(func() *template.Template {
 	return template.Must(template.New("page").Parse(`<!DOCTYPE html>
 <html lang="en">
@@ -57,38 +75,44 @@ var pageTemplate = sync.OnceValue(func() *template.Template {
 <meta name="generator" content="cureslab">
 <title>{{.Title}} · cureslab {{.Kind}}</title>
 <style>
-:root { --ink:#1f2328; --soft:#57606a; --rule:#d0d7de; --pale:#f6f8fa; --accent:#2b4c7e;
-  --fail:#a40e26; --failbg:#fff0f1; --pass:#1a5e36; }
+:root { --ink:#1c1c1a; --soft:#4f4d47; --rule:#a09c92; --paper:#f4f1ea; --head:#00565f;
+  --pass:#0b5394; --fail:#a83200; --failbg:#fbeae0;
+  --text: Charter, "Bitstream Charter", "Sitka Text", Cambria, "Noto Serif", "Liberation Serif", "DejaVu Serif", Georgia, serif;
+  --label: "Liberation Sans", Arimo, Arial, Helvetica, sans-serif; }
 * { box-sizing: border-box; }
-body { margin: 0; color: var(--ink); background: #fff;
-  font: 15px/1.45 system-ui, -apple-system, "Segoe UI", Roboto, "Helvetica Neue", Arial, "Liberation Sans", sans-serif; }
-main { max-width: 980px; margin: 0 auto; padding: 24px 28px 40px; }
-header { border-bottom: 3px solid var(--accent); padding-bottom: 10px; margin-bottom: 18px; }
-h1 { font-size: 1.55em; line-height: 1.25; margin: 0 0 6px; }
-h2 { font-size: 1.15em; margin: 30px 0 6px; color: var(--accent); }
-.meta { color: var(--soft); font-size: .9em; }
-.badge { display: inline-block; padding: 1px 9px; border-radius: 3px; font-weight: 600; font-size: .9em;
-  border: 1px solid currentColor; margin-right: 8px; }
+body { margin: 0; color: var(--ink); background: #fff; font: 16px/1.5 var(--text); }
+main { max-width: 960px; margin: 0 auto; padding: 20px 32px 40px; }
+header { border-bottom: 3px double var(--ink); padding-bottom: 8px; margin-bottom: 16px; }
+h1 { font: 700 1.6em/1.2 var(--text); margin: 0 0 6px; }
+h2 { font: 700 .95em/1.3 var(--label); text-transform: uppercase; letter-spacing: .06em; color: var(--head);
+  margin: 30px 0 8px; padding-top: 6px; border-top: 1px solid var(--rule); }
+header + section h2 { border-top: 0; padding-top: 0; }
+.meta { color: var(--soft); font: .88em/1.4 var(--label); }
+.badge { display: inline-block; padding: 0 8px; font-weight: 700; margin-right: 8px; border: 1.5px solid currentColor; }
 .badge.ok { color: var(--pass); }
-.badge.bad { color: #fff; background: var(--fail); border-color: var(--fail); }
-.alert { border: 2px solid var(--fail); background: var(--failbg); color: var(--fail); padding: 10px 14px;
-  margin: 14px 0 4px; font-weight: 600; }
+.badge.bad { color: var(--fail); background: var(--failbg); }
+.alert { border-left: 6px solid var(--fail); background: var(--failbg); color: var(--fail); padding: 8px 14px;
+  margin: 14px 0 4px; font: 700 .95em/1.45 var(--label); }
 .alert p { margin: 2px 0; }
-p.intro { margin: 0 0 10px; color: var(--soft); max-width: 48em; }
-table { border-collapse: collapse; margin: 6px 0 4px; font-size: .93em; }
-th, td { text-align: left; padding: 4px 14px 4px 0; border-bottom: 1px solid var(--rule); vertical-align: top; }
-th { color: var(--soft); font-weight: 600; }
-td.num { font-variant-numeric: tabular-nums; }
+p.intro { margin: 0 0 10px; color: var(--soft); max-width: 46em; }
+table { border-collapse: collapse; margin: 6px 0 4px; font: .88em/1.4 var(--label); font-variant-numeric: tabular-nums; }
+th, td { text-align: left; padding: 3px 16px 3px 0; vertical-align: top; }
+thead th { background: var(--paper); border-bottom: 1.5px solid var(--ink); padding: 4px 16px 4px 6px; font-weight: 700; }
+thead th:not(:first-child) { padding-left: 0; }
+tbody td { border-bottom: 1px dotted var(--rule); }
+tbody td:first-child { padding-left: 6px; }
 tr.fail td { color: var(--fail); font-weight: 700; background: var(--failbg); }
-td.pass { color: var(--pass); font-weight: 600; }
+td.pass { color: var(--pass); font-weight: 700; }
 td.fail { color: var(--fail); font-weight: 700; background: var(--failbg); }
-.cols { display: flex; flex-wrap: wrap; gap: 8px 48px; }
+.cols { display: flex; flex-wrap: wrap; gap: 8px 40px; }
 figure { margin: 8px 0 0; }
 figure svg { display: block; width: 100%; height: auto; }
-figcaption { color: var(--soft); font-size: .88em; margin-top: 4px; max-width: 52em; }
-footer { margin-top: 36px; border-top: 1px solid var(--rule); padding-top: 10px; font-size: .86em; color: var(--soft); }
+figcaption { color: var(--soft); font-size: .9em; margin-top: 4px; max-width: 50em; }
+footer { margin-top: 34px; border-top: 3px double var(--ink); padding-top: 8px; font-size: .9em; }
+footer strong { font: 700 .95em var(--label); text-transform: uppercase; letter-spacing: .06em; color: var(--head); }
 footer ul { margin: 4px 0 8px; padding-left: 1.2em; }
-@media print { main { max-width: none; padding: 0; } figure, table { break-inside: avoid; } h2 { break-after: avoid; } }
+@media print { body { font-size: 10.5pt; } main { max-width: none; padding: 0; }
+  figure, table { break-inside: avoid; } h2 { break-after: avoid; } }
 </style>
 </head>
 <body>
@@ -167,38 +191,9 @@ func figureHTML(svg, caption string) template.HTML {
 	return template.HTML("<figure>\n" + svg + "\n<figcaption>" + template.HTMLEscapeString(caption) + "</figcaption>\n</figure>\n")
 }
 
-// Number formats of the report.
-func fmtC(v float64) string { // a temperature, °C
-	if math.IsNaN(v) {
-		return "n/a"
-	}
-	return strconv.FormatFloat(v, 'f', 1, 64) + " °C"
-}
-
-func fmtK(v float64) string { // a temperature difference, K
-	if math.IsNaN(v) {
-		return "n/a"
-	}
-	return strconv.FormatFloat(v, 'f', 1, 64) + " K"
-}
-
-func fmtMM(v float64) string {
-	if math.IsNaN(v) {
-		return "n/a"
-	}
-	return strconv.FormatFloat(v, 'g', 4, 64) + " mm"
-}
-
-func fmtCure(v float64) string {
-	if math.IsNaN(v) {
-		return "n/a"
-	}
-	return strconv.FormatFloat(v, 'f', 3, 64)
-}
-
-func fmtTime(v float64) string {
-	if math.IsNaN(v) {
-		return "n/a"
-	}
-	return num.HumanTime(v)
-}
+// Number formats of the report (internal/num, shared with the terminal).
+func fmtC(v float64) string    { return num.TextC(v) }    // a temperature, °C
+func fmtK(v float64) string    { return num.TextK(v) }    // a temperature difference, K
+func fmtMM(v float64) string   { return num.TextMM(v) }   // a depth, mm
+func fmtCure(v float64) string { return num.TextCure(v) } // a degree of cure
+func fmtTime(v float64) string { return num.TextTime(v) } // a time given in s

@@ -73,9 +73,12 @@ var cividis = [256]uint32{
 // (mapSteps) is reserved for cells without a value.
 const mapSteps = 255
 
-// noValueColor marks cells without a value on a map (layers that do not
-// cure): a light neutral grey, lighter than any step of cividis.
-var noValueColor = color.RGBA{0xe4, 0xe4, 0xe4, 0xff}
+// noValueColor fills cells without a value on a map (layers that do not
+// cure, sweep runs without the quantity): white, which no step of cividis
+// comes near (its lightest step is a saturated yellow), and the figures
+// hatch such areas as well (hatch), so that "no value" is not read as a
+// value of the scale, in colour or in a grey print.
+var noValueColor = color.RGBA{0xff, 0xff, 0xff, 0xff}
 
 // mapPalette is cividis resampled to mapSteps colours plus noValueColor.
 var mapPalette = func() color.Palette {
@@ -120,13 +123,104 @@ func lineColor(k int) (color.Color, []vg.Length) {
 	return c, nil
 }
 
+// The neutral colours of the figures, the same as the page's (see
+// pageTemplate): ink for text, axes and reference lines, a softer ink for
+// secondary lines and hatching, a light grid.
 var (
-	ink      = color.RGBA{0x22, 0x22, 0x22, 0xff}
-	inkSoft  = color.RGBA{0x55, 0x55, 0x55, 0xff}
-	gridGrey = color.RGBA{0xe6, 0xe6, 0xe6, 0xff}
+	ink      = color.RGBA{0x1c, 0x1c, 0x1a, 0xff}
+	inkSoft  = color.RGBA{0x4f, 0x4d, 0x47, 0xff}
+	gridGrey = color.RGBA{0xe3, 0xe0, 0xd8, 0xff}
 	white    = color.RGBA{0xff, 0xff, 0xff, 0xff}
 	halo     = color.NRGBA{0xff, 0xff, 0xff, 0xd0} // not premultiplied: translucent white
 )
+
+// dashStyle is a dash pattern of the figures with the word the captions
+// use for it; dashWord checks that the word fits the pattern.
+type dashStyle struct {
+	Word string
+	Dash []vg.Length // on, off, on, off ... in points; nil for a solid line
+}
+
+// The dash patterns of the figures.
+var (
+	solidLine   = dashStyle{"solid", nil}
+	dashedLine  = dashStyle{"dashed", []vg.Length{vg.Points(5), vg.Points(3)}}
+	faceDashed  = dashStyle{"dashed", []vg.Length{vg.Points(3), vg.Points(2)}} // layer faces on a map
+	dottedLine  = dashStyle{"dotted", []vg.Length{vg.Points(1.5), vg.Points(2.5)}}
+	faceDotted  = dashStyle{"dotted", []vg.Length{vg.Points(1), vg.Points(2)}} // layer faces on a line panel
+	dashDotLine = dashStyle{"dash-dot", []vg.Length{vg.Points(6), vg.Points(2), vg.Points(1.5), vg.Points(2)}}
+)
+
+// dashWord names a dash pattern as a reader sees it: "solid" without
+// dashes, "dotted" when every stroke is at most 1.5 pt long, "dashed" when
+// every stroke is at least 3 pt, "dash-dot" when long and short strokes
+// alternate, "" otherwise.
+func dashWord(d []vg.Length) string {
+	if len(d) == 0 {
+		return "solid"
+	}
+	short, long := 0, 0
+	for i := 0; i < len(d); i += 2 {
+		switch {
+		case d[i] <= vg.Points(1.5):
+			short++
+		case d[i] >= vg.Points(3):
+			long++
+		default:
+			return ""
+		}
+	}
+	switch {
+	case long == 0:
+		return "dotted"
+	case short == 0:
+		return "dashed"
+	}
+	return "dash-dot"
+}
+
+// hatchSpacing is the distance between the lines of a hatched area.
+const hatchSpacing = 4.5
+
+// hatch draws thin diagonal lines (rising to the right, hatchSpacing
+// apart) across the rectangle r of c, clipped to r: the mark of an area
+// without a value. It returns the number of lines drawn.
+func hatch(c draw.Canvas, r vg.Rectangle) int {
+	w, h := r.Max.X-r.Min.X, r.Max.Y-r.Min.Y
+	if w <= 0 || h <= 0 {
+		return 0
+	}
+	sty := draw.LineStyle{Color: inkSoft, Width: vg.Points(0.45)}
+	n := 0
+	// Lines x − y = k for k from −h to w, in coordinates relative to r.Min.
+	for k := -h + vg.Points(hatchSpacing)/2; k < w; k += vg.Points(hatchSpacing) {
+		x0, y0 := k, vg.Length(0)
+		if x0 < 0 {
+			x0, y0 = 0, -k
+		}
+		x1, y1 := k+h, h
+		if x1 > w {
+			x1, y1 = w, w-k
+		}
+		c.StrokeLine2(sty, r.Min.X+x0, r.Min.Y+y0, r.Min.X+x1, r.Min.Y+y1)
+		n++
+	}
+	return n
+}
+
+// hatchedBand is a plotter that hatches the data rectangle [X0, X1] ×
+// [Y0, Y1]; it counts the lines drawn (for tests).
+type hatchedBand struct {
+	X0, X1, Y0, Y1 float64
+	lines          int
+}
+
+// Plot implements plot.Plotter.
+func (b *hatchedBand) Plot(c draw.Canvas, p *plot.Plot) {
+	trX, trY := p.Transforms(&c)
+	xa, xb, ya, yb := trX(b.X0), trX(b.X1), trY(b.Y0), trY(b.Y1)
+	b.lines = hatch(c, vg.Rectangle{Min: vg.Point{X: min(xa, xb), Y: min(ya, yb)}, Max: vg.Point{X: max(xa, xb), Y: max(ya, yb)}})
+}
 
 // Type sizes of the plots, in points.
 const (

@@ -1,9 +1,11 @@
 package report
 
 import (
+	"cureslab/cases"
 	"cureslab/cases/results"
 	"fmt"
 	"html/template"
+	"image/color"
 	"io"
 	"math"
 	"sort"
@@ -28,7 +30,8 @@ const (
 // renderRunReport writes the report page of one run.
 func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 	s := d.Summary
-	pg := &page{Title: d.Title, Kind: "run report", Drawn: stamp(now)}
+	pg := &page{Title: d.Title, Kind: "run report", Drawn: stamp(now),
+		Scope: cases.CautionScope{Curing: curingLayers(d) > 0, Volumetric: d.Volumetric}}
 	pg.Status, pg.StatusOK = statusBadge(s)
 	pg.Alerts = runAlerts(d)
 	ts := timeScaleFor(d.Times[len(d.Times)-1])
@@ -45,16 +48,6 @@ func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 	}
 	pg.Sections = append(pg.Sections, section{ID: "temperature-map", Heading: "Temperature through the thickness",
 		Body: figureHTML(svg, mapCaption(d, false))})
-	if d.Absorbed != nil {
-		svg, caption, err := absorbedFigure(d, ts)
-		if err != nil {
-			return err
-		}
-		if svg != "" {
-			pg.Sections = append(pg.Sections, section{ID: "absorbed-power", Heading: "Absorbed power through the thickness",
-				Body: figureHTML(svg, caption)})
-		}
-	}
 	if curingLayers(d) > 0 {
 		svg, err := mapFigure(d, ts, true)
 		if err != nil {
@@ -148,6 +141,9 @@ func criterionText(v results.Verdict, s results.Summary) (req, value string) {
 	case results.CriterionMaxSpread:
 		req = "spread in the curing layers ≤ " + lim + " K"
 		value = val + " K"
+	case results.CriterionShareMet:
+		req = fmt.Sprintf("every criterion met in ≥ %.1f %% of the uncertainty samples", 100*v.Limit)
+		value = fmt.Sprintf("%.1f %% of the samples", 100*v.Value)
 	default:
 		req, value = v.Name+" limit "+lim, val
 	}
@@ -165,39 +161,12 @@ func criterionSentence(v results.Verdict, s results.Summary) string {
 // summaryHTML is the summary table and the criteria table.
 func summaryHTML(d *runData) template.HTML {
 	s := d.Summary
-	f := func(x results.Float) float64 { return float64(x) }
 	var rows [][]string
-	add := func(k, v string) { rows = append(rows, []string{k, v}) }
-	add("status", s.Status)
-	add("peak temperature", fmt.Sprintf("%s at %s, t = %s", fmtC(f(s.PeakTemperatureC)), fmtMM(f(s.PeakDepthMM)), fmtTime(f(s.PeakTimeS))))
-	if results.OutOK(s.OvershootK) {
-		add("overshoot", fmt.Sprintf("%+.1f K over the hottest driving temperature", f(s.OvershootK)))
+	for _, r := range results.SummaryRows(s) {
+		rows = append(rows, []string{r.Label, r.Value})
 	}
-	if results.OutOK(s.MaxSpreadK) {
-		add("largest spread", fmtK(f(s.MaxSpreadK))+" across the curing layers")
-	}
-	if results.OutOK(s.MinFinalCure) {
-		add("final cure", fmt.Sprintf("min %s at %s, mean %s", fmtCure(f(s.MinFinalCure)), fmtMM(f(s.MinFinalCureDepthMM)), fmtCure(f(s.MeanFinalCure))))
-		if results.OutOK(s.TimeToMinCureS) {
-			add("time to min_cure", fmtTime(f(s.TimeToMinCureS)))
-		}
-		gel := "never"
-		if results.OutOK(s.GelTimeFirstS) {
-			last := "some cells never gel"
-			if results.OutOK(s.GelTimeLastS) {
-				last = "last " + fmtTime(f(s.GelTimeLastS))
-			}
-			gel = "first " + fmtTime(f(s.GelTimeFirstS)) + ", " + last
-		}
-		add("gel time", gel)
-		if results.OutOK(s.MinFinalGlassTransitionC) {
-			add("lowest final glass transition", fmtC(f(s.MinFinalGlassTransitionC)))
-		}
-	}
-	add("energy balance error", strconv.FormatFloat(f(s.EnergyBalanceError), 'g', 2, 64)+" (relative)")
-	add("steps", fmt.Sprintf("%d, end t = %s", s.Steps, fmtTime(f(s.EndTimeS))))
 	if s.Message != "" {
-		add("stopped", s.Message)
+		rows = append(rows, []string{"stopped", s.Message})
 	}
 	var b strings.Builder
 	b.WriteString(`<div class="cols"><div>`)
@@ -289,6 +258,13 @@ func mapFigure(d *runData, ts timeScale, cure bool) (string, error) {
 		invertDepth(p, L)
 		p.X.Min, p.X.Max = x0, x1
 		p.Add(&rasterMap{img: img, x0: x0, x1: x1, y0: 0, y1: L})
+		if cure {
+			for _, l := range d.Layers {
+				if !l.Curing {
+					p.Add(&hatchedBand{X0: x0, X1: x1, Y0: l.Top, Y1: l.Bottom})
+				}
+			}
+		}
 		if err := addLayerFaces(p, d, x0, x1, true); err != nil {
 			return err
 		}
@@ -327,9 +303,9 @@ func mapFigure(d *runData, ts timeScale, cure bool) (string, error) {
 func addLayerFaces(p *plot.Plot, d *runData, x0, x1 float64, onMap bool) error {
 	for _, l := range d.Layers[1:] {
 		s := series{X: []float64{x0, x1}, Y: []float64{l.Top, l.Top}, Color: ink,
-			Width: vg.Points(0.6), Dash: []vg.Length{vg.Points(3), vg.Points(2)}, Halo: true}
+			Width: vg.Points(0.6), Dash: faceDashed.Dash, Halo: true}
 		if !onMap {
-			s.Color, s.Width, s.Dash, s.Halo = inkSoft, vg.Points(0.5), []vg.Length{vg.Points(1), vg.Points(2)}, false
+			s.Color, s.Width, s.Dash, s.Halo = inkSoft, vg.Points(0.5), faceDotted.Dash, false
 		}
 		if _, err := addSeries(p, s); err != nil {
 			return err
@@ -375,7 +351,7 @@ func mapCaption(d *runData, cure bool) string {
 	var b strings.Builder
 	if cure {
 		b.WriteString("Degree of cure (0 uncured, 1 fully cured) over time and depth; depth 0 is the top face. " +
-			"Dashed lines: faces between layers; light grey: layers that do not cure. " +
+			capital(faceDashed.Word) + " lines: faces between layers; white, hatched: layers that do not cure. " +
 			"Solid black line: the gel front, the time at which each depth reaches its layer's gel point (read from the output times, linearly interpolated).")
 		for _, l := range d.Layers {
 			if l.Curing && !l.GelPointKnown {
@@ -384,7 +360,7 @@ func mapCaption(d *runData, cure bool) string {
 		}
 		return b.String()
 	}
-	b.WriteString("Temperature over time and depth; depth 0 is the top face. Dashed lines: faces between layers. " +
+	b.WriteString("Temperature over time and depth; depth 0 is the top face. " + capital(faceDashed.Word) + " lines: faces between layers. " +
 		"The ring marks the hottest point of the run.")
 	return b.String()
 }
@@ -435,7 +411,7 @@ func profileFigure(d *runData, ts timeScale) (string, string, error) {
 		caption += " (left) and degree of cure (right)"
 	}
 	caption += " through the thickness at five output times spread evenly over the run, and at the output time nearest the peak (thick line). " +
-		"Depth 0 is the top face; dotted lines: faces between layers."
+		"Depth 0 is the top face; " + faceDotted.Word + " lines: faces between layers."
 	svg, err := svgFigure(figWidth, profileHeight, "profiles through the thickness", func(dc draw.Canvas) error {
 		pT, pA, plots := profilePlots(L, withCure)
 		var sel [][]float64
@@ -534,7 +510,12 @@ func historyFigure(d *runData, ts timeScale) (string, string, error) {
 	}
 	caption := "Temperature at each probe depth"
 	if len(d.Drivers) > 0 {
-		caption += ", with the air temperatures that drive the part (black and grey, dashed)"
+		var parts []string
+		for j, dv := range d.Drivers {
+			st := driverStyleOf(dv.Column, j)
+			parts = append(parts, driverCaption(dv, d.Summary)+" ("+st.Describe()+")")
+		}
+		caption += ", with " + joinAnd(parts)
 	}
 	if withCure {
 		caption += "; degree of cure at the probes in curing layers"
@@ -542,7 +523,7 @@ func historyFigure(d *runData, ts timeScale) (string, string, error) {
 	if d.Power != nil {
 		caption += "; the power fraction of the controlled volumetric heating"
 	}
-	caption += ". Horizontal dash-dot lines: the limits of the criteria."
+	caption += ". Horizontal " + dashDotLine.Word + " lines: the limits of the criteria."
 	h := vg.Length(panelHeight*nPanels + 20)
 	svg, err := svgFigure(figWidth, h, "probe histories", func(dc draw.Canvas) error {
 		xl := "time (" + ts.unit + ")"
@@ -555,6 +536,26 @@ func historyFigure(d *runData, ts timeScale) (string, string, error) {
 		pT := newPlot(xl, "temperature (°C)")
 		addGrid(pT)
 		var lines [][]float64
+		sensor := math.NaN()
+		if z := d.Summary.ControlSensorDepthMM; z != nil {
+			sensor = float64(*z)
+		}
+		// The control program goes under the probes, so that the sensor's
+		// trace is seen on it.
+		for j, dv := range d.Drivers {
+			if dv.Column != results.ProgramColumn {
+				continue
+			}
+			st := driverStyleOf(dv.Column, j)
+			l, err := addSeries(pT, series{X: t, Y: dv.Values, Color: st.Color, Width: st.Width, Dash: st.Dash.Dash})
+			if err != nil {
+				return err
+			}
+			lines = append(lines, dv.Values)
+			if l != nil {
+				legAdd(dv.Name, l)
+			}
+		}
 		for j, pr := range d.Probes {
 			c, dash := lineColor(j)
 			l, err := addSeries(pT, series{X: t, Y: pr.T, Color: c, Dash: dash})
@@ -563,15 +564,19 @@ func historyFigure(d *runData, ts timeScale) (string, string, error) {
 			}
 			lines = append(lines, pr.T)
 			if l != nil {
-				legAdd("at "+pr.Label+" mm", l)
+				name := "at " + pr.Label + " mm"
+				if pr.Depth == sensor {
+					name += " (sensor)"
+				}
+				legAdd(name, l)
 			}
 		}
 		for j, dv := range d.Drivers {
-			c, dash := ink, []vg.Length{vg.Points(5), vg.Points(3)}
-			if j%2 == 1 {
-				c, dash = inkSoft, []vg.Length{vg.Points(1.5), vg.Points(2.5)}
+			if dv.Column == results.ProgramColumn {
+				continue
 			}
-			l, err := addSeries(pT, series{X: t, Y: dv.Values, Color: c, Width: vg.Points(1.1), Dash: dash})
+			st := driverStyleOf(dv.Column, j)
+			l, err := addSeries(pT, series{X: t, Y: dv.Values, Color: st.Color, Width: st.Width, Dash: st.Dash.Dash})
 			if err != nil {
 				return err
 			}
@@ -648,7 +653,7 @@ func historyFigure(d *runData, ts timeScale) (string, string, error) {
 // panel, labelled at its right end.
 func addLimit(p *plot.Plot, x0, x1, y float64, label string) error {
 	if _, err := addSeries(p, series{X: []float64{x0, x1}, Y: []float64{y, y}, Color: ink, Width: vg.Points(0.9),
-		Dash: []vg.Length{vg.Points(6), vg.Points(2), vg.Points(1.5), vg.Points(2)}}); err != nil {
+		Dash: dashDotLine.Dash}); err != nil {
 		return err
 	}
 	// The label goes below the line in the upper part of the panel and above
@@ -687,4 +692,76 @@ func profilePlots(L float64, withCure bool) (pT, pA *plot.Plot, plots []*plot.Pl
 		plots = append(plots, pA)
 	}
 	return pT, pA, plots
+}
+
+// driverStyle is how a driving temperature is drawn in the probe histories.
+type driverStyle struct {
+	Color     color.Color
+	ColorWord string // "black", "grey"
+	Width     vg.Length
+	Band      bool // a wide pale band rather than a line
+	Dash      dashStyle
+}
+
+// Describe names the style as the caption does: "black dashed", "grey
+// dotted", "wide grey band".
+func (st driverStyle) Describe() string {
+	if st.Band {
+		return "wide " + st.ColorWord + " band"
+	}
+	return st.ColorWord + " " + st.Dash.Word
+}
+
+// driverStyleOf returns the style of the driving-temperature column col,
+// the j-th of the run: the control program as a wide pale band under the
+// probe lines (the track the sensor should keep to, visible where a probe
+// leaves it), the air temperatures as thin lines, black dashed for the
+// first and grey dotted for the second.
+func driverStyleOf(col string, j int) driverStyle {
+	if col == results.ProgramColumn {
+		return driverStyle{Color: programBand, ColorWord: "grey", Width: vg.Points(6), Band: true, Dash: solidLine}
+	}
+	if j%2 == 1 {
+		return driverStyle{Color: inkSoft, ColorWord: "grey", Width: vg.Points(1.1), Dash: dottedLine}
+	}
+	return driverStyle{Color: ink, ColorWord: "black", Width: vg.Points(1.1), Dash: dashedLine}
+}
+
+// programBand is the colour of the control program's band: a pale warm
+// grey that the coloured probe lines stand out on.
+var programBand = color.RGBA{0xc8, 0xc4, 0xba, 0xff}
+
+// driverCaption says what a driving temperature is, for the caption.
+func driverCaption(dv seriesData, s results.Summary) string {
+	switch dv.Column {
+	case results.ProgramColumn:
+		if z := s.ControlSensorDepthMM; z != nil && results.OutOK(*z) {
+			return "the control program that the sensor at " + fmtMM(float64(*z)) + " follows"
+		}
+		return "the control program"
+	case "air_top_C":
+		return "the air over the top face"
+	case "air_bottom_C":
+		return "the air under the bottom face"
+	}
+	return dv.Name
+}
+
+// capital returns s with its first letter in upper case.
+func capital(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
+}
+
+// joinAnd joins a list as a sentence does: "a", "a and b", "a, b and c".
+func joinAnd(parts []string) string {
+	switch len(parts) {
+	case 0:
+		return ""
+	case 1:
+		return parts[0]
+	}
+	return strings.Join(parts[:len(parts)-1], ", ") + " and " + parts[len(parts)-1]
 }

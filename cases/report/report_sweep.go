@@ -60,7 +60,7 @@ const SweepReportFile = "report.html"
 // title heads the page ("" gives "Sweep in DIR"). Errors: a missing or
 // malformed summary.csv or sweep.json, with the file named; nothing is
 // written then. Cost: linear in the number of runs.
-func WriteSweepReport(dir, title string, crit *cases.Criteria) error {
+func WriteSweepReport(dir, title string, c *cases.Case) error {
 	sd, err := readSweepData(dir)
 	if err != nil {
 		return err
@@ -68,13 +68,17 @@ func WriteSweepReport(dir, title string, crit *cases.Criteria) error {
 	if title == "" {
 		title = "Sweep in " + filepath.Base(filepath.Clean(dir))
 	}
+	var crit *cases.Criteria
+	if c != nil {
+		crit = &c.Criteria
+	}
 	for _, k := range sd.Keys {
 		if strings.HasPrefix(k, "criteria.") {
 			crit = nil
 		}
 	}
 	var b bytes.Buffer
-	if err := renderSweepReport(&b, sd, title, crit, reportClock()); err != nil {
+	if err := renderSweepReport(&b, sd, title, crit, sweepScope(sd, c), reportClock()); err != nil {
 		return fmt.Errorf("drawing %s: %w", SweepReportFile, err)
 	}
 	if err := textout.WriteFileAtomic(dir, SweepReportFile, func(w io.Writer) error {
@@ -105,6 +109,7 @@ type sweepRow struct {
 	Pass   map[string]string  // criterion -> "true", "false" or ""
 	Status string
 	Error  string
+	Note   string // what the run left out (a probe below its stack)
 }
 
 // passed reports whether the run is ok and fails no criterion.
@@ -182,6 +187,9 @@ func readSweepData(dir string) (*sweepData, error) {
 		if i, ok := col["error"]; ok {
 			r.Error = rec[i]
 		}
+		if i, ok := col["note"]; ok {
+			r.Note = rec[i]
+		}
 		for _, k := range sd.Keys {
 			r.Vals = append(r.Vals, rec[col[k]])
 		}
@@ -221,12 +229,28 @@ const (
 )
 
 var sweepLabels = map[string]string{
-	colCure: "least final degree of cure (–)",
-	colPeak: "peak temperature (°C)",
+	colCure: results.Heading(colCure),
+	colPeak: results.Heading(colPeak),
 }
 
-func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Criteria, now time.Time) error {
-	pg := &page{Title: title, Kind: "sweep", Drawn: stamp(now)}
+// sweepScope returns the cautions' scope of a sweep page: the case's when
+// it is known; otherwise curing when a run has a final cure, and
+// volumetric (the caution is kept when the page cannot know).
+func sweepScope(sd *sweepData, c *cases.Case) cases.CautionScope {
+	if c != nil {
+		return cases.ScopeOf(c)
+	}
+	sc := cases.CautionScope{Volumetric: true}
+	for i := range sd.Rows {
+		if !math.IsNaN(sd.Rows[i].num(colCure)) {
+			sc.Curing = true
+		}
+	}
+	return sc
+}
+
+func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Criteria, scope cases.CautionScope, now time.Time) error {
+	pg := &page{Title: title, Kind: "sweep", Drawn: stamp(now), Scope: scope}
 	bad := 0
 	for i := range sd.Rows {
 		if !sd.Rows[i].passed() {
@@ -255,7 +279,7 @@ func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Cri
 			}
 			pg.Sections = append(pg.Sections, section{ID: "map-" + c, Heading: "Process window: " + sweepLabels[c],
 				Body: figureHTML(svg, "One cell per run, coloured by "+c+" ("+results.SweepSummaryFile+"). Outlined and crossed cells: "+
-					"runs that did not pass (a criterion failed, or the run failed or ran away). Grey: no value.")})
+					"runs that did not pass (a criterion failed, or the run failed or ran away). White, hatched: no value.")})
 		}
 	case len(sd.Keys) == 1:
 		svg, err := sweepLineFigure(sd)
@@ -263,7 +287,7 @@ func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Cri
 			return err
 		}
 		pg.Sections = append(pg.Sections, section{ID: "lines", Heading: "Against " + sd.Keys[0],
-			Body: figureHTML(svg, "Least final degree of cure and peak temperature of each run. Crosses: runs that did not pass "+
+			Body: figureHTML(svg, capital(results.Label(colCure))+" and "+results.Label(colPeak)+" of each run. Crosses: runs that did not pass "+
 				"(a criterion failed, or the run failed or ran away).")})
 	default:
 		pg.Sections = append(pg.Sections, section{ID: "runs", Heading: "Every run, the worst first",
@@ -301,7 +325,7 @@ func sweepFacts(sd *sweepData) [][]string {
 
 func sweepOrderText(crit *cases.Criteria) string {
 	if sweepLimits(crit) == nil {
-		return "Sorted by status (failed, runaway, criteria-failed, ok), then by least final cure."
+		return "Sorted by status (failed, runaway, criteria-failed, ok), then by " + results.Label(colCure) + "."
 	}
 	return "Sorted by the smallest margin to a criterion limit, as a fraction of the limit (temperatures in kelvin); negative margins fail."
 }
@@ -414,11 +438,11 @@ func sweepOrder(sd *sweepData, crit *cases.Criteria) []int {
 func sweepTable(sd *sweepData, idx []int, crit *cases.Criteria) template.HTML {
 	lim := sweepLimits(crit)
 	head := append([]string{"run"}, sd.Keys...)
-	head = append(head, "status", "least final cure (–)", "peak temperature (°C)", "largest spread (K)")
+	head = append(head, "status", results.Heading(colCure), results.Heading(colPeak), results.Heading("max_spread_K"))
 	if lim != nil {
 		head = append(head, "smallest margin")
 	}
-	head = append(head, "failed criteria / error")
+	head = append(head, "failed criteria, error, note")
 	num := map[int]bool{}
 	var rows [][]string
 	for _, i := range idx {
@@ -445,6 +469,9 @@ func sweepTable(sd *sweepData, idx []int, crit *cases.Criteria) template.HTML {
 		}
 		if r.Error != "" {
 			why = append(why, r.Error)
+		}
+		if r.Note != "" {
+			why = append(why, "note: "+r.Note)
 		}
 		row = append(row, strings.Join(why, "; "))
 		rows = append(rows, row)
@@ -559,12 +586,14 @@ type cellMap struct {
 	fail   []bool
 	drawn  int
 	marked []int // cells crossed, iy*nx+ix
+	// hatched counts the hatch lines of cells without a value.
+	hatched int
 }
 
 // Plot implements plot.Plotter.
 func (m *cellMap) Plot(c draw.Canvas, p *plot.Plot) {
 	trX, trY := p.Transforms(&c)
-	m.drawn, m.marked = 0, nil
+	m.drawn, m.marked, m.hatched = 0, nil, 0
 	out := draw.LineStyle{Color: ink, Width: vg.Points(1.4)}
 	under := draw.LineStyle{Color: white, Width: vg.Points(2.6)}
 	for iy := range m.ny {
@@ -574,6 +603,9 @@ func (m *cellMap) Plot(c draw.Canvas, p *plot.Plot) {
 			y0, y1 := trY(float64(iy)-0.5), trY(float64(iy)+0.5)
 			box := []vg.Point{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}}
 			c.FillPolygon(mapPalette[m.idx[k]], box)
+			if m.idx[k] == mapSteps {
+				m.hatched += hatch(c, vg.Rectangle{Min: vg.Point{X: min(x0, x1), Y: min(y0, y1)}, Max: vg.Point{X: max(x0, x1), Y: max(y0, y1)}})
+			}
 			m.drawn++
 			if !m.fail[k] {
 				continue

@@ -23,7 +23,15 @@ func sweepPage(t *testing.T, set sweep.SweepSettings, crit *cases.Criteria) (str
 	s := newTinySweep(t, "", set)
 	dir := t.TempDir()
 	runSweep(t, s, dir, sweep.SweepOptions{Jobs: 2})
-	if err := WriteSweepReport(dir, "tiny sweep", crit); err != nil {
+	var c *cases.Case
+	if crit != nil {
+		var err error
+		if c, err = s.Case(0); err != nil {
+			t.Fatal(err)
+		}
+		c.Criteria = *crit
+	}
+	if err := WriteSweepReport(dir, "tiny sweep", c); err != nil {
 		t.Fatal(err)
 	}
 	b, err := os.ReadFile(filepath.Join(dir, SweepReportFile))
@@ -72,7 +80,7 @@ func TestSweepReportGrid(t *testing.T) {
 				t.Errorf("map %d lacks the text %q", i, want)
 			}
 		}
-		bar := []string{"least final degree of cure (–)", "peak temperature (°C)"}[i]
+		bar := []string{"least final cure (–)", "peak temperature (°C)"}[i]
 		if !hasText(texts, bar) {
 			t.Errorf("map %d lacks the colour bar label %q", i, bar)
 		}
@@ -124,7 +132,7 @@ func TestSweepReportOneKey(t *testing.T) {
 		t.Fatalf("%d figures, want 1", len(figs))
 	}
 	texts := svgTexts(t, figs[0])
-	for _, want := range []string{"layer.resin.thickness (mm)", "least final degree of cure (–)", "peak temperature (°C)"} {
+	for _, want := range []string{"layer.resin.thickness (mm)", "least final cure (–)", "peak temperature (°C)"} {
 		if !hasText(texts, want) {
 			t.Errorf("figure lacks the axis label %q; texts %q", want, texts)
 		}

@@ -325,7 +325,7 @@ func TestReportSelfContained(t *testing.T) {
 	if !strings.Contains(page, "<h1>Report test: slab &lt;&amp;&gt; plate</h1>") {
 		t.Error("title missing or not escaped")
 	}
-	for _, s := range cases.Cautions() {
+	for _, s := range cases.Cautions(cases.CautionScope{Curing: true}) {
 		if !strings.Contains(page, htmlEscaped(s)) {
 			t.Errorf("caution missing: %q", s)
 		}

@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"cureslab/cases"
 	"cureslab/cases/internal/textout"
 	"cureslab/cases/ttt"
 	"errors"
@@ -100,7 +101,7 @@ func tttTimeScale(t *ttt.TTTTable) timeScale {
 }
 
 func renderTTTPage(w io.Writer, t *ttt.TTTTable, now time.Time) error {
-	pg := &page{Title: "TTT diagram: " + t.Material, Kind: "TTT diagram", Drawn: stamp(now)}
+	pg := &page{Title: "TTT diagram: " + t.Material, Kind: "TTT diagram", Drawn: stamp(now), Scope: cases.CautionScope{Curing: true}}
 	ts := tttTimeScale(t)
 	curves := tttCurves(t, ts)
 	plotted := 0
@@ -206,6 +207,9 @@ func tttFigure(t *ttt.TTTTable, ts timeScale, curves []tttCurve) (string, error)
 // logTicks places major ticks at the powers of ten of [lo, hi] (lo > 0),
 // labelled, and unlabelled minor ticks at 2…9 times them; over less than
 // two decades the ticks at 2 and 5 times a power of ten are labelled too.
+// The labels of one axis share one form (logLabels): plain numbers when
+// every label fits 0.001 … 10000, else all in exponent form, so that an
+// axis never shows "10000" next to "1e+05".
 type logTicks struct{}
 
 // Ticks implements plot.Ticker.
@@ -215,6 +219,7 @@ func (logTicks) Ticks(lo, hi float64) []plot.Tick {
 	}
 	few := math.Log10(hi/lo) < 2+1e-9
 	var out []plot.Tick
+	var labelled []int
 	for e := math.Floor(math.Log10(lo) + 1e-9); ; e++ {
 		d := math.Pow(10, e)
 		if d > hi*(1+1e-9) {
@@ -225,22 +230,42 @@ func (logTicks) Ticks(lo, hi float64) []plot.Tick {
 			if v < lo*(1-1e-9) || v > hi*(1+1e-9) {
 				continue
 			}
-			tk := plot.Tick{Value: v}
 			if k == 1 || (few && (k == 2 || k == 5)) {
-				tk.Label = logLabel(v)
+				labelled = append(labelled, len(out))
 			}
-			out = append(out, tk)
+			out = append(out, plot.Tick{Value: v})
 		}
+	}
+	vals := make([]float64, len(labelled))
+	for i, j := range labelled {
+		vals[i] = out[j].Value
+	}
+	for i, l := range logLabels(vals) {
+		out[labelled[i]].Label = l
 	}
 	return out
 }
 
-// logLabel writes v plainly from 0.001 to below 100000 ("0.01", "2000"),
-// in exponent form beyond ("1e-05", "1e+05").
-func logLabel(v float64) string {
-	if v >= 1e-3*(1-1e-9) && v < 1e5*(1-1e-9) {
-		r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 3, 64), 64)
-		return strconv.FormatFloat(r, 'f', -1, 64)
+// logLabels writes the tick values vs of one log axis in one form: plainly
+// ("0.01", "2000") when every value lies in [0.001, 100000), otherwise each
+// as a mantissa and a power of ten without padding ("1e-4", "2e3", "1e5").
+func logLabels(vs []float64) []string {
+	plain := true
+	for _, v := range vs {
+		if !(v >= 1e-3*(1-1e-9) && v < 1e5*(1-1e-9)) {
+			plain = false
+		}
 	}
-	return strconv.FormatFloat(v, 'g', 3, 64)
+	out := make([]string, len(vs))
+	for i, v := range vs {
+		if plain {
+			r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 3, 64), 64)
+			out[i] = strconv.FormatFloat(r, 'f', -1, 64)
+			continue
+		}
+		e := int(math.Floor(math.Log10(v) + 1e-9))
+		m := v / math.Pow10(e)
+		out[i] = strconv.FormatFloat(m, 'g', 3, 64) + "e" + strconv.Itoa(e)
+	}
+	return out
 }

@@ -160,8 +160,16 @@ func TestLogTicks(t *testing.T) {
 	if got := strings.Join(labels(1, 100), " "); got != "1 2 5 10 20 50 100" {
 		t.Errorf("labels of 1..100: %s", got)
 	}
-	if got := strings.Join(labels(1e5, 1e7), " "); got != "1e+05 2e+05 5e+05 1e+06 2e+06 5e+06 1e+07" {
+	if got := strings.Join(labels(1e5, 1e7), " "); got != "1e5 2e5 5e5 1e6 2e6 5e6 1e7" {
 		t.Errorf("labels of 1e5..1e7: %s", got)
+	}
+	// One form per axis: an axis that needs the exponent form for 1e5 writes
+	// every label in it, never "10000" beside "1e5".
+	if got := strings.Join(labels(1, 1e6), " "); got != "1e0 1e1 1e2 1e3 1e4 1e5 1e6" {
+		t.Errorf("labels of 1..1e6: %s", got)
+	}
+	if got := strings.Join(labels(0.001, 10000), " "); got != "0.001 0.01 0.1 1 10 100 1000 10000" {
+		t.Errorf("labels of 0.001..1e4: %s", got)
 	}
 	if n := len((logTicks{}).Ticks(1, 10)); n != 10 {
 		t.Errorf("%d ticks over 1..10, want 10 (1…9 and 10)", n)

@@ -22,9 +22,13 @@ const CompareFile = "compare.csv"
 // subdirectory), then summary.json fields, gel_front_spread_s =
 // gel_time_last_s − gel_time_first_s, and control_max_error_K (empty for a
 // case without closed-loop volumetric heating).
-var CompareHeader = []string{"case", "title", "status", "peak_temperature_C", "peak_depth_mm", "overshoot_K",
+var CompareHeader = append([]string{"case", "title", "status"}, compareKeys...)
+
+// compareKeys are the quantities of compare.csv, keys of Vocabulary (and
+// GelFrontSpread), in their order.
+var compareKeys = []string{"peak_temperature_C", "peak_depth_mm", "overshoot_K",
 	"max_spread_K", "min_final_cure", "min_final_cure_depth_mm", "time_to_min_cure_s", "gel_time_first_s",
-	"gel_time_last_s", "gel_front_spread_s", "energy_balance_error", "control_max_error_K"}
+	"gel_time_last_s", GelFrontSpread.Key, "energy_balance_error", "control_max_error_K"}
 
 // Compared is one case of a comparison.
 type Compared struct {
@@ -90,15 +94,10 @@ func compareRow(r Compared) []string {
 	if !r.Ran {
 		return append(row, make([]string, len(CompareHeader)-len(row))...)
 	}
-	ctl := math.NaN()
-	if s.ControlMaxErrorK != nil {
-		ctl = float64(*s.ControlMaxErrorK)
+	for _, k := range compareKeys {
+		row = append(row, cmpNum(Float(Term(k).Value(&s))))
 	}
-	return append(row,
-		cmpNum(s.PeakTemperatureC), cmpNum(s.PeakDepthMM), cmpNum(s.OvershootK), cmpNum(s.MaxSpreadK),
-		num.Sig(float64(s.MinFinalCure)), cmpNum(s.MinFinalCureDepthMM), cmpNum(s.TimeToMinCureS),
-		cmpNum(s.GelTimeFirstS), cmpNum(s.GelTimeLastS), cmpNum(gelFrontSpread(s)),
-		num.Sig(float64(s.EnergyBalanceError)), cmpNum(Float(ctl)))
+	return row
 }
 
 // gelFrontSpread returns gel_time_last_s − gel_time_first_s, NaN when
@@ -117,76 +116,108 @@ func cmpNum(f Float) string {
 	return strconv.FormatFloat(v, 'f', -1, 64)
 }
 
-// PrintComparison writes rows side by side for a terminal: the case titles,
-// then one line per quantity with one column per case (peak temperature and
-// where, overshoot, spread, least final cure and where, time to min_cure,
-// gel times and the gel front spread, the control error under closed-loop
-// heating, the energy balance), and a line for each case that did not run.
+// ComparisonRows returns the table that the terminal (PrintComparison),
+// the comparison page and the README show for cases side by side: a head
+// row (an empty cell, then each case's name) and one row per quantity, its
+// label from Vocabulary and one cell per case ("-" for a case that did not
+// run): status, peak temperature, its depth and time, overshoot, largest
+// spread, least final cure and its depth, mean final cure, time to
+// min_cure, first and last gel time, gel front spread, lowest final Tg,
+// sensor off its program, end time and energy balance error.
+func ComparisonRows(rows []Compared) [][]string {
+	head := []string{""}
+	for _, r := range rows {
+		head = append(head, r.Name)
+	}
+	out := [][]string{head}
+	line := func(label string, f func(r Compared) string) {
+		row := []string{label}
+		for _, r := range rows {
+			v := "-"
+			if r.Ran {
+				v = f(r)
+			}
+			row = append(row, v)
+		}
+		out = append(out, row)
+	}
+	quantity := func(key string, format func(float64) string) {
+		line(Label(key), func(r Compared) string { return format(Term(key).Value(&r.Summary)) })
+	}
+	line("status", func(r Compared) string { return r.Summary.Status })
+	quantity("peak_temperature_C", num.TextC)
+	quantity("peak_depth_mm", num.TextMM)
+	quantity("peak_time_s", num.TextTime)
+	quantity("overshoot_K", func(v float64) string {
+		if math.IsNaN(v) {
+			return "n/a"
+		}
+		return fmt.Sprintf("%+.1f K", v)
+	})
+	quantity("max_spread_K", num.TextK)
+	quantity("min_final_cure", num.TextCure)
+	quantity("min_final_cure_depth_mm", num.TextMM)
+	quantity("mean_final_cure", num.TextCure)
+	line(Label("time_to_min_cure_s"), func(r Compared) string {
+		switch {
+		case OutOK(r.Summary.TimeToMinCureS):
+			return num.TextTime(float64(r.Summary.TimeToMinCureS))
+		case minCureSet(r.Summary) && OutOK(r.Summary.MinFinalCure):
+			return "never"
+		}
+		return "n/a"
+	})
+	quantity("gel_time_first_s", num.TextTime)
+	quantity("gel_time_last_s", num.TextTime)
+	quantity(GelFrontSpread.Key, num.TextTime)
+	quantity("min_final_glass_transition_C", num.TextC)
+	line(Label("control_max_error_K"), func(r Compared) string {
+		if r.Summary.ControlMaxErrorK == nil {
+			return "no control"
+		}
+		return fmt.Sprintf("%.2f K at most", float64(*r.Summary.ControlMaxErrorK))
+	})
+	quantity("end_time_s", num.TextTime)
+	quantity("energy_balance_error", func(v float64) string { return strconv.FormatFloat(v, 'g', 2, 64) })
+	return out
+}
+
+// PrintComparison writes the cases side by side for a terminal: their
+// titles, the table of ComparisonRows, and a line for each case that did
+// not run.
 func PrintComparison(w io.Writer, rows []Compared) error {
 	var b strings.Builder
 	for _, r := range rows {
 		fmt.Fprintf(&b, "  %s: %s\n", r.Name, r.Summary.Title)
 	}
 	tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
-	line := func(label string, f func(r Compared) string) {
-		fmt.Fprintf(tw, "  %s", label)
-		for _, r := range rows {
-			v := "-"
-			if r.Ran {
-				v = f(r)
-			}
-			fmt.Fprintf(tw, "\t%s", v)
-		}
-		fmt.Fprintln(tw)
+	for _, row := range ComparisonRows(rows) {
+		fmt.Fprintf(tw, "  %s\n", strings.Join(row, "\t"))
 	}
-	fmt.Fprintf(tw, " ")
-	for _, r := range rows {
-		fmt.Fprintf(tw, "\t%s", r.Name)
-	}
-	fmt.Fprintln(tw)
-	status := func(r Compared) string { return r.Summary.Status }
-	fmt.Fprintf(tw, "  status")
-	for _, r := range rows {
-		fmt.Fprintf(tw, "\t%s", status(r))
-	}
-	fmt.Fprintln(tw)
-	unit := func(f Float, format, u string) string {
-		if !OutOK(f) {
-			return "n/a"
-		}
-		return fmt.Sprintf(format, float64(f)) + u
-	}
-	line("peak temperature", func(r Compared) string { return outT(r.Summary.PeakTemperatureC) + " C" })
-	line("  at depth", func(r Compared) string { return outDepth(r.Summary.PeakDepthMM) + " mm" })
-	line("overshoot", func(r Compared) string { return unit(r.Summary.OvershootK, "%+.1f", " K") })
-	line("max spread (curing layers)", func(r Compared) string { return unit(r.Summary.MaxSpreadK, "%.1f", " K") })
-	line("least final cure", func(r Compared) string { return outCure(r.Summary.MinFinalCure) })
-	line("  at depth", func(r Compared) string { return outDepth(r.Summary.MinFinalCureDepthMM) + " mm" })
-	line("time to min_cure", func(r Compared) string {
-		switch {
-		case OutOK(r.Summary.TimeToMinCureS):
-			return outTime(r.Summary.TimeToMinCureS)
-		case r.Case != nil && !math.IsNaN(r.Case.Criteria.MinCure) && OutOK(r.Summary.MinFinalCure):
-			return "never"
-		}
-		return "n/a"
-	})
-	line("gel time, first cell", func(r Compared) string { return outTime(r.Summary.GelTimeFirstS) })
-	line("gel time, last cell", func(r Compared) string { return outTime(r.Summary.GelTimeLastS) })
-	line("gel front spread", func(r Compared) string { return outTime(gelFrontSpread(r.Summary)) })
-	line("control: sensor off program", func(r Compared) string {
-		if r.Summary.ControlMaxErrorK == nil {
-			return "no control"
-		}
-		return unit(*r.Summary.ControlMaxErrorK, "%.2f", " K at most")
-	})
-	line("energy balance error", func(r Compared) string { return fmt.Sprintf("%.2g", float64(r.Summary.EnergyBalanceError)) })
 	if err := tw.Flush(); err != nil {
 		return err
 	}
 	for _, r := range rows {
 		if r.Err != nil {
 			fmt.Fprintf(&b, "%s: %v\n", r.Name, r.Err)
+		}
+	}
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// ComparisonMarkdown writes the table of ComparisonRows as a Markdown
+// table (the README shows the demo's).
+func ComparisonMarkdown(w io.Writer, rows []Compared) error {
+	var b strings.Builder
+	for i, row := range ComparisonRows(rows) {
+		cells := make([]string, len(row))
+		for j, c := range row {
+			cells[j] = strings.ReplaceAll(c, "|", "\\|")
+		}
+		fmt.Fprintf(&b, "| %s |\n", strings.Join(cells, " | "))
+		if i == 0 {
+			b.WriteString("|" + strings.Repeat("---|", len(row)) + "\n")
 		}
 	}
 	_, err := io.WriteString(w, b.String())

@@ -66,12 +66,19 @@ func TestControlledProbesAndSummary(t *testing.T) {
 	}
 	rows := testkit.ReadCSV(t, filepath.Join(dir, ProbesFile))
 	// Source: the README's Case file reference, column order; the sensor at 5 mm is added as a probe.
-	want := []string{"time_s", "T_0mm_C", "cure_0mm", "T_5mm_C", "cure_5mm", "air_top_C", "power_fraction", "heat_in_J_per_m2"}
+	// program_C (the control program at each output time) comes before
+	// power_fraction.
+	want := []string{"time_s", "T_0mm_C", "cure_0mm", "T_5mm_C", "cure_5mm", "air_top_C", "program_C", "power_fraction", "heat_in_J_per_m2"}
 	if !reflect.DeepEqual(rows[0], want) {
 		t.Fatalf("probes.csv header %v, want %v", rows[0], want)
 	}
 	for _, row := range rows[1:] {
-		u := parseF(t, row[6])
+		// The program column holds the program at the row's time.
+		tm, prog := parseF(t, row[0]), parseF(t, row[6])
+		if want := c.Problem.Volumetric.Control.Program.At(tm) - 273.15; math.Abs(prog-want) > 1e-6 {
+			t.Errorf("program_C at t = %g s: %g, want %g", tm, prog, want)
+		}
+		u := parseF(t, row[7])
 		if !(u >= 0 && u <= 1) {
 			t.Errorf("t = %s s: power_fraction %g outside [0, 1]", row[0], u)
 		}

@@ -120,16 +120,20 @@ func ExamplePrintSummary() {
 	PrintSummary(os.Stdout, s)
 	// Output:
 	// bond line
-	//   status              criteria-failed
-	//   peak temperature    131.5 C at 0.2 mm, t = 90.0 min
-	//   overshoot           +11.5 K over the hottest driving temperature
-	//   max spread          0.8 K (curing layers)
-	//   final cure          min 0.860 at 0.45 mm, mean 0.910
-	//   gel time            first 40.0 min, last 41.0 min
-	//   min final Tg        95.0 C
-	//   energy balance      3e-15 (relative error)
-	//   steps               210, end t = 2.50 h
-	//   criterion min_cure  0.86 >= 0.9  FAILED
+	//   status                criteria-failed
+	//   peak temperature      131.5 °C at 0.2 mm, t = 90.0 min
+	//   overshoot             +11.5 K over the hottest driving temperature
+	//   largest spread        0.8 K across the curing layers
+	//   least final cure      0.860 at 0.45 mm
+	//   mean final cure       0.910
+	//   time to min_cure      never
+	//   first gel time        40.0 min
+	//   last gel time         41.0 min
+	//   lowest final Tg       95.0 °C
+	//   energy balance error  3e-15 (relative)
+	//   steps                 210
+	//   end time              2.50 h
+	//   criterion min_cure    0.86 >= 0.9  FAILED
 	// FAILED min_cure: 0.86 at 0.45 mm < 0.9
 }
 

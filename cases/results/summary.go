@@ -27,6 +27,10 @@ const (
 	CriterionMinCure        = "min_cure"
 	CriterionMaxTemperature = "max_temperature"
 	CriterionMaxSpread      = "max_spread"
+	// CriterionShareMet is the criterion that run --uncertain adds: the
+	// share of samples that met every criterion must reach [uncertainty]
+	// share.
+	CriterionShareMet = "uncertainty_share"
 )
 
 // Verdict is the judgement of one acceptance criterion. Value and Limit are
@@ -216,6 +220,9 @@ type Summary struct {
 	// ControlMaxErrorK is set only under closed-loop volumetric heating
 	// (see ControlError); omitted otherwise.
 	ControlMaxErrorK *Float `json:"control_max_error_K,omitempty"`
+	// ControlSensorDepthMM is the depth of the controlled temperature,
+	// set with ControlMaxErrorK; the report marks the probe there.
+	ControlSensorDepthMM *Float `json:"control_sensor_depth_mm,omitempty"`
 	// GelPoint is the gel point of each curing layer, by layer name.
 	GelPoint map[string]float64 `json:"gel_point,omitempty"`
 }
@@ -266,19 +273,85 @@ func Summarize(c *cases.Case, r *solver.Result) Summary {
 	if cases.Controlled(c.Problem) {
 		e := Float(num.Round6(ControlError(c, r)))
 		out.ControlMaxErrorK = &e
+		z := Float(num.MM(c.Problem.Volumetric.Control.Sensor))
+		out.ControlSensorDepthMM = &z
 	}
 	if r.Status != solver.OK {
 		msg := "the run stopped early"
 		if r.Err != nil {
 			msg = r.Err.Error()
 		}
-		out.Message = fmt.Sprintf("%s; the outputs hold the state up to t = %s s", msg, num.Fixed(r.EndTime, 6))
+		out.Message = fmt.Sprintf("%s; the outputs hold the state up to t = %s s (%s)", msg, num.Fixed(r.EndTime, 3), num.HumanTime(r.EndTime))
 	}
 	return out
 }
 
-// PrintSummary writes a short table of s for a terminal: the headline
-// numbers, the criteria, and then one line per failed criterion, such as
+// SummaryRow is one line of a summary as the terminal and the report show
+// it: a label of Vocabulary (or "status", "stopped") and the value with its
+// unit and, where it helps, where and when.
+type SummaryRow struct{ Label, Value string }
+
+// SummaryRows returns the lines of s that the terminal (PrintSummary) and
+// the report's summary table both show, in this order: status, peak
+// temperature (with its depth and time), overshoot, largest spread, least
+// final cure (with its depth), mean final cure, time to min_cure, first and
+// last gel time, lowest final Tg, sensor off its program, energy balance
+// error, steps, end time, and why the run stopped early. A quantity that
+// does not apply to the case is left out.
+func SummaryRows(s Summary) []SummaryRow {
+	var rows []SummaryRow
+	add := func(key, v string) { rows = append(rows, SummaryRow{Label(key), v}) }
+	rows = append(rows, SummaryRow{"status", s.Status})
+	add("peak_temperature_C", fmt.Sprintf("%s at %s, t = %s", num.TextC(float64(s.PeakTemperatureC)), num.TextMM(float64(s.PeakDepthMM)), num.TextTime(float64(s.PeakTimeS))))
+	if OutOK(s.OvershootK) {
+		add("overshoot_K", fmt.Sprintf("%+.1f K over the hottest driving temperature", float64(s.OvershootK)))
+	}
+	if OutOK(s.MaxSpreadK) {
+		add("max_spread_K", num.TextK(float64(s.MaxSpreadK))+" across the curing layers")
+	}
+	if OutOK(s.MinFinalCure) {
+		add("min_final_cure", num.TextCure(float64(s.MinFinalCure))+" at "+num.TextMM(float64(s.MinFinalCureDepthMM)))
+		add("mean_final_cure", num.TextCure(float64(s.MeanFinalCure)))
+		if OutOK(s.TimeToMinCureS) {
+			add("time_to_min_cure_s", num.TextTime(float64(s.TimeToMinCureS)))
+		} else if minCureSet(s) {
+			add("time_to_min_cure_s", "never")
+		}
+		first, last := "never", "never"
+		if OutOK(s.GelTimeFirstS) {
+			first = num.TextTime(float64(s.GelTimeFirstS))
+			last = "some cells never gel"
+		}
+		if OutOK(s.GelTimeLastS) {
+			last = num.TextTime(float64(s.GelTimeLastS))
+		}
+		add("gel_time_first_s", first)
+		add("gel_time_last_s", last)
+		if OutOK(s.MinFinalGlassTransitionC) {
+			add("min_final_glass_transition_C", num.TextC(float64(s.MinFinalGlassTransitionC)))
+		}
+	}
+	if s.ControlMaxErrorK != nil && OutOK(*s.ControlMaxErrorK) {
+		add("control_max_error_K", fmt.Sprintf("%.2f K at most", float64(*s.ControlMaxErrorK)))
+	}
+	add("energy_balance_error", strconv.FormatFloat(float64(s.EnergyBalanceError), 'g', 2, 64)+" (relative)")
+	add("steps", strconv.Itoa(s.Steps))
+	add("end_time_s", num.TextTime(float64(s.EndTimeS)))
+	return rows
+}
+
+// minCureSet reports whether the summary judges a min_cure criterion.
+func minCureSet(s Summary) bool {
+	for _, v := range s.Criteria {
+		if v.Name == CriterionMinCure {
+			return true
+		}
+	}
+	return false
+}
+
+// PrintSummary writes a short table of s for a terminal: the lines of
+// SummaryRows, the criteria, and then one line per failed criterion, such as
 //
 //	FAILED min_cure: 0.82 at 11.3 mm < 0.9
 //
@@ -289,43 +362,15 @@ func PrintSummary(w io.Writer, s Summary) error {
 	if s.Title != "" {
 		fmt.Fprintf(tw, "%s\n", s.Title)
 	}
-	row("status", "%s", s.Status)
-	row("peak temperature", "%s C at %s mm, t = %s", outT(s.PeakTemperatureC), outDepth(s.PeakDepthMM), outTime(s.PeakTimeS))
-	if OutOK(s.OvershootK) {
-		row("overshoot", "%+.1f K over the hottest driving temperature", float64(s.OvershootK))
+	for _, r := range SummaryRows(s) {
+		row(r.Label, "%s", r.Value)
 	}
-	if OutOK(s.MaxSpreadK) {
-		row("max spread", "%.1f K (curing layers)", float64(s.MaxSpreadK))
-	}
-	if s.ControlMaxErrorK != nil && OutOK(*s.ControlMaxErrorK) {
-		row("control", "sensor within %.2f K of its program at every output time", float64(*s.ControlMaxErrorK))
-	}
-	if OutOK(s.MinFinalCure) {
-		row("final cure", "min %s at %s mm, mean %s", outCure(s.MinFinalCure), outDepth(s.MinFinalCureDepthMM), outCure(s.MeanFinalCure))
-		if OutOK(s.TimeToMinCureS) {
-			row("time to min_cure", "%s", outTime(s.TimeToMinCureS))
-		}
-		gel := "never"
-		if OutOK(s.GelTimeFirstS) {
-			last := "some cells never gel"
-			if OutOK(s.GelTimeLastS) {
-				last = "last " + outTime(s.GelTimeLastS)
-			}
-			gel = "first " + outTime(s.GelTimeFirstS) + ", " + last
-		}
-		row("gel time", "%s", gel)
-		if OutOK(s.MinFinalGlassTransitionC) {
-			row("min final Tg", "%s C", outT(s.MinFinalGlassTransitionC))
-		}
-	}
-	row("energy balance", "%.2g (relative error)", float64(s.EnergyBalanceError))
-	row("steps", "%d, end t = %s", s.Steps, outTime(s.EndTimeS))
 	for _, v := range s.Criteria {
 		res := "pass"
 		if !v.Pass {
 			res = "FAILED"
 		}
-		op := map[string]string{CriterionMinCure: ">="}[v.Name]
+		op := map[string]string{CriterionMinCure: ">=", CriterionShareMet: ">="}[v.Name]
 		if op == "" {
 			op = "<="
 		}
@@ -352,6 +397,8 @@ func PrintSummary(w io.Writer, s Summary) error {
 		switch v.Name {
 		case CriterionMinCure:
 			fmt.Fprintf(&b, "FAILED %s: %s at %s mm < %s\n", v.Name, val, outDepth(s.MinFinalCureDepthMM), lim)
+		case CriterionShareMet:
+			fmt.Fprintf(&b, "FAILED %s: every criterion met in %.1f %% of the samples < %.1f %% required\n", v.Name, 100*v.Value, 100*v.Limit)
 		case CriterionMaxTemperature:
 			fmt.Fprintf(&b, "FAILED %s: %s%s at %s mm, t = %s > %s%s\n", v.Name, val, u, outDepth(s.PeakDepthMM), outTime(s.PeakTimeS), lim, u)
 		default:
@@ -371,7 +418,7 @@ func PrintSummary(w io.Writer, s Summary) error {
 func criterionUnit(name string) string {
 	switch name {
 	case CriterionMaxTemperature:
-		return "C"
+		return "°C"
 	case CriterionMaxSpread:
 		return "K"
 	}

@@ -3,7 +3,6 @@ package results
 import (
 	"encoding/json"
 	"fmt"
-	"strconv"
 	"strings"
 )
 
@@ -24,30 +23,32 @@ const (
 	SweepRunsDir = "runs"
 )
 
-// sweepColumns are the summary columns of summary.csv after the varied
-// keys, named like the keys of summary.json, in this order. Criteria come
-// next as min_cure_pass, max_temperature_pass, max_spread_pass ("true",
-// "false", or empty when the case does not set the criterion), then status
-// and error.
-var SweepColumns = []struct {
+// SweepColumns are the summary columns of summary.csv after the varied
+// keys, named by the keys of Vocabulary (summary.json's), in this order.
+// Criteria come next as min_cure_pass, max_temperature_pass,
+// max_spread_pass ("true", "false", or empty when the case does not set
+// the criterion), then status, error, and note (what the run changed
+// beyond its values, such as a probe below a thinner stack left out; see
+// cases.Case.Notes).
+var SweepColumns = sweepColumns("peak_temperature_C", "peak_time_s", "peak_depth_mm", "overshoot_K",
+	"max_spread_K", "min_final_cure", "min_final_cure_depth_mm", "mean_final_cure", "time_to_min_cure_s",
+	"gel_time_first_s", "gel_time_last_s", "min_final_glass_transition_C", "energy_balance_error", "steps",
+	"end_time_s")
+
+// SweepColumn is one summary column of summary.csv.
+type SweepColumn struct {
 	Name string
-	Get  func(*Summary) string
-}{
-	{"peak_temperature_C", func(s *Summary) string { return csvFloat(s.PeakTemperatureC) }},
-	{"peak_time_s", func(s *Summary) string { return csvFloat(s.PeakTimeS) }},
-	{"peak_depth_mm", func(s *Summary) string { return csvFloat(s.PeakDepthMM) }},
-	{"overshoot_K", func(s *Summary) string { return csvFloat(s.OvershootK) }},
-	{"max_spread_K", func(s *Summary) string { return csvFloat(s.MaxSpreadK) }},
-	{"min_final_cure", func(s *Summary) string { return csvFloat(s.MinFinalCure) }},
-	{"min_final_cure_depth_mm", func(s *Summary) string { return csvFloat(s.MinFinalCureDepthMM) }},
-	{"mean_final_cure", func(s *Summary) string { return csvFloat(s.MeanFinalCure) }},
-	{"time_to_min_cure_s", func(s *Summary) string { return csvFloat(s.TimeToMinCureS) }},
-	{"gel_time_first_s", func(s *Summary) string { return csvFloat(s.GelTimeFirstS) }},
-	{"gel_time_last_s", func(s *Summary) string { return csvFloat(s.GelTimeLastS) }},
-	{"min_final_glass_transition_C", func(s *Summary) string { return csvFloat(s.MinFinalGlassTransitionC) }},
-	{"energy_balance_error", func(s *Summary) string { return csvFloat(s.EnergyBalanceError) }},
-	{"steps", func(s *Summary) string { return strconv.Itoa(s.Steps) }},
-	{"end_time_s", func(s *Summary) string { return csvFloat(s.EndTimeS) }},
+	Get  func(*Summary) string // the value as summary.json writes it; "" for null
+}
+
+// sweepColumns returns the columns of the quantities with the given keys.
+func sweepColumns(keys ...string) []SweepColumn {
+	out := make([]SweepColumn, len(keys))
+	for i, k := range keys {
+		q := Term(k)
+		out[i] = SweepColumn{Name: k, Get: func(s *Summary) string { return csvFloat(Float(q.Value(s))) }}
+	}
+	return out
 }
 
 // sweepCriteria are the criteria columns, in order.
@@ -71,8 +72,12 @@ func SweepHeader(keys []string) []string {
 	for _, c := range SweepCriteria {
 		h = append(h, c+"_pass")
 	}
-	return append(h, "status", "error")
+	return append(h, "status", "error", "note")
 }
+
+// SweepStatusCol returns the index of the status column of a summary.csv
+// header (status, error and note end it).
+func SweepStatusCol(header []string) int { return len(header) - 3 }
 
 // sweepDef is the content of sweep.json: what defines a sweep, and nothing
 // that depends on where or how it runs, so that every shard of one sweep

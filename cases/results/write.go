@@ -164,10 +164,15 @@ func probesHeader(c *cases.Case) []string {
 		h = append(h, "air_bottom_C")
 	}
 	if cases.Controlled(p) {
-		h = append(h, "power_fraction")
+		h = append(h, ProgramColumn, "power_fraction")
 	}
 	return append(h, "heat_in_J_per_m2")
 }
+
+// ProgramColumn is the column of probes.csv that holds, under closed-loop
+// volumetric heating, the temperature that the control program asks of the
+// sensor at each output time, in °C.
+const ProgramColumn = "program_C"
 
 // writeProbes writes probes.csv: one row per output time, formatted like
 // writeFields.
@@ -192,6 +197,8 @@ func writeProbes(w io.Writer, c *cases.Case, r *solver.Result) error {
 			b = num.AppendFixed(b, num.KtoC(s.AirBottom), 6)
 		}
 		if cases.Controlled(p) {
+			b = append(b, ',')
+			b = num.AppendFixed(b, num.KtoC(p.Volumetric.Control.Program.At(s.Time)), 6)
 			b = append(b, ',')
 			b = num.AppendSig(b, s.PowerFraction)
 		}

@@ -95,7 +95,7 @@ func MergeSweeps(out string, dirs []string, allowMissing bool) (MergeReport, err
 		}
 	}
 	rep.Rows = len(rows)
-	statusCol := len(header) - 2
+	statusCol := results.SweepStatusCol(header)
 	for r := range rep.Runs {
 		rec, ok := rows[r]
 		if !ok {
@@ -173,13 +173,13 @@ func FormatRuns(runs []int, limit int) string {
 	return strings.Join(parts, ", ")
 }
 
-// SweepCaseCriteria returns the criteria of the case file at casePath for
-// the report of the sweep directory dir (WriteSweepReport), after checking
+// SweepCase returns the case file at casePath for the report of the sweep
+// directory dir (WriteSweepReport: its criteria and cautions), after checking
 // that it is the sweep's case: its SHA-256 must be the case_sha256 of
 // dir/sweep.json (else an error wrapping ErrSweepMismatch). Errors of the
 // case file itself are returned as Parse gives them. Cost: one read and
 // one validation of the case.
-func SweepCaseCriteria(dir, casePath string) (*cases.Criteria, error) {
+func SweepCase(dir, casePath string) (*cases.Case, error) {
 	b, err := os.ReadFile(filepath.Join(dir, results.SweepDefinitionFile))
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil, &sweepError{msg: fmt.Sprintf("%s is not a sweep directory: it has no %s", dir, results.SweepDefinitionFile)}
@@ -204,5 +204,5 @@ func SweepCaseCriteria(dir, casePath string) (*cases.Criteria, error) {
 	if err != nil {
 		return nil, err
 	}
-	return &c.Criteria, nil
+	return c, nil
 }

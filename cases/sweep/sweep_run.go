@@ -85,6 +85,10 @@ type SweepReport struct {
 	Repaired bool
 	// Interrupted reports that ctx was cancelled before every run was done.
 	Interrupted bool
+	// Noted lists the committed runs whose row has a note (a probe left
+	// out), in run order; Note is the first run's note.
+	Noted []int
+	Note  string
 }
 
 // Run runs the sweep, or the runs of one shard of it, into dir, skipping
@@ -141,7 +145,7 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 	defer j.close()
 	rep.Repaired = j.repaired
 
-	statusCol := len(header) - 2
+	statusCol := results.SweepStatusCol(header)
 	count := func(rec []string) { rep.add(rec[statusCol]) }
 	var todo []int
 	for r := opt.Shard; r < s.Runs; r += shards {
@@ -165,32 +169,6 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 		bad: rep.Failed + rep.Runaway, crit: rep.CriteriaFailed}
 	ictx, cancel := context.WithCancel(ctx)
 	defer cancel()
-	every := opt.commitEvery
-	if every == 0 {
-		every = sweepCommitEvery
-	}
-	c := &collector{j: j, rep: &rep, prog: prog, log: log, cancel: cancel, statusCol: statusCol, width: width, afterCommit: opt.afterCommit}
-	c.collect(s.startWorkers(ictx, todo, jobs, dir, opt.KeepFields, width), every)
-	firstErr := c.err
-	prog.finish()
-	rep.Interrupted = ctx.Err() != nil && rep.Done < rep.Runs
-	if firstErr != nil {
-		log.printf("stop error=%q done=%d/%d", firstErr.Error(), rep.Done, rep.Runs)
-		return rep, firstErr
-	}
-	if err := writeSweepSummary(dir, header, j.rows); err != nil {
-		return rep, fmt.Errorf("writing %s: %w", filepath.Join(dir, results.SweepSummaryFile), err)
-	}
-	log.printf("stop done=%d/%d ok=%d criteria-failed=%d runaway=%d failed=%d interrupted=%v",
-		rep.Done, rep.Runs, rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed, rep.Interrupted)
-	return rep, nil
-}
-
-// startWorkers runs the runs todo on jobs workers, each with its own solver
-// workspace, and sends every finished run to the returned channel, which is
-// closed when the workers are done. A run cut short by ctx is not sent: it
-// runs again on resume.
-func (s *Sweep) startWorkers(ctx context.Context, todo []int, jobs int, dir string, keep bool, width int) <-chan sweepResult {
 	work := make(chan int)
 	done := make(chan sweepResult, jobs)
 	go func() {
@@ -198,7 +176,7 @@ func (s *Sweep) startWorkers(ctx context.Context, todo []int, jobs int, dir stri
 		for _, r := range todo {
 			select {
 			case work <- r:
-			case <-ctx.Done():
+			case <-ictx.Done():
 				return
 			}
 		}
@@ -210,11 +188,11 @@ func (s *Sweep) startWorkers(ctx context.Context, todo []int, jobs int, dir stri
 			defer wg.Done()
 			var ws solver.Workspace // the worker's solver buffers, reused run after run
 			for r := range work {
-				if ctx.Err() != nil {
+				if ictx.Err() != nil {
 					continue
 				}
-				res := s.runOne(ctx, &ws, r, dir, keep, width)
-				if ctx.Err() != nil && res.err == nil {
+				res := s.runOne(ictx, &ws, r, dir, opt.KeepFields, width)
+				if ictx.Err() != nil && res.err == nil {
 					continue // cut short: not committed, run again on resume
 				}
 				done <- res
@@ -225,30 +203,52 @@ func (s *Sweep) startWorkers(ctx context.Context, todo []int, jobs int, dir stri
 		wg.Wait()
 		close(done)
 	}()
-	return done
-}
-
-// collector commits finished runs to the journal in groups, counts them in
-// the report and the progress line, and logs them. The first error (a run
-// that could not write its outputs, or the journal) stops the sweep.
-type collector struct {
-	j           *journal
-	rep         *SweepReport
-	prog        *sweepProgress
-	log         *sweepLog
-	cancel      context.CancelFunc
-	statusCol   int // column of the status in a journal record
-	width       int // digits of a run number in the log
-	afterCommit func(done int)
-	batch       []sweepResult
-	err         error
-}
-
-// collect receives the finished runs until done is closed. Group commit: a
-// finished run waits at most every for the next sync, so that a sweep of
-// millisecond runs syncs a few times a second, not once per run (a sync
-// stalls the workers' processor time too).
-func (c *collector) collect(done <-chan sweepResult, every time.Duration) {
+	var firstErr error
+	var batch []sweepResult
+	every := opt.commitEvery
+	if every == 0 {
+		every = sweepCommitEvery
+	}
+	// commit writes the batch in one call and syncs once.
+	commit := func() {
+		if len(batch) == 0 || firstErr != nil {
+			batch = batch[:0]
+			return
+		}
+		recs := make([][]string, 0, len(batch))
+		for _, r := range batch {
+			if r.err != nil {
+				firstErr = r.err
+				break
+			}
+			recs = append(recs, r.rec)
+		}
+		if firstErr == nil {
+			firstErr = j.append(recs)
+		}
+		if firstErr != nil {
+			cancel()
+			batch = batch[:0]
+			return
+		}
+		for _, r := range batch {
+			rep.Done++
+			count(r.rec)
+			prog.record(r.rec[statusCol])
+			if note := r.rec[statusCol+2]; note != "" {
+				log.printf("run %0*d %s %.3fs note=%q", width, r.run, r.rec[statusCol], r.wall.Seconds(), note)
+			} else {
+				log.printf("run %0*d %s %.3fs", width, r.run, r.rec[statusCol], r.wall.Seconds())
+			}
+		}
+		batch = batch[:0]
+		if opt.afterCommit != nil {
+			opt.afterCommit(rep.Done)
+		}
+	}
+	// Group commit: a finished run waits at most `every` for the next sync,
+	// so that a sweep of millisecond runs syncs a few times a second, not
+	// once per run (a sync stalls the workers' processor time too).
 	var last time.Time
 	var due <-chan time.Time
 	for done != nil {
@@ -258,53 +258,39 @@ func (c *collector) collect(done <-chan sweepResult, every time.Duration) {
 				done = nil
 				break
 			}
-			c.batch = append(c.batch, r)
-			if wait := every - time.Since(last); wait <= 0 || len(c.batch) >= sweepCommitMax {
-				c.commit()
+			batch = append(batch, r)
+			if wait := every - time.Since(last); wait <= 0 || len(batch) >= sweepCommitMax {
+				commit()
 				last, due = time.Now(), nil
 			} else if due == nil {
 				due = time.After(wait)
 			}
 		case <-due:
-			c.commit()
+			commit()
 			last, due = time.Now(), nil
 		}
 	}
-	c.commit()
-}
-
-// commit writes the batch in one call and syncs once.
-func (c *collector) commit() {
-	if len(c.batch) == 0 || c.err != nil {
-		c.batch = c.batch[:0]
-		return
+	commit()
+	prog.finish()
+	rep.Interrupted = ctx.Err() != nil && rep.Done < rep.Runs
+	if firstErr != nil {
+		log.printf("stop error=%q done=%d/%d", firstErr.Error(), rep.Done, rep.Runs)
+		return rep, firstErr
 	}
-	recs := make([][]string, 0, len(c.batch))
-	for _, r := range c.batch {
-		if r.err != nil {
-			c.err = r.err
-			break
+	for r := opt.Shard; r < s.Runs; r += shards {
+		if rec, ok := j.rows[r]; ok && rec[statusCol+2] != "" {
+			rep.Noted = append(rep.Noted, r)
+			if rep.Note == "" {
+				rep.Note = rec[statusCol+2]
+			}
 		}
-		recs = append(recs, r.rec)
 	}
-	if c.err == nil {
-		c.err = c.j.append(recs)
+	if err := writeSweepSummary(dir, header, j.rows); err != nil {
+		return rep, fmt.Errorf("writing %s: %w", filepath.Join(dir, results.SweepSummaryFile), err)
 	}
-	if c.err != nil {
-		c.cancel()
-		c.batch = c.batch[:0]
-		return
-	}
-	for _, r := range c.batch {
-		c.rep.Done++
-		c.rep.add(r.rec[c.statusCol])
-		c.prog.record(r.rec[c.statusCol])
-		c.log.printf("run %0*d %s %.3fs", c.width, r.run, r.rec[c.statusCol], r.wall.Seconds())
-	}
-	c.batch = c.batch[:0]
-	if c.afterCommit != nil {
-		c.afterCommit(c.rep.Done)
-	}
+	log.printf("stop done=%d/%d ok=%d criteria-failed=%d runaway=%d failed=%d interrupted=%v",
+		rep.Done, rep.Runs, rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed, rep.Interrupted)
+	return rep, nil
 }
 
 // sweepResult is one finished run on its way to the collector.
@@ -319,14 +305,14 @@ type sweepResult struct {
 func (s *Sweep) runOne(ctx context.Context, ws *solver.Workspace, r int, dir string, keep bool, width int) sweepResult {
 	start := time.Now()
 	shown, vals := s.point(r)
-	rec := make([]string, 0, 1+len(shown)+len(results.SweepColumns)+len(results.SweepCriteria)+2)
+	rec := make([]string, 0, 1+len(shown)+len(results.SweepColumns)+len(results.SweepCriteria)+3)
 	rec = append(rec, strconv.Itoa(r))
 	rec = append(rec, shown...)
 	failed := func(msg string) sweepResult {
 		for range len(results.SweepColumns) + len(results.SweepCriteria) {
 			rec = append(rec, "")
 		}
-		rec = append(rec, results.StatusFailed, cases.OneLine(msg))
+		rec = append(rec, results.StatusFailed, cases.OneLine(msg), "")
 		return sweepResult{run: r, rec: rec, wall: time.Since(start)}
 	}
 	c, err := s.caseOf(vals)
@@ -365,7 +351,7 @@ func (s *Sweep) runOne(ctx context.Context, ws *solver.Workspace, r int, dir str
 			msg = res.Err.Error()
 		}
 	}
-	rec = append(rec, sum.Status, cases.OneLine(msg))
+	rec = append(rec, sum.Status, cases.OneLine(msg), cases.OneLine(strings.Join(c.Notes, "; ")))
 	return sweepResult{run: r, rec: rec, wall: time.Since(start)}
 }
 

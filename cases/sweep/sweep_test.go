@@ -603,7 +603,8 @@ func TestSweepFailures(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	status, errc := len(recs[0])-2, len(recs[0])-1
+	status := results.SweepStatusCol(recs[0])
+	errc := status + 1
 	for _, tc := range []struct {
 		run           int
 		status, inErr string

@@ -130,7 +130,7 @@ func tunedText(r *TuneResult) string {
 	var b strings.Builder
 	b.WriteString("# Recommended by cureslab tune: the shortest program found that meets every\n")
 	fmt.Fprintf(&b, "# criterion of %s. A simulation is no substitute for a qualified trial.\n", r.File)
-	fmt.Fprintf(&b, "# Cycle time %s (%s s)", num.HumanTime(r.Best.Cycle), tuneNum(r.Best.Cycle))
+	fmt.Fprintf(&b, "# Cycle time %s", num.Duration(r.Best.Cycle))
 	if r.Own != nil && !math.IsNaN(r.Own.Cycle) {
 		fmt.Fprintf(&b, "; the case's own program: %s", num.HumanTime(r.Own.Cycle))
 	}
@@ -144,13 +144,11 @@ func tunedText(r *TuneResult) string {
 	}
 	if !math.IsNaN(r.EndOffset) {
 		fmt.Fprintf(&b, "# The case sets time.end: set it to %s s (the program's end + %s s).\n",
-			tuneNum(r.Best.Cycle+r.EndOffset), tuneNum(r.EndOffset))
+			num.SecondsUp(r.Best.Cycle+r.EndOffset), num.Seconds(r.EndOffset))
 	}
 	b.WriteString(r.Block)
 	return b.String()
 }
-
-func tuneNum(x float64) string { return strconv.FormatFloat(num.Round6(x), 'g', -1, 64) }
 
 // marginValue writes a criterion value in its unit.
 func marginValue(name string, v float64) string {
@@ -329,7 +327,7 @@ func PrintTune(w io.Writer, r *TuneResult) error {
 		}
 	}
 	if !math.IsNaN(r.EndOffset) {
-		fmt.Fprintf(w, "the case sets time.end: with this program set it to %s s\n", tuneNum(r.Best.Cycle+r.EndOffset))
+		fmt.Fprintf(w, "the case sets time.end: with this program set it to %s s\n", num.SecondsUp(r.Best.Cycle+r.EndOffset))
 	}
 	return nil
 }
@@ -338,7 +336,7 @@ func cycleText(c float64) string {
 	if math.IsNaN(c) {
 		return "n/a"
 	}
-	return fmt.Sprintf("%s (%s s)", num.HumanTime(c), tuneNum(c))
+	return num.Duration(c)
 }
 
 func printMargins(w io.Writer, c *Candidate) {

@@ -58,6 +58,7 @@ type UncertainSample struct {
 	Values  []string        // the uncertain values of this sample as they went into the case
 	Summary results.Summary // its summary; Status is StatusFailed with Message when the case was invalid
 	Err     string          // why the run failed or stopped early, "" when it ran to the end
+	Note    string          // what the sample changed beyond its values (Case.Notes), "" if nothing
 	ran     bool            // the solver ran (the summary holds its values)
 }
 
@@ -100,6 +101,23 @@ type UncertainReport struct {
 
 // Pass reports whether the required share of samples met every criterion.
 func (r *UncertainReport) Pass() bool { return r.AllMet >= r.Share-1e-12 }
+
+// WithUncertainty returns the nominal summary s judged with the samples of
+// rep as well: one more verdict, uncertainty_share (value: the share of
+// samples that met every criterion; limit: the required share), and the
+// status "criteria-failed" when that verdict fails and the nominal run was
+// "ok". summary.json, the terminal, the report and the exit status then
+// agree: a run whose samples fall short of the share has failed a
+// criterion, however its nominal values look.
+func WithUncertainty(s results.Summary, rep *UncertainReport) results.Summary {
+	v := results.Verdict{Name: results.CriterionShareMet, Value: num.RoundSig(rep.AllMet), Limit: rep.Share, Pass: rep.Pass()}
+	out := s
+	out.Criteria = append(append(results.Verdicts{}, s.Criteria...), v)
+	if !v.Pass && s.Status == results.StatusOK {
+		out.Status = results.StatusCriteriaFailed
+	}
+	return out
+}
 
 // lhsPoints returns n Latin-hypercube points in [0, 1)^k: gonum's
 // samplemv.LatinHypercube on the unit cube with a PCG source seeded with
@@ -214,7 +232,7 @@ func runSample(ctx context.Context, v *cases.CaseVariant, unc *cases.Uncertainty
 	if r.Status != solver.OK {
 		msg = s.Message
 	}
-	return UncertainSample{Values: shown, Summary: s, Err: msg, ran: true}
+	return UncertainSample{Values: shown, Summary: s, Err: msg, Note: strings.Join(c.Notes, "; "), ran: true}
 }
 
 // uncForEach calls f(i) for i in [0, n) on jobs goroutines (0: all cores) and
@@ -443,8 +461,10 @@ func (r *UncertainReport) jsonObject() uncertaintyJSON {
 // come from, for each criterion its limit and the share of samples that met
 // it, all_criteria_share, share_required, pass, and the numbers of runaway
 // and failed samples. The summary.json that the nominal run wrote in dir is
-// kept as it is, key for key, with "uncertainty" added at the end; without
-// one, nominal is written. Both files are written atomically
+// kept key for key, its "status" and "criteria" replaced by nominal's (pass
+// WithUncertainty's summary, so that they count the uncertainty_share
+// verdict) and "uncertainty" added at the end; without one, nominal is
+// written. Both files are written atomically
 // (WriteFileAtomic); dir must exist.
 func WriteUncertainty(dir string, nominal results.Summary, rep *UncertainReport) error {
 	if err := textout.WriteFileAtomic(dir, UncertaintyFile, func(w io.Writer) error { return writeUncertaintyCSV(w, rep) }); err != nil {
@@ -462,8 +482,8 @@ func WriteUncertainty(dir string, nominal results.Summary, rep *UncertainReport)
 
 // summaryWithUncertainty returns summary.json with the key "uncertainty"
 // set to u: the file at path as the run wrote it, keys and their order
-// kept (an earlier "uncertainty" is replaced), or, when there is no such
-// file, nominal.
+// kept (an earlier "uncertainty" is replaced, "status" and "criteria" are
+// nominal's), or, when there is no such file, nominal.
 func summaryWithUncertainty(path string, nominal results.Summary, u uncertaintyJSON) ([]byte, error) {
 	type member struct {
 		key string
@@ -491,9 +511,18 @@ func summaryWithUncertainty(path string, nominal results.Summary, u uncertaintyJ
 		if err := dec.Decode(&raw); err != nil {
 			return nil, fmt.Errorf("%s: %w", path, err)
 		}
-		if k, _ := tok.(string); k != "uncertainty" {
-			members = append(members, member{k, raw})
+		k, _ := tok.(string)
+		switch k {
+		case "uncertainty":
+			continue
+		case "status":
+			raw, _ = json.Marshal(nominal.Status)
+		case "criteria":
+			if raw, err = json.Marshal(nominal.Criteria); err != nil {
+				return nil, err
+			}
 		}
+		members = append(members, member{k, raw})
 	}
 	raw, err := json.Marshal(u)
 	if err != nil {
@@ -547,7 +576,7 @@ func writeUncertaintyCSV(w io.Writer, rep *UncertainReport) error {
 				rec = append(rec, pass)
 			}
 		}
-		rec = append(rec, s.Summary.Status, cases.OneLine(s.Err))
+		rec = append(rec, s.Summary.Status, cases.OneLine(s.Err), cases.OneLine(s.Note))
 		cw.Write(rec)
 	}
 	cw.Flush()
@@ -563,7 +592,7 @@ func PrintUncertainty(w io.Writer, rep *UncertainReport) error {
 	for _, in := range rep.Inputs {
 		fmt.Fprintf(tw, "  %s\t%s\t%s\n", in.Key, in.Spread, in.Distribution)
 	}
-	fmt.Fprintf(tw, "  field\t5 %%\t50 %%\t95 %%\n")
+	fmt.Fprintf(tw, "  quantity\t5 %%\t50 %%\t95 %%\n")
 	shown := map[string]bool{"peak_temperature_C": true, "overshoot_K": true, "max_spread_K": true,
 		"min_final_cure": true, "mean_final_cure": true, "time_to_min_cure_s": true, "gel_time_last_s": true,
 		"min_final_glass_transition_C": true}
@@ -571,7 +600,8 @@ func PrintUncertainty(w io.Writer, rep *UncertainReport) error {
 		if !shown[f.Name] || f.N == 0 {
 			continue
 		}
-		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\n", f.Name, uncFmt(f.P5), uncFmt(f.P50), uncFmt(f.P95))
+		q := results.Term(f.Name)
+		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\n", q.Label, q.Format(f.P5), q.Format(f.P50), q.Format(f.P95))
 	}
 	for _, c := range rep.Criteria {
 		fmt.Fprintf(tw, "  criterion %s\tmet in %.1f %% of samples\n", c.Name, 100*c.Share)
@@ -585,13 +615,6 @@ func PrintUncertainty(w io.Writer, rep *UncertainReport) error {
 		fmt.Fprintf(tw, "  %d samples ran away, %d failed (see %s)\n", rep.Runaway, rep.Failed, UncertaintyFile)
 	}
 	return tw.Flush()
-}
-
-func uncFmt(x float64) string {
-	if math.IsNaN(x) {
-		return "n/a"
-	}
-	return strconv.FormatFloat(x, 'g', 5, 64)
 }
 
 // uncProgress draws "k/n what" on one line updated in place; nil w draws

@@ -381,7 +381,7 @@ func TestWriteUncertainty(t *testing.T) {
 	}
 	rows := testkit.ReadCSV(t, filepath.Join(dir, UncertaintyFile))
 	if len(rows) != 4 || rows[0][0] != "sample" || rows[0][1] != "top.h" || rows[0][2] != "peak_temperature_C" ||
-		rows[0][len(rows[0])-2] != "status" || rows[3][0] != "2" {
+		rows[0][len(rows[0])-3] != "status" || rows[0][len(rows[0])-1] != "note" || rows[3][0] != "2" {
 		t.Errorf("uncertainty.csv: %d rows, header %v", len(rows), rows[0])
 	}
 	b, err := os.ReadFile(filepath.Join(dir, results.SummaryFile))

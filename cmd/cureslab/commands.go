@@ -172,8 +172,9 @@ func (c *Command) printHelp(w io.Writer) {
 // printUsage writes the overview of every command.
 func printUsage(w io.Writer) {
 	fmt.Fprint(w, `cureslab simulates heat and cure through the thickness of a curing thermoset
-part (bond lines, potting, coatings, laminates) in ovens, on platens or under
-lamps.
+part (bond lines, potting, coatings, laminates) in ovens, on platens, under
+lamps or by volumetric (microwave or dielectric) heating under closed-loop
+control.
 
 Usage: cureslab COMMAND [ARGS]
 

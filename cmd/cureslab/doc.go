@@ -1,6 +1,7 @@
 // Command cureslab simulates heat and cure through the thickness of a curing
 // thermoset part: bond lines, potting, coatings and laminates cured in ovens,
-// on platens or under lamps.
+// on platens, under lamps or by volumetric (microwave or dielectric) heating
+// under closed-loop control.
 //
 // Usage:
 //

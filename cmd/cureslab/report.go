@@ -45,16 +45,16 @@ line; nothing is written).`,
 				return e.usageError("%s is not a directory (give the output directory of 'cureslab run')", dir)
 			}
 			if _, err := os.Stat(filepath.Join(dir, results.SweepDefinitionFile)); err == nil {
-				var crit *cases.Criteria
+				var sc *cases.Case
 				if *casePath != "" {
-					c, err := sweep.SweepCaseCriteria(dir, *casePath)
+					c, err := sweep.SweepCase(dir, *casePath)
 					if err != nil {
 						fmt.Fprintf(e.stderr, "cureslab report: --case: %v\n", err)
 						return exitUsage
 					}
-					crit = c
+					sc = c
 				}
-				if err := report.WriteSweepReport(dir, "", crit); err != nil {
+				if err := report.WriteSweepReport(dir, "", sc); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
 					return exitUsage
 				}

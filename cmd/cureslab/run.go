@@ -72,30 +72,48 @@ cureslab run potting.toml -o potting-out`,
 			if msg := checkOutDir(dir); msg != "" {
 				return e.usageError("%s", msg)
 			}
-			o, code := runCase(e, "run", c, dir, simulate.Options{Report: !*noReport})
+			if *samples == 0 {
+				o, code := runCase(e, "run", c, dir, simulate.Options{Report: !*noReport})
+				if code == exitUsage {
+					return code
+				}
+				results.PrintSummary(e.stdout, o.Summary)
+				fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
+				return code
+			}
+			// With --uncertain the samples take part in the verdict
+			// (uncertain.WithUncertainty): the summary, summary.json and
+			// the report are written once they are in, so that all three
+			// and the exit status agree.
+			o, code := runCase(e, "run", c, dir, simulate.Options{Report: false})
 			if code == exitUsage {
 				return code
 			}
 			s := o.Summary
-			results.PrintSummary(e.stdout, s)
-			if *samples > 0 {
-				opt := uncertain.UncertainOptions{Samples: *samples, Seed: *seed, Jobs: *jobs}
-				if isTerminal(e.stderr) {
-					opt.Progress = e.stderr
-				}
-				rep, err := uncertain.Uncertain(e.ctx, c, text, opt)
-				if err == nil {
-					err = uncertain.WriteUncertainty(dir, s, rep)
-				}
-				if err != nil {
-					fmt.Fprintf(e.stderr, "cureslab run: --uncertain: %v\n", err)
+			opt := uncertain.UncertainOptions{Samples: *samples, Seed: *seed, Jobs: *jobs}
+			if isTerminal(e.stderr) {
+				opt.Progress = e.stderr
+			}
+			rep, err := uncertain.Uncertain(e.ctx, c, text, opt)
+			if err == nil {
+				s = uncertain.WithUncertainty(s, rep)
+				err = uncertain.WriteUncertainty(dir, s, rep)
+			}
+			if err != nil {
+				fmt.Fprintf(e.stderr, "cureslab run: --uncertain: %v\n", err)
+				return exitUsage
+			}
+			if !*noReport {
+				if err := report.RedrawReport(dir); err != nil {
+					fmt.Fprintf(e.stderr, "cureslab run: %v\n", err)
 					return exitUsage
 				}
-				fmt.Fprintln(e.stdout)
-				uncertain.PrintUncertainty(e.stdout, rep)
-				if !rep.Pass() {
-					code = max(code, exitCriteria)
-				}
+			}
+			results.PrintSummary(e.stdout, s)
+			fmt.Fprintln(e.stdout)
+			uncertain.PrintUncertainty(e.stdout, rep)
+			if !rep.Pass() {
+				code = max(code, exitCriteria)
 			}
 			fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
 			return code

@@ -137,9 +137,13 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 			}
 			fmt.Fprintf(e.stdout, ": %d ok, %d criteria-failed, %d runaway, %d failed\n",
 				rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed)
+			if n := len(rep.Noted); n > 0 {
+				fmt.Fprintf(e.stdout, "note: %s %s: %s (the note column of %s says so for each)\n",
+					plural(n, "run", "runs"), runList(rep.Noted), rep.Note, results.SweepSummaryFile)
+			}
 			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(dir, results.SweepSummaryFile))
 			if !*noReport && !rep.Interrupted {
-				if err := report.WriteSweepReport(dir, "Sweep of "+s.Name, sweepCriteria(s)); err != nil {
+				if err := report.WriteSweepReport(dir, "Sweep of "+s.Name, sweepCase(s)); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab sweep: report: %v\n", err)
 				} else {
 					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(dir, report.SweepReportFile))
@@ -160,12 +164,35 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 	},
 }
 
-// sweepCriteria returns the criteria of the first run whose case is valid,
-// for the order of the report's tables; nil when no run's case is.
-func sweepCriteria(s *sweep.Sweep) *cases.Criteria {
+// plural writes n with the singular or the plural noun.
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
+}
+
+// runList writes run indices for a message: all of them up to eight, else
+// the first six and how many more.
+func runList(runs []int) string {
+	var parts []string
+	for i, r := range runs {
+		if i == 6 && len(runs) > 8 {
+			parts = append(parts, fmt.Sprintf("and %d more", len(runs)-6))
+			break
+		}
+		parts = append(parts, strconv.Itoa(r))
+	}
+	return "(" + strings.Join(parts, ", ") + ")"
+}
+
+// sweepCase returns the case of the first run that is valid, for the
+// report (the order of its tables by the criteria, its cautions); nil when
+// no run's case is.
+func sweepCase(s *sweep.Sweep) *cases.Case {
 	for r := range s.Runs {
 		if c, err := s.Case(r); err == nil {
-			return &c.Criteria
+			return c
 		}
 	}
 	return nil
@@ -302,15 +329,15 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 			if len(args) == 0 {
 				return e.usageError("expects at least one sweep directory")
 			}
-			var crit *cases.Criteria
+			var sc *cases.Case
 			if *casePath != "" {
 				// Checked before anything is written.
-				c, err := sweep.SweepCaseCriteria(args[0], *casePath)
+				c, err := sweep.SweepCase(args[0], *casePath)
 				if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab merge: --case: %v\n", err)
 					return exitUsage
 				}
-				crit = c
+				sc = c
 			}
 			rep, err := sweep.MergeSweeps(*out, args, *allow)
 			if err != nil {
@@ -324,7 +351,7 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 				rep.Rows, rep.Runs, len(args), rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed)
 			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(*out, results.SweepSummaryFile))
 			if !*noReport {
-				if err := report.WriteSweepReport(*out, "", crit); err != nil {
+				if err := report.WriteSweepReport(*out, "", sc); err != nil {
 					fmt.Fprintf(e.stderr, "cureslab merge: report: %v\n", err)
 				} else {
 					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(*out, report.SweepReportFile))
