@@ -595,12 +595,12 @@ func (v *CaseVariant) Parse(t map[string]any) (*Case, error) {
 
 // sweepSection returns the [sweep] section of the case (empty when it has
 // none). The case was validated by newCaseVariant, so it has no errors.
-func (v *CaseVariant) SweepSection() *sweepSpec {
+func (v *CaseVariant) SweepSection() *SweepSpec {
 	l := &loader{file: v.Name, dir: v.dir, loc: newLocator(v.Text)}
 	if spec := l.sweepSection(&table{m: v.Doc}); spec != nil {
 		return spec
 	}
-	return &sweepSpec{}
+	return &SweepSpec{}
 }
 
 // errorAt returns an error of the given kind positioned at the value of the

@@ -41,8 +41,8 @@ type Vary struct {
 // isRange reports whether v is a range (From/To) rather than a list.
 func (v Vary) IsRange() bool { return v.From != nil || v.To != nil }
 
-// sweepSpec is the [sweep] section of a case as read by the loader.
-type sweepSpec struct {
+// SweepSpec is the [sweep] section of a case as read by the loader.
+type SweepSpec struct {
 	Mode    string // "" when not given (grid)
 	Samples int    // 0 when not given
 	Seed    uint64
@@ -56,12 +56,12 @@ type sweepSpec struct {
 // tries it), its values must be single values, a range needs both ends of
 // the same dimension and, in grid mode, a count ≥ 2. It returns nil when the
 // case has no [sweep] or it is not a table.
-func (l *loader) sweepSection(root *table) *sweepSpec {
+func (l *loader) sweepSection(root *table) *SweepSpec {
 	t := l.sub(root, "sweep", sweepKeys, nil)
 	if t == nil {
 		return nil
 	}
-	s := &sweepSpec{}
+	s := &SweepSpec{}
 	if m, ok := l.str(t, "mode"); ok {
 		if m != ModeGrid && m != ModeLatinHypercube {
 			e := l.rangeErr(t.keyPath("mode"), m, "mode must be %q or %q", ModeGrid, ModeLatinHypercube)

@@ -112,6 +112,9 @@ type runData struct {
 	Probes  []probeData
 	Drivers []seriesData // driving temperatures (air), °C per time
 	Power   []float64    // power fraction per time; nil when not controlled
+	// Absorbed is the volumetric power absorbed per cell, W/m³ [time][cell]
+	// (fields.csv power_W_per_m3); nil without volumetric heating.
+	Absorbed [][]float64
 	// Volumetric reports that the run had volumetric heating (from the
 	// case, or from the output files: a power column).
 	Volumetric bool
@@ -156,6 +159,7 @@ type runTable struct {
 	Probes     []probeData
 	Drivers    []seriesData
 	Power      []float64
+	Absorbed   [][]float64 // nil without the power column
 	Volumetric bool
 }
 
@@ -207,6 +211,13 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 		}
 		tb.T = append(tb.T, T)
 		tb.Cure = append(tb.Cure, a)
+		if p.Volumetric != nil {
+			P := make([]float64, n)
+			for i := range n {
+				P[i] = num.RoundSig(num.At(s.Power, i))
+			}
+			tb.Absorbed = append(tb.Absorbed, P)
+		}
 		for j := range tb.Probes {
 			pr := &tb.Probes[j]
 			pr.T = append(pr.T, num.Round(num.KtoC(num.At(s.ProbeT, j)), 6))
@@ -296,8 +307,8 @@ func newRunData(tb *runTable, file string) (*runData, error) {
 	d := &runData{
 		Title: tb.Summary.Title, Summary: tb.Summary,
 		Times: tb.Times, Centers: tb.Centers, T: tb.T, Cure: tb.Cure,
-		Probes: tb.Probes, Drivers: tb.Drivers, Power: tb.Power,
-		Volumetric: tb.Volumetric || tb.Power != nil,
+		Probes: tb.Probes, Drivers: tb.Drivers, Power: tb.Power, Absorbed: tb.Absorbed,
+		Volumetric: tb.Volumetric || tb.Power != nil || tb.Absorbed != nil,
 	}
 	d.Faces = make([]float64, n+1)
 	for i, c := range tb.Centers {

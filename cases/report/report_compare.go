@@ -123,6 +123,16 @@ func renderCompareReport(w io.Writer, names []string, ds []*runData, now time.Ti
 	}
 	pg.Sections = append(pg.Sections, section{ID: "profiles", Heading: "Final profiles through the thickness",
 		Body: figureHTML(svg, "Temperature and degree of cure through the thickness at the last output time of each case. Depth 0 is the top face.")})
+	svg, err = compareAbsorbedFigure(names, ds)
+	if err != nil {
+		return err
+	}
+	if svg != "" {
+		pg.Sections = append(pg.Sections, section{ID: "absorbed-power", Heading: "Absorbed power through the thickness",
+			Body: figureHTML(svg, "Power absorbed per unit volume at full output (the power divided by the controller's power fraction), "+
+				"through the thickness of each case with volumetric heating, at its first output time with power: the field in the uncured part. "+
+				"One frequency against a swept band shows what the sweep fills in; a node on the face of a metal stays whatever the frequency. Depth 0 is the top face.")})
+	}
 	return renderPage(w, pg)
 }
 

@@ -143,6 +143,7 @@ func readFieldsCSV(path string, tb *runTable) error {
 		}
 	}
 	iT, iZ, iL, iTC, iA := col["time_s"], col["depth_mm"], col["layer"], col["temperature_C"], col["cure"]
+	iP, withPower := col[results.PowerColumn]
 	cell := 0 // index of the cell in the current block
 	for {
 		rec, err := t.next()
@@ -180,6 +181,9 @@ func readFieldsCSV(path string, tb *runTable) error {
 			tb.Times = append(tb.Times, tm)
 			tb.T = append(tb.T, make([]float64, 0, len(tb.Centers)))
 			tb.Cure = append(tb.Cure, make([]float64, 0, len(tb.Centers)))
+			if withPower {
+				tb.Absorbed = append(tb.Absorbed, make([]float64, 0, len(tb.Centers)))
+			}
 			cell, nt = 0, nt+1
 		}
 		if nt == 1 {
@@ -205,6 +209,13 @@ func readFieldsCSV(path string, tb *runTable) error {
 		}
 		tb.T[nt-1] = append(tb.T[nt-1], T)
 		tb.Cure[nt-1] = append(tb.Cure[nt-1], a)
+		if withPower {
+			P, err := t.number(rec, iP, results.PowerColumn, false)
+			if err != nil {
+				return err
+			}
+			tb.Absorbed[nt-1] = append(tb.Absorbed[nt-1], P)
+		}
 		cell++
 	}
 	if len(tb.Times) == 0 {

@@ -48,6 +48,16 @@ func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 	}
 	pg.Sections = append(pg.Sections, section{ID: "temperature-map", Heading: "Temperature through the thickness",
 		Body: figureHTML(svg, mapCaption(d, false))})
+	if d.Absorbed != nil {
+		svg, caption, err := absorbedFigure(d, ts)
+		if err != nil {
+			return err
+		}
+		if svg != "" {
+			pg.Sections = append(pg.Sections, section{ID: "absorbed-power", Heading: "Absorbed power through the thickness",
+				Body: figureHTML(svg, caption)})
+		}
+	}
 	if curingLayers(d) > 0 {
 		svg, err := mapFigure(d, ts, true)
 		if err != nil {

@@ -136,13 +136,75 @@ func NewSweep(name string, data []byte, dir string, set SweepSettings) (*Sweep, 
 	if err != nil {
 		return nil, err
 	}
-	doc := v.Doc
 	spec := v.SweepSection()
 	s := &Sweep{Name: name, v: v, hash: sha256.Sum256(data)}
-	fail := func(format string, a ...any) (*Sweep, error) {
-		return nil, &sweepError{msg: fmt.Sprintf(format, a...)}
+	if err := s.setMode(spec, set); err != nil {
+		return nil, err
 	}
+	vary, fromFile := spec.Vary, true
+	if len(set.Vary) > 0 {
+		vary, fromFile = set.Vary, false
+	}
+	if len(vary) == 0 {
+		return nil, &sweepError{msg: "nothing to vary: give --vary KEY=V1,V2,... or [[sweep.vary]] entries in the case"}
+	}
+	if len(vary) > cases.MaxSweepKeys {
+		return nil, &sweepError{msg: fmt.Sprintf("at most %d keys can be varied, got %d", cases.MaxSweepKeys, len(vary))}
+	}
+	// where turns a problem with vary[i] into an error: positioned in the
+	// case file for [[sweep.vary]], about the option for --vary.
+	where := func(i int, err error) error {
+		if fromFile {
+			return v.ErrorAt(fmt.Sprintf("sweep.vary.%d.key", i), cases.ErrReference, err.Error())
+		}
+		return &sweepError{msg: fmt.Sprintf("--vary %s: %v", vary[i].Key, err)}
+	}
+	seen := make(map[string]bool)
+	var absent []int
+	for i, x := range vary {
+		if seen[x.Key] {
+			return nil, where(i, fmt.Errorf("%q is varied twice", x.Key))
+		}
+		seen[x.Key] = true
+		a, exists, err := newAxis(v.Doc, x, s.Mode == cases.ModeLatinHypercube)
+		if err != nil {
+			return nil, where(i, err)
+		}
+		if !exists {
+			absent = append(absent, i)
+		}
+		s.axes = append(s.axes, a)
+		s.Keys = append(s.Keys, x.Key)
+	}
+	if err := s.countRuns(); err != nil {
+		return nil, err
+	}
+	// A key that the case does not have yet (such as time.end) must be
+	// one the case file accepts: try it.
+	if len(absent) > 0 {
+		_, vals := s.point(0)
+		var list cases.ErrorList
+		if errors.As(v.Validate(s.tree(vals)), &list) {
+			for _, i := range absent {
+				want := strings.Join(s.axes[i].path, ".")
+				for _, e := range list {
+					if e.Key == want && errors.Is(e, cases.ErrUnknownKey) {
+						return nil, where(i, e.Err)
+					}
+				}
+			}
+		}
+	}
+	s.def = s.definition()
+	return s, nil
+}
 
+// setMode sets the mode, samples and seed of s from the [sweep] section
+// spec and the command line set (which wins).
+func (s *Sweep) setMode(spec *cases.SweepSpec, set SweepSettings) error {
+	fail := func(format string, a ...any) error {
+		return &sweepError{msg: fmt.Sprintf(format, a...)}
+	}
 	s.Mode = cases.ModeGrid
 	if spec.Mode != "" {
 		s.Mode = spec.Mode
@@ -164,140 +226,101 @@ func NewSweep(name string, data []byte, dir string, set SweepSettings) (*Sweep, 
 	case set.Samples < 0 || set.Samples > cases.MaxLHSRuns:
 		return fail("--samples must be between 1 and %d, got %d", cases.MaxLHSRuns, set.Samples)
 	}
-	if lhs {
-		s.Samples, s.Seed = spec.Samples, 1
-		if set.Samples > 0 {
-			s.Samples = set.Samples
-		}
-		if spec.HasSeed {
-			s.Seed = spec.Seed
-		}
-		if set.SeedSet {
-			s.Seed = set.Seed
-		}
-		if s.Samples == 0 {
-			return fail("mode %s needs a number of samples: give --samples N or samples = N in [sweep]", cases.ModeLatinHypercube)
-		}
+	if !lhs {
+		return nil
 	}
+	s.Samples, s.Seed = spec.Samples, 1
+	if set.Samples > 0 {
+		s.Samples = set.Samples
+	}
+	if spec.HasSeed {
+		s.Seed = spec.Seed
+	}
+	if set.SeedSet {
+		s.Seed = set.Seed
+	}
+	if s.Samples == 0 {
+		return fail("mode %s needs a number of samples: give --samples N or samples = N in [sweep]", cases.ModeLatinHypercube)
+	}
+	return nil
+}
 
-	vary, fromFile := spec.Vary, true
-	if len(set.Vary) > 0 {
-		vary, fromFile = set.Vary, false
+// newAxis resolves the varied key v in the decoded case doc and lists its
+// values (a latin-hypercube range stays a range); exists reports whether
+// the case has the key.
+func newAxis(doc map[string]any, v cases.Vary, lhs bool) (a axis, exists bool, err error) {
+	path, exists, err := cases.ResolveKey(doc, v.Key)
+	if err != nil {
+		return a, exists, err
 	}
-	if len(vary) == 0 {
-		return fail("nothing to vary: give --vary KEY=V1,V2,... or [[sweep.vary]] entries in the case")
-	}
-	if len(vary) > cases.MaxSweepKeys {
-		return fail("at most %d keys can be varied, got %d", cases.MaxSweepKeys, len(vary))
-	}
-	// where turns a problem with vary[i] into an error: positioned in the
-	// case file for [[sweep.vary]], about the option for --vary.
-	where := func(i int, format string, a ...any) error {
-		msg := fmt.Sprintf(format, a...)
-		if fromFile {
-			return v.ErrorAt(fmt.Sprintf("sweep.vary.%d.key", i), cases.ErrReference, msg)
-		}
-		return &sweepError{msg: fmt.Sprintf("--vary %s: %s", vary[i].Key, msg)}
-	}
-	seen := make(map[string]bool)
-	var absent []int
-	for i, v := range vary {
-		if seen[v.Key] {
-			return nil, where(i, "%q is varied twice", v.Key)
-		}
-		seen[v.Key] = true
-		path, exists, err := cases.ResolveKey(doc, v.Key)
+	a = axis{key: v.Key, path: path}
+	switch {
+	case v.IsRange():
+		sp, err := cases.NewSpan(v.From, v.To)
 		if err != nil {
-			return nil, where(i, "%v", err)
+			return a, exists, err
 		}
-		if !exists {
-			absent = append(absent, i)
+		if lhs {
+			a.rng = &sp
+			break
 		}
-		a := axis{key: v.Key, path: path}
-		switch {
-		case v.IsRange():
-			sp, err := cases.NewSpan(v.From, v.To)
+		if v.Count < 2 {
+			return a, exists, errors.New("a range in a grid needs a count of at least 2 (both ends are included): FROM:TO:COUNT")
+		}
+		dup := make(map[string]bool)
+		for k := range v.Count {
+			sh, val := sp.At(float64(k) / float64(v.Count-1))
+			if dup[sh] {
+				return a, exists, fmt.Errorf("the range gives %q twice: use a smaller count", sh)
+			}
+			dup[sh] = true
+			a.shown, a.values = append(a.shown, sh), append(a.values, val)
+		}
+	default:
+		if len(v.Values) == 0 {
+			return a, exists, errors.New("no values")
+		}
+		dup := make(map[string]bool)
+		for _, x := range v.Values {
+			sh, val, err := cases.ListValue(x)
 			if err != nil {
-				return nil, where(i, "%v", err)
+				return a, exists, err
 			}
-			if lhs {
-				a.rng = &sp
-				break
+			if dup[sh] {
+				return a, exists, fmt.Errorf("%q is listed twice", sh)
 			}
-			if v.Count < 2 {
-				return nil, where(i, "a range in a grid needs a count of at least 2 (both ends are included): FROM:TO:COUNT")
-			}
-			dup := make(map[string]bool)
-			for k := range v.Count {
-				sh, val := sp.At(float64(k) / float64(v.Count-1))
-				if dup[sh] {
-					return nil, where(i, "the range gives %q twice: use a smaller count", sh)
-				}
-				dup[sh] = true
-				a.shown, a.values = append(a.shown, sh), append(a.values, val)
-			}
-		default:
-			if len(v.Values) == 0 {
-				return nil, where(i, "no values")
-			}
-			dup := make(map[string]bool)
-			for _, x := range v.Values {
-				sh, val, err := cases.ListValue(x)
-				if err != nil {
-					return nil, where(i, "%v", err)
-				}
-				if dup[sh] {
-					return nil, where(i, "%q is listed twice", sh)
-				}
-				dup[sh] = true
-				a.shown, a.values = append(a.shown, sh), append(a.values, val)
-			}
+			dup[sh] = true
+			a.shown, a.values = append(a.shown, sh), append(a.values, val)
 		}
-		if exists {
-			if err := cases.CheckKind(cases.Leaf(doc, path), v); err != nil {
-				return nil, where(i, "%v", err)
-			}
-		}
-		s.axes = append(s.axes, a)
-		s.Keys = append(s.Keys, v.Key)
 	}
+	if exists {
+		if err := cases.CheckKind(cases.Leaf(doc, path), v); err != nil {
+			return a, exists, err
+		}
+	}
+	return a, exists, nil
+}
 
-	if lhs {
+// countRuns sets Runs: the samples of a latin hypercube (drawn here), or
+// the product of the axis lengths of a grid (with the strides of its axes).
+func (s *Sweep) countRuns() error {
+	if s.Mode == cases.ModeLatinHypercube {
 		s.Runs = s.Samples
 		s.u = mat.NewDense(s.Runs, len(s.axes), nil)
 		samplemv.LatinHypercube{Q: distmv.NewUnitUniform(len(s.axes), nil), Src: rand.NewPCG(s.Seed, 0)}.Sample(s.u)
-	} else {
-		s.Runs = 1
-		s.stride = make([]int, len(s.axes))
-		for k := len(s.axes) - 1; k >= 0; k-- {
-			s.stride[k] = s.Runs
-			n := len(s.axes[k].values)
-			if s.Runs > cases.MaxGridRuns/n {
-				return fail("the grid has more than %d runs: vary fewer values, or use --mode %s", cases.MaxGridRuns, cases.ModeLatinHypercube)
-			}
-			s.Runs *= n
-		}
+		return nil
 	}
-
-	// A key that the case does not have yet (such as time.end) must be
-	// one the case file accepts: try it.
-	if len(absent) > 0 {
-		_, vals := s.point(0)
-		err := v.Validate(s.tree(vals))
-		var list cases.ErrorList
-		if errors.As(err, &list) {
-			for _, i := range absent {
-				want := strings.Join(s.axes[i].path, ".")
-				for _, e := range list {
-					if e.Key == want && errors.Is(e, cases.ErrUnknownKey) {
-						return nil, where(i, "%v", e.Err)
-					}
-				}
-			}
+	s.Runs = 1
+	s.stride = make([]int, len(s.axes))
+	for k := len(s.axes) - 1; k >= 0; k-- {
+		s.stride[k] = s.Runs
+		n := len(s.axes[k].values)
+		if s.Runs > cases.MaxGridRuns/n {
+			return &sweepError{msg: fmt.Sprintf("the grid has more than %d runs: vary fewer values, or use --mode %s", cases.MaxGridRuns, cases.ModeLatinHypercube)}
 		}
+		s.Runs *= n
 	}
-	s.def = s.definition()
-	return s, nil
+	return nil
 }
 
 // point returns the values of run r: as shown in summary.csv and as they go

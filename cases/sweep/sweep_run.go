@@ -169,108 +169,13 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 		bad: rep.Failed + rep.Runaway, crit: rep.CriteriaFailed}
 	ictx, cancel := context.WithCancel(ctx)
 	defer cancel()
-	work := make(chan int)
-	done := make(chan sweepResult, jobs)
-	go func() {
-		defer close(work)
-		for _, r := range todo {
-			select {
-			case work <- r:
-			case <-ictx.Done():
-				return
-			}
-		}
-	}()
-	var wg sync.WaitGroup
-	for range min(jobs, len(todo)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			var ws solver.Workspace // the worker's solver buffers, reused run after run
-			for r := range work {
-				if ictx.Err() != nil {
-					continue
-				}
-				res := s.runOne(ictx, &ws, r, dir, opt.KeepFields, width)
-				if ictx.Err() != nil && res.err == nil {
-					continue // cut short: not committed, run again on resume
-				}
-				done <- res
-			}
-		}()
-	}
-	go func() {
-		wg.Wait()
-		close(done)
-	}()
-	var firstErr error
-	var batch []sweepResult
 	every := opt.commitEvery
 	if every == 0 {
 		every = sweepCommitEvery
 	}
-	// commit writes the batch in one call and syncs once.
-	commit := func() {
-		if len(batch) == 0 || firstErr != nil {
-			batch = batch[:0]
-			return
-		}
-		recs := make([][]string, 0, len(batch))
-		for _, r := range batch {
-			if r.err != nil {
-				firstErr = r.err
-				break
-			}
-			recs = append(recs, r.rec)
-		}
-		if firstErr == nil {
-			firstErr = j.append(recs)
-		}
-		if firstErr != nil {
-			cancel()
-			batch = batch[:0]
-			return
-		}
-		for _, r := range batch {
-			rep.Done++
-			count(r.rec)
-			prog.record(r.rec[statusCol])
-			if note := r.rec[statusCol+2]; note != "" {
-				log.printf("run %0*d %s %.3fs note=%q", width, r.run, r.rec[statusCol], r.wall.Seconds(), note)
-			} else {
-				log.printf("run %0*d %s %.3fs", width, r.run, r.rec[statusCol], r.wall.Seconds())
-			}
-		}
-		batch = batch[:0]
-		if opt.afterCommit != nil {
-			opt.afterCommit(rep.Done)
-		}
-	}
-	// Group commit: a finished run waits at most `every` for the next sync,
-	// so that a sweep of millisecond runs syncs a few times a second, not
-	// once per run (a sync stalls the workers' processor time too).
-	var last time.Time
-	var due <-chan time.Time
-	for done != nil {
-		select {
-		case r, ok := <-done:
-			if !ok {
-				done = nil
-				break
-			}
-			batch = append(batch, r)
-			if wait := every - time.Since(last); wait <= 0 || len(batch) >= sweepCommitMax {
-				commit()
-				last, due = time.Now(), nil
-			} else if due == nil {
-				due = time.After(wait)
-			}
-		case <-due:
-			commit()
-			last, due = time.Now(), nil
-		}
-	}
-	commit()
+	c := &collector{j: j, rep: &rep, prog: prog, log: log, cancel: cancel, statusCol: statusCol, width: width, afterCommit: opt.afterCommit}
+	c.collect(s.startWorkers(ictx, todo, jobs, dir, opt.KeepFields, width), every)
+	firstErr := c.err
 	prog.finish()
 	rep.Interrupted = ctx.Err() != nil && rep.Done < rep.Runs
 	if firstErr != nil {
@@ -291,6 +196,131 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 	log.printf("stop done=%d/%d ok=%d criteria-failed=%d runaway=%d failed=%d interrupted=%v",
 		rep.Done, rep.Runs, rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed, rep.Interrupted)
 	return rep, nil
+}
+
+// startWorkers runs the runs todo on jobs workers, each with its own solver
+// workspace, and sends every finished run to the returned channel, which is
+// closed when the workers are done. A run cut short by ctx is not sent: it
+// runs again on resume.
+func (s *Sweep) startWorkers(ctx context.Context, todo []int, jobs int, dir string, keep bool, width int) <-chan sweepResult {
+	work := make(chan int)
+	done := make(chan sweepResult, jobs)
+	go func() {
+		defer close(work)
+		for _, r := range todo {
+			select {
+			case work <- r:
+			case <-ctx.Done():
+				return
+			}
+		}
+	}()
+	var wg sync.WaitGroup
+	for range min(jobs, len(todo)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var ws solver.Workspace // the worker's solver buffers, reused run after run
+			for r := range work {
+				if ctx.Err() != nil {
+					continue
+				}
+				res := s.runOne(ctx, &ws, r, dir, keep, width)
+				if ctx.Err() != nil && res.err == nil {
+					continue // cut short: not committed, run again on resume
+				}
+				done <- res
+			}
+		}()
+	}
+	go func() {
+		wg.Wait()
+		close(done)
+	}()
+	return done
+}
+
+// collector commits finished runs to the journal in groups, counts them in
+// the report and the progress line, and logs them. The first error (a run
+// that could not write its outputs, or the journal) stops the sweep.
+type collector struct {
+	j           *journal
+	rep         *SweepReport
+	prog        *sweepProgress
+	log         *sweepLog
+	cancel      context.CancelFunc
+	statusCol   int // column of the status in a journal record
+	width       int // digits of a run number in the log
+	afterCommit func(done int)
+	batch       []sweepResult
+	err         error
+}
+
+// collect receives the finished runs until done is closed. Group commit: a
+// finished run waits at most every for the next sync, so that a sweep of
+// millisecond runs syncs a few times a second, not once per run (a sync
+// stalls the workers' processor time too).
+func (c *collector) collect(done <-chan sweepResult, every time.Duration) {
+	var last time.Time
+	var due <-chan time.Time
+	for done != nil {
+		select {
+		case r, ok := <-done:
+			if !ok {
+				done = nil
+				break
+			}
+			c.batch = append(c.batch, r)
+			if wait := every - time.Since(last); wait <= 0 || len(c.batch) >= sweepCommitMax {
+				c.commit()
+				last, due = time.Now(), nil
+			} else if due == nil {
+				due = time.After(wait)
+			}
+		case <-due:
+			c.commit()
+			last, due = time.Now(), nil
+		}
+	}
+	c.commit()
+}
+
+// commit writes the batch in one call and syncs once.
+func (c *collector) commit() {
+	if len(c.batch) == 0 || c.err != nil {
+		c.batch = c.batch[:0]
+		return
+	}
+	recs := make([][]string, 0, len(c.batch))
+	for _, r := range c.batch {
+		if r.err != nil {
+			c.err = r.err
+			break
+		}
+		recs = append(recs, r.rec)
+	}
+	if c.err == nil {
+		c.err = c.j.append(recs)
+	}
+	if c.err != nil {
+		c.cancel()
+		c.batch = c.batch[:0]
+		return
+	}
+	for _, r := range c.batch {
+		c.rep.Done++
+		c.rep.add(r.rec[c.statusCol])
+		c.prog.record(r.rec[c.statusCol])
+		if note := r.rec[c.statusCol+2]; note != "" {
+			c.log.printf("run %0*d %s %.3fs note=%q", c.width, r.run, r.rec[c.statusCol], r.wall.Seconds(), note)
+		} else {
+			c.log.printf("run %0*d %s %.3fs", c.width, r.run, r.rec[c.statusCol], r.wall.Seconds())
+		}
+	}
+	c.batch = c.batch[:0]
+	if c.afterCommit != nil {
+		c.afterCommit(c.rep.Done)
+	}
 }
 
 // sweepResult is one finished run on its way to the collector.
