@@ -621,3 +621,55 @@ func (v *CaseVariant) Validate(t map[string]any) error {
 func (v *CaseVariant) ParseKeeping(t map[string]any, keep func(path string) bool) (*Case, error) {
 	return parseDroppingProbes(v.Name, v.Text, v.dir, t, keep)
 }
+
+// InUnit returns the value v (a quantity string such as "15 W/m^2/K", or a
+// plain number) in unit (a plain number is returned as it is):
+//
+//	v_unit = (v_SI − off)/(one − off),  off = "0 unit" and one = "1 unit" in SI,
+//
+// exact for the affine temperature scales too. ok is false when v is not a
+// quantity of a known dimension or unit is not a unit of that dimension.
+func InUnit(v any, unit string) (x float64, ok bool) {
+	switch x := v.(type) {
+	case int64, float64:
+		return PlainNumber(x)
+	case string:
+		d := DimOf(x)
+		if d == 0 {
+			return 0, false
+		}
+		si, err := units.Parse(x, d)
+		off, err0 := units.Parse("0 "+unit, d)
+		one, err1 := units.Parse("1 "+unit, d)
+		if err != nil || err0 != nil || err1 != nil || one == off {
+			return 0, false
+		}
+		return (si - off) / (one - off), true
+	}
+	return 0, false
+}
+
+// TextPos is a place in a case text: 1-based line and byte column. The zero
+// TextPos means "not in the text".
+type TextPos struct{ Line, Col int }
+
+// Positions returns where the value at path (a key path as ResolveKey
+// returns it) starts in the case text, and where the header of the table
+// holding it starts ([top], the [[layer]] of a layer). Either is the zero
+// TextPos when the text does not have it: a value left to its default, a
+// table written inline or only through dotted keys.
+//
+// Cost: one pass over the text (the locator of the loader).
+func (v *CaseVariant) Positions(path []string) (value, header TextPos) {
+	l := newLocator(v.Text)
+	key := strings.Join(path, ".")
+	if p, ok := l.vals[key]; ok {
+		value = TextPos{p.Line, p.Col}
+	}
+	if len(path) > 1 {
+		if p, ok := l.heads[strings.Join(path[:len(path)-1], ".")]; ok {
+			header = TextPos{p.Line, p.Col}
+		}
+	}
+	return value, header
+}

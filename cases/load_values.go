@@ -365,10 +365,4 @@ func Celsius(T float64) string { return strconv.FormatFloat(T-273.15, 'g', 6, 64
 
 // article returns the dimension word of d with its article: "a length",
 // "an energy per mass".
-func article(d units.Dim) string {
-	w := d.String()
-	if w != "" && strings.ContainsRune("aeiou", rune(w[0])) {
-		return "an " + w
-	}
-	return "a " + w
-}
+func article(d units.Dim) string { return d.WithArticle() }

@@ -38,6 +38,10 @@ type Param struct {
 
 // Result is a calibration.
 type Result struct {
+	CaseFile, Title string // the case calibrated: its file and title
+	// Calibrated is the case text with the fitted values written in.
+	Calibrated string
+
 	Log    *Log
 	Params []Param
 	// Corr is the correlation matrix of the fitted values; nil when the

@@ -11,6 +11,7 @@ import (
 	"strings"
 
 	"cureslab/cases"
+	"cureslab/cases/internal/num"
 )
 
 // ErrLog is wrapped by every error about the measured log.
@@ -257,7 +258,7 @@ func (l *Log) Check(thickness, end float64) error {
 	errs := &logErrors{file: l.File}
 	for _, p := range l.Probes {
 		if p.Depth > thickness*(1+1e-12) {
-			errs.add(p.Line, p.Col, p.Column, "depth %s mm is outside the stack (0 to %s mm)", p.Label, cases.FormatDepth(thickness))
+			errs.add(p.Line, p.Col, p.Column, "depth %s mm is outside the stack (0 to %s mm)", p.Label, num.FormatDepth(thickness))
 		}
 	}
 	for i, t := range l.Times {

@@ -9,7 +9,7 @@ import (
 	"strconv"
 	"strings"
 
-	"cureslab/cases"
+	"cureslab/cases/internal/num"
 	"cureslab/solver"
 )
 
@@ -55,7 +55,7 @@ func SyntheticLog(ctx context.Context, p *solver.Problem, s Synth) ([]byte, erro
 	}
 	b.WriteString("time_s")
 	for _, z := range s.Depths {
-		b.WriteString(",T_" + cases.FormatDepth(z) + "mm_C")
+		b.WriteString(",T_" + num.FormatDepth(z) + "mm_C")
 	}
 	b.WriteByte('\n')
 	for i, t := range s.Times {

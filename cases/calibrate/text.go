@@ -123,15 +123,21 @@ func applyEdits(text string, edits []edit) (string, error) {
 			return "", fmt.Errorf("%s: the value at line %d, column %d is not a single value on one line", e.Key, e.Line, e.Col)
 		}
 		s := e.Lit
-		if e.Comment != "" {
-			lineEnd := strings.IndexByte(text[end:], '\n')
-			rest := text[end:]
-			if lineEnd >= 0 {
-				rest = text[end : end+lineEnd]
-			}
-			if !strings.Contains(rest, "#") {
-				s += "  # " + e.Comment
-			}
+		lineEnd := strings.IndexByte(text[end:], '\n')
+		rest := text[end:]
+		if lineEnd >= 0 {
+			rest = text[end : end+lineEnd]
+		}
+		pad := len(rest) - len(strings.TrimLeft(rest, " \t"))
+		switch {
+		case strings.HasPrefix(strings.TrimLeft(rest, " \t"), "#") && !strings.Contains(rest[:pad], "\t"):
+			// Keep a comment after the value where it was, as far as the
+			// new value leaves room (at least one space before it).
+			keep := max(1, pad-(len(e.Lit)-(end-off)))
+			s += strings.Repeat(" ", keep)
+			end += pad
+		case e.Comment != "" && !strings.Contains(rest, "#"):
+			s += "  # " + e.Comment
 		}
 		spans = append(spans, span{off, end, s})
 	}

@@ -31,7 +31,7 @@ m=0.6
 
 [top]
 kind = "convection"
-h = "11.2 W/m^2/K"                  # free surface
+h = "11.2 W/m^2/K"                # free surface
 air = "90 C"  # fitted
 
 [[layer]]

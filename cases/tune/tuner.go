@@ -309,7 +309,7 @@ func (t *tuner) addVar(key string, from, to any) error {
 	fv.From, _ = sp.At(0)
 	fv.To, _ = sp.At(1)
 	fv.own = 0.5
-	if x, ok := tuneInUnit(old, sp.Unit); ok {
+	if x, ok := cases.InUnit(old, sp.Unit); ok {
 		fv.own = (x - sp.From) / (sp.To - sp.From)
 	}
 	for _, o := range t.vars {
@@ -319,27 +319,6 @@ func (t *tuner) addVar(key string, from, to any) error {
 	}
 	t.vars = append(t.vars, fv)
 	return nil
-}
-
-// tuneInUnit returns the value v (a quantity string or a number) in unit.
-func tuneInUnit(v any, unit string) (float64, bool) {
-	switch x := v.(type) {
-	case int64, float64:
-		return cases.PlainNumber(x)
-	case string:
-		d := cases.DimOf(x)
-		if d == 0 {
-			return 0, false
-		}
-		si, err := units.Parse(x, d)
-		off, err0 := units.Parse("0 "+unit, d)
-		one, err1 := units.Parse("1 "+unit, d)
-		if err != nil || err0 != nil || err1 != nil || one == off {
-			return 0, false
-		}
-		return (si - off) / (one - off), true
-	}
-	return 0, false
 }
 
 // explicitFree resolves --free options: each must be a value of the

@@ -116,8 +116,9 @@ func (d Dim) SIUnit() string {
 	return dims[d].si
 }
 
-// withArticle returns "a length", "an energy per mass", ...
-func (d Dim) withArticle() string {
+// WithArticle returns the dimension's word with "a" or "an", for messages:
+// "a length", "an energy per mass".
+func (d Dim) WithArticle() string {
 	w := d.String()
 	if strings.ContainsRune("aeiou", rune(w[0])) {
 		return "an " + w
@@ -289,7 +290,7 @@ func parse(input, text string, d Dim, ex string) (float64, error) {
 	p := &parser{input: input, dim: d, ex: ex}
 	text = strings.TrimFunc(text, unicode.IsSpace)
 	if text == "" {
-		return 0, p.errorf("is empty: %s needs a number and a unit, such as %q", d.withArticle(), ex)
+		return 0, p.errorf("is empty: %s needs a number and a unit, such as %q", d.WithArticle(), ex)
 	}
 	if r, ok := strings.CutPrefix(text, "−"); ok { // U+2212 minus sign
 		text = "-" + r
@@ -304,7 +305,7 @@ func parse(input, text string, d Dim, ex string) (float64, error) {
 	}
 	p.unit = strings.TrimLeftFunc(text[n:], unicode.IsSpace)
 	if p.unit == "" {
-		return 0, p.errorf("has no unit: %s needs a unit, such as %q", d.withArticle(), ex)
+		return 0, p.errorf("has no unit: %s needs a unit, such as %q", d.WithArticle(), ex)
 	}
 	p.toks = tokenize(p.unit)
 	q, perr := p.parseUnit(0)
@@ -673,11 +674,11 @@ func (p *parser) mismatch(v vec) *Error {
 	var names []string
 	for d := Length; d <= PowerPerArea; d++ {
 		if dims[d].v == v {
-			names = append(names, d.withArticle())
+			names = append(names, d.WithArticle())
 		}
 	}
 	if len(names) == 0 {
-		return p.fail("is not " + p.dim.withArticle())
+		return p.fail("is not " + p.dim.WithArticle())
 	}
-	return p.fail(fmt.Sprintf("is %s, not %s", strings.Join(names, " or "), p.dim.withArticle()))
+	return p.fail(fmt.Sprintf("is %s, not %s", strings.Join(names, " or "), p.dim.WithArticle()))
 }

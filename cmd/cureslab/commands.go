@@ -54,7 +54,7 @@ type Command struct {
 var commands []*Command
 
 // commandOrder is the order of 'cureslab help'.
-var commandOrder = []string{"run", "check", "demo", "compare", "sweep", "merge", "fit", "ttt", "tune",
+var commandOrder = []string{"run", "check", "demo", "compare", "sweep", "merge", "fit", "ttt", "tune", "calibrate",
 	"report", "example", "materials", "help"}
 
 // registered holds the commands registered by their files' init functions.

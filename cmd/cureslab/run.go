@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
+	"cureslab/cases/calibrate"
 	"cureslab/cases/report"
 	"cureslab/cases/results"
 	"cureslab/cases/uncertain"
@@ -191,11 +192,15 @@ var exampleCmd = &Command{
 	Name:  "example",
 	Args:  "[NAME]",
 	Short: "list the embedded example cases, or print one",
-	Long: `Without NAME, list the embedded example cases. With NAME, print that case
-file to stdout as a starting point for your own. The examples use invented
-resins: replace them with your supplier's data before relying on a result.`,
+	Long: `Without NAME, list the embedded example cases and the example trial log.
+With NAME, print that case file (or the log) to stdout as a starting point for
+your own. The examples use invented resins: replace them with your supplier's
+data before relying on a result. The trial log is invented too: cureslab made
+it from the thick-potting-oven example with other values and noise, to try
+'cureslab calibrate' on.`,
 	Example: `cureslab example
-cureslab example thick-potting-oven > potting.toml`,
+cureslab example thick-potting-oven > potting.toml
+cureslab example thick-potting-oven-trial.csv > trial.csv`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		return func(e *env, args []string) int {
 			switch len(args) {
@@ -204,13 +209,19 @@ cureslab example thick-potting-oven > potting.toml`,
 				for _, ex := range cases.Examples() {
 					fmt.Fprintf(tw, "%s\t%s\n", ex.Name, ex.Summary)
 				}
+				fmt.Fprintf(tw, "%s\t%s\n", calibrate.ExampleLogName, "an invented trial log of thick-potting-oven (made by cureslab, not measured), for calibrate")
 				tw.Flush()
 				return exitOK
 			case 1:
+				if args[0] == calibrate.ExampleLogName {
+					e.stdout.Write(calibrate.ExampleLog())
+					return exitOK
+				}
 				ex, ok := cases.ExampleByName(args[0])
 				if !ok {
+					names := append(cases.ExampleNames(), calibrate.ExampleLogName)
 					return e.usageError("no example named %q%s (available: %s)", args[0],
-						didYouMean(args[0], cases.ExampleNames()), strings.Join(cases.ExampleNames(), ", "))
+						didYouMean(args[0], names), strings.Join(names, ", "))
 				}
 				e.stdout.Write(ex.Text)
 				return exitOK
