@@ -106,7 +106,9 @@ func (b *binding) text(r *Result) (string, error) {
 // header is the comment block at the top of calibrated.toml.
 func header(r *Result) string {
 	var s strings.Builder
-	line := func(format string, a ...any) { s.WriteString(strings.TrimRight("# "+fmt.Sprintf(format, a...), " ") + "\n") }
+	line := func(format string, a ...any) {
+		s.WriteString(strings.TrimRight("# "+fmt.Sprintf(format, a...), " ") + "\n")
+	}
 	switch r.Status {
 	case lsq.IterationLimit:
 		line("NOT CONVERGED: the values below are the best point reached after %d iterations, not a fit.", r.Iterations)
