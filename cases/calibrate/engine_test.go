@@ -66,6 +66,14 @@ func direct(c *cases.Case, keys []string) builder {
 func slabLog(t testing.TB, c *cases.Case, keys []string, vals, depths []float64, sigma float64, seed uint64) *Log {
 	t.Helper()
 	p, _ := direct(c, keys)(vals)
+	return logOf(t, p, depths, sigma, seed)
+}
+
+// logOf makes the log of p: readings every minute over the whole run at
+// depths (m), with Gaussian noise sigma rounded to 0.01 °C, or exact when
+// sigma is 0.
+func logOf(t testing.TB, p *solver.Problem, depths []float64, sigma float64, seed uint64) *Log {
+	t.Helper()
 	var times []float64
 	for tm := 0.0; tm <= p.End; tm += 60 {
 		times = append(times, tm)
@@ -78,7 +86,7 @@ func slabLog(t testing.TB, c *cases.Case, keys []string, vals, depths []float64,
 	if err != nil {
 		t.Fatal(err)
 	}
-	l, err := ReadLog("synthetic.csv", data)
+	l, err := ReadLog("log.csv", data)
 	if err != nil {
 		t.Fatal(err)
 	}

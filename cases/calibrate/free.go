@@ -167,7 +167,24 @@ func bind(v *cases.CaseVariant, frees []Free) (*binding, error) {
 				return nil, fail("the case has %s there: only numeric values can be fitted", cases.Written(old))
 			}
 		} else {
-			// Not in the case (a default): the bounds give its unit.
+			// Not in the case: a key the case could have (a default), or
+			// a misspelt one.
+			var probe any = int64(0)
+			if f.Lo != nil {
+				probe = f.Lo
+			}
+			if err := v.Validate(v.Tree([]cases.ValueSetting{{Path: path, Value: probe}})); errors.Is(err, cases.ErrUnknownKey) {
+				var list cases.ErrorList
+				if errors.As(err, &list) {
+					for _, e := range list {
+						if errors.Is(e, cases.ErrUnknownKey) {
+							return nil, fail("%v", e.Err)
+						}
+					}
+				}
+				return nil, fail("%v", err)
+			}
+			// The bounds give its unit.
 			if f.Lo == nil || f.Hi == nil {
 				return nil, fail("the case does not set it: give its range, such as %s=LO:HI with units", f.Key)
 			}

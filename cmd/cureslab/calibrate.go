@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
-	"strings"
 
 	"github.com/spf13/pflag"
 
@@ -19,7 +18,7 @@ func init() { register(calibrateCmd) }
 
 var calibrateCmd = &Command{
 	Name:  "calibrate",
-	Args:  "CASE.toml --measured LOG.csv --free KEY[=LO:HI]... [-j N] [-o DIR]",
+	Args:  "CASE.toml --measured LOG.csv --free KEY[=LO:HI]... [-j N] [--max-iter N] [-o DIR]",
 	Short: "fit uncertain inputs of a case to thermocouple readings of a trial",
 	Long: `Fit the free values of the case (keys as in sweeps: top.h, bottom.h,
 layer.NAME.contact_resistance, materials.NAME.conductivity,
@@ -52,9 +51,10 @@ cureslab calibrate potting.toml --measured trial.csv --free top.h --free bottom.
     --free materials.potting-resin-A.cure.total_heat
 cureslab calibrate potting.toml --measured trial.csv --free top.h=5W/m^2/K:40W/m^2/K -o fit`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
-		measured := fs.String("measured", "", "the thermocouple log `LOG.csv` (shape of probes.csv)")
-		free := fs.StringArray("free", nil, "fit the value at `KEY[=LO:HI]` (repeat)")
+		measured := fs.String("measured", "", "read the thermocouples from `LOG.csv` (shape of probes.csv)")
+		free := fs.StringArray("free", nil, "fit `KEY[=LO:HI]`, within LO and HI if given (repeat)")
 		jobs := fs.IntP("jobs", "j", 0, "`N` runs at a time (default: all cores)")
+		maxIter := fs.Int("max-iter", 100, "stop after `N` iterations (exit 3 if not converged by then)")
 		out := fs.StringP("out", "o", "", "write the outputs to `DIR` (default ./CASE-calibrated)")
 		return func(e *env, args []string) int {
 			if len(args) != 1 {
@@ -69,6 +69,9 @@ cureslab calibrate potting.toml --measured trial.csv --free top.h=5W/m^2/K:40W/m
 			if *jobs < 0 || fs.Changed("jobs") && *jobs == 0 {
 				return e.usageError("-j wants at least 1, got %d", *jobs)
 			}
+			if *maxIter < 1 {
+				return e.usageError("--max-iter wants at least 1, got %d", *maxIter)
+			}
 			var frees []calibrate.Free
 			for _, spec := range *free {
 				f, err := calibrate.ParseFree(spec)
@@ -79,8 +82,7 @@ cureslab calibrate potting.toml --measured trial.csv --free top.h=5W/m^2/K:40W/m
 			}
 			dir := *out
 			if dir == "" {
-				base := filepath.Base(args[0])
-				dir = "./" + strings.TrimSuffix(base, filepath.Ext(base)) + "-calibrated"
+				dir = besideCase(args[0], "-calibrated")
 			}
 			if msg := checkOutDir(dir); msg != "" {
 				return e.usageError("%s", msg)
@@ -100,7 +102,7 @@ cureslab calibrate potting.toml --measured trial.csv --free top.h=5W/m^2/K:40W/m
 				fmt.Fprintln(e.stderr, err)
 				return exitUsage
 			}
-			opt := calibrate.Options{Jobs: *jobs}
+			opt := calibrate.Options{Jobs: *jobs, MaxIter: *maxIter}
 			if isTerminal(e.stderr) {
 				opt.Progress = func(iter int, rms float64, runs int) {
 					fmt.Fprintf(e.stderr, "\riteration %d: RMS residual %.3f K (%d runs)  ", iter, rms, runs)

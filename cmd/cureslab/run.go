@@ -123,9 +123,12 @@ cureslab run potting.toml -o potting-out`,
 }
 
 // defaultOutDir is ./NAME-out for the case file path/NAME.toml.
-func defaultOutDir(path string) string {
+func defaultOutDir(path string) string { return besideCase(path, "-out") }
+
+// besideCase is ./NAME+suffix for the case file path/NAME.toml.
+func besideCase(path, suffix string) string {
 	base := filepath.Base(path)
-	return "./" + strings.TrimSuffix(base, filepath.Ext(base)) + "-out"
+	return "./" + strings.TrimSuffix(base, filepath.Ext(base)) + suffix
 }
 
 // checkOutDir returns why dir cannot be an output directory, or "".
