@@ -23,7 +23,7 @@ func ExampleLog() []byte { return append([]byte(nil), embeddedLog...) }
 // The inputs the example log was made with, and its thermocouples.
 var (
 	exampleFree   = []string{"top.h", "bottom.h", "materials.potting-resin-A.cure.total_heat"}
-	exampleValues = []float64{9, 28, 350} // W/m^2/K, W/m^2/K, J/g (the case has 15, 20, 400)
+	exampleValues = []float64{9, 28, 300} // W/m^2/K, W/m^2/K, J/g (the case has 15, 20, 340)
 	exampleDepths = []float64{0, 6e-3, 12e-3}
 )
 
@@ -58,8 +58,8 @@ func makeExampleLog() ([]byte, error) {
 	comment := []string{
 		"An invented trial log, made by cureslab itself (not measured): the embedded",
 		"example case thick-potting-oven run with top.h = 9 W/m^2/K, bottom.h =",
-		"28 W/m^2/K and materials.potting-resin-A.cure.total_heat = 350 J/g (the case",
-		"has 15, 20 and 400), read at 0, 6 and 12 mm every minute, Gaussian noise of",
+		"28 W/m^2/K and materials.potting-resin-A.cure.total_heat = 300 J/g (the case",
+		"has 15, 20 and 340), read at 0, 6 and 12 mm every minute, Gaussian noise of",
 		"0.3 K (seed 2026), rounded to 0.1 C. For trying 'cureslab calibrate'.",
 	}
 	return SyntheticLog(context.Background(), p, Synth{Depths: exampleDepths, Times: times, Sigma: 0.3, Seed: 2026, Decimals: 1, Comment: comment})
