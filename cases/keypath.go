@@ -391,7 +391,7 @@ func SplitNumber(s string) (num, rest string) {
 // dimOf returns the first dimension, in the order of package units, that s
 // reads as, or 0 when it reads as none.
 func DimOf(s string) units.Dim {
-	for d := units.Length; d <= units.PowerDensity; d++ {
+	for d := units.Length; d <= units.Viscosity; d++ {
 		if _, err := units.Parse(s, d); err == nil {
 			return d
 		}
@@ -444,7 +444,7 @@ func NewSpan(from, to any) (Span, error) {
 		}
 		var d units.Dim
 		var bSI float64
-		for d = units.Length; d <= units.PowerDensity; d++ {
+		for d = units.Length; d <= units.Viscosity; d++ {
 			if _, err := units.Parse(f, d); err != nil {
 				continue
 			}
@@ -452,7 +452,7 @@ func NewSpan(from, to any) (Span, error) {
 				break
 			}
 		}
-		if d > units.PowerDensity {
+		if d > units.Viscosity {
 			if fd := DimOf(f); fd != 0 {
 				return sp, fmt.Errorf("to = %q is not %s like from = %q", t, article(fd), f)
 			}

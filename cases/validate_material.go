@@ -11,17 +11,39 @@ import (
 )
 
 var (
-	materialKeys = []string{"density", "specific_heat", "conductivity", "specific_heat_cured", "conductivity_cured", "cure", "dielectric"}
+	materialKeys = []string{"density", "specific_heat", "conductivity", "specific_heat_cured", "conductivity_cured", "cure", "dielectric", "viscosity"}
 	tableKeys    = []string{"temperature", "value"}
 
-	cureCommonKeys  = []string{"model", "total_heat", "resin_fraction", "gel_point", "diffusion", "glass_transition"}
-	cureModelKeys   = map[string][]string{"nth-order": {"A1", "E1", "n"}, "autocatalytic": {"A1", "E1", "A2", "E2", "m", "n"}}
-	cureModels      = []string{"nth-order", "autocatalytic"}
-	diffusionKeys   = []string{"C", "alpha_c0", "alpha_cT"}
-	glassKeys       = []string{"Tg0", "Tg_full", "lambda"}
-	dielectricKeys  = []string{"permittivity", "loss_factor", "loss_factor_cured", "shield"}
-	allCureKeys     = append(append([]string{}, cureCommonKeys...), cureModelKeys["autocatalytic"]...)
-	nthOrderForeign = []string{"A2", "E2", "m"}
+	cureCommonKeys = []string{"model", "total_heat", "resin_fraction", "gel_point", "diffusion", "glass_transition"}
+	cureModelKeys  = map[string][]string{
+		"nth-order":         {"A1", "E1", "n"},
+		"autocatalytic":     {"A1", "E1", "A2", "E2", "m", "n"},
+		"lee-loos-springer": {"A1", "E1", "A2", "E2", "A3", "E3", "B", "switch"},
+		"isoconversional":   {"alpha", "E", "Af"},
+	}
+	cureModels = []string{"nth-order", "autocatalytic", "lee-loos-springer", "isoconversional"}
+	// cureModelForms describes each model's law for messages.
+	cureModelForms = map[string]string{
+		"nth-order":         "k1 (1-a)^n",
+		"autocatalytic":     "(k1 + k2 a^m)(1-a)^n",
+		"lee-loos-springer": "(K1 + K2 a)(1-a)(B-a) up to a = switch, K3 (1-a) above",
+		"isoconversional":   "a table of alpha, E and Af: Af(a) exp(-E(a)/RT)",
+	}
+	diffusionKeys  = []string{"C", "alpha_c0", "alpha_cT"}
+	glassKeys      = []string{"Tg0", "Tg_full", "lambda"}
+	dielectricKeys = []string{"permittivity", "loss_factor", "loss_factor_cured", "shield"}
+	viscosityKeys  = []string{"model", "eta0", "E", "a", "b"}
+	allCureKeys    = func() []string {
+		out := append([]string{}, cureCommonKeys...)
+		for _, m := range cureModels {
+			for _, k := range cureModelKeys[m] {
+				if !Contains(out, k) {
+					out = append(out, k)
+				}
+			}
+		}
+		return out
+	}()
 )
 
 // materials reads every [materials.X] of the case. A material with errors
@@ -39,12 +61,26 @@ func (l *loader) materials(root *table) (defs map[string]*physics.Material, repl
 			"write each material as a section: [materials.NAME]"
 		return defs, nil
 	}
+	// Plain materials first, then the composites made of them.
+	var composites []string
 	for _, name := range sortedKeys(all) {
-		path := "materials." + name
-		defs[name] = l.material(name, path, all[name])
 		if _, builtin := physics.Builtin(name); builtin {
 			replaced = append(replaced, name)
+		} else if _, fibre := physics.BuiltinFibre(name); fibre {
+			replaced = append(replaced, name)
 		}
+		if isComposite(all[name]) {
+			composites = append(composites, name)
+			continue
+		}
+		defs[name] = l.material(name, "materials."+name, all[name])
+	}
+	isComp := map[string]bool{}
+	for _, name := range composites {
+		isComp[name] = true
+	}
+	for _, name := range composites {
+		defs[name] = l.composite(name, "materials."+name, all[name], defs, isComp)
 	}
 	return defs, replaced
 }
@@ -76,6 +112,9 @@ func (l *loader) material(name, path string, v any) *physics.Material {
 	}
 	if t.has("dielectric") {
 		m.Dielectric = l.dielectric(t)
+	}
+	if t.has("viscosity") {
+		m.Viscosity = l.viscosity(t, m.Cure != nil || t.has("cure"))
 	}
 	if len(l.errs) > before {
 		return nil
@@ -186,13 +225,13 @@ func (l *loader) cure(mt *table) *physics.Cure {
 	var note func(string) string
 	if keys, known := cureModelKeys[model]; known {
 		valid = append(append([]string{}, cureCommonKeys...), keys...)
-		if model == "nth-order" {
-			note = func(k string) string {
-				if Contains(nthOrderForeign, k) {
-					return fmt.Sprintf("%s belongs to the \"autocatalytic\" model; model \"nth-order\" (k1 (1-a)^n) uses A1, E1 and n", k)
+		note = func(k string) string {
+			for _, other := range cureModels {
+				if other != model && Contains(cureModelKeys[other], k) {
+					return fmt.Sprintf("%s belongs to the %q model; model %q (%s) uses %s", k, other, model, cureModelForms[model], quoteKeys(keys))
 				}
-				return ""
 			}
+			return ""
 		}
 	}
 	t := l.open(path, mt.m["cure"], valid, note)
@@ -206,13 +245,24 @@ func (l *loader) cure(mt *table) *physics.Cure {
 		if g := Suggest(s, cureModels); g != "" {
 			msg += fmt.Sprintf("; did you mean %q?", g)
 		}
-		l.atValue(t.keyPath("model"), ErrRange, "%s", msg).Hint =
-			`the models are "nth-order" (k1 (1-a)^n) and "autocatalytic" ((k1 + k2 a^m)(1-a)^n)`
+		var forms []string
+		for _, m := range cureModels {
+			forms = append(forms, fmt.Sprintf("%q (%s)", m, cureModelForms[m]))
+		}
+		l.atValue(t.keyPath("model"), ErrRange, "%s", msg).Hint = "the models are " + strings.Join(forms, ", ")
 	}
 	c := &physics.Cure{ResinFraction: 1, GelPoint: physics.DefaultGelPoint}
-	l.require(t, "total_heat", "A1", "E1", "n")
-	if model == "autocatalytic" {
-		l.require(t, "A2", "E2", "m")
+	l.require(t, "total_heat")
+	switch model {
+	case "lee-loos-springer":
+		l.require(t, "A1", "E1", "A2", "E2", "A3", "E3", "B")
+	case "isoconversional":
+		l.require(t, "alpha", "E", "Af")
+	default:
+		l.require(t, "A1", "E1", "n")
+		if model == "autocatalytic" {
+			l.require(t, "A2", "E2", "m")
+		}
 	}
 	if h, ok := l.quantity(t, "total_heat", units.EnergyPerMass); ok {
 		if !(h >= 0) {
@@ -266,6 +316,12 @@ func (l *loader) cure(mt *table) *physics.Cure {
 			l.atValue(t.keyPath("A2"), ErrRange, "A1 and A2 are both zero: the resin never reacts")
 		}
 		c.Model = a
+	case "lee-loos-springer":
+		c.Model = l.leeLoosSpringer(t, before)
+	case "isoconversional":
+		if m := l.isoTable(t); m != nil {
+			c.Model = m
+		}
 	}
 	if d := l.sub(t, "diffusion", diffusionKeys, nil); d != nil && l.require(d, diffusionKeys...) {
 		var f physics.Diffusion

@@ -221,6 +221,10 @@ func Mix(name string, f *Fibre, resin *Material, v float64, model ConductivityMo
 			Uncured: kMix(resin.Conductivity.Uncured), HasCured: resin.Conductivity.HasCured,
 		},
 		Source: fmt.Sprintf("mixture of %s (fibre volume fraction %g) in %s, conductivity by the %s model", f.Name, v, resin.Name, model),
+		Composition: &Composition{
+			Fibre: f.Name, Resin: resin.Name, FibreVolumeFraction: v, FibreMassFraction: wf,
+			Model: model, FibreSource: f.Source,
+		},
 	}
 	if m.SpecificHeat.HasCured {
 		m.SpecificHeat.Cured = cpMix(resin.SpecificHeat.Cured)

@@ -11,6 +11,9 @@ type Material struct {
 	// Viscosity is the resin's viscosity law, nil where none is given; it
 	// needs Cure (its gel point ends the flow).
 	Viscosity *CastroMacosko
+	// Composition says how Mix made the material from a fibre and a resin;
+	// nil for a material given directly.
+	Composition *Composition
 	// Source names where the values come from (a handbook table, a data
 	// sheet, or "invented for the examples").
 	Source string
@@ -29,4 +32,13 @@ type Dielectric struct {
 	// the ends); LossFactor and LossFactorCured then hold their largest
 	// values, for estimates.
 	LossTable, LossTableCured *Property
+}
+
+// Composition records the constituents of a fibre/resin ply (see Mix).
+type Composition struct {
+	Fibre, Resin        string // names as given
+	FibreVolumeFraction float64
+	FibreMassFraction   float64
+	Model               ConductivityModel // of the through-thickness conductivity
+	FibreSource         string            // the fibre's Source
 }

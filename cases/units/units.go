@@ -35,21 +35,24 @@ const (
 	InverseTemperature                     // 1/K
 	PowerDensity                           // W/m^3
 	PowerPerArea                           // W/m^2, carried by a wave
+	Viscosity                              // Pa*s
 )
 
 // vec holds the exponents of the SI base units m, kg, s, K, mol, A.
 type vec [6]int
 
 var (
-	metre    = vec{1, 0, 0, 0, 0, 0}
-	kilogram = vec{0, 1, 0, 0, 0, 0}
-	second   = vec{0, 0, 1, 0, 0, 0}
-	kelvin   = vec{0, 0, 0, 1, 0, 0}
-	mole     = vec{0, 0, 0, 0, 1, 0}
-	hertz    = vec{0, 0, -1, 0, 0, 0}
-	joule    = vec{2, 1, -2, 0, 0, 0}
-	watt     = vec{2, 1, -3, 0, 0, 0}
-	volt     = vec{2, 1, -3, 0, 0, -1} // W/A
+	metre     = vec{1, 0, 0, 0, 0, 0}
+	kilogram  = vec{0, 1, 0, 0, 0, 0}
+	second    = vec{0, 0, 1, 0, 0, 0}
+	kelvin    = vec{0, 0, 0, 1, 0, 0}
+	mole      = vec{0, 0, 0, 0, 1, 0}
+	hertz     = vec{0, 0, -1, 0, 0, 0}
+	joule     = vec{2, 1, -2, 0, 0, 0}
+	watt      = vec{2, 1, -3, 0, 0, 0}
+	volt      = vec{2, 1, -3, 0, 0, -1} // W/A
+	pascal    = vec{-1, 1, -2, 0, 0, 0}
+	viscosity = vec{-1, 1, -1, 0, 0, 0} // Pa*s
 )
 
 func (a vec) add(b vec, sign int) vec {
@@ -85,9 +88,10 @@ var dims = [...]dimInfo{
 	InverseTemperature:      {"inverse temperature", "0.0052 1/K", "1/K", vec{0, 0, 0, -1, 0, 0}},
 	PowerDensity:            {"power density", "50 kW/m^3", "W/m^3", vec{-1, 1, -3, 0, 0, 0}},
 	PowerPerArea:            {"power per area", "4 kW/m^2", "W/m^2", vec{0, 1, -3, 0, 0, 0}},
+	Viscosity:               {"viscosity", "100 Pa*s", "Pa*s", vec{-1, 1, -1, 0, 0, 0}},
 }
 
-func (d Dim) valid() bool { return d >= Length && d <= PowerPerArea }
+func (d Dim) valid() bool { return d >= Length && d <= Viscosity }
 
 // String returns the dimension word used in messages ("length", "heat
 // transfer coefficient", ...), or "Dim(N)" for an invalid Dim.
@@ -137,6 +141,8 @@ const (
 	// Source: NIST SP 811 (2008), App. B.8: 1 cal_th = 4.184 J exactly (from memory).
 	// The thermochemical calorie is the one of the chemistry and DSC literature.
 	calorie = 4.184
+	// Source: NIST SP 811 (2008), App. B.8: 1 P (poise) = 0.1 Pa·s exactly (from memory).
+	poise = 0.1
 	// Source: NIST SP 811 (2008), §4.2.1.1: t/°C = T/K − 273.15 (from memory).
 	celsiusZero = 273.15
 	// Source: NIST SP 811 (2008), App. B.9: 1 °F = 5/9 K as an interval;
@@ -187,6 +193,9 @@ var symbols = map[string]unitDef{
 	"Hz": {1, hertz, 0}, "kHz": {1e3, hertz, 0}, "MHz": {1e6, hertz, 0}, "GHz": {1e9, hertz, 0},
 	// electric potential
 	"V": {1, volt, 0}, "mV": {1e-3, volt, 0}, "kV": {1e3, volt, 0},
+	// pressure, for viscosities (Pa*s, mPa*s) and the poise (1 P = 0.1 Pa*s)
+	"Pa": {1, pascal, 0}, "mPa": {1e-3, pascal, 0}, "kPa": {1e3, pascal, 0}, "MPa": {1e6, pascal, 0},
+	"P": {poise, viscosity, 0}, "cP": {1e-2 * poise, viscosity, 0},
 }
 
 // Error is a value that cannot be read as the expected dimension.

@@ -185,6 +185,14 @@ func TestParseAccepted(t *testing.T) {
 		{"50 kW/m^3", PowerDensity, 5e4, 0},
 		{"0.05 W/cm^3", PowerDensity, 5e4, 0},
 		{"4 kW/m^2", PowerPerArea, 4e3, 0}, // a wave's power per area
+
+		// Source: NIST SP 811 (2008), App. B.8 (from memory): 1 P = 0.1 Pa·s,
+		// so 1 cP = 1 mPa·s.
+		{"100 Pa*s", Viscosity, 100, 0},
+		{"250 mPa*s", Viscosity, 0.25, 0},
+		{"250 cP", Viscosity, 0.25, 0},
+		{"3 P", Viscosity, 0.3, 0},
+		{"2 kPa.s", Viscosity, 2000, 0},
 	}
 	for _, tt := range tests {
 		t.Run(tt.dim.String()+"/"+tt.in, func(t *testing.T) {
@@ -289,7 +297,7 @@ func TestParseRejected(t *testing.T) {
 // Every Dim: its example parses as itself, and 1 of its SI unit is 1.
 func TestDimTable(t *testing.T) {
 	seen := map[string]bool{}
-	for d := Length; d <= PowerPerArea; d++ {
+	for d := Length; d <= Viscosity; d++ {
 		if seen[d.String()] {
 			t.Errorf("%v: duplicate word", d)
 		}
@@ -301,20 +309,20 @@ func TestDimTable(t *testing.T) {
 		if got, err := Parse("1 "+d.SIUnit(), d); err != nil || got != 1 {
 			t.Errorf("%v: Parse(\"1 %s\") = %g, %v; want 1", d, d.SIUnit(), got, err)
 		}
-		if _, err := Parse("1 "+d.SIUnit(), d%PowerPerArea+1); err == nil && dims[d].v != dims[d%PowerPerArea+1].v {
-			t.Errorf("%v: %q accepted as %v", d, d.SIUnit(), d%PowerPerArea+1)
+		if _, err := Parse("1 "+d.SIUnit(), d%Viscosity+1); err == nil && dims[d].v != dims[d%Viscosity+1].v {
+			t.Errorf("%v: %q accepted as %v", d, d.SIUnit(), d%Viscosity+1)
 		}
 	}
 	// Source: the README's Case file reference, dimension words used in messages.
-	words := "length, time, temperature, temperature difference, heating rate, density, specific heat, conductivity, heat transfer coefficient, contact resistance, energy per mass, energy per mole, rate constant, frequency, electric field, heat flux, power, inverse temperature, power density, power per area"
+	words := "length, time, temperature, temperature difference, heating rate, density, specific heat, conductivity, heat transfer coefficient, contact resistance, energy per mass, energy per mole, rate constant, frequency, electric field, heat flux, power, inverse temperature, power density, power per area, viscosity"
 	var got []string
-	for d := Length; d <= PowerPerArea; d++ {
+	for d := Length; d <= Viscosity; d++ {
 		got = append(got, d.String())
 	}
 	if g := strings.Join(got, ", "); g != words {
 		t.Errorf("dimension words\n got  %s\n want %s", g, words)
 	}
-	for _, d := range []Dim{0, PowerPerArea + 1} {
+	for _, d := range []Dim{0, Viscosity + 1} {
 		if d.Example() != "" || d.SIUnit() != "" || !strings.HasPrefix(d.String(), "Dim(") {
 			t.Errorf("invalid %d: String %q, Example %q, SIUnit %q", int(d), d.String(), d.Example(), d.SIUnit())
 		}
