@@ -106,9 +106,14 @@ func ExampleLibrary() {
 	// carbon-steel        7854     434          60.5
 	// copper              8933     385          401
 	// epoxy-cured         1200     1050         0.2
+	// fep-release-film    2150     1170         0.2
 	// fr4                 1850     1150         0.343
+	// invar-36            8050     515          10.2
+	// nylon-bagging-film  1140     1670         0.24
+	// polyester-breather  250      1250         0.06
 	// ptfe                2200     1050         0.35
 	// silicon             2330     712          148
+	// silicone-rubber     1200     1300         0.22
 	// soda-lime-glass     2500     750          1.4
 	// stainless-304       7900     477          14.9
 }

@@ -11,6 +11,7 @@ var libraryNames = []string{
 	"alumina", "alumina-96", "aluminium", "aluminium-2024", "aluminium-6061", "borosilicate-glass",
 	"carbon-steel", "copper", "epoxy-cured", "fr4", "ptfe", "silicon",
 	"soda-lime-glass", "stainless-304",
+	"invar-36", "nylon-bagging-film", "fep-release-film", "polyester-breather", "silicone-rubber",
 }
 
 func TestLibraryComplete(t *testing.T) {
@@ -41,7 +42,7 @@ func TestLibraryComplete(t *testing.T) {
 		}
 		// Metals reflect microwaves (a perfect conductor at these
 		// frequencies: common practice); nothing built in cures or absorbs.
-		metal := slices.Contains([]string{"aluminium", "aluminium-2024", "aluminium-6061", "carbon-steel", "copper", "stainless-304"}, m.Name)
+		metal := slices.Contains([]string{"aluminium", "aluminium-2024", "aluminium-6061", "carbon-steel", "copper", "invar-36", "stainless-304"}, m.Name)
 		if d := m.Dielectric; m.Cure != nil || (d != nil && !d.Shield) || metal != (d != nil && d.Shield) {
 			t.Errorf("%s: built-ins neither cure nor absorb, and exactly the metals are shields (dielectric %+v)", m.Name, d)
 		}
