@@ -51,10 +51,27 @@ type Criteria struct {
 	MinCure        float64 // every curing cell at the end, (0, 1]
 	MaxTemperature float64 // K, anywhere, any time
 	MaxSpread      float64 // K, inside curing layers, any time
+	// FlowViscosity is the viscosity below which a resin counts as flowing
+	// (flow_window_s), Pa·s; 0 means the default, 100 Pa·s.
+	FlowViscosity float64
+	MinFlowWindow float64 // s, the shortest flow window allowed; 0 means not set
 }
 
 // controlled reports whether p's volumetric heating is under closed-loop
 // control (probes.csv then has a power_fraction column).
 func Controlled(p *solver.Problem) bool {
 	return p.Volumetric != nil && p.Volumetric.Control != nil
+}
+
+// Viscous reports whether a layer of p has a material with a viscosity law
+// (and a cure section): fields.csv then has a viscosity_Pa_s column,
+// probes.csv a viscosity column per probe, and summary.json the minimum
+// viscosity and the flow window.
+func Viscous(p *solver.Problem) bool {
+	for _, m := range p.Materials {
+		if m != nil && m.Viscosity != nil && m.Cure != nil {
+			return true
+		}
+	}
+	return false
 }

@@ -209,11 +209,19 @@ func chkMaterials(p *textout.Printer, c *Case) {
 // model and its parameters, the dielectric properties, and the source. Used
 // by check and by the materials command.
 func DescribeMaterial(m *physics.Material) []string {
-	lines := []string{
-		"density " + chkG(m.Density) + " kg/m^3",
-		"specific heat " + chkBlend(&m.SpecificHeat, "J/kg/K"),
-		"conductivity " + chkBlend(&m.Conductivity, "W/m/K"),
+	var lines []string
+	if c := m.Composition; c != nil {
+		lines = append(lines,
+			fmt.Sprintf("composite: %s fibre in %s resin, fibre volume fraction %s (mass fraction %s); no voids",
+				c.Fibre, c.Resin, chkG(c.FibreVolumeFraction), chkF(c.FibreMassFraction, 4)),
+			fmt.Sprintf("mixed: density by volume, specific heat by mass, through-thickness conductivity by the %s model; cure heat per kg of ply = resin mass fraction %s x the resin's",
+				c.Model, chkF(1-c.FibreMassFraction, 4)))
 	}
+	lines = append(lines,
+		"density "+chkG(m.Density)+" kg/m^3",
+		"specific heat "+chkBlend(&m.SpecificHeat, "J/kg/K"),
+		"conductivity "+chkBlend(&m.Conductivity, "W/m/K"),
+	)
 	if cu := m.Cure; cu != nil {
 		lines = append(lines, "cures: "+chkKinetics(cu.Model))
 		gel := cu.GelPoint
@@ -231,6 +239,11 @@ func DescribeMaterial(m *physics.Material) []string {
 			lines = append(lines, fmt.Sprintf("glass transition: Tg0 %s C, Tg_full %s C, lambda %s",
 				chkG(g.Tg0-273.15), chkG(g.TgFull-273.15), chkG(g.Lambda)))
 		}
+	}
+	if v := m.Viscosity; v != nil && m.Cure != nil {
+		gel := m.Cure.GelPoint
+		lines = append(lines, fmt.Sprintf("viscosity: castro-macosko, eta0 %s Pa*s, E %s kJ/mol, a %s, b %s (uncured: %s Pa*s at 23 C, %s Pa*s at 120 C; no flow from gel at %s)",
+			chkG(v.Eta0), chkG(v.E/1e3), chkG(v.A), chkG(v.B), chkG(v.At(296.15, 0, gel)), chkG(v.At(393.15, 0, gel)), chkG(gel)))
 	}
 	if d := m.Dielectric; d != nil {
 		if d.Shield {
@@ -282,6 +295,17 @@ func chkKinetics(k physics.Kinetics) string {
 			chkG(m.A1), chkG(m.E1/1e3), chkG(m.A2), chkG(m.E2/1e3), chkG(m.M), chkG(m.N))
 	case *physics.Autocatalytic:
 		return chkKinetics(*m)
+	case physics.LeeLoosSpringer:
+		return fmt.Sprintf("lee-loos-springer, A1 %s 1/s, E1 %s kJ/mol, A2 %s 1/s, E2 %s kJ/mol, A3 %s 1/s, E3 %s kJ/mol, B %s, switch %s",
+			chkG(m.A1), chkG(m.E1/1e3), chkG(m.A2), chkG(m.E2/1e3), chkG(m.A3), chkG(m.E3/1e3), chkG(m.B), chkG(m.Switch))
+	case *physics.Isoconversional:
+		a, E, _ := m.Table()
+		lo, hi := E[0], E[0]
+		for _, e := range E {
+			lo, hi = min(lo, e), max(hi, e)
+		}
+		return fmt.Sprintf("isoconversional table, %d rows from alpha %s to %s (the cure stops there), E %s to %s kJ/mol",
+			len(a), chkG(a[0]), chkG(a[len(a)-1]), chkG(lo/1e3), chkG(hi/1e3))
 	case nil:
 		return "no kinetic model"
 	}
@@ -418,10 +442,21 @@ func chkTime(p *textout.Printer, c *Case) {
 	if v := c.Criteria.MaxSpread; !math.IsNaN(v) {
 		cr = append(cr, "max_spread "+chkG(num.Round6(v))+" K")
 	}
+	if v := c.Criteria.MinFlowWindow; v > 0 {
+		cr = append(cr, "min_flow_window "+num.HumanTime(v))
+	}
 	if len(cr) == 0 {
 		cr = []string{"none"}
 	}
 	fmt.Fprintf(tw, "  criteria\t%s\n", strings.Join(cr, ", "))
+	if Viscous(c.Problem) {
+		flow := c.Criteria.FlowViscosity
+		if flow == 0 {
+			flow = solver.DefaultFlowViscosity
+		}
+		fmt.Fprintf(tw, "  flow window\ttime below %s Pa*s before gel (criteria.flow_viscosity%s), the shortest over the cells with a viscosity law\n",
+			chkG(flow), map[bool]string{true: "", false: ", default"}[c.Criteria.FlowViscosity > 0])
+	}
 	p.Flush(tw)
 }
 

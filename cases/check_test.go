@@ -66,7 +66,7 @@ func chkSlab(t *testing.T, layers []mesh.Layer, mats []*physics.Material, h, Tai
 			Mesh: m, Materials: mats, Top: face, Bottom: face,
 			InitialTemperature: 293.15, End: 3600,
 		},
-		Criteria: Criteria{math.NaN(), math.NaN(), math.NaN()},
+		Criteria: Criteria{MinCure: math.NaN(), MaxTemperature: math.NaN(), MaxSpread: math.NaN()},
 		TopAir:   "20 C", BottomAir: "20 C",
 	}
 	for i, l := range layers {

@@ -20,6 +20,7 @@ type Example struct {
 // exampleSummaries lists the embedded examples, each stored as
 // examples/<name>.toml; a test checks that the two agree.
 var exampleSummaries = map[string]string{
+	"thick-laminate":           "25 mm carbon/epoxy plies of an invented two-regime resin on a steel tool, two-hold cycle: centre overshoot and the flow window",
 	"thick-potting-6ghz":       "the microwave potting at 6.25 GHz: a second node of the standing wave under the surface, the sensor at mid-depth",
 	"thick-potting-6ghz-swept": "the same part with the frequency swept over 5.85-6.65 GHz: what a band changes (and what it cannot)",
 	"thick-potting-microwave":  "the same potting under a 2.45 GHz plane wave in its metal cup: a node on the metal, the sensor where the resin is hottest",

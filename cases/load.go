@@ -127,6 +127,10 @@ func (l *loader) build(doc map[string]any) *Case {
 	if !math.IsNaN(c.Criteria.MinCure) {
 		p.MinCure = c.Criteria.MinCure
 	}
+	p.FlowViscosity = c.Criteria.FlowViscosity
+	if layersOK {
+		l.checkFlowCriteria(root, layers)
+	}
 	if layersOK && initOK {
 		l.checkStart(layers, defs, cure0)
 	}

@@ -17,7 +17,7 @@ var (
 	initialKeys  = []string{"temperature", "cure"}
 	timeKeys     = []string{"end", "output_every", "max_step", "temperature_tolerance", "cure_tolerance", "abort_temperature"}
 	outputKeys   = []string{"probes"}
-	criteriaKeys = []string{"min_cure", "max_temperature", "max_spread"}
+	criteriaKeys = []string{"min_cure", "max_temperature", "max_spread", "flow_viscosity", "min_flow_window"}
 )
 
 // Limits that keep a case within what a run can hold in memory.
@@ -341,5 +341,33 @@ func (l *loader) criteria(root *table) Criteria {
 		}
 		c.MaxSpread = x
 	}
+	if x, ok := l.quantity(t, "flow_viscosity", units.Viscosity); ok {
+		if !(x > 0) {
+			l.rangeErr(t.keyPath("flow_viscosity"), t.m["flow_viscosity"], "flow_viscosity must be positive")
+		}
+		c.FlowViscosity = x
+	}
+	if x, ok := l.quantity(t, "min_flow_window", units.Time); ok {
+		if !(x > 0) {
+			l.rangeErr(t.keyPath("min_flow_window"), t.m["min_flow_window"], "min_flow_window must be positive")
+		}
+		c.MinFlowWindow = x
+	}
 	return c
+}
+
+// checkFlowCriteria reports flow criteria in a case whose layers have no
+// viscosity law: there is nothing to judge them on.
+func (l *loader) checkFlowCriteria(root *table, layers []layerDef) {
+	for _, d := range layers {
+		if d.mat != nil && d.mat.Viscosity != nil && d.mat.Cure != nil {
+			return
+		}
+	}
+	t := l.sub(root, "criteria", criteriaKeys, func(string) string { return "" })
+	for _, k := range []string{"flow_viscosity", "min_flow_window"} {
+		if t.has(k) {
+			l.atKey(t.keyPath(k), ErrRange, "%s needs a layer whose material has a [materials.NAME.viscosity] section", k)
+		}
+	}
 }

@@ -30,7 +30,8 @@ const (
 	// CriterionShareMet is the criterion that run --uncertain adds: the
 	// share of samples that met every criterion must reach [uncertainty]
 	// share.
-	CriterionShareMet = "uncertainty_share"
+	CriterionShareMet      = "uncertainty_share"
+	CriterionMinFlowWindow = "min_flow_window"
 )
 
 // Verdict is the judgement of one acceptance criterion. Value and Limit are
@@ -45,11 +46,12 @@ type Verdict struct {
 }
 
 // Judge returns the verdicts of the criteria that c sets, in the order
-// min_cure, max_temperature, max_spread:
+// min_cure, max_temperature, max_spread, min_flow_window:
 //
 //	min_cure:        min final cure over curing cells ≥ limit
 //	max_temperature: peak cell temperature           ≤ limit
 //	max_spread:      largest spread in curing layers ≤ limit
+//	min_flow_window: flow window (s)                 ≥ limit
 //
 // The comparison is made in SI units on the solver's values, before any
 // rounding for display. A run that stopped early is judged on what it
@@ -69,6 +71,10 @@ func Judge(c *cases.Case, r *solver.Result) []Verdict {
 	if !math.IsNaN(cr.MaxSpread) {
 		out = append(out, Verdict{CriterionMaxSpread, num.Round6(s.MaxSpread), num.Round6(cr.MaxSpread),
 			math.IsNaN(s.MaxSpread) || s.MaxSpread <= cr.MaxSpread})
+	}
+	if cr.MinFlowWindow > 0 {
+		out = append(out, Verdict{CriterionMinFlowWindow, num.Round6(s.FlowWindow), num.Round6(cr.MinFlowWindow),
+			math.IsNaN(s.FlowWindow) || s.FlowWindow >= cr.MinFlowWindow})
 	}
 	return out
 }
@@ -225,6 +231,16 @@ type Summary struct {
 	ControlSensorDepthMM *Float `json:"control_sensor_depth_mm,omitempty"`
 	// GelPoint is the gel point of each curing layer, by layer name.
 	GelPoint map[string]float64 `json:"gel_point,omitempty"`
+	// The viscosity fields are set only when a layer has a viscosity law
+	// (cases.Viscous); omitted otherwise. MinViscosityPaS is the lowest
+	// viscosity of any cell at any time, with when and where; FlowWindowS
+	// the shortest, over the cells with a viscosity law, of the time spent
+	// below FlowViscosityPaS before gel.
+	MinViscosityPaS     *Float `json:"min_viscosity_Pa_s,omitempty"`
+	MinViscosityTimeS   *Float `json:"min_viscosity_time_s,omitempty"`
+	MinViscosityDepthMM *Float `json:"min_viscosity_depth_mm,omitempty"`
+	FlowWindowS         *Float `json:"flow_window_s,omitempty"`
+	FlowViscosityPaS    *Float `json:"flow_viscosity_Pa_s,omitempty"`
 }
 
 // Summarize returns the summary of a run of c: the solver's summary in the
@@ -275,6 +291,18 @@ func Summarize(c *cases.Case, r *solver.Result) Summary {
 		out.ControlMaxErrorK = &e
 		z := Float(num.MM(c.Problem.Volumetric.Control.Sensor))
 		out.ControlSensorDepthMM = &z
+	}
+	if cases.Viscous(c.Problem) {
+		f := func(v float64) *Float { x := Float(v); return &x }
+		flow := c.Problem.FlowViscosity
+		if flow == 0 {
+			flow = solver.DefaultFlowViscosity
+		}
+		out.MinViscosityPaS = f(num.RoundSig(s.MinViscosity))
+		out.MinViscosityTimeS = f(num.Round6(s.MinViscosityTime))
+		out.MinViscosityDepthMM = f(num.MM(s.MinViscosityDepth))
+		out.FlowWindowS = f(num.Round6(s.FlowWindow))
+		out.FlowViscosityPaS = f(num.RoundSig(flow))
 	}
 	if r.Status != solver.OK {
 		msg := "the run stopped early"
@@ -334,6 +362,14 @@ func SummaryRows(s Summary) []SummaryRow {
 	if s.ControlMaxErrorK != nil && OutOK(*s.ControlMaxErrorK) {
 		add("control_max_error_K", fmt.Sprintf("%.2f K at most", float64(*s.ControlMaxErrorK)))
 	}
+	if s.MinViscosityPaS != nil && OutOK(*s.MinViscosityPaS) {
+		add("min_viscosity_Pa_s", fmt.Sprintf("%s Pa·s at %s, t = %s", strconv.FormatFloat(float64(*s.MinViscosityPaS), 'g', 3, 64),
+			num.TextMM(optional(s.MinViscosityDepthMM)), num.TextTime(optional(s.MinViscosityTimeS))))
+	}
+	if s.FlowWindowS != nil && OutOK(*s.FlowWindowS) {
+		add("flow_window_s", fmt.Sprintf("%s below %s Pa·s before gel (the shortest over the resin's cells)",
+			num.TextTime(float64(*s.FlowWindowS)), strconv.FormatFloat(optional(s.FlowViscosityPaS), 'g', 4, 64)))
+	}
 	add("energy_balance_error", strconv.FormatFloat(float64(s.EnergyBalanceError), 'g', 2, 64)+" (relative)")
 	add("steps", strconv.Itoa(s.Steps))
 	add("end_time_s", num.TextTime(float64(s.EndTimeS)))
@@ -370,7 +406,7 @@ func PrintSummary(w io.Writer, s Summary) error {
 		if !v.Pass {
 			res = "FAILED"
 		}
-		op := map[string]string{CriterionMinCure: ">=", CriterionShareMet: ">="}[v.Name]
+		op := map[string]string{CriterionMinCure: ">=", CriterionShareMet: ">=", CriterionMinFlowWindow: ">="}[v.Name]
 		if op == "" {
 			op = "<="
 		}
@@ -401,6 +437,8 @@ func PrintSummary(w io.Writer, s Summary) error {
 			fmt.Fprintf(&b, "FAILED %s: every criterion met in %.1f %% of the samples < %.1f %% required\n", v.Name, 100*v.Value, 100*v.Limit)
 		case CriterionMaxTemperature:
 			fmt.Fprintf(&b, "FAILED %s: %s%s at %s mm, t = %s > %s%s\n", v.Name, val, u, outDepth(s.PeakDepthMM), outTime(s.PeakTimeS), lim, u)
+		case CriterionMinFlowWindow:
+			fmt.Fprintf(&b, "FAILED %s: %s%s < %s%s\n", v.Name, val, u, lim, u)
 		default:
 			fmt.Fprintf(&b, "FAILED %s: %s%s > %s%s\n", v.Name, val, u, lim, u)
 		}
@@ -421,6 +459,8 @@ func criterionUnit(name string) string {
 		return "°C"
 	case CriterionMaxSpread:
 		return "K"
+	case CriterionMinFlowWindow:
+		return "s"
 	}
 	return ""
 }

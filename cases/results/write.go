@@ -61,10 +61,15 @@ func WriteRun(dir string, c *cases.Case, r *solver.Result, s Summary) error {
 // heating adds PowerColumn.
 var FieldsHeader = []string{"time_s", "depth_mm", "layer", "temperature_C", "cure", "cure_rate_per_s", "glass_transition_C"}
 
-// PowerColumn is the last column of fields.csv under volumetric heating:
-// the power absorbed per volume in the cell at that time (W/m³), with the
+// PowerColumn is a column of fields.csv under volumetric heating: the
+// power absorbed per volume in the cell at that time (W/m³), with the
 // controller's power fraction held from that time on.
 const PowerColumn = "power_W_per_m3"
+
+// ViscosityColumn is the last column of fields.csv when a layer has a
+// viscosity law: the resin's viscosity in the cell (Pa·s), empty at and past
+// gel and in layers without a viscosity law.
+const ViscosityColumn = "viscosity_Pa_s"
 
 // csvChunk is the size at which the CSV writers hand their buffer to the
 // writer: rows are formatted in place (num.AppendFixed, num.AppendSig) and
@@ -97,10 +102,14 @@ func flushCSV(w io.Writer, b []byte) ([]byte, error) {
 // it), built with append-style formatting: the columns that never change
 // (depth, layer) once per cell, the time once per snapshot.
 func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
-	head := FieldsHeader
+	head := slices.Clip(FieldsHeader)
 	power := c.Problem.Volumetric != nil
 	if power {
-		head = append(slices.Clip(FieldsHeader), PowerColumn)
+		head = append(head, PowerColumn)
+	}
+	viscous := cases.Viscous(c.Problem)
+	if viscous {
+		head = append(head, ViscosityColumn)
 	}
 	m := c.Problem.Mesh
 	n := m.Cells()
@@ -138,6 +147,10 @@ func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
 				b = append(b, ',')
 				b = num.AppendSig(b, num.At(s.Power, i))
 			}
+			if viscous {
+				b = append(b, ',')
+				b = num.AppendSig(b, num.At(s.Viscosity, i))
+			}
 			b = append(b, '\n')
 			var err error
 			if b, err = flushCSV(w, b); err != nil {
@@ -166,7 +179,13 @@ func probesHeader(c *cases.Case) []string {
 	if cases.Controlled(p) {
 		h = append(h, ProgramColumn, "power_fraction")
 	}
-	return append(h, "heat_in_J_per_m2")
+	h = append(h, "heat_in_J_per_m2")
+	if cases.Viscous(p) {
+		for _, d := range p.Probes {
+			h = append(h, ProbeViscosityColumn(num.FormatDepth(d)))
+		}
+	}
+	return h
 }
 
 // ProgramColumn is the column of probes.csv that holds, under closed-loop
@@ -174,10 +193,17 @@ func probesHeader(c *cases.Case) []string {
 // sensor at each output time, in °C.
 const ProgramColumn = "program_C"
 
+// ProbeViscosityColumn returns the name of the probes.csv column of the
+// viscosity at the probe whose depth label (mm) is label:
+// viscosity_<label>mm_Pa_s, empty at and past gel and in layers without a
+// viscosity law.
+func ProbeViscosityColumn(label string) string { return "viscosity_" + label + "mm_Pa_s" }
+
 // writeProbes writes probes.csv: one row per output time, formatted like
 // writeFields.
 func writeProbes(w io.Writer, c *cases.Case, r *solver.Result) error {
 	p := c.Problem
+	viscous := cases.Viscous(p)
 	b := appendCSVRecord(make([]byte, 0, csvChunk+512), probesHeader(c))
 	for k := range r.Snapshots {
 		s := &r.Snapshots[k]
@@ -204,6 +230,12 @@ func writeProbes(w io.Writer, c *cases.Case, r *solver.Result) error {
 		}
 		b = append(b, ',')
 		b = num.AppendSig(b, s.HeatIn)
+		if viscous {
+			for i := range p.Probes {
+				b = append(b, ',')
+				b = num.AppendSig(b, num.At(s.ProbeViscosity, i))
+			}
+		}
 		b = append(b, '\n')
 		var err error
 		if b, err = flushCSV(w, b); err != nil {
