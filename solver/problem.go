@@ -55,12 +55,13 @@ type Status int
 
 // The statuses a run can end with. Criteria are judged by package cases.
 const (
-	OK      Status = iota // ran to the end
-	Runaway               // a cell passed the abort temperature
-	Failed                // numerical failure (see Result.Err)
+	OK          Status = iota // ran to the end
+	Runaway                   // a cell passed the abort temperature
+	Failed                    // numerical failure (see Result.Err)
+	Interrupted               // the context was cancelled (Result.Err is ctx.Err())
 )
 
-var statusNames = [...]string{"ok", "runaway", "failed"}
+var statusNames = [...]string{"ok", "runaway", "failed", "interrupted"}
 
 func (s Status) String() string {
 	if s < 0 || int(s) >= len(statusNames) {

@@ -254,7 +254,7 @@ func (s *stepper) run(ctx context.Context, sink Sink) *Result {
 
 	for res.Status == OK && ev < len(events) {
 		if err := ctx.Err(); err != nil {
-			res.Status, res.Err = Failed, err
+			res.Status, res.Err = Interrupted, err
 			break
 		}
 		target := events[ev]

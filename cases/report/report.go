@@ -199,7 +199,7 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 		if len(s.T) != n {
 			return nil, fmt.Errorf("snapshot %d has %d temperatures for %d cells", k, len(s.T), n)
 		}
-		tb.Times = append(tb.Times, num.Round(s.Time, 6))
+		tb.Times = append(tb.Times, s.Time+0) // as written: exact (num.AppendTime)
 		T := make([]float64, n)
 		a := make([]float64, n)
 		for i := range n {

@@ -188,7 +188,10 @@ func compareTable(names []string, ds []*runData) template.HTML {
 					}
 					_, value := criterionText(v, d.Summary)
 					cell = value + "  " + passMark
-					if !v.Pass {
+					switch {
+					case v.Unjudged:
+						cell = value + "  not judged"
+					case !v.Pass:
 						cell = "!" + value + "  " + failMark
 					}
 				}

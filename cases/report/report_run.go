@@ -108,6 +108,8 @@ func statusBadge(s results.Summary) (string, bool) {
 		return "✗ RUNAWAY", false
 	case results.StatusFailed:
 		return "✗ run FAILED", false
+	case results.StatusInterrupted:
+		return "interrupted · criteria not judged", false
 	}
 	return s.Status, false
 }
@@ -122,9 +124,11 @@ func runAlerts(d *runData) []string {
 		out = append(out, "✗ Runaway: "+s.Message)
 	case results.StatusFailed:
 		out = append(out, "✗ The run failed: "+s.Message)
+	case results.StatusInterrupted:
+		out = append(out, "The run was interrupted: "+s.Message+". The criteria are not judged.")
 	}
 	for _, v := range s.Criteria {
-		if !v.Pass {
+		if !v.Pass && !v.Unjudged {
 			out = append(out, "✗ "+criterionSentence(v, s))
 		}
 	}
@@ -189,7 +193,10 @@ func summaryHTML(d *runData) template.HTML {
 		for _, v := range s.Criteria {
 			req, value := criterionText(v, s)
 			r := []string{v.Name, req, value, passMark}
-			if !v.Pass {
+			switch {
+			case v.Unjudged:
+				r[3] = "not judged"
+			case !v.Pass:
 				r[0], r[3] = "!"+v.Name, failMark
 			}
 			cr = append(cr, r)

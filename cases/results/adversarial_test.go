@@ -732,7 +732,7 @@ func (c *advStopAfter) Err() error {
 
 // TestAdversarialCasesStoppedRun: a run stopped from outside (as on Ctrl-C)
 // after some output times. WriteRun must write every file with the state
-// reached, status "failed" and a message that says where the outputs stop;
+// reached, status "interrupted" and a message that says where the outputs stop;
 // nothing of the run may be lost: every snapshot is in fields.csv, and the
 // last one is the moment of the stop.
 func TestAdversarialCasesStoppedRun(t *testing.T) {
@@ -744,8 +744,8 @@ func TestAdversarialCasesStoppedRun(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if r.Status != solver.Failed || !errors.Is(r.Err, context.Canceled) || len(r.Snapshots) < 3 {
-		t.Fatalf("status %v (%v) with %d snapshots, want a failed run with some output", r.Status, r.Err, len(r.Snapshots))
+	if r.Status != solver.Interrupted || !errors.Is(r.Err, context.Canceled) || len(r.Snapshots) < 3 {
+		t.Fatalf("status %v (%v) with %d snapshots, want an interrupted run with some output", r.Status, r.Err, len(r.Snapshots))
 	}
 	dir := filepath.Join(t.TempDir(), "out")
 	if err := WriteRun(dir, c, r, Summarize(c, r)); err != nil {
@@ -759,7 +759,7 @@ func TestAdversarialCasesStoppedRun(t *testing.T) {
 	if err := json.Unmarshal(data, &s); err != nil {
 		t.Fatal(err)
 	}
-	if s["status"] != StatusFailed || !strings.Contains(fmt.Sprint(s["message"]), "outputs hold the state up to") {
+	if s["status"] != StatusInterrupted || !strings.Contains(fmt.Sprint(s["message"]), "outputs hold the state up to") {
 		t.Errorf("summary after a stopped run: %s", data)
 	}
 	fields := advCSV(t, filepath.Join(dir, FieldsFile))

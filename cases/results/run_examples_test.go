@@ -115,7 +115,7 @@ func ExamplePrintSummary() {
 		MaxSpreadK: 0.8, MinFinalCure: 0.86, MinFinalCureDepthMM: 0.45, MeanFinalCure: 0.91,
 		TimeToMinCureS: nan, GelTimeFirstS: 2400, GelTimeLastS: 2460, MinFinalGlassTransitionC: 95,
 		EnergyBalanceError: 3e-15, Steps: 210, EndTimeS: 9000,
-		Criteria: Verdicts{{CriterionMinCure, 0.86, 0.9, false}},
+		Criteria: Verdicts{{Name: CriterionMinCure, Value: 0.86, Limit: 0.9}},
 	}
 	PrintSummary(os.Stdout, s)
 	// Output:

@@ -20,6 +20,7 @@ const (
 	StatusCriteriaFailed = "criteria-failed"
 	StatusRunaway        = "runaway"
 	StatusFailed         = "failed"
+	StatusInterrupted    = "interrupted"
 )
 
 // Names of the acceptance criteria, as written in [criteria].
@@ -39,10 +40,15 @@ const (
 // max_temperature, K for max_spread. Value is NaN when the quantity does not
 // exist in the case (max_spread or min_cure without a curing layer); such a
 // criterion holds vacuously.
+//
+// Unjudged marks a criterion of a run that was interrupted: its value is
+// what the run had reached, which says nothing about the finished part, so
+// it is neither passed nor failed (Pass false, null in summary.json).
 type Verdict struct {
 	Name         string
 	Value, Limit float64
 	Pass         bool
+	Unjudged     bool
 }
 
 // Judge returns the verdicts of the criteria that c sets, in the order
@@ -55,22 +61,28 @@ type Verdict struct {
 //
 // The comparison is made in SI units on the solver's values, before any
 // rounding for display. A run that stopped early is judged on what it
-// reached (its status, not the verdicts, decides the outcome then).
+// reached (its status, not the verdicts, decides the outcome then), except
+// an interrupted run, whose criteria are not judged (Unjudged).
 func Judge(c *cases.Case, r *solver.Result) []Verdict {
 	cr := c.Criteria
 	s := r.Summary
 	var out []Verdict
 	if !math.IsNaN(cr.MinCure) {
-		out = append(out, Verdict{CriterionMinCure, num.RoundSig(s.MinFinalCure), cr.MinCure,
-			math.IsNaN(s.MinFinalCure) || s.MinFinalCure >= cr.MinCure})
+		out = append(out, Verdict{Name: CriterionMinCure, Value: num.RoundSig(s.MinFinalCure), Limit: cr.MinCure,
+			Pass: math.IsNaN(s.MinFinalCure) || s.MinFinalCure >= cr.MinCure})
 	}
 	if !math.IsNaN(cr.MaxTemperature) {
-		out = append(out, Verdict{CriterionMaxTemperature, num.Celsius(s.PeakTemperature), num.Celsius(cr.MaxTemperature),
-			math.IsNaN(s.PeakTemperature) || s.PeakTemperature <= cr.MaxTemperature})
+		out = append(out, Verdict{Name: CriterionMaxTemperature, Value: num.Celsius(s.PeakTemperature), Limit: num.Celsius(cr.MaxTemperature),
+			Pass: math.IsNaN(s.PeakTemperature) || s.PeakTemperature <= cr.MaxTemperature})
 	}
 	if !math.IsNaN(cr.MaxSpread) {
-		out = append(out, Verdict{CriterionMaxSpread, num.Round6(s.MaxSpread), num.Round6(cr.MaxSpread),
-			math.IsNaN(s.MaxSpread) || s.MaxSpread <= cr.MaxSpread})
+		out = append(out, Verdict{Name: CriterionMaxSpread, Value: num.Round6(s.MaxSpread), Limit: num.Round6(cr.MaxSpread),
+			Pass: math.IsNaN(s.MaxSpread) || s.MaxSpread <= cr.MaxSpread})
+	}
+	if r.Status == solver.Interrupted {
+		for i := range out {
+			out[i].Pass, out[i].Unjudged = false, true
+		}
 	}
 	if cr.MinFlowWindow > 0 {
 		out = append(out, Verdict{CriterionMinFlowWindow, num.Round6(s.FlowWindow), num.Round6(cr.MinFlowWindow),
@@ -88,6 +100,8 @@ func StatusOf(r *solver.Result, verdicts []Verdict) string {
 		return StatusRunaway
 	case solver.Failed:
 		return StatusFailed
+	case solver.Interrupted:
+		return StatusInterrupted
 	}
 	for _, v := range verdicts {
 		if !v.Pass {
@@ -133,7 +147,7 @@ type Verdicts []Verdict
 type verdictJSON struct {
 	Value Float `json:"value"`
 	Limit Float `json:"limit"`
-	Pass  bool  `json:"pass"`
+	Pass  *bool `json:"pass"` // null: not judged
 }
 
 // MarshalJSON implements json.Marshaler.
@@ -148,7 +162,11 @@ func (vs Verdicts) MarshalJSON() ([]byte, error) {
 		if err != nil {
 			return nil, err
 		}
-		e, err := json.Marshal(verdictJSON{Float(v.Value), Float(v.Limit), v.Pass})
+		pass := &v.Pass
+		if v.Unjudged {
+			pass = nil
+		}
+		e, err := json.Marshal(verdictJSON{Float(v.Value), Float(v.Limit), pass})
 		if err != nil {
 			return nil, err
 		}
@@ -185,7 +203,7 @@ func (vs *Verdicts) UnmarshalJSON(b []byte) error {
 		if err := dec.Decode(&e); err != nil {
 			return fmt.Errorf("criteria.%s: %w", name, err)
 		}
-		out = append(out, Verdict{name, float64(e.Value), float64(e.Limit), e.Pass})
+		out = append(out, Verdict{Name: name, Value: float64(e.Value), Limit: float64(e.Limit), Pass: e.Pass != nil && *e.Pass, Unjudged: e.Pass == nil})
 	}
 	*vs = out
 	return nil
@@ -309,6 +327,9 @@ func Summarize(c *cases.Case, r *solver.Result) Summary {
 		if r.Err != nil {
 			msg = r.Err.Error()
 		}
+		if r.Status == solver.Interrupted {
+			msg = "interrupted (Ctrl-C or SIGTERM)"
+		}
 		out.Message = fmt.Sprintf("%s; the outputs hold the state up to t = %s s (%s)", msg, num.Fixed(r.EndTime, 3), num.HumanTime(r.EndTime))
 	}
 	return out
@@ -403,7 +424,10 @@ func PrintSummary(w io.Writer, s Summary) error {
 	}
 	for _, v := range s.Criteria {
 		res := "pass"
-		if !v.Pass {
+		switch {
+		case v.Unjudged:
+			res = "not judged (interrupted)"
+		case !v.Pass:
 			res = "FAILED"
 		}
 		op := map[string]string{CriterionMinCure: ">=", CriterionShareMet: ">=", CriterionMinFlowWindow: ">="}[v.Name]
@@ -422,7 +446,7 @@ func PrintSummary(w io.Writer, s Summary) error {
 	}
 	var b strings.Builder
 	for _, v := range s.Criteria {
-		if v.Pass {
+		if v.Pass || v.Unjudged {
 			continue
 		}
 		val, lim := OutPair(v.Value, v.Limit)
@@ -448,6 +472,8 @@ func PrintSummary(w io.Writer, s Summary) error {
 		fmt.Fprintf(&b, "RUNAWAY: %s\n", s.Message)
 	case StatusFailed:
 		fmt.Fprintf(&b, "FAILED run: %s\n", s.Message)
+	case StatusInterrupted:
+		fmt.Fprintf(&b, "INTERRUPTED: the outputs hold the state up to t = %s s; the criteria are not judged\n", num.Fixed(float64(s.EndTimeS), 6))
 	}
 	_, err := io.WriteString(w, b.String())
 	return err

@@ -88,15 +88,16 @@ func TestSummaryJSONNulls(t *testing.T) {
 
 func TestVerdictsJSON(t *testing.T) {
 	v := Verdicts{
-		{CriterionMinCure, 0.82, 0.9, false},
-		{CriterionMaxTemperature, 120, 140, true},
-		{CriterionMaxSpread, math.NaN(), 15, true},
+		{Name: CriterionMinCure, Value: 0.82, Limit: 0.9},
+		{Name: CriterionMaxTemperature, Value: 120, Limit: 140, Pass: true},
+		{Name: CriterionMaxSpread, Value: math.NaN(), Limit: 15, Pass: true},
+		{Name: "unjudged", Value: 0.5, Limit: 0.9, Unjudged: true},
 	}
 	b, err := json.Marshal(v)
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := `{"min_cure":{"value":0.82,"limit":0.9,"pass":false},"max_temperature":{"value":120,"limit":140,"pass":true},"max_spread":{"value":null,"limit":15,"pass":true}}`
+	want := `{"min_cure":{"value":0.82,"limit":0.9,"pass":false},"max_temperature":{"value":120,"limit":140,"pass":true},"max_spread":{"value":null,"limit":15,"pass":true},"unjudged":{"value":0.5,"limit":0.9,"pass":null}}`
 	if string(b) != want {
 		t.Errorf("got  %s\nwant %s", b, want)
 	}
@@ -107,7 +108,7 @@ func TestVerdictsJSON(t *testing.T) {
 	if err := json.Unmarshal([]byte(want), &back); err != nil {
 		t.Fatal(err)
 	}
-	if len(back) != 3 || back[0] != v[0] || back[1] != v[1] || !math.IsNaN(back[2].Value) || back[2].Name != CriterionMaxSpread {
+	if len(back) != 4 || back[0] != v[0] || back[1] != v[1] || !math.IsNaN(back[2].Value) || back[2].Name != CriterionMaxSpread || back[3] != v[3] {
 		t.Errorf("round trip: got %+v", back)
 	}
 	if err := json.Unmarshal([]byte(`[1]`), &back); err == nil {

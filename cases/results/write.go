@@ -33,8 +33,9 @@ const (
 // early (runaway, failure); the files then hold the snapshots reached and
 // summary.json says so in its status.
 //
-// Number format: temperatures in °C and times in s are rounded to 1e-6,
-// depths in mm to 1e-9 (so 6.35 mm prints as 6.35, not 6.3500000000000005),
+// Number format: times in s (time_s) as the shortest decimal that reads
+// back as the same float (num.AppendTime); temperatures in °C are rounded
+// to 1e-6, depths in mm to 1e-9 (so 6.35 mm prints as 6.35, not 6.3500000000000005),
 // then written as the shortest decimal; cure, cure rate and heat are written
 // with 9 significant digits. A value that does not apply (NaN) is an empty
 // cell.
@@ -128,7 +129,7 @@ func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
 		if len(s.T) != n {
 			return fmt.Errorf("snapshot %d has %d temperatures for %d cells", k, len(s.T), n)
 		}
-		t = num.AppendFixed(t[:0], s.Time, 6)
+		t = num.AppendTime(t[:0], s.Time)
 		for i := range n {
 			b = append(b, t...)
 			b = append(b, mid[i]...)
@@ -207,7 +208,7 @@ func writeProbes(w io.Writer, c *cases.Case, r *solver.Result) error {
 	b := appendCSVRecord(make([]byte, 0, csvChunk+512), probesHeader(c))
 	for k := range r.Snapshots {
 		s := &r.Snapshots[k]
-		b = num.AppendFixed(b, s.Time, 6)
+		b = num.AppendTime(b, s.Time)
 		for i := range p.Probes {
 			b = append(b, ',')
 			b = num.AppendFixed(b, num.KtoC(num.At(s.ProbeT, i)), 6)

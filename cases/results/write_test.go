@@ -59,9 +59,11 @@ func TestWriteRunColumns(t *testing.T) {
 	if last[2] != "resin" || last[4] != "0.82" || last[6] != "" {
 		t.Errorf("row %v: want resin, cure 0.82 and an empty glass transition", last)
 	}
-	// 393.15000000000003 K is 120 °C once rounded to 1e-6 K; -0 is 0.
-	if row := fields[1+c.Problem.Mesh.Cells()]; row[3] != "120" || row[0] != "3600" {
-		t.Errorf("row %v: want time 3600 and temperature 120", row)
+	// 393.15000000000003 K is 120 °C once rounded to 1e-6 K; -0 is 0. The
+	// time is written as the shortest decimal that reads back exactly: a
+	// time 0.1 µs past the hour stays distinct from the hour.
+	if row := fields[1+c.Problem.Mesh.Cells()]; row[3] != "120" || row[0] != "3600.0000001" {
+		t.Errorf("row %v: want time 3600.0000001 and temperature 120", row)
 	}
 	if last[5] != "0" {
 		t.Errorf("cure rate -0 written as %q, want 0", last[5])

@@ -22,6 +22,9 @@ const (
 	exitCriteria = 1 // ran, a criterion failed
 	exitUsage    = 2 // bad input or usage; nothing written
 	exitFailure  = 3 // runaway or numerical failure; outputs kept
+	// exitInterrupted: stopped by Ctrl-C or SIGTERM (128 + SIGINT, as
+	// shells report it); what was computed is kept and says so.
+	exitInterrupted = 130
 )
 
 // exitCode maps the status of a run (summary.json) to the exit status. It
@@ -32,6 +35,8 @@ func exitCode(status string) int {
 		return exitOK
 	case results.StatusCriteriaFailed:
 		return exitCriteria
+	case results.StatusInterrupted:
+		return exitInterrupted
 	}
 	return exitFailure // runaway, failed, or anything unforeseen
 }
@@ -142,6 +147,9 @@ func (c *Command) run(e *env, args []string) int {
 		return exitOK
 	}
 	e.cmd = c
+	if f := fs.Lookup("out"); f != nil && f.Changed && f.Value.String() == "" {
+		return e.usageError("-o: the output name is empty; give a directory or file name (or leave -o out for the default)")
+	}
 	return runner(e, fs.Args())
 }
 

@@ -27,7 +27,8 @@ Every case is checked first: if any has errors, they are all reported and
 nothing is run or written.
 
 Exit status: the worst of the runs (0 ok, 1 a criterion failed, 3 runaway or
-numerical failure), 2 bad input or usage.`,
+numerical failure), 2 bad input or usage, 130 interrupted by Ctrl-C or
+SIGTERM.`,
 	Example: `cureslab example thick-potting-oven > oven.toml
 cureslab example thick-potting-microwave > microwave.toml
 cureslab compare oven.toml microwave.toml -o compare-out`,
@@ -87,7 +88,7 @@ func compareRun(e *env, cs []*cases.Case, dir string) ([]results.Compared, int, 
 		r := &rows[i]
 		switch {
 		case errors.Is(r.Err, simulate.ErrNotRun):
-			worst = max(worst, exitFailure)
+			worst = max(worst, exitInterrupted)
 		case !r.Ran:
 			fmt.Fprintf(e.stderr, "cureslab compare: %s: %v\n", r.Case.File, r.Err)
 			r.Err = errors.New("the run could not start")
@@ -102,6 +103,9 @@ func compareRun(e *env, cs []*cases.Case, dir string) ([]results.Compared, int, 
 				fmt.Fprintf(e.stderr, "cureslab compare: %s: %s: %s\n", r.Case.File, r.Summary.Status, r.Summary.Message)
 			}
 		}
+	}
+	if worst == exitInterrupted {
+		fmt.Fprintf(e.stderr, "cureslab compare: interrupted: the case running kept its outputs up to that moment (marked interrupted, criteria not judged); the cases after it were not run\n")
 	}
 	return rows, worst, err
 }

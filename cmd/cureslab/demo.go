@@ -30,7 +30,9 @@ few kelvin of overshoot instead of the oven's tens, and how long each takes.
 
 Exit status, as for 'cureslab run' over all the examples: 0 every example
 met its criteria, 1 one failed a criterion, 2 an output could not be
-written, 3 an example ran away or failed numerically.`,
+written, 3 an example ran away or failed numerically, 130 interrupted by
+Ctrl-C or SIGTERM (the example running keeps its outputs up to that moment,
+marked interrupted; the ones after it are not run).`,
 	Example: "cureslab demo -o demo-out",
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		out := fs.StringP("out", "o", "./cureslab-demo", "write the outputs under `DIR`")
@@ -48,7 +50,7 @@ written, 3 an example ran away or failed numerically.`,
 			for i, ex := range cases.Examples() {
 				if e.ctx.Err() != nil {
 					fmt.Fprintf(e.stderr, "cureslab demo: interrupted; %s and the examples after it were not run\n", ex.Name)
-					return max(worst, exitFailure)
+					return exitInterrupted
 				}
 				if i > 0 {
 					fmt.Fprintln(e.stdout)
@@ -69,6 +71,10 @@ written, 3 an example ran away or failed numerically.`,
 				}
 				results.PrintSummary(e.stdout, s)
 				fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
+				if code == exitInterrupted {
+					fmt.Fprintf(e.stderr, "cureslab demo: the examples after %s were not run\n", ex.Name)
+					return exitInterrupted
+				}
 				// A failed status without a message: the run never started.
 				started := s.Status != results.StatusFailed || s.Message != ""
 				ran[ex.Name] = results.Compared{Name: ex.Name, Case: c, Ran: started, Summary: s, Result: r}

@@ -297,19 +297,20 @@ func TestInterrupted(t *testing.T) {
 
 	var out, errb bytes.Buffer
 	e := &env{ctx: ctx, stdout: &out, stderr: &errb}
-	if code := runCmd.run(e, []string{"tile.toml", "-o", "cut"}); code != 3 {
-		t.Errorf("run: exit %d, want 3\nstdout:\n%s\nstderr:\n%s", code, out.String(), errb.String())
+	if code := runCmd.run(e, []string{"tile.toml", "-o", "cut"}); code != 130 || strings.Contains(out.String(), "FAILED") {
+		t.Errorf("run: exit %d, want 130 and no FAILED line\nstdout:\n%s\nstderr:\n%s", code, out.String(), errb.String())
 	}
-	// The outputs up to the interruption are kept, and say so.
-	if s := readSummary(t, "cut"); s.Status != results.StatusFailed || s.Message == "" {
-		t.Errorf("summary status %q, message %q; want failed with a message", s.Status, s.Message)
+	// The outputs up to the interruption are kept, and say so; the
+	// criteria are not judged.
+	if s := readSummary(t, "cut"); s.Status != results.StatusInterrupted || s.Message == "" || len(s.Criteria) == 0 || !s.Criteria[0].Unjudged {
+		t.Errorf("summary status %q, message %q, criteria %+v; want interrupted with a message, criteria not judged", s.Status, s.Message, s.Criteria)
 	}
 
 	out.Reset()
 	errb.Reset()
 	e = &env{ctx: ctx, stdout: &out, stderr: &errb}
-	if code := demoCmd.run(e, []string{"-o", "demo"}); code != 3 || !strings.Contains(errb.String(), "interrupted") {
-		t.Errorf("demo: exit %d, want 3 and a note\nstderr:\n%s", code, errb.String())
+	if code := demoCmd.run(e, []string{"-o", "demo"}); code != 130 || !strings.Contains(errb.String(), "interrupted") {
+		t.Errorf("demo: exit %d, want 130 and a note\nstderr:\n%s", code, errb.String())
 	}
 	if _, err := os.Stat("demo"); !os.IsNotExist(err) {
 		t.Errorf("an interrupted demo created its directory: %v", err)

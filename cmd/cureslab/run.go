@@ -35,7 +35,9 @@ of samples that meet each criterion; a share below [uncertainty] share counts
 as a failed criterion.
 
 Exit status: 0 every criterion met (or none given), 1 a criterion failed,
-2 bad input or usage, 3 runaway or numerical failure (outputs kept).`,
+2 bad input or usage, 3 runaway or numerical failure (outputs kept),
+130 interrupted by Ctrl-C or SIGTERM (outputs up to that moment kept, status
+"interrupted", criteria not judged).`,
 	Example: `cureslab example thick-potting-oven > potting.toml
 cureslab run potting.toml -o potting-out`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
@@ -153,8 +155,12 @@ func runCase(e *env, cmd string, c *cases.Case, dir string, opt simulate.Options
 		return o, exitUsage
 	}
 	code := exitCode(o.Summary.Status)
-	if code == exitFailure {
+	switch code {
+	case exitFailure:
 		fmt.Fprintf(e.stderr, "cureslab %s: %s: %s: %s\n", cmd, c.File, o.Summary.Status, o.Summary.Message)
+	case exitInterrupted:
+		fmt.Fprintf(e.stderr, "cureslab %s: %s: interrupted at t = %g s: the outputs in %s hold the state up to then, marked \"interrupted\"; the criteria are not judged\n",
+			cmd, c.File, float64(o.Summary.EndTimeS), dir)
 	}
 	return o, code
 }

@@ -198,10 +198,6 @@ func sweepCase(s *sweep.Sweep) *cases.Case {
 	return nil
 }
 
-// exitInterrupted is the exit status of a sweep stopped by Ctrl-C or
-// SIGTERM before its last run (128 + SIGINT, as shells report it), so that
-// a job-array task can tell "stopped, run again" from results.
-const exitInterrupted = 130
 
 // sweepExit is the exit status of a finished sweep or a merge: 3 when it is
 // incomplete or a run failed or ran away, else 1 when a run failed a

@@ -69,3 +69,18 @@ func AppendSig(b []byte, v float64) []byte {
 	}
 	return strconv.AppendFloat(b, v, 'g', 9, 64)
 }
+
+// AppendTime appends a time in s as the shortest decimal that reads back
+// as the same float64 (strconv's 'g' format with the shortest precision):
+// 120, 5725.5, 1e-06. Times are not rounded: two output times a
+// microsecond apart, or a run that ends at 1 µs, stay distinct in the
+// files. Nothing for NaN, "0" for ±0.
+func AppendTime(b []byte, t float64) []byte {
+	switch {
+	case math.IsNaN(t):
+		return b
+	case t == 0:
+		return append(b, '0')
+	}
+	return strconv.AppendFloat(b, t, 'g', -1, 64)
+}

@@ -3,6 +3,7 @@ package num
 import (
 	"math"
 	"math/rand/v2"
+	"strconv"
 	"testing"
 )
 
@@ -66,4 +67,22 @@ func BenchmarkAppendFixed6(b *testing.B) {
 		v += 0.37
 	}
 	appendSink = buf
+}
+
+// A time is written as the shortest decimal that parses back to the same
+// float64: no rounding, so distinct times stay distinct.
+func TestAppendTimeRoundTrips(t *testing.T) {
+	for _, v := range []float64{0, 1e-6, 1e-8, 2e-8, 120, 3600.0000001, 5725.431341, 16710, 1.5e7, 1.0 / 3} {
+		s := string(AppendTime(nil, v))
+		back, err := strconv.ParseFloat(s, 64)
+		if err != nil || back != v {
+			t.Errorf("AppendTime(%v) = %q, reads back as %v (%v)", v, s, back, err)
+		}
+	}
+	if s := string(AppendTime(nil, 1e-6)); s != "1e-06" {
+		t.Errorf("1 µs written as %q, want 1e-06", s)
+	}
+	if s := string(AppendTime(nil, math.Copysign(0, -1))); s != "0" {
+		t.Errorf("-0 written as %q", s)
+	}
 }
