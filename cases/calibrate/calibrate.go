@@ -5,12 +5,11 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 
 	"cureslab/cases"
-	"cureslab/cases/internal/textout"
+	"cureslab/cases/outdir"
 	"cureslab/physics/lsq"
 )
 
@@ -127,6 +126,10 @@ func header(r *Result) string {
 		if p.Unit != "" {
 			unit = " " + p.Unit
 		}
+		if math.IsNaN(p.SE) {
+			line("  %s: %s -> %s%s (no standard error)", p.Key, strconv.FormatFloat(p.Start, 'g', 6, 64), v, unit)
+			continue
+		}
 		line("  %s: %s -> %s ± %s%s%s", p.Key, strconv.FormatFloat(p.Start, 'g', 6, 64), v, se, unit, iv)
 	}
 	line("RMS residual %.3f K (%.3f K with the case's own values).", r.RMSAll, r.StartRMSAll)
@@ -137,21 +140,23 @@ func header(r *Result) string {
 	return s.String()
 }
 
-// WriteFiles writes calibrated.toml, calibration.csv and residuals.csv into
-// dir (created if need be), each replaced whole or left as it was
-// (textout.WriteFileAtomic). report.html is drawn by package report.
-func WriteFiles(dir string, r *Result) error {
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return err
-	}
-	if err := textout.WriteFileAtomic(dir, CalibratedFile, func(w io.Writer) error {
+// Kind is the output set of a calibration (package outdir).
+var Kind = outdir.Register(outdir.Kind{Name: "calibration",
+	Marks: []string{CalibrationFile, CalibratedFile},
+	Names: []string{CalibratedFile, CalibrationFile, ResidualsFile, ReportFile}})
+
+// StageFiles stages calibrated.toml, calibration.csv and residuals.csv in
+// set; they go in place with the rest of the set at set.Commit (the report
+// page is staged by the caller, from package report).
+func StageFiles(set *outdir.Set, r *Result) error {
+	if err := set.Stage(CalibratedFile, func(w io.Writer) error {
 		_, err := io.WriteString(w, r.Calibrated)
 		return err
 	}); err != nil {
 		return err
 	}
-	if err := textout.WriteFileAtomic(dir, CalibrationFile, func(w io.Writer) error { return writeCalibrationCSV(w, r) }); err != nil {
+	if err := set.Stage(CalibrationFile, func(w io.Writer) error { return writeCalibrationCSV(w, r) }); err != nil {
 		return err
 	}
-	return textout.WriteFileAtomic(dir, ResidualsFile, func(w io.Writer) error { return writeResidualsCSV(w, r) })
+	return set.Stage(ResidualsFile, func(w io.Writer) error { return writeResidualsCSV(w, r) })
 }

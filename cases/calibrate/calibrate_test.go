@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"cureslab/cases"
+	"cureslab/cases/outdir"
 	"cureslab/physics/lsq"
 )
 
@@ -219,7 +220,14 @@ func TestUnfinishedFitsAreMarked(t *testing.T) {
 		t.Errorf("status %v, RMS %g from %g, calibrated.toml starts %q", r.Status, r.RMSAll, r.StartRMSAll, r.Calibrated[:40])
 	}
 	dir := t.TempDir()
-	if err := WriteFiles(dir, r); err != nil {
+	set, err := outdir.Open(dir, Kind)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := StageFiles(set, r); err != nil {
+		t.Fatal(err)
+	}
+	if err := set.Commit(); err != nil {
 		t.Fatal(err)
 	}
 	for _, f := range []string{CalibratedFile, CalibrationFile, ResidualsFile} {

@@ -7,8 +7,9 @@
 // refuses a bad one with positions; Calibrate runs the weighted
 // least-squares fit (physics/lsq) with the case's values as the start, each
 // evaluation one summary-only solver run at the log's depths and times;
-// WriteFiles writes calibrated.toml, calibration.csv and residuals.csv, and
-// Print the terminal summary. The report page is drawn by package report.
+// StageFiles stages calibrated.toml, calibration.csv and residuals.csv in an
+// output set (package outdir, kind Kind), and Print writes the terminal
+// summary. The report page is drawn by package report (CalibrationReport).
 //
 // # Invariants
 //

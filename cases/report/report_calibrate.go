@@ -16,12 +16,11 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"cureslab/cases/calibrate"
-	"cureslab/cases/internal/textout"
 	"cureslab/physics/lsq"
 )
 
-// WriteCalibrationReport writes report.html of a calibration into dir (which
-// must exist): one self-contained page in the style of the run report with
+// CalibrationReport writes the report page of a calibration (report.html)
+// to w: one self-contained page in the style of the run report with
 //
 //   - the fitted values (case value, fitted value, standard error, 95 %
 //     interval) and the RMS residual per depth, at the case's values and
@@ -33,17 +32,14 @@ import (
 //   - the warnings and how the fit ended (an unconverged or interrupted
 //     fit is marked in the header).
 //
-// The file is written with textout.WriteFileAtomic. Cost: linear in the
-// readings.
-func WriteCalibrationReport(dir string, r *calibrate.Result) error {
+// Cost: linear in the readings.
+func CalibrationReport(w io.Writer, r *calibrate.Result) error {
 	var b bytes.Buffer
 	if err := renderCalibrationPage(&b, r, reportClock()); err != nil {
 		return fmt.Errorf("drawing %s: %w", calibrate.ReportFile, err)
 	}
-	return textout.WriteFileAtomic(dir, calibrate.ReportFile, func(w io.Writer) error {
-		_, err := w.Write(b.Bytes())
-		return err
-	})
+	_, err := w.Write(b.Bytes())
+	return err
 }
 
 func renderCalibrationPage(w io.Writer, r *calibrate.Result, now time.Time) error {

@@ -3,13 +3,15 @@ package main
 import (
 	"errors"
 	"fmt"
-	"os"
+	"io"
 	"path/filepath"
 
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
 	"cureslab/cases/calibrate"
+	"cureslab/cases/limits"
+	"cureslab/cases/outdir"
 	"cureslab/cases/report"
 	"cureslab/physics/lsq"
 )
@@ -87,12 +89,12 @@ cureslab calibrate potting.toml --measured trial.csv --free top.h=5W/m^2/K:40W/m
 			if msg := checkOutDir(dir); msg != "" {
 				return e.usageError("%s", msg)
 			}
-			data, err := os.ReadFile(args[0])
+			data, err := limits.ReadFile(e.ctx, args[0], limits.MaxFileSize)
 			if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab calibrate: cannot read the case file: %v\n", err)
 				return exitUsage
 			}
-			logData, err := os.ReadFile(*measured)
+			logData, err := limits.ReadFile(e.ctx, *measured, limits.MaxFileSize)
 			if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab calibrate: cannot read the log: %v\n", err)
 				return exitUsage
@@ -127,11 +129,7 @@ cureslab calibrate potting.toml --measured trial.csv --free top.h=5W/m^2/K:40W/m
 				fmt.Fprintf(e.stderr, "cureslab calibrate: %v\n", err)
 				return exitUsage
 			}
-			if err := calibrate.WriteFiles(dir, res); err != nil {
-				fmt.Fprintf(e.stderr, "cureslab calibrate: %v\n", err)
-				return exitUsage
-			}
-			if err := report.WriteCalibrationReport(dir, res); err != nil {
+			if err := writeCalibration(dir, res); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab calibrate: %v\n", err)
 				return exitUsage
 			}
@@ -149,4 +147,23 @@ cureslab calibrate potting.toml --measured trial.csv --free top.h=5W/m^2/K:40W/m
 			return exitOK
 		}
 	},
+}
+
+// writeCalibration writes the outputs of a calibration into dir as one set
+// (package outdir): all of them in place together, or the previous set left
+// as it was.
+func writeCalibration(dir string, r *calibrate.Result) error {
+	set, err := outdir.Open(dir, calibrate.Kind)
+	if err != nil {
+		return err
+	}
+	if err := calibrate.StageFiles(set, r); err != nil {
+		set.Abort()
+		return err
+	}
+	if err := set.Stage(calibrate.ReportFile, func(w io.Writer) error { return report.CalibrationReport(w, r) }); err != nil {
+		set.Abort()
+		return err
+	}
+	return set.Commit()
 }
