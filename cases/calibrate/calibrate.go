@@ -62,6 +62,10 @@ func Calibrate(ctx context.Context, name string, data []byte, dir string, l *Log
 		return nil, err
 	}
 	r.CaseFile, r.Title = name, c.Title
+	r.Scope.Volumetric = c.Problem.Volumetric != nil
+	for _, m := range c.Problem.Materials {
+		r.Scope.Curing = r.Scope.Curing || m.Cure != nil
+	}
 	r.Warnings = append(b.notes, r.Warnings...)
 	if r.Calibrated, err = b.text(r); err != nil {
 		return nil, err

@@ -11,6 +11,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"cureslab/cases"
 	"cureslab/physics/lsq"
 	"cureslab/solver"
 )
@@ -39,6 +40,9 @@ type Param struct {
 // Result is a calibration.
 type Result struct {
 	CaseFile, Title string // the case calibrated: its file and title
+	// Scope says which cautions apply to the case (a curing resin,
+	// volumetric heating).
+	Scope cases.CautionScope
 	// Calibrated is the case text with the fitted values written in.
 	Calibrated string
 

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"html/template"
+	"image/color"
 	"io"
 	"math"
 	"strconv"
@@ -47,7 +48,7 @@ func renderCalibrationPage(w io.Writer, r *calibrate.Result, now time.Time) erro
 	if title == "" {
 		title = r.CaseFile
 	}
-	pg := &page{Title: "Calibration: " + title, Kind: "calibration", Drawn: stamp(now)}
+	pg := &page{Title: "Calibration: " + title, Kind: "calibration", Drawn: stamp(now), Scope: r.Scope}
 	switch r.Status {
 	case lsq.Converged:
 		pg.Status, pg.StatusOK = fmt.Sprintf("fitted: RMS residual %.2f K", r.RMSAll), true
@@ -77,7 +78,7 @@ func renderCalibrationPage(w io.Writer, r *calibrate.Result, now time.Time) erro
 		return err
 	}
 	pg.Sections = append(pg.Sections, section{ID: "traces", Heading: "Measured and simulated temperatures",
-		Body: figureHTML(svg, "Each thermocouple depth in its own panel: the readings (dots, drawn over the lines), the simulation with the case's own values (dashed) and with the fitted values (solid).")})
+		Body: figureHTML(svg, "Each thermocouple depth in its own panel: the readings (grey dots), the simulation with the case's own values (vermillion, dashed 4 pt on 2.5 pt) and with the fitted values (blue, solid, drawn over the readings).")})
 	svg, err = calibrationResidualFigure(r, ts)
 	if err != nil {
 		return err
@@ -189,6 +190,17 @@ func calibrationTracesFigure(r *calibrate.Result, ts timeScale) (string, error) 
 			meas, start, fit := celsius(pr.T), celsius(r.Start[k]), celsius(r.Fitted[k])
 			c0, _ := lineColor(0)
 			c1, _ := lineColor(1)
+			if pts := xyOf(t, meas); len(pts) > 0 {
+				sc, err := plotter.NewScatter(pts)
+				if err != nil {
+					return err
+				}
+				sc.GlyphStyle = draw.GlyphStyle{Color: readingGrey, Radius: vg.Points(1.5), Shape: draw.CircleGlyph{}}
+				p.Add(sc)
+				if k == 0 {
+					leg.Add(labels[0], sc)
+				}
+			}
 			ls, err := addSeries(p, series{X: t, Y: start, Color: c1, Width: vg.Points(1.1), Dash: []vg.Length{vg.Points(4), vg.Points(2.5)}})
 			if err != nil {
 				return err
@@ -196,17 +208,6 @@ func calibrationTracesFigure(r *calibrate.Result, ts timeScale) (string, error) 
 			lf, err := addSeries(p, series{X: t, Y: fit, Color: c0, Width: vg.Points(1.6)})
 			if err != nil {
 				return err
-			}
-			if pts := xyOf(t, meas); len(pts) > 0 {
-				sc, err := plotter.NewScatter(pts)
-				if err != nil {
-					return err
-				}
-				sc.GlyphStyle = draw.GlyphStyle{Color: ink, Radius: vg.Points(0.9), Shape: draw.CircleGlyph{}}
-				p.Add(sc)
-				if k == 0 {
-					leg.Add(labels[0], sc)
-				}
 			}
 			if k == 0 {
 				if ls != nil {
@@ -283,6 +284,9 @@ func calibrationResidualFigure(r *calibrate.Result, ts timeScale) (string, error
 		return nil
 	})
 }
+
+// readingGrey draws the measured readings under the simulated lines.
+var readingGrey = color.RGBA{0xa8, 0xa6, 0xa0, 0xff}
 
 // residualGlyphs tell the depths apart by shape as well as colour.
 var residualGlyphs = []draw.GlyphDrawer{draw.CircleGlyph{}, draw.SquareGlyph{}, draw.TriangleGlyph{}, draw.PlusGlyph{}, draw.CrossGlyph{}, draw.RingGlyph{}}
