@@ -79,14 +79,14 @@ func Judge(c *cases.Case, r *solver.Result) []Verdict {
 		out = append(out, Verdict{Name: CriterionMaxSpread, Value: num.Round6(s.MaxSpread), Limit: num.Round6(cr.MaxSpread),
 			Pass: math.IsNaN(s.MaxSpread) || s.MaxSpread <= cr.MaxSpread})
 	}
+	if cr.MinFlowWindow > 0 {
+		out = append(out, Verdict{Name: CriterionMinFlowWindow, Value: num.Round6(s.FlowWindow), Limit: num.Round6(cr.MinFlowWindow),
+			Pass: math.IsNaN(s.FlowWindow) || s.FlowWindow >= cr.MinFlowWindow})
+	}
 	if r.Status == solver.Interrupted {
 		for i := range out {
 			out[i].Pass, out[i].Unjudged = false, true
 		}
-	}
-	if cr.MinFlowWindow > 0 {
-		out = append(out, Verdict{CriterionMinFlowWindow, num.Round6(s.FlowWindow), num.Round6(cr.MinFlowWindow),
-			math.IsNaN(s.FlowWindow) || s.FlowWindow >= cr.MinFlowWindow})
 	}
 	return out
 }
