@@ -198,7 +198,6 @@ func sweepCase(s *sweep.Sweep) *cases.Case {
 	return nil
 }
 
-
 // sweepExit is the exit status of a finished sweep or a merge: 3 when it is
 // incomplete or a run failed or ran away, else 1 when a run failed a
 // criterion, else 0.
