@@ -201,6 +201,12 @@ func run(ctx context.Context, l *Log, build builder, params []Param, opt Options
 		}
 		return nil, fmt.Errorf("the case does not run at its own values: %v", err)
 	}
+	for _, o := range e.obs {
+		if math.IsNaN(startSim[o[0]][o[1]]) {
+			return nil, fmt.Errorf("%s:%d: the case gives no temperature at %s s (depth %s mm): the run did not land on that time",
+				l.File, l.Lines[o[1]], fmtNum(l.Times[o[1]]), l.Probes[o[0]].Label)
+		}
+	}
 	set := lsq.Settings{MaxIter: maxIter, Step: fdStep, Workers: min(jobs, p)}
 	if opt.Progress != nil {
 		set.Progress = func(iter int, cost float64) {
