@@ -236,3 +236,34 @@ func TestUnfinishedFitsAreMarked(t *testing.T) {
 		}
 	}
 }
+
+func TestNoWaveWarningWithoutNoise(t *testing.T) {
+	// An exact log leaves residuals of the solver's own error only
+	// (< 1e-3 K): they may be correlated in time, but they are no model
+	// error to warn about. With the heat of reaction wrong and not free,
+	// the residuals wander by kelvins and every thermocouple is warned.
+	keys := []string{"top.h", "bottom.h", "materials.test-epoxy.cure.total_heat"}
+	l, data := keyLog(t, "testdata/slab.toml", keys, []float64{8, 18, 120}, []float64{0, 4e-3}, 0, 1)
+	r, err := Calibrate(context.Background(), "testdata/slab.toml", data, "testdata", l, frees(keys...), Options{Jobs: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range r.Warnings {
+		if strings.Contains(w, "long waves") {
+			t.Errorf("exact log: %s", w)
+		}
+	}
+	r, err = Calibrate(context.Background(), "testdata/slab.toml", data, "testdata", l, frees("top.h", "bottom.h"), Options{Jobs: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	waves := 0
+	for _, w := range r.Warnings {
+		if strings.Contains(w, "long waves") {
+			waves++
+		}
+	}
+	if waves != 2 {
+		t.Errorf("heat of reaction 100 J/g against a log made with 120: %d wave warnings, want 2 (RMS %v, lag-1 %v)", waves, r.RMS, r.Autocorr)
+	}
+}

@@ -342,7 +342,9 @@ func (r *Result) warn(est *lsq.Estimate) {
 		}
 	}
 	for k, a := range r.Autocorr {
-		if a > maxAutocorr {
+		// Below a hundredth of a kelvin the residuals are the solver's own
+		// error, far under any thermocouple's resolution: nothing to warn.
+		if a > maxAutocorr && r.RMS[k] > 0.01 {
 			add("the residuals at %s mm run in long waves (lag-1 autocorrelation %.2f), not independent scatter: the model misses something systematic there, and the intervals, which assume independent readings, are too narrow",
 				r.Log.Probes[k].Label, a)
 		}
