@@ -106,6 +106,10 @@ func PrintFit(w io.Writer, an *dsc.Analysis, name string) error {
 // printFitParams writes the fitted parameters and the fit quality.
 func printFitParams(p *textout.Printer, an *dsc.Analysis) {
 	f := an.Fit
+	if iso, ok := f.Cure.Model.(*physics.Isoconversional); ok {
+		printIsoTable(p, an, iso)
+		return
+	}
 	what := "n-th order, k1 (1-a)^n"
 	if _, ok := f.Cure.Model.(physics.Autocatalytic); ok {
 		what = "autocatalytic (Kamal-Sourour), (k1 + k2 a^m)(1-a)^n"
@@ -141,6 +145,32 @@ func printFitParams(p *textout.Printer, an *dsc.Analysis) {
 		conv = "NOT converged"
 	}
 	p.Printf("  Levenberg-Marquardt: %d iterations of the best start, %d integrations in all, %s\n", f.Iterations, f.Evals, conv)
+}
+
+// printIsoTable writes the isoconversional table and how well it
+// reproduces the scans.
+func printIsoTable(p *textout.Printer, an *dsc.Analysis, m *physics.Isoconversional) {
+	f := an.Fit
+	a, E, lnAf := m.Table()
+	p.Printf("  model-free (isoconversional) table from Friedman's analysis: rate = Af(a) exp(-E(a)/RT), E and ln Af linear in a\n")
+	p.Printf("  between the rows, Af(a) and E(a) of the first row below it, no reaction past the last row (a = %s)\n", fmtSig(a[len(a)-1], 3))
+	se := map[string]float64{}
+	for _, q := range f.Params {
+		se[q.Name] = q.SE
+	}
+	tw := p.Table()
+	fmt.Fprintf(tw, "  alpha\tE kJ/mol\tAf 1/s\tln Af\n")
+	for j := range a {
+		fmt.Fprintf(tw, "  %s\t%.2f ± %s\t%s\t%.3f ± %s\n", fmtSig(a[j], 3), E[j]/1000, fmtSig(se[fmt.Sprintf("E(%g)", a[j])]/1000, 2),
+			fmtExp(math.Exp(lnAf[j])), lnAf[j], fmtSig(se[fmt.Sprintf("lnAf(%g)", a[j])], 2))
+	}
+	p.Flush(tw)
+	p.Printf("  standard errors of each Friedman line (the scatter of its points only)\n")
+	var per []string
+	for i, c := range f.Curves {
+		per = append(per, fmt.Sprintf("%s %.2g %%", filepath.Base(an.Curves[i].Scan.Name), 100*c.RMS))
+	}
+	p.Printf("  the table integrated along each scan: R² = %.5f, RMS residual %.3g %% of the peak rate (%s)\n", f.R2, 100*f.RMS, strings.Join(per, ", "))
 }
 
 // CureBlock returns the fitted [materials.NAME.cure] block (with its
@@ -207,6 +237,25 @@ func CureBlock(an *dsc.Analysis, name string) string {
 		kv("E2", quoted(fmtSig(m.E2/1000, 4)+" kJ/mol"), pm(m.E2, se["E2"]/1000, " kJ/mol"))
 		kv("m", fmtSig(m.M, 4), pm(m.M, se["m"], ""))
 		kv("n", fmtSig(m.N, 4), pm(m.N, se["n"], ""))
+	case *physics.Isoconversional:
+		a, E, lnAf := m.Table()
+		kv("model", `"isoconversional"`, "")
+		kv("total_heat", quoted(fmtSig(an.TotalHeat/1000, 4)+" J/g"), "per mass of the scanned sample")
+		b.WriteString("# one row per degree of cure: the rate is Af exp(-E/RT), both linear in alpha (ln Af)\n")
+		b.WriteString("# between rows; no reaction past the last alpha\n")
+		row := func(key string, f func(j int) string) {
+			b.WriteString(key + " = [\n")
+			for j := range a {
+				fmt.Fprintf(&b, "  %s,", f(j))
+				if j%6 == 5 || j == len(a)-1 {
+					b.WriteString("\n")
+				}
+			}
+			b.WriteString("]\n")
+		}
+		row("alpha", func(j int) string { return fmtSig(a[j], 3) })
+		row("E", func(j int) string { return quoted(fmtSig(E[j]/1000, 5) + " kJ/mol") })
+		row("Af", func(j int) string { return quoted(fmtExpN(math.Exp(lnAf[j]), 5) + " 1/s") })
 	case physics.NthOrder:
 		kv("model", `"nth-order"`, "")
 		kv("total_heat", quoted(fmtSig(an.TotalHeat/1000, 4)+" J/g"), "per mass of the scanned sample")

@@ -245,3 +245,58 @@ func FuzzParseScan(f *testing.F) {
 		dsc.Analyze([]*dsc.Scan{s, s}, dsc.Options{Model: dsc.NthOrder})
 	})
 }
+
+// The isoconversional table printed by fit loads as a case and holds the
+// table of the analysis (to the printed digits). (That such a table
+// reproduces the scans it comes from is checked in physics/dsc.)
+func TestIsoconversionalBlockLoads(t *testing.T) {
+	an, err := dsc.Analyze(readDemo(t), dsc.Options{Baseline: dsc.SigmoidalBaseline, Model: dsc.Isoconversional})
+	if err != nil || an.Fit == nil {
+		t.Fatalf("%v %s", err, an.FitRefused)
+	}
+	block := CureBlock(an, "iso-resin")
+	text := `title = "isoconversional round trip"
+[initial]
+temperature = "20 C"
+[[layer]]
+name = "resin"
+material = "iso-resin"
+thickness = "0.2 mm"
+[materials.iso-resin]
+density = "1180 kg/m^3"
+specific_heat = "1450 J/kg/K"
+conductivity = "0.2 W/m/K"
+[top]
+kind = "insulated"
+[bottom]
+kind = "insulated"
+[time]
+end = "1 h"
+` + block
+	c, err := cases.Parse("block.toml", []byte(text), "")
+	if err != nil {
+		t.Fatalf("the printed table does not load: %v\n%s", err, block)
+	}
+	got := c.Materials["iso-resin"].Cure.Model.(*physics.Isoconversional)
+	want := an.Fit.Cure.Model.(*physics.Isoconversional)
+	ga, gE, gL := got.Table()
+	wa, wE, wL := want.Table()
+	if len(ga) != len(wa) {
+		t.Fatalf("%d rows loaded, %d fitted", len(ga), len(wa))
+	}
+	for j := range ga {
+		// Printed with 3 significant digits (alpha) and 5 (E, Af).
+		if ga[j] != wa[j] || math.Abs(gE[j]/wE[j]-1) > 1e-4 || math.Abs(gL[j]-wL[j]) > 1e-4 {
+			t.Errorf("row %d: loaded %g, %g, %g; fitted %g, %g, %g", j, ga[j], gE[j], gL[j], wa[j], wE[j], wL[j])
+		}
+	}
+	var out bytes.Buffer
+	if err := PrintFit(&out, an, "iso-resin"); err != nil {
+		t.Fatal(err)
+	}
+	for _, s := range []string{"model-free (isoconversional) table", "alpha  E kJ/mol", `model = "isoconversional"`, "Af = ["} {
+		if !strings.Contains(out.String(), s) {
+			t.Errorf("report lacks %q:\n%s", s, out.String())
+		}
+	}
+}

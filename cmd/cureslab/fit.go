@@ -30,7 +30,11 @@ integrate to the total heat and the degree of cure, and report:
     (ASTM E1641, Doyle factor iterated), with standard errors;
   - Friedman's isoconversional activation energy for alpha = 0.05 to 0.95;
   - a least-squares fit of the model to all scans at once, started from the
-    isoconversional estimate, with standard errors and the fit quality;
+    isoconversional estimate, with standard errors and the fit quality; or,
+    with --model isoconversional, no fit: Friedman's table of E and
+    ln[A f(alpha)] at alpha = 0.01 to 0.99, which a case uses as it is (for
+    a resin whose activation energy varies with alpha, where no single-step
+    law fits), with how well it reproduces the scans;
   - warnings where the scans fall short of the ICTAC Kinetics Committee
     recommendations (at least 3 heating rates spanning about a factor 10;
     an activation energy that varies with alpha);
@@ -45,7 +49,7 @@ Exit status: 0 fitted, 2 bad input, or no model could be fitted.`,
 	Example: `cureslab fit scan-2K.csv scan-5K.csv scan-10K.csv scan-20K.csv --model autocatalytic
 cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
-		model := fs.String("model", dsc.Autocatalytic, "cure law to fit: `M` = nth-order or autocatalytic")
+		model := fs.String("model", dsc.Autocatalytic, "cure law to fit: `M` = nth-order, autocatalytic, or isoconversional (a model-free table)")
 		diffusion := fs.Bool("diffusion", false, "also fit the diffusion factor (needs isothermal scans that vitrify)")
 		name := fs.String("name", "fitted-resin", "material `NAME` in the printed block")
 		baseline := fs.String("baseline", "linear", "baseline `KIND`: linear or sigmoidal")
@@ -60,9 +64,13 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 			opt := dsc.Options{Model: *model, Diffusion: *diffusion}
 			switch *model {
 			case dsc.NthOrder, dsc.Autocatalytic:
+			case dsc.Isoconversional:
+				if *diffusion {
+					return e.usageError("--diffusion does not go with --model isoconversional: the table holds whatever slows the cure at high cure")
+				}
 			default:
-				return e.usageError("unknown model %q%s (the models are nth-order and autocatalytic)", *model,
-					didYouMean(*model, []string{dsc.NthOrder, dsc.Autocatalytic}))
+				return e.usageError("unknown model %q%s (the models are nth-order, autocatalytic and isoconversional)", *model,
+					didYouMean(*model, []string{dsc.NthOrder, dsc.Autocatalytic, dsc.Isoconversional}))
 			}
 			switch *baseline {
 			case "linear":

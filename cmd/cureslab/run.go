@@ -246,8 +246,10 @@ var materialsCmd = &Command{
 	Short: "list the built-in materials with the source of each value, or show one",
 	Long: `Without NAME, list the built-in material library: density, specific heat
 and conductivity at room temperature, and the published source of each
-value. With NAME, show one material in detail. A case file uses a built-in
-by its name; a [materials.NAME] section of the case replaces it.`,
+value; then the built-in fibres for composite plies, with their axial and
+transverse conductivity. With NAME, show one material or fibre in detail. A
+case file uses a built-in by its name; a [materials.NAME] section of the
+case replaces it.`,
 	Example: `cureslab materials
 cureslab materials fr4`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
@@ -262,11 +264,33 @@ cureslab materials fr4`,
 					fmt.Fprintf(tw, "%s\t%g\t%g\t%g\t%s\n", m.Name, m.Density, cp, k, m.Source)
 				}
 				tw.Flush()
+				fmt.Fprintf(e.stdout, "\nFibres, for fibre = NAME in a composite [materials.X] (the through-thickness conductivity of a ply uses the transverse one)\n")
+				tw = tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', 0)
+				fmt.Fprintf(tw, "name\tdensity kg/m^3\tspecific heat J/kg/K\tconductivity axial W/m/K\ttransverse W/m/K\tsource\n")
+				for _, f := range physics.Fibres() {
+					cp, _ := f.SpecificHeat.At(296.15)
+					ka, _ := f.AxialConductivity.At(296.15)
+					kt, _ := f.TransverseConductivity.At(296.15)
+					fmt.Fprintf(tw, "%s\t%g\t%g\t%g\t%g\t%s\n", f.Name, f.Density, cp, ka, kt, f.Source)
+				}
+				tw.Flush()
 				return exitOK
 			case 1:
+				if f, ok := physics.BuiltinFibre(args[0]); ok {
+					cp, _ := f.SpecificHeat.At(296.15)
+					ka, _ := f.AxialConductivity.At(296.15)
+					kt, _ := f.TransverseConductivity.At(296.15)
+					fmt.Fprintf(e.stdout, "%s (fibre)\n  density %g kg/m^3\n  specific heat %g J/kg/K\n  conductivity %g W/m/K along the fibre, %g W/m/K across it\n  source: %s\n",
+						f.Name, f.Density, cp, ka, kt, f.Source)
+					return exitOK
+				}
 				m, ok := physics.Builtin(args[0])
 				if !ok {
-					return e.usageError("no built-in material named %q%s", args[0], didYouMean(args[0], physics.BuiltinNames()))
+					var names []string
+					for _, f := range physics.Fibres() {
+						names = append(names, f.Name)
+					}
+					return e.usageError("no built-in material or fibre named %q%s", args[0], didYouMean(args[0], append(physics.BuiltinNames(), names...)))
 				}
 				fmt.Fprintf(e.stdout, "%s\n", m.Name)
 				for _, line := range cases.DescribeMaterial(m) {
