@@ -136,6 +136,9 @@ type probeData struct {
 	Depth float64   // mm
 	T     []float64 // °C per time
 	Cure  []float64 // per time; nil when the probe sits in a layer that does not cure
+	// Viscosity is the resin's viscosity at the probe, Pa·s per time (NaN
+	// at and past gel); nil without a viscosity law there.
+	Viscosity []float64
 }
 
 // seriesData is a named series over the output times.
@@ -193,6 +196,7 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 		air = append(air, seriesData{Column: "air_bottom_C"})
 	}
 	controlled := p.Volumetric != nil && p.Volumetric.Control != nil // probes.csv has program_C and power_fraction
+	viscous := cases.Viscous(p)                                      // probes.csv has a viscosity column per probe
 	var prog []float64
 	for k := range r.Snapshots {
 		s := &r.Snapshots[k]
@@ -222,6 +226,9 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 			pr := &tb.Probes[j]
 			pr.T = append(pr.T, num.Round(num.KtoC(num.At(s.ProbeT, j)), 6))
 			pr.Cure = append(pr.Cure, num.RoundSig(num.At(s.ProbeCure, j)))
+			if viscous {
+				pr.Viscosity = append(pr.Viscosity, num.RoundSig(num.At(s.ProbeViscosity, j)))
+			}
 		}
 		for j := range air {
 			v := s.AirTop
@@ -238,6 +245,9 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 	for j := range tb.Probes {
 		if allNaN(tb.Probes[j].Cure) {
 			tb.Probes[j].Cure = nil
+		}
+		if allNaN(tb.Probes[j].Viscosity) {
+			tb.Probes[j].Viscosity = nil
 		}
 	}
 	for _, a := range air {

@@ -228,7 +228,8 @@ func readFieldsCSV(path string, tb *runTable) error {
 }
 
 // readProbesCSV reads probes.csv: time_s, then T_<d>mm_C and cure_<d>mm for
-// each probe, the driving temperatures (*_C), power_fraction and
+// each probe, the driving temperatures (*_C), power_fraction, the probes'
+// viscosities (viscosity_<d>mm_Pa_s) and
 // heat_in_J_per_m2. Its times must be those of fields.csv.
 func readProbesCSV(path string, tb *runTable) error {
 	f, err := openOutput(path)
@@ -251,6 +252,7 @@ func readProbesCSV(path string, tb *runTable) error {
 	type colRef struct {
 		probe int // index into tb.Probes, or -1
 		cure  bool
+		visc  bool
 		drv   int // index into tb.Drivers, or -1
 		power bool
 	}
@@ -277,6 +279,13 @@ func readProbesCSV(path string, tb *runTable) error {
 				return t.errAt(i, "", "column %q comes without T_%smm_C before it", h, l)
 			}
 			refs[i].probe, refs[i].cure = j, true
+		case strings.HasPrefix(h, "viscosity_") && strings.HasSuffix(h, "mm_Pa_s"):
+			l := strings.TrimSuffix(strings.TrimPrefix(h, "viscosity_"), "mm_Pa_s")
+			j, ok := byLabel[l]
+			if !ok {
+				return t.errAt(i, "", "column %q comes without T_%smm_C before it", h, l)
+			}
+			refs[i].probe, refs[i].visc = j, true
 		case h == "power_fraction":
 			refs[i].power, hasPower = true, true
 		case h == "heat_in_J_per_m2":
@@ -286,6 +295,7 @@ func readProbesCSV(path string, tb *runTable) error {
 		}
 	}
 	cures := make([][]float64, len(tb.Probes))
+	viscs := make([][]float64, len(tb.Probes))
 	row := 0
 	for {
 		rec, err := t.next()
@@ -310,13 +320,15 @@ func readProbesCSV(path string, tb *runTable) error {
 			if r.probe < 0 && r.drv < 0 && !r.power {
 				continue
 			}
-			v, err := t.number(rec, i, head[i], r.cure || r.power)
+			v, err := t.number(rec, i, head[i], r.cure || r.power || r.visc)
 			if err != nil {
 				return err
 			}
 			switch {
 			case r.cure:
 				cures[r.probe] = append(cures[r.probe], v)
+			case r.visc:
+				viscs[r.probe] = append(viscs[r.probe], v)
 			case r.probe >= 0:
 				tb.Probes[r.probe].T = append(tb.Probes[r.probe].T, v)
 			case r.drv >= 0:
@@ -333,6 +345,9 @@ func readProbesCSV(path string, tb *runTable) error {
 	for j := range tb.Probes {
 		if cures[j] != nil && !allNaN(cures[j]) {
 			tb.Probes[j].Cure = cures[j]
+		}
+		if viscs[j] != nil && !allNaN(viscs[j]) {
+			tb.Probes[j].Viscosity = viscs[j]
 		}
 	}
 	if !hasPower {

@@ -80,6 +80,12 @@ func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 		pg.Sections = append(pg.Sections, section{ID: "histories", Heading: "Probe histories and the program",
 			Body: figureHTML(svg, caption)})
 	}
+	if svg, caption, err := viscosityFigure(d, ts); err != nil {
+		return err
+	} else if svg != "" {
+		pg.Sections = append(pg.Sections, section{ID: "viscosity", Heading: "Viscosity at the probes and the flow window",
+			Body: figureHTML(svg, caption)})
+	}
 	pg.Sections = append(pg.Sections, section{ID: "stack", Heading: "Stack", Body: stackHTML(d)})
 	return renderPage(w, pg)
 }
@@ -781,4 +787,120 @@ func joinAnd(parts []string) string {
 		return parts[0]
 	}
 	return strings.Join(parts[:len(parts)-1], ", ") + " and " + parts[len(parts)-1]
+}
+
+// viscosityFigure draws the resin's viscosity at each probe over time on a
+// logarithmic axis, with the flow threshold of the flow window and the
+// first and last gel times of the curing layers (vertical lines; each
+// trace ends where its probe gels). "" when no probe has a viscosity.
+func viscosityFigure(d *runData, ts timeScale) (string, string, error) {
+	var any bool
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, pr := range d.Probes {
+		for _, v := range pr.Viscosity {
+			if v > 0 && !math.IsInf(v, 0) {
+				any = true
+				lo, hi = min(lo, v), max(hi, v)
+			}
+		}
+	}
+	if !any {
+		return "", "", nil
+	}
+	s := d.Summary
+	flow := math.NaN()
+	if s.FlowViscosityPaS != nil {
+		flow = float64(*s.FlowViscosityPaS)
+		lo, hi = min(lo, flow), max(hi, flow)
+	}
+	// Whole decades around the data; the traces rise steeply toward gel,
+	// so the top is capped at 10^4 times the threshold.
+	if !math.IsNaN(flow) {
+		hi = min(hi, flow*1e4)
+	}
+	lo, hi = math.Pow(10, math.Floor(math.Log10(lo))), math.Pow(10, math.Ceil(math.Log10(hi)))
+	if hi <= lo {
+		hi = lo * 10
+	}
+	t := ts.of(d.Times)
+	x0, x1 := t[0], t[len(t)-1]
+	caption := "Viscosity of the resin at each probe depth in a layer with a viscosity law, logarithmic scale; a trace ends where its probe reaches the gel point"
+	if !math.IsNaN(flow) {
+		caption += ". Horizontal " + dashDotLine.Word + " line: the flow threshold (" + strconv.FormatFloat(flow, 'g', 4, 64) +
+			" Pa·s); the flow window is the time a cell spends below it before gel"
+	}
+	var gels []string
+	if results.OutOK(s.GelTimeFirstS) {
+		gels = append(gels, "the first gel time")
+	}
+	if results.OutOK(s.GelTimeLastS) && s.GelTimeLastS != s.GelTimeFirstS {
+		gels = append(gels, "the last gel time")
+	}
+	if len(gels) > 0 {
+		caption += ". Vertical dashed lines: " + joinAnd(gels) + " of the curing layers"
+	}
+	caption += "."
+	svg, err := svgFigure(figWidth, profileHeight, "viscosity at the probes", func(dc draw.Canvas) error {
+		p := newPlot("time ("+ts.unit+")", "viscosity, log scale (Pa·s)")
+		addGrid(p)
+		p.Y.Scale = plot.LogScale{}
+		p.Y.Tick.Marker = logTicks{}
+		leg := newLegend()
+		var labels []string
+		for j, pr := range d.Probes {
+			if pr.Viscosity == nil {
+				continue
+			}
+			y := make([]float64, len(pr.Viscosity))
+			for k, v := range pr.Viscosity {
+				y[k] = v
+				if !(v > 0) || v > hi {
+					y[k] = math.NaN() // off the axis (gelled, or far above the threshold)
+				}
+			}
+			c, dash := lineColor(j)
+			l, err := addSeries(p, series{X: t, Y: y, Color: c, Dash: dash})
+			if err != nil {
+				return err
+			}
+			if l != nil {
+				name := "at " + pr.Label + " mm"
+				leg.Add(name, l)
+				labels = append(labels, name)
+			}
+		}
+		if !math.IsNaN(flow) {
+			if err := addLimit(p, x0, x1, flow, "flow threshold "+strconv.FormatFloat(flow, 'g', 4, 64)+" Pa·s"); err != nil {
+				return err
+			}
+		}
+		for _, g := range []struct {
+			at   results.Float
+			text string
+		}{{s.GelTimeFirstS, "first gel"}, {s.GelTimeLastS, "last gel"}} {
+			if !results.OutOK(g.at) || (g.text == "last gel" && s.GelTimeLastS == s.GelTimeFirstS) {
+				continue
+			}
+			x := ts.of([]float64{float64(g.at)})[0]
+			if _, err := addSeries(p, series{X: []float64{x, x}, Y: []float64{lo, hi}, Color: ink, Width: vg.Points(0.9),
+				Dash: []vg.Length{vg.Points(4), vg.Points(3)}}); err != nil {
+				return err
+			}
+			// The first gel's label to the left of its line, the last's to
+			// the right, so that the two never overlap.
+			tg := &tag{X: x, Y: hi, Text: g.text, XAlign: draw.XLeft, YAlign: draw.YTop, DX: vg.Points(3), DY: vg.Points(-3)}
+			if g.text == "first gel" {
+				tg.XAlign, tg.DX = draw.XRight, vg.Points(-3)
+			}
+			p.Add(tg)
+		}
+		p.X.Min, p.X.Max = x0, x1
+		p.Y.Min, p.Y.Max = lo, hi
+		lw := legendWidthFor(labels)
+		left := draw.Crop(dc, 0, -lw, 0, 0)
+		p.Draw(left)
+		legendAt(draw.Crop(dc, dc.Max.X-dc.Min.X-lw+vg.Points(10), 0, 0, 0), p.DataCanvas(left), leg)
+		return nil
+	})
+	return svg, caption, err
 }
