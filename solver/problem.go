@@ -143,6 +143,9 @@ type Summary struct {
 	// NaN when nothing drives the case. A part lagging its drivers as they
 	// cool is no overshoot (see CoolingLag).
 	Overshoot float64
+	// HottestDriving is the hottest temperature any driver reached over
+	// the run (D* at its end), K; NaN when nothing drives the case.
+	HottestDriving float64
 	// HeatingLag is the largest D(t) − T over cells and accepted steps
 	// while the drivers rise or hold, with D(t) the hottest driving
 	// temperature at t; HeatingLagTime and HeatingLagDepth say when and

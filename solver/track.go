@@ -38,7 +38,7 @@ func (s *stepper) newTracker() *tracker {
 	tr := &tracker{gel: make([]float64, s.n)}
 	tr.sum = Summary{
 		PeakTemperature: math.Inf(-1), Overshoot: nan, MaxSpread: nan,
-		HeatingLag: nan, HeatingLagTime: nan, HeatingLagDepth: nan,
+		HeatingLag: nan, HeatingLagTime: nan, HeatingLagDepth: nan, HottestDriving: nan,
 		CoolingLag: nan, CoolingLagTime: nan, CoolingLagDepth: nan,
 		LayerSpread:  make([]float64, len(s.p.Mesh.Layers)),
 		MinFinalCure: nan, MinFinalCureDepth: nan, MeanFinalCure: nan, TimeToMinCure: nan,
@@ -155,6 +155,7 @@ func (tr *tracker) observe(s *stepper, h float64) {
 		D, hiStep := tr.drive(t, h)
 		tr.dStar[2], tr.dStar[1] = tr.dStar[1], tr.dStar[0]
 		tr.dStar[0] = max(tr.dStar[1], hiStep)
+		sum.HottestDriving = tr.dStar[0]
 		if ov := hot - tr.dStar[0]; !(ov <= sum.Overshoot) {
 			sum.Overshoot = ov
 		}

@@ -76,8 +76,8 @@ func advEndToEnd(t *testing.T, text string) *advOutcome {
 	if got, want := out.summary["status"], StatusOf(r, Judge(c, r)); got != want {
 		t.Errorf("summary.json status %v, run %v", got, want)
 	}
-	if out.summary["energy_balance_error"] == nil || out.summary["peak_temperature_C"] == nil {
-		t.Errorf("summary.json lacks the energy balance or the peak: %s", data)
+	if out.summary["conservation_residual"] == nil || out.summary["peak_temperature_C"] == nil {
+		t.Errorf("summary.json lacks the conservation residual or the peak: %s", data)
 	}
 	entries, _ := os.ReadDir(out.dir)
 	for _, e := range entries {
@@ -160,8 +160,8 @@ func (o *advOutcome) ok(t *testing.T) {
 	}
 	// The ledger balances to round-off (energy conservation); 1e-8 leaves room for the
 	// Newton tolerance over many steps.
-	if e := o.num(t, "energy_balance_error"); !(e < 1e-8) {
-		t.Errorf("energy_balance_error %g", e)
+	if e := o.num(t, "conservation_residual"); !(e < 1e-8) {
+		t.Errorf("conservation_residual %g", e)
 	}
 }
 

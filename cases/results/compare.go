@@ -28,7 +28,7 @@ var CompareHeader = append([]string{"case", "title", "status"}, compareKeys...)
 // GelFrontSpread), in their order.
 var compareKeys = []string{"peak_temperature_C", "peak_depth_mm", "overshoot_K",
 	"max_spread_K", "min_final_cure", "min_final_cure_depth_mm", "time_to_min_cure_s", "gel_time_first_s",
-	"gel_time_last_s", GelFrontSpread.Key, "energy_balance_error", "control_max_error_K"}
+	"gel_time_last_s", GelFrontSpread.Key, "conservation_residual", "control_max_error_K"}
 
 // Compared is one case of a comparison.
 type Compared struct {
@@ -123,7 +123,7 @@ func cmpNum(f Float) string {
 // run): status, peak temperature, its depth and time, overshoot, largest
 // spread, least final cure and its depth, mean final cure, time to
 // min_cure, first and last gel time, gel front spread, lowest final Tg,
-// sensor off its program, end time and energy balance error.
+// sensor off its program, end time and conservation residual.
 func ComparisonRows(rows []Compared) [][]string {
 	head := []string{""}
 	for _, r := range rows {
@@ -178,7 +178,7 @@ func ComparisonRows(rows []Compared) [][]string {
 		return fmt.Sprintf("%.2f K at most", float64(*r.Summary.ControlMaxErrorK))
 	})
 	quantity("end_time_s", num.TextTime)
-	quantity("energy_balance_error", func(v float64) string { return strconv.FormatFloat(v, 'g', 2, 64) })
+	quantity("conservation_residual", func(v float64) string { return strconv.FormatFloat(v, 'g', 2, 64) })
 	return out
 }
 

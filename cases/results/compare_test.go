@@ -39,10 +39,10 @@ func TestPrintComparisonGolden(t *testing.T) {
 	e := Float(0.42)
 	a := Summary{Title: "in the oven", Status: StatusOK, PeakTemperatureC: 106.5, PeakDepthMM: 5.375, OvershootK: 41.5,
 		MaxSpreadK: 10.7, MinFinalCure: 0.8534, MinFinalCureDepthMM: 11.875, TimeToMinCureS: 14120,
-		GelTimeFirstS: 5357, GelTimeLastS: 5673, EnergyBalanceError: 6e-15}
+		GelTimeFirstS: 5357, GelTimeLastS: 5673, ConservationResidual: 6e-15}
 	b := Summary{Title: "by microwave", Status: StatusCriteriaFailed, PeakTemperatureC: 69.3, PeakDepthMM: 5.375, OvershootK: 6.8,
 		MaxSpreadK: 6.3, MinFinalCure: 0.8159, MinFinalCureDepthMM: 11.875, TimeToMinCureS: nan,
-		GelTimeFirstS: 7440, GelTimeLastS: 8726, EnergyBalanceError: 1e-13, ControlMaxErrorK: &e}
+		GelTimeFirstS: 7440, GelTimeLastS: 8726, ConservationResidual: 1e-13, ControlMaxErrorK: &e}
 	crit := &cases.Case{Criteria: cases.Criteria{MinCure: 0.85, MaxTemperature: math.NaN(), MaxSpread: math.NaN()}}
 	rows := []Compared{
 		{Name: "oven", Case: crit, Ran: true, Summary: a},

@@ -222,25 +222,37 @@ func (vs *Verdicts) UnmarshalJSON(b []byte) error {
 // gel_point, the degree of cure at gelation of each curing layer by name
 // (omitted without curing layers; the report draws the gel front from it).
 type Summary struct {
-	Title                    string   `json:"title"`
-	Status                   string   `json:"status"`
-	PeakTemperatureC         Float    `json:"peak_temperature_C"`
-	PeakTimeS                Float    `json:"peak_time_s"`
-	PeakDepthMM              Float    `json:"peak_depth_mm"`
-	OvershootK               Float    `json:"overshoot_K"`
-	MaxSpreadK               Float    `json:"max_spread_K"`
-	MinFinalCure             Float    `json:"min_final_cure"`
-	MinFinalCureDepthMM      Float    `json:"min_final_cure_depth_mm"`
-	MeanFinalCure            Float    `json:"mean_final_cure"`
-	TimeToMinCureS           Float    `json:"time_to_min_cure_s"`
-	GelTimeFirstS            Float    `json:"gel_time_first_s"`
-	GelTimeLastS             Float    `json:"gel_time_last_s"`
-	MinFinalGlassTransitionC Float    `json:"min_final_glass_transition_C"`
-	EnergyBalanceError       Float    `json:"energy_balance_error"`
-	Steps                    int      `json:"steps"`
-	Criteria                 Verdicts `json:"criteria"`
-	EndTimeS                 Float    `json:"end_time_s"`
-	Message                  string   `json:"message,omitempty"`
+	Title            string `json:"title"`
+	Status           string `json:"status"`
+	PeakTemperatureC Float  `json:"peak_temperature_C"`
+	PeakTimeS        Float  `json:"peak_time_s"`
+	PeakDepthMM      Float  `json:"peak_depth_mm"`
+	OvershootK       Float  `json:"overshoot_K"`
+	// OvershootNote says why overshoot_K is null; omitted otherwise.
+	OvershootNote            string      `json:"overshoot_note,omitempty"`
+	HottestDrivingC          Float       `json:"hottest_driving_temperature_C"`
+	HeatingLagK              Float       `json:"heating_lag_K"`
+	HeatingLagTimeS          Float       `json:"heating_lag_time_s"`
+	HeatingLagDepthMM        Float       `json:"heating_lag_depth_mm"`
+	CoolingLagK              Float       `json:"cooling_lag_K"`
+	CoolingLagTimeS          Float       `json:"cooling_lag_time_s"`
+	CoolingLagDepthMM        Float       `json:"cooling_lag_depth_mm"`
+	MaxSpreadK               Float       `json:"max_spread_K"`
+	LayerSpreadK             LayerValues `json:"layer_spread_K"`
+	MinFinalCure             Float       `json:"min_final_cure"`
+	MinFinalCureDepthMM      Float       `json:"min_final_cure_depth_mm"`
+	MeanFinalCure            Float       `json:"mean_final_cure"`
+	TimeToMinCureS           Float       `json:"time_to_min_cure_s"`
+	GelTimeFirstS            Float       `json:"gel_time_first_s"`
+	GelTimeLastS             Float       `json:"gel_time_last_s"`
+	MinFinalGlassTransitionC Float       `json:"min_final_glass_transition_C"`
+	ConservationResidual     Float       `json:"conservation_residual"`
+	// EstimatedError is set by run --verify only; omitted otherwise.
+	EstimatedError *EstimatedError `json:"estimated_error,omitempty"`
+	Steps          int             `json:"steps"`
+	Criteria       Verdicts        `json:"criteria"`
+	EndTimeS       Float           `json:"end_time_s"`
+	Message        string          `json:"message,omitempty"`
 	// ControlMaxErrorK is set only under closed-loop volumetric heating
 	// (see ControlError); omitted otherwise.
 	ControlMaxErrorK *Float `json:"control_max_error_K,omitempty"`
@@ -274,6 +286,14 @@ func Summarize(c *cases.Case, r *solver.Result) Summary {
 		PeakTimeS:                Float(num.Round6(s.PeakTime)),
 		PeakDepthMM:              Float(num.MM(s.PeakDepth)),
 		OvershootK:               Float(num.Round6(s.Overshoot)),
+		OvershootNote:            overshootNote(c),
+		HottestDrivingC:          Float(num.Celsius(s.HottestDriving)),
+		HeatingLagK:              Float(num.Round6(s.HeatingLag)),
+		HeatingLagTimeS:          Float(num.Round6(s.HeatingLagTime)),
+		HeatingLagDepthMM:        Float(num.MM(s.HeatingLagDepth)),
+		CoolingLagK:              Float(num.Round6(s.CoolingLag)),
+		CoolingLagTimeS:          Float(num.Round6(s.CoolingLagTime)),
+		CoolingLagDepthMM:        Float(num.MM(s.CoolingLagDepth)),
 		MaxSpreadK:               Float(num.Round6(s.MaxSpread)),
 		MinFinalCure:             Float(num.RoundSig(s.MinFinalCure)),
 		MinFinalCureDepthMM:      Float(num.MM(s.MinFinalCureDepth)),
@@ -282,13 +302,19 @@ func Summarize(c *cases.Case, r *solver.Result) Summary {
 		GelTimeFirstS:            Float(num.Round6(s.GelTimeFirst)),
 		GelTimeLastS:             Float(num.Round6(s.GelTimeLast)),
 		MinFinalGlassTransitionC: Float(num.Celsius(s.MinFinalGlass)),
-		EnergyBalanceError:       Float(num.RoundSig(s.EnergyBalanceError)),
+		ConservationResidual:     Float(num.RoundSig(s.ConservationResidual)),
 		Steps:                    s.Steps,
 		Criteria:                 Verdicts(v),
 		EndTimeS:                 Float(num.Round6(r.EndTime)),
 	}
 	if out.Criteria == nil {
 		out.Criteria = Verdicts{}
+	}
+	out.LayerSpreadK = LayerValues{}
+	for j, l := range c.Problem.Mesh.Layers {
+		if j < len(s.LayerSpread) {
+			out.LayerSpreadK = append(out.LayerSpreadK, LayerValue{l.Name, num.Round6(s.LayerSpread[j])})
+		}
 	}
 	if !math.IsNaN(c.Criteria.MinCure) {
 		out.TimeToMinCureS = Float(num.Round6(s.TimeToMinCure))
@@ -352,11 +378,18 @@ func SummaryRows(s Summary) []SummaryRow {
 	add := func(key, v string) { rows = append(rows, SummaryRow{Label(key), v}) }
 	rows = append(rows, SummaryRow{"status", s.Status})
 	add("peak_temperature_C", fmt.Sprintf("%s at %s, t = %s", num.TextC(float64(s.PeakTemperatureC)), num.TextMM(float64(s.PeakDepthMM)), num.TextTime(float64(s.PeakTimeS))))
-	if OutOK(s.OvershootK) {
-		add("overshoot_K", fmt.Sprintf("%+.1f K over the hottest driving temperature", float64(s.OvershootK)))
+	add("overshoot_K", OvershootWords(s))
+	if w := LagWords(true, s.HeatingLagK, s.HeatingLagTimeS, s.HeatingLagDepthMM); w != "" {
+		add("heating_lag_K", w)
+	}
+	if w := LagWords(false, s.CoolingLagK, s.CoolingLagTimeS, s.CoolingLagDepthMM); w != "" {
+		add("cooling_lag_K", w)
 	}
 	if OutOK(s.MaxSpreadK) {
 		add("max_spread_K", num.TextK(float64(s.MaxSpreadK))+" across the curing layers")
+	}
+	if len(s.LayerSpreadK) > 0 {
+		add("layer_spread_K", LayerSpreadWords(s.LayerSpreadK))
 	}
 	if OutOK(s.MinFinalCure) {
 		add("min_final_cure", num.TextCure(float64(s.MinFinalCure))+" at "+num.TextMM(float64(s.MinFinalCureDepthMM)))
@@ -391,7 +424,14 @@ func SummaryRows(s Summary) []SummaryRow {
 		add("flow_window_s", fmt.Sprintf("%s below %s Pa·s before gel (the shortest over the resin's cells)",
 			num.TextTime(float64(*s.FlowWindowS)), strconv.FormatFloat(optional(s.FlowViscosityPaS), 'g', 4, 64)))
 	}
-	add("energy_balance_error", strconv.FormatFloat(float64(s.EnergyBalanceError), 'g', 2, 64)+" (relative)")
+	add("conservation_residual", ResidualWords(s.ConservationResidual, s.EstimatedError != nil))
+	if e := s.EstimatedError; e != nil {
+		line, warn := e.Words()
+		add("estimated_error", line)
+		for _, w := range warn {
+			rows = append(rows, SummaryRow{"WARNING", w})
+		}
+	}
 	add("steps", strconv.Itoa(s.Steps))
 	add("end_time_s", num.TextTime(float64(s.EndTimeS)))
 	return rows

@@ -63,13 +63,18 @@ func TestSummaryJSONNulls(t *testing.T) {
 	// Every key of the README's Case file reference is present.
 	for _, k := range []string{"title", "status", "peak_temperature_C", "peak_time_s", "peak_depth_mm", "overshoot_K",
 		"max_spread_K", "min_final_cure", "min_final_cure_depth_mm", "mean_final_cure", "time_to_min_cure_s",
-		"gel_time_first_s", "gel_time_last_s", "min_final_glass_transition_C", "energy_balance_error", "steps", "criteria"} {
+		"gel_time_first_s", "gel_time_last_s", "min_final_glass_transition_C", "conservation_residual", "steps", "criteria",
+		"heating_lag_K", "cooling_lag_K", "layer_spread_K", "hottest_driving_temperature_C"} {
 		if _, ok := m[k]; !ok {
 			t.Errorf("summary.json lacks %q", k)
 		}
 	}
 	if _, ok := m["message"]; ok {
 		t.Error("message present for a run that ended normally")
+	}
+	// The former name of the conservation residual is gone.
+	if _, ok := m["energy_balance_error"]; ok {
+		t.Error("summary.json still has energy_balance_error")
 	}
 	// Round trip.
 	var back Summary

@@ -31,8 +31,9 @@ const (
 // beyond its values, such as a probe below a thinner stack left out; see
 // cases.Case.Notes).
 var SweepColumns = sweepColumns("peak_temperature_C", "peak_time_s", "peak_depth_mm", "overshoot_K",
+	"heating_lag_K", "cooling_lag_K",
 	"max_spread_K", "min_final_cure", "min_final_cure_depth_mm", "mean_final_cure", "time_to_min_cure_s",
-	"gel_time_first_s", "gel_time_last_s", "min_final_glass_transition_C", "energy_balance_error", "steps",
+	"gel_time_first_s", "gel_time_last_s", "min_final_glass_transition_C", "conservation_residual", "steps",
 	"end_time_s")
 
 // SweepColumn is one summary column of summary.csv.

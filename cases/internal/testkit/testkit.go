@@ -144,9 +144,12 @@ func HandBuiltResult() *solver.Result {
 		Ledger: solver.Ledger{Faces: 1e5, Reaction: 2e5, Stored: 3e5},
 		Summary: solver.Summary{
 			PeakTemperature: 393.15000000000003, PeakTime: 3600, PeakDepth: 1.5875e-3,
-			Overshoot: 50.000000000000028, MaxSpread: 31.2, MinFinalCure: 0.82, MinFinalCureDepth: 4.7625e-3,
+			Overshoot: 50.000000000000028, HottestDriving: 343.15,
+			HeatingLag: 27.123456789, HeatingLagTime: 1800, HeatingLagDepth: 4.7625e-3,
+			CoolingLag: nan, CoolingLagTime: nan, CoolingLagDepth: nan,
+			MaxSpread: 31.2, LayerSpread: []float64{31.2, 0.7000000001}, MinFinalCure: 0.82, MinFinalCureDepth: 4.7625e-3,
 			MeanFinalCure: 0.885, TimeToMinCure: nan, GelTimeFirst: 2400.5, GelTimeLast: nan,
-			MinFinalGlass: 401.2, EnergyBalanceError: 1.2345678912e-15, Steps: 123,
+			MinFinalGlass: 401.2, ConservationResidual: 1.2345678912e-15, Steps: 123,
 		},
 		EndTime: 5010,
 	}
