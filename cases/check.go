@@ -69,6 +69,10 @@ func ScopeOf(c *Case) CautionScope {
 	return sc
 }
 
+// GelPointDefaultWords is how check and the materials list show a gel point
+// that the case did not give.
+const GelPointDefaultWords = "0.577 (default: Flory–Stockmayer, difunctional epoxy + tetrafunctional amine; set gel_point for other chemistries)"
+
 // MaxNeighbourRatio is the size ratio of neighbouring cells above which
 // Check suggests grading the mesh with [mesh] growth.
 const MaxNeighbourRatio = 5
@@ -95,6 +99,7 @@ func Check(w io.Writer, c *Case) error {
 	warnings := chkEstimates(p, c)
 	warnings = append(warnings, volWarnings...)
 	warnings = append(warnings, meshWarnings(c)...)
+	warnings = append(warnings, looseWarnings(c)...)
 	p.Printf("\nWarnings\n")
 	if len(warnings) == 0 {
 		p.Printf("  none\n")
@@ -169,7 +174,7 @@ func chkLayerInfo(c *Case, j int) LayerInfo {
 }
 
 func chkMaterial(c *Case, j int) *physics.Material {
-	if j < len(c.Problem.Materials) {
+	if j >= 0 && j < len(c.Problem.Materials) {
 		return c.Problem.Materials[j]
 	}
 	return nil
@@ -224,12 +229,12 @@ func DescribeMaterial(m *physics.Material) []string {
 	)
 	if cu := m.Cure; cu != nil {
 		lines = append(lines, "cures: "+chkKinetics(cu.Model))
-		gel := cu.GelPoint
-		if gel == 0 {
-			gel = physics.DefaultGelPoint
+		gel := chkG(cu.GelPoint)
+		if cu.GelPoint == 0 || cu.GelPointDefaulted {
+			gel = GelPointDefaultWords
 		}
 		lines = append(lines, fmt.Sprintf("total heat %s J/g, resin fraction %s, gel point %s",
-			chkG(cu.TotalHeat/1e3), chkG(cu.ResinFraction), chkG(gel)))
+			chkG(cu.TotalHeat/1e3), chkG(cu.ResinFraction), gel))
 		if d := cu.Diffusion; d != nil {
 			lines = append(lines, fmt.Sprintf("diffusion: C %s, alpha_c = %s + %s 1/K * T (%s at 23 C, %s at 100 C)",
 				chkG(d.C), chkG(d.Alpha0), chkG(d.AlphaT),
@@ -343,14 +348,23 @@ func chkFace(f *physics.Face, driver string) string {
 		return "temperature " + q(driver)
 	case physics.Flux:
 		t, v := f.Flux.Points()
+		var s string
 		if len(v) == 1 {
-			return "flux " + chkG(v[0]) + " W/m^2 into the part"
+			s = "flux " + chkG(v[0]) + " W/m^2 into the part"
+		} else {
+			lo, hi := v[0], v[0]
+			for _, x := range v {
+				lo, hi = min(lo, x), max(hi, x)
+			}
+			s = fmt.Sprintf("flux %s to %s W/m^2 into the part, %d points over %s", chkG(lo), chkG(hi), len(v), num.HumanTime(t[len(t)-1]))
 		}
-		lo, hi := v[0], v[0]
-		for _, x := range v {
-			lo, hi = min(lo, x), max(hi, x)
+		if f.HasAir() {
+			s += "; also exchanges heat with air " + q(driver) + ": h " + chkG(f.H) + " W/m^2/K"
+			if f.Emissivity > 0 {
+				s += ", emissivity " + chkG(f.Emissivity)
+			}
 		}
-		return fmt.Sprintf("flux %s to %s W/m^2 into the part, %d points over %s", chkG(lo), chkG(hi), len(v), num.HumanTime(t[len(t)-1]))
+		return s
 	}
 	return "no heat through this face"
 }
@@ -495,7 +509,9 @@ type Estimate struct {
 	AdiabaticRise float64
 	// Diffusivity is k/(ρ c_p) of the layer at T and the initial cure, m²/s.
 	Diffusivity float64
-	// ConductionTime is L²/a with L the layer thickness, s.
+	// ConductionTime is ℓ²/a with ℓ the length of the runaway screen: half
+	// the layer when heat leaves through both its faces, the whole layer
+	// when through one (Runaway.Length), s.
 	ConductionTime float64
 	// HalfLife is the isothermal time at T from the initial cure to 0.5, s;
 	// +Inf when the resin does not react from its initial cure, 0 when it
@@ -506,39 +522,32 @@ type Estimate struct {
 	PeakRate, PeakCure float64
 	// ApparentE is R T² ∂ln r/∂T at the peak rate, J/mol.
 	ApparentE float64
-	// FK is the Frank-Kamenetskii parameter of the layer at the peak rate,
-	//	δ = E/(R T²) · q̇ · a² / k,  q̇ = ρ · w_r · H · r_max,
-	// with a = the layer thickness as the half-width (conservative: a slab
-	// that sheds heat through one face only), NaN when the rate is zero.
-	FK float64
+	// Runaway is the Frank-Kamenetskii screen of the layer at the hottest
+	// hold, with its actual faces (see Runaway).
+	Runaway Runaway
+	// TimeToMinCure is the isothermal time at T from the initial cure to
+	// criteria.min_cure, s; NaN without that criterion, +Inf when the
+	// resin never gets there at T.
+	TimeToMinCure float64
 }
-
-// CriticalFK is the critical Frank-Kamenetskii parameter of a slab with
-// walls held at the surrounding temperature, 0.8785 (Frank-Kamenetskii,
-// Diffusion and Heat Exchange in Chemical Kinetics, 1955/1969; the value
-// confirmed by Boddington, Gray & Wake, Proc. R. Soc. A, 1977). Above it no
-// steady state exists while the reaction runs at that rate.
-const CriticalFK = 0.8785
 
 // Estimates returns the pre-trial estimates of every curing layer of c at
 // the highest temperature that drives the case (the hottest point of the
-// schedules and constants of convective and fixed faces; the initial
-// temperature when nothing drives one):
+// schedules and constants of convective and fixed faces and of a control
+// program; the initial temperature when nothing drives one).
 //
-//	ΔT_ad = ∫_{α0}^{1} w·H / c_p(α) dα
-//	      = w·H / (c_c − c_u) · ln(c_c / (c_u + (c_c − c_u)·α0))
+// The adiabatic rise is AdiabaticRise with c_p uncured and cured at T; for a
+// cure-independent c_p it is the familiar w·H·(1 − α0)/c_p (energy balance).
+// The conduction time is ℓ²/a with a = k/(ρ c_p) uncured at T; the
+// half-life and the time to min_cure are physics.Cure's IsothermalTime from
+// α0 at T. The runaway screen follows screenRunaway.
 //
-// the adiabatic rise of the capacity form of the energy equation (README, Case file reference)
-// with c_p linear in cure between its uncured and cured values at T; for a
-// cure-independent c_p it is the familiar w·H·(1 − α0)/c_p (energy balance;
-// analytic). The conduction time is L²/a with L the layer thickness
-// and a = k/(ρ c_p) uncured at T; the half-life is physics.Cure's
-// IsothermalTime from α0 to 0.5 at T.
-//
-// Cost: one isothermal quadrature per curing layer.
+// Cost: a few isothermal quadratures per curing layer, and one per 0.25 K of
+// the program's rise to its hottest hold (physics.Cure.CureAlong).
 func Estimates(c *Case) []Estimate {
 	pr := c.Problem
 	T, _ := DrivingMax(pr)
+	prog := hottestProgram(pr)
 	var out []Estimate
 	for j, l := range pr.Mesh.Layers {
 		mat := chkMaterial(c, j)
@@ -555,15 +564,19 @@ func Estimates(c *Case) []Estimate {
 		k, _, _ := mat.Conductivity.At(T, a0)
 		diff := k / (mat.Density * cp)
 		e := Estimate{
-			Layer:          l.Name,
-			Material:       chkLayerInfo(c, j).Material,
-			Thickness:      l.Thickness,
-			T:              T,
-			AdiabaticRise:  AdiabaticRise(mat.Cure.HeatPerMass(), cu, cc, a0),
-			Diffusivity:    diff,
-			ConductionTime: l.Thickness * l.Thickness / diff,
-			HalfLife:       mat.Cure.IsothermalTime(T, a0, 0.5),
-			FK:             math.NaN(),
+			Layer:         l.Name,
+			Material:      chkLayerInfo(c, j).Material,
+			Thickness:     l.Thickness,
+			T:             T,
+			AdiabaticRise: AdiabaticRise(mat.Cure.HeatPerMass(), cu, cc, a0),
+			Diffusivity:   diff,
+			HalfLife:      mat.Cure.IsothermalTime(T, a0, 0.5),
+			Runaway:       screenRunaway(c, j, T, prog),
+			TimeToMinCure: math.NaN(),
+		}
+		e.ConductionTime = e.Runaway.Length * e.Runaway.Length / diff
+		if mc := c.Criteria.MinCure; !math.IsNaN(mc) {
+			e.TimeToMinCure = mat.Cure.IsothermalTime(T, a0, mc)
 		}
 		// The peak isothermal rate, on a grid of 400 cures from α0 to 1.
 		for i := range 400 {
@@ -575,8 +588,6 @@ func Estimates(c *Case) []Estimate {
 		if e.PeakRate > 0 {
 			r, rT, _ := mat.Cure.Rate(T, e.PeakCure)
 			e.ApparentE = physics.GasConstant * T * T * rT / r
-			qdot := mat.Density * mat.Cure.HeatPerMass() * r
-			e.FK = e.ApparentE / (physics.GasConstant * T * T) * qdot * l.Thickness * l.Thickness / k
 		}
 		out = append(out, e)
 	}
@@ -652,8 +663,8 @@ func chkEstimates(p *textout.Printer, c *Case) []string {
 		name string
 		face *physics.Face
 	}{{"top", &pr.Top}, {"bottom", &pr.Bottom}} {
-		switch f.face.Kind {
-		case physics.Convection:
+		switch {
+		case f.face.HasAir():
 			h := f.face.H
 			note := "h " + chkG(h) + " W/m^2/K"
 			if f.face.Emissivity > 0 {
@@ -664,7 +675,7 @@ func chkEstimates(p *textout.Printer, c *Case) []string {
 			}
 			bi := h * R
 			fmt.Fprintf(tw, "    %s\tBi = %s\t%s: %s\n", f.name, chkG3(bi), note, biotWords(bi))
-		case physics.Fixed:
+		case f.face.Kind == physics.Fixed:
 			fmt.Fprintf(tw, "    %s\tBi infinite\tthe face follows its set temperature; the stack lags it by conduction alone\n", f.name)
 		default:
 			fmt.Fprintf(tw, "    %s\tno Biot number\t%s face\n", f.name, f.face.Kind)
@@ -687,8 +698,13 @@ func chkEstimates(p *textout.Printer, c *Case) []string {
 		peak := e.T + e.AdiabaticRise
 		fmt.Fprintf(tw, "    adiabatic temperature rise\t%s K\tif no reaction heat left the layer; an adiabatic core would reach %s C\n",
 			chkF(e.AdiabaticRise, 1), chkF(peak-273.15, 0))
-		fmt.Fprintf(tw, "    conduction time L^2/a\t%s\tL = %s mm, a = k/(rho*c_p) = %s m^2/s\n",
-			num.HumanTime(e.ConductionTime), num.FormatDepth(e.Thickness), chkG3(e.Diffusivity))
+		rs := e.Runaway
+		scale := "the layer (heat leaves through one face)"
+		if rs.Half {
+			scale = "half the layer (heat leaves through both faces)"
+		}
+		fmt.Fprintf(tw, "    conduction time l^2/a\t%s\tl = %s mm, %s; a = k/(rho*c_p) = %s m^2/s\n",
+			num.HumanTime(e.ConductionTime), num.FormatDepth(rs.Length), scale, chkG3(e.Diffusivity))
 		var half string
 		switch {
 		case e.HalfLife == 0:
@@ -701,16 +717,23 @@ func chkEstimates(p *textout.Printer, c *Case) []string {
 			half = num.HumanTime(e.HalfLife) + "\tisothermal, cure " + chkG(pr.InitialCure) + " to 0.5"
 		}
 		fmt.Fprintf(tw, "    reaction half-life\t%s\n", half)
+		if mc := c.Criteria.MinCure; !math.IsNaN(mc) {
+			ttm := "never at this temperature"
+			if !math.IsInf(e.TimeToMinCure, 1) {
+				ttm = num.HumanTime(e.TimeToMinCure)
+			}
+			fmt.Fprintf(tw, "    time to min_cure %s\t%s\tisothermal at %s C from cure %s; the case runs %s\n",
+				chkG(mc), ttm, chkF(e.T-273.15, 1), chkG(pr.InitialCure), num.HumanTime(pr.End))
+		}
 		if e.PeakRate > 0 {
 			fmt.Fprintf(tw, "    peak reaction rate\t%s 1/s\tisothermal, at cure %s; apparent activation energy %s kJ/mol\n",
 				chkG3(e.PeakRate), chkF(e.PeakCure, 2), chkF(e.ApparentE/1e3, 1))
-			fmt.Fprintf(tw, "    Frank-Kamenetskii delta\t%s\tE/(R T^2) * heat release at the peak rate * L^2 / k; critical %s for a slab\n",
-				chkG3(e.FK), chkG(CriticalFK))
 		}
 		p.Flush(tw)
-		if e.FK > CriticalFK {
-			warn = append(warn, fmt.Sprintf("layer %s: the Frank-Kamenetskii parameter %s at %s C exceeds the critical %s: at its peak rate the reaction releases heat faster than conduction through %s mm can remove it: expect a strong exotherm (a runaway if the resin did not run out).",
-				e.Layer, chkG3(e.FK), chkF(e.T-273.15, 0), chkG(CriticalFK), num.FormatDepth(e.Thickness)))
+		warn = append(warn, chkRunaway(p, c, e)...)
+		if mc := c.Criteria.MinCure; e.TimeToMinCure > pr.End {
+			warn = append(warn, fmt.Sprintf("layer %s: even held at %s C from the start, the resin needs %s (isothermal) to reach min_cure %s, longer than the case's %s: it gets there only with help from its own exotherm, if at all.",
+				e.Layer, chkF(e.T-273.15, 1), chkTimeOrNever(e.TimeToMinCure), chkG(mc), num.HumanTime(pr.End)))
 		}
 		if e.HalfLife > 0 && e.ConductionTime > e.HalfLife {
 			warn = append(warn, fmt.Sprintf("layer %s: the conduction time (%s) is longer than the reaction half-life at %s C (%s): the exotherm can run ahead of conduction: expect the core to overshoot the program.",
@@ -728,6 +751,102 @@ func chkEstimates(p *textout.Printer, c *Case) []string {
 	return warn
 }
 
+func chkTimeOrNever(t float64) string {
+	if math.IsInf(t, 1) {
+		return "forever"
+	}
+	return num.HumanTime(t)
+}
+
+// chkLayerIndex returns the index of the layer named name, −1 if none.
+func chkLayerIndex(c *Case, name string) int {
+	for j, l := range c.Problem.Mesh.Layers {
+		if l.Name == name {
+			return j
+		}
+	}
+	return -1
+}
+
+// chkRunaway prints the Frank-Kamenetskii screen of one curing layer and
+// returns its warning, if any.
+func chkRunaway(p *textout.Printer, c *Case, e Estimate) []string {
+	rs := e.Runaway
+	p.Printf("    Runaway screen (Frank-Kamenetskii, steady slab; a guide, not a prediction):\n")
+	tw := p.Table()
+	hold := "from the start"
+	cure := chkF(rs.Cure, 3) + " (the initial cure: the hold begins at the start)"
+	if !math.IsInf(rs.HoldFrom, -1) {
+		hold = "from " + num.HumanTime(rs.HoldFrom)
+		cure = chkF(rs.Cure, 3) + " (estimated: the initial cure followed along the program with isothermal kinetics, no lag, no exotherm)"
+	}
+	fmt.Fprintf(tw, "      hottest hold\t%s C %s\n", chkF(rs.T-273.15, 1), hold)
+	pr := c.Problem
+	if _, driven := DrivingMax(pr); !driven {
+		fmt.Fprintf(tw, "      note\tno program drives the case: screened at the initial temperature, which understates the risk when a lamp or an uncontrolled field heats the part; judge by a run\n")
+	} else {
+		cool := math.Inf(1) // the hottest the faces' surroundings get, K
+		for _, f := range []*physics.Face{&pr.Top, &pr.Bottom} {
+			switch {
+			case f.Kind == physics.Fixed:
+				cool = min(cool, f.Set.Max())
+			case f.HasAir():
+				cool = min(cool, f.Air.Max())
+			}
+		}
+		if cool < rs.T-1 {
+			fmt.Fprintf(tw, "      note\tthe screen takes the faces' surroundings at the hold temperature; here one reaches only %s C, which takes more heat away than the screen assumes\n", chkF(cool-273.15, 1))
+		}
+	}
+	fmt.Fprintf(tw, "      cure when it begins\t%s\n", cure)
+	if !(rs.Rate > 0) {
+		fmt.Fprintf(tw, "      reaction\tnone at the hold from that cure: nothing to run away\n")
+		p.Flush(tw)
+		return nil
+	}
+	fmt.Fprintf(tw, "      fastest rate in the hold\t%s 1/s\tat cure %s (isothermal, from the cure it begins with); apparent activation energy %s kJ/mol\n",
+		chkG3(rs.Rate), chkF(rs.RateCure, 2), chkF(rs.ApparentE/1e3, 1))
+	biot := func(b float64) string {
+		switch {
+		case math.IsInf(b, 1):
+			return "infinite (held)"
+		case b == 0:
+			return "0 (no heat leaves)"
+		}
+		return chkG3(b)
+	}
+	fmt.Fprintf(tw, "      Biot numbers h*l/k\ttop %s, bottom %s\tl = %s mm; each face's path to the air or platen through the layers beyond it, at %s C\n",
+		biot(rs.BiTop), biot(rs.BiBottom), num.FormatDepth(rs.Length), chkF(rs.T-273.15, 0))
+	fmt.Fprintf(tw, "      delta\t%s\tE/(R T^2) * heat release at the fastest rate * l^2 / k\n", chkG3(rs.Delta))
+	fmt.Fprintf(tw, "      critical delta\t%s\tfor these Biot numbers: largest delta with a steady state of theta'' + delta*exp(theta) = 0 (Frank-Kamenetskii; 0.8785 for held faces, Semenov's Bi/e for small Bi)\n",
+		chkG3(rs.Critical))
+	p.Flush(tw)
+	ratio := rs.Delta / rs.Critical
+	// What is left to release from the cure the hold begins with.
+	mat := chkMaterial(c, chkLayerIndex(c, e.Layer))
+	left := ""
+	if mat != nil && mat.Cure != nil {
+		cu, _ := mat.SpecificHeat.Uncured.At(rs.T)
+		cc := cu
+		if mat.SpecificHeat.HasCured {
+			cc, _ = mat.SpecificHeat.Cured.At(rs.T)
+		}
+		left = fmt.Sprintf(" (what is left to react from cure %s can heat it by at most %s K, adiabatic)",
+			chkF(rs.Cure, 2), chkF(AdiabaticRise(mat.Cure.HeatPerMass(), cu, cc, rs.Cure), 0))
+	}
+	switch {
+	case rs.Critical == 0:
+		return []string{fmt.Sprintf("layer %s: no heat leaves it through either face: any reaction heat accumulates (adiabatic): expect its full adiabatic rise.", e.Layer)}
+	case ratio >= 1:
+		return []string{fmt.Sprintf("layer %s: the Frank-Kamenetskii delta %s at the %s C hold exceeds its critical %s for these faces (%.0f %%): no steady state exists while the resin reacts at that rate: expect a runaway exotherm unless the resin runs out first%s. Lower the hold, cure thinner, or cool the faces better, and keep within the supplier's limits.",
+			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), chkG3(rs.Critical), 100*ratio, left)}
+	case ratio >= RunawayCaution:
+		return []string{fmt.Sprintf("layer %s: the Frank-Kamenetskii delta %s at the %s C hold is %.0f %% of its critical %s for these faces (caution from %.0f %%): close to thermal runaway%s; a thicker layer, a hotter hold or weaker cooling would tip it over.",
+			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), 100*ratio, chkG3(rs.Critical), 100*RunawayCaution, left)}
+	}
+	return nil
+}
+
 // biotWords says what a Biot number means for the through-thickness
 // gradient (the 0.1 threshold of the lumped-capacitance approximation,
 // Incropera §5.1, from memory).
@@ -739,6 +858,49 @@ func biotWords(bi float64) string {
 		return "a moderate through-thickness gradient"
 	}
 	return "conduction-limited: a large through-thickness gradient"
+}
+
+// Far looser than the defaults: step tolerances LooseTolerance times the
+// defaults or more, cells LooseCell times DefaultMaxCell or wider in a layer
+// that conducts poorly (below LooseConductivity; heat crosses a metal layer
+// so fast that coarse cells there cost little). The scheme's spatial error
+// grows as the square of the cell size, so LooseCell is a sixteenfold error.
+const (
+	LooseTolerance    = 10
+	LooseCell         = 4
+	LooseConductivity = 5.0 // W/(m·K)
+)
+
+// looseWarnings warns of step tolerances and cells far looser than the
+// defaults.
+func looseWarnings(c *Case) []string {
+	pr := c.Problem
+	var warn []string
+	if tt := pr.TemperatureTolerance; tt >= LooseTolerance*solver.DefaultTemperatureTolerance {
+		warn = append(warn, fmt.Sprintf("[time] temperature_tolerance %s K is %s times the default %s K: each step may be that far off; run with --verify to see what it costs the results.",
+			chkG(tt), chkG3(tt/solver.DefaultTemperatureTolerance), chkG(solver.DefaultTemperatureTolerance)))
+	}
+	if ct := pr.CureTolerance; ct >= LooseTolerance*solver.DefaultCureTolerance {
+		warn = append(warn, fmt.Sprintf("[time] cure_tolerance %s is %s times the default %s: each step may be that far off; run with --verify to see what it costs the results.",
+			chkG(ct), chkG3(ct/solver.DefaultCureTolerance), chkG(solver.DefaultCureTolerance)))
+	}
+	m := pr.Mesh
+	for j, l := range m.Layers {
+		mat := chkMaterial(c, j)
+		if mat == nil {
+			continue
+		}
+		k, _, _ := mat.Conductivity.At(pr.InitialTemperature, 0)
+		wide := 0.0
+		for i := m.First[j]; i < m.First[j+1]; i++ {
+			wide = max(wide, m.Widths[i])
+		}
+		if k < LooseConductivity && wide >= LooseCell*mesh.DefaultMaxCell*(1-1e-9) {
+			warn = append(warn, fmt.Sprintf("layer %s: cells up to %s mm, %s times the default %s mm: peaks and cure fronts in it are under-resolved (the spatial error grows with the square of the cell size, and --verify does not refine the mesh); use the default [mesh] max_cell or more cells.",
+				l.Name, chkG3(wide*1e3), chkG3(wide/mesh.DefaultMaxCell), chkG(mesh.DefaultMaxCell*1e3)))
+		}
+	}
+	return warn
 }
 
 // meshWarnings returns a warning when neighbouring cells differ in size by

@@ -81,17 +81,46 @@ func TestEstimates(t *testing.T) {
 	if want := math.Ln2 / k; math.Abs(e.HalfLife-want) > 1e-9*want {
 		t.Errorf("half-life %.12g s, want ln2/k = %.12g s", e.HalfLife, want)
 	}
-	// Conduction time L²ρc_p/k with the uncured c_p (analytic).
+	// Conduction time L²ρc_p/k with the uncured c_p (analytic): heat leaves
+	// through the top face only (the board below is insulated), so the
+	// length is the whole layer.
 	if want := 6.35e-3 * 6.35e-3 * 1100 * 1500 / 0.2; math.Abs(e.ConductionTime-want) > 1e-12*want {
 		t.Errorf("conduction time %.12g s, want %.12g s", e.ConductionTime, want)
 	}
-	// Frank-Kamenetskii parameter (Frank-Kamenetskii, Diffusion and Heat
-	// Exchange in Chemical Kinetics, 1955/1969): a first-order rate peaks
-	// at α = 0 with r = k and apparent activation energy E, so
-	// δ = E/(R T²) · ρ w H k · L² / k_th (analytic), with the layer thickness
-	// as the half-width.
-	if want := 60e3 / (physics.GasConstant * 343.15 * 343.15) * 1100 * 400e3 * k * 6.35e-3 * 6.35e-3 / 0.2; math.Abs(e.FK-want) > 1e-9*want || e.PeakCure != 0 {
-		t.Errorf("Frank-Kamenetskii δ = %.12g at cure %g, want %.12g at 0", e.FK, e.PeakCure, want)
+	// Runaway screen (Frank-Kamenetskii, physics.CriticalFK). The hold at
+	// 70 C begins after the 2 K/min ramp from 23 C (1410 s); the cure then
+	// is 1 − exp(−∫k dt) for first order (analytic), the integral here by
+	// composite Simpson on 2000 intervals. The fastest rate from that cure
+	// on is k (1 − α_h) at α_h; δ = E/(R T²) · ρ w H r · L²/k_th with L the
+	// layer (one face sheds heat), Bi_top = h L/k_th = 15 × 6.35e-3/0.2,
+	// Bi_bottom = 0 (insulated), δ_c = CriticalFKSymmetric(Bi_top).
+	rs := e.Runaway
+	ramp := (343.15 - 296.15) / (2.0 / 60)
+	n := 2000
+	kt := func(tm float64) float64 { return 1e5 * math.Exp(-60e3/(physics.GasConstant*(296.15+2.0/60*tm))) }
+	sum := kt(0) + kt(ramp)
+	for i := 1; i < n; i++ {
+		sum += float64(2+2*(i%2)) * kt(ramp*float64(i)/float64(n))
+	}
+	ah := -math.Expm1(-sum * ramp / float64(n) / 3)
+	// CureAlong is good to a relative 1e-4 in ∫k dt (physics tests).
+	if rs.HoldFrom != ramp || math.Abs(rs.Cure-ah) > 1e-4*ah {
+		t.Errorf("hold from %g s at cure %.8g; want %g s, %.8g", rs.HoldFrom, rs.Cure, ramp, ah)
+	}
+	wantDelta := 60e3 / (physics.GasConstant * 343.15 * 343.15) * 1100 * 400e3 * k * (1 - rs.Cure) * 6.35e-3 * 6.35e-3 / 0.2
+	bi := 15 * 6.35e-3 / 0.2
+	if rs.Half || rs.Length != 6.35e-3 || math.Abs(rs.BiTop-bi) > 1e-12*bi || rs.BiBottom != 0 {
+		t.Errorf("screen faces: half %v, length %g, Bi %g/%g; want one face at Bi %g", rs.Half, rs.Length, rs.BiTop, rs.BiBottom, bi)
+	}
+	if math.Abs(rs.Delta-wantDelta) > 1e-9*wantDelta || rs.RateCure != rs.Cure {
+		t.Errorf("δ = %.12g at cure %g, want %.12g at the hold's starting cure", rs.Delta, rs.RateCure, wantDelta)
+	}
+	if want := physics.CriticalFKSymmetric(bi).Delta; math.Abs(rs.Critical-want) > 1e-12*want {
+		t.Errorf("δ_c = %.12g, want %.12g", rs.Critical, want)
+	}
+	// Isothermal time to min_cure 0.9 at 70 C, first order: ln 10 / k.
+	if want := math.Ln10 / k; math.Abs(e.TimeToMinCure-want) > 1e-9*want {
+		t.Errorf("time to min_cure %.12g s, want %.12g s", e.TimeToMinCure, want)
 	}
 	if want := cases.AdiabaticRise(400e3, 1500, 1300, 0); e.AdiabaticRise != want {
 		t.Errorf("adiabatic rise %g K, want %g K", e.AdiabaticRise, want)

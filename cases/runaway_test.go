@@ -6,6 +6,7 @@ import (
 	"math"
 	"testing"
 
+	"cureslab/mesh"
 	"cureslab/physics"
 	"cureslab/solver"
 )
@@ -97,5 +98,43 @@ func TestRunawayScreenBothWays(t *testing.T) {
 				t.Errorf("δ/δ_c = %.2f: status %v, peak excess θ = %.3g; the screen says runaway %v", tc.frac, r.Status, theta, tc.runs)
 			}
 		})
+	}
+}
+
+// TestRunawayScreenPaths: each face's Biot number counts the layers beyond
+// the curing layer as series resistances (exact at steady state for inert
+// layers of constant conductivity), plus the contact resistance and the
+// face's 1/h; with heat leaving through both faces the length is half the
+// layer and the Biot numbers and δ scale with it (δ ∝ ℓ², Bi ∝ ℓ).
+// Source: analytic (thermal resistance network, Incropera et al., ch. 3).
+func TestRunawayScreenPaths(t *testing.T) {
+	resin := &physics.Material{Name: "r", Density: 1100,
+		SpecificHeat: physics.Inert(physics.Constant(1500)), Conductivity: physics.Inert(physics.Constant(0.2)),
+		Cure: &physics.Cure{Model: physics.NthOrder{A: 1e5, E: 60e3, N: 1}, TotalHeat: 400e3, ResinFraction: 1, GelPoint: 0.6}}
+	board := chkInert("board", 1850, 1100, 0.35)
+	const h, L, L2, rc, k2 = 10.0, 8e-3, 1.6e-3, 2e-4, 0.35
+	c := chkSlab(t, []mesh.Layer{{Name: "resin", Thickness: L}, {Name: "board", Thickness: L2, ContactResistance: rc}},
+		[]*physics.Material{resin, board}, h, 353.15)
+	s := screenRunaway(c, 0, 353.15, hottestProgram(c.Problem))
+	biTopL := h * L / 0.2
+	biBotL := (L / 0.2) / (1/h + L2/k2 + rc)
+	crit := physics.CriticalFK(biTopL, biBotL).Delta / 4
+	if !s.Half || s.Length != L/2 || math.Abs(s.BiTop-biTopL/2) > 1e-12 || math.Abs(s.BiBottom-biBotL/2) > 1e-12 || math.Abs(s.Critical-crit) > 1e-12 {
+		t.Errorf("half %v, ℓ %g, Bi %.12g/%.12g, δ_c %.12g; want true, %g, %.12g/%.12g, %.12g",
+			s.Half, s.Length, s.BiTop, s.BiBottom, s.Critical, L/2, biTopL/2, biBotL/2, crit)
+	}
+	// δ on ℓ = L/2 from the first-order rate at cure 0 (steady air: the
+	// hold is the whole run).
+	k := 1e5 * math.Exp(-60e3/(physics.GasConstant*353.15))
+	want := 60e3 / (physics.GasConstant * 353.15 * 353.15) * 1100 * 400e3 * k * (L / 2) * (L / 2) / 0.2
+	if math.Abs(s.Delta-want) > 1e-9*want || s.Cure != 0 || !math.IsInf(s.HoldFrom, -1) {
+		t.Errorf("δ = %.12g from cure %g at %g s, want %.12g from 0 at the start", s.Delta, s.Cure, s.HoldFrom, want)
+	}
+	// The same slab with a held bottom face (a platen): Bi = ∞ there.
+	c.Problem.Bottom = physics.Face{Kind: physics.Fixed, Set: physics.Steady(353.15)}
+	s = screenRunaway(c, 0, 353.15, hottestProgram(c.Problem))
+	biBotL = (L / 0.2) / (L2/k2 + rc)
+	if want := physics.CriticalFK(biTopL, biBotL).Delta / 4; math.Abs(s.Critical-want) > 1e-12 {
+		t.Errorf("platen below the board: δ_c %.12g, want %.12g", s.Critical, want)
 	}
 }

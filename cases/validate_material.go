@@ -251,7 +251,7 @@ func (l *loader) cure(mt *table) *physics.Cure {
 		}
 		l.atValue(t.keyPath("model"), ErrRange, "%s", msg).Hint = "the models are " + strings.Join(forms, ", ")
 	}
-	c := &physics.Cure{ResinFraction: 1, GelPoint: physics.DefaultGelPoint}
+	c := &physics.Cure{ResinFraction: 1, GelPoint: physics.DefaultGelPoint, GelPointDefaulted: true}
 	l.require(t, "total_heat")
 	switch model {
 	case "lee-loos-springer":
@@ -280,7 +280,7 @@ func (l *loader) cure(mt *table) *physics.Cure {
 		if !(g > 0 && g < 1) {
 			l.rangeErr(t.keyPath("gel_point"), g, "gel_point must be in (0, 1)")
 		}
-		c.GelPoint = g
+		c.GelPoint, c.GelPointDefaulted = g, false
 	}
 	rate := func(key string, positive bool) float64 {
 		A, ok := l.quantity(t, key, units.RateConstant)

@@ -25,7 +25,7 @@ var (
 	faceKeys  = map[string][]string{
 		"convection": {"kind", "h", "air", "emissivity"},
 		"fixed":      {"kind", "temperature"},
-		"flux":       {"kind", "flux"},
+		"flux":       {"kind", "flux", "h", "air", "emissivity"},
 		"insulated":  {"kind"},
 	}
 	allFaceKeys = []string{"kind", "h", "air", "emissivity", "temperature", "flux"}
@@ -432,6 +432,32 @@ func (l *loader) face(root *table, which string, scheds map[string]*physics.Sche
 				}
 				f.face.Flux = physics.Steady(q)
 			}
+		}
+		// Optional exchange with air beside the imposed flux: a lamp over
+		// a part that still loses heat by convection and radiation.
+		h, okH := l.quantity(t, "h", units.HeatTransferCoefficient)
+		eps, okE := l.number(t, "emissivity")
+		switch {
+		case okH && !(h >= 0):
+			l.rangeErr(t.keyPath("h"), t.m["h"], "h must not be negative")
+		case okE && !(eps >= 0 && eps <= 1):
+			l.rangeErr(t.keyPath("emissivity"), eps, "emissivity must be in [0, 1]")
+		case h > 0 || eps > 0:
+			if n := len(l.errs); !l.require(t, "air") {
+				if len(l.errs) > n {
+					l.errs[len(l.errs)-1].Hint = "a flux face that also loses heat by convection or radiation needs the air temperature, for example: air = \"23 C\""
+				}
+				return nil
+			}
+			f.face.H, f.face.Emissivity = h, eps
+			sched, text, end, ok := l.driver(t, "air", scheds)
+			if !ok {
+				return nil
+			}
+			f.face.Air, f.driver, f.end = sched, text, max(f.end, end)
+		case t.has("air"):
+			l.atValue(t.keyPath("air"), ErrRange, "air on a flux face needs h > 0 or emissivity > 0 (with neither, no heat is exchanged with it)").Hint =
+				"add, for example, h = \"10 W/m^2/K\", or remove air"
 		}
 	}
 	if len(l.errs) > before {

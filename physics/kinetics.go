@@ -196,6 +196,9 @@ type Cure struct {
 	TotalHeat     float64      // heat released by full cure per mass of resin, J/kg
 	ResinFraction float64      // mass fraction of reacting resin, (0, 1]
 	GelPoint      float64      // degree of cure at gelation, (0, 1)
+	// GelPointDefaulted says that GelPoint is DefaultGelPoint because the
+	// input gave none (an assumption about the chemistry, not data).
+	GelPointDefaulted bool
 }
 
 // Rate returns dα/dt at (T, α) with the diffusion factor applied, and its
