@@ -29,6 +29,11 @@ type Options struct {
 	// Report also writes report.html into the run's directory (and, for
 	// Compare, the comparison page).
 	Report bool
+	// Verify runs the case a second time at tolerances
+	// solver.VerifyFactor times tighter (solver.Tightened) and records the
+	// difference as the summary's estimated_error (results.EstimatedError).
+	// Only for a run that ended normally; the mesh is not refined.
+	Verify bool
 }
 
 // Case runs c until it ends or ctx is cancelled and writes its outputs into
@@ -37,14 +42,19 @@ type Options struct {
 // written. A run that ends early (runaway, failure, cancellation) still ran:
 // its outputs are written and its summary says why it stopped.
 //
-// Preconditions: c validated (cases.Load or cases.Parse). Cost: one solve,
-// one summary, the writes (and the report, about 0.05 s on the examples).
+// Preconditions: c validated (cases.Load or cases.Parse). Cost: one solve
+// (two with opt.Verify, the second some √10 times as many steps for a
+// second-order scheme), one summary, the writes (and the report, about
+// 0.05 s on the examples).
 func Case(ctx context.Context, c *cases.Case, dir string, opt Options) results.Compared {
 	r, err := solver.Run(ctx, c.Problem)
 	if err != nil {
 		return results.Compared{Case: c, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed}, Err: err}
 	}
 	out := results.Compared{Case: c, Ran: true, Summary: results.Summarize(c, r), Result: r}
+	if opt.Verify && r.Status == solver.OK {
+		out.Summary.EstimatedError = verify(ctx, c, r)
+	}
 	if err := results.WriteRun(dir, c, r, out.Summary); err != nil {
 		out.Err = err
 		return out
@@ -53,6 +63,25 @@ func Case(ctx context.Context, c *cases.Case, dir string, opt Options) results.C
 		out.Err = report.WriteReport(dir, c, r, out.Summary)
 	}
 	return out
+}
+
+// verify returns the estimated error of run r of c from a second run at
+// tighter tolerances (summary only: no per-cell fields are kept).
+func verify(ctx context.Context, c *cases.Case, r *solver.Result) *results.EstimatedError {
+	q := solver.Tightened(c.Problem)
+	q.NoFields = true
+	t, err := solver.Run(ctx, q)
+	if err == nil && t.Status == solver.OK {
+		return results.NewEstimatedError(c, r.Summary, t.Summary)
+	}
+	why := "it could not start"
+	switch {
+	case err != nil:
+		why += ": " + err.Error()
+	case t.Err != nil:
+		why = fmt.Sprintf("it ended %s: %v", t.Status, t.Err)
+	}
+	return results.NoEstimate(c, why)
 }
 
 // Compare runs every case of cs with Case, one after the other, into

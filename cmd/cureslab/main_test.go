@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"flag"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -314,5 +315,29 @@ func TestInterrupted(t *testing.T) {
 	}
 	if _, err := os.Stat("demo"); !os.IsNotExist(err) {
 		t.Errorf("an interrupted demo created its directory: %v", err)
+	}
+}
+
+// TestRunVerify: run --verify prints the estimated error once and records
+// it in summary.json; without --verify neither appears; sweep has no such
+// flag (only run verifies).
+func TestRunVerify(t *testing.T) {
+	chdir(t)
+	writeExample(t, "tile-on-spreader", "tile.toml")
+	code, out, errs := cl(t, "run", "tile.toml", "--verify", "--no-report")
+	if code != 0 || strings.Count(out, "estimated error") != 1 || !strings.Contains(out, "tolerances 10 times tighter") {
+		t.Fatalf("run --verify: exit %d\nstdout:\n%s\nstderr:\n%s", code, out, errs)
+	}
+	if s := readSummary(t, "tile-out"); s.EstimatedError == nil || !(math.Abs(float64(s.EstimatedError.PeakTemperatureK)) < 0.5) {
+		t.Errorf("summary.json estimated_error %+v", s.EstimatedError)
+	}
+	if _, out, _ = cl(t, "run", "tile.toml", "--no-report"); strings.Contains(out, "estimated error") {
+		t.Errorf("estimated error printed without --verify:\n%s", out)
+	}
+	if s := readSummary(t, "tile-out"); s.EstimatedError != nil {
+		t.Errorf("estimated_error written without --verify: %+v", s.EstimatedError)
+	}
+	if code, _, errs := cl(t, "sweep", "tile.toml", "--verify"); code != 2 || !strings.Contains(errs, "verify") {
+		t.Errorf("sweep --verify: exit %d, stderr %q", code, errs)
 	}
 }
