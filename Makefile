@@ -51,6 +51,7 @@ fuzz:
 	for t in FuzzParse FuzzParseResolved FuzzCaseValues FuzzScheduleCSV FuzzScanCSV FuzzUnitsRoundTrip FuzzParseScan FuzzFieldsRoundTrip; do \
 		$(GO) test ./cases -run '^$$' -fuzz "^$$t\$$" -fuzztime $(FUZZTIME) -fuzzminimizetime 10s -parallel 1 || exit 1; \
 	done
+	$(GO) test ./cases/calibrate -run '^$$' -fuzz '^FuzzReadLog$$' -fuzztime $(FUZZTIME) -fuzzminimizetime 10s -parallel 1
 
 clean:
 	rm -rf cureslab-demo
