@@ -152,58 +152,30 @@ type verdictJSON struct {
 
 // MarshalJSON implements json.Marshaler.
 func (vs Verdicts) MarshalJSON() ([]byte, error) {
-	var b bytes.Buffer
-	b.WriteByte('{')
-	for i, v := range vs {
-		if i > 0 {
-			b.WriteByte(',')
-		}
-		k, err := json.Marshal(v.Name)
-		if err != nil {
-			return nil, err
-		}
+	return marshalOrdered(len(vs), func(i int) (string, any) {
+		v := vs[i]
 		pass := &v.Pass
 		if v.Unjudged {
 			pass = nil
 		}
-		e, err := json.Marshal(verdictJSON{Float(v.Value), Float(v.Limit), pass})
-		if err != nil {
-			return nil, err
-		}
-		b.Write(k)
-		b.WriteByte(':')
-		b.Write(e)
-	}
-	b.WriteByte('}')
-	return b.Bytes(), nil
+		return v.Name, verdictJSON{Float(v.Value), Float(v.Limit), pass}
+	})
 }
 
 // UnmarshalJSON implements json.Unmarshaler, keeping the order of the keys.
 func (vs *Verdicts) UnmarshalJSON(b []byte) error {
-	dec := json.NewDecoder(bytes.NewReader(b))
-	tok, err := dec.Token()
-	if err != nil {
-		return err
-	}
-	if tok == nil {
-		*vs = nil
-		return nil
-	}
-	if d, ok := tok.(json.Delim); !ok || d != '{' {
-		return fmt.Errorf("criteria: want an object, got %v", tok)
-	}
 	var out Verdicts
-	for dec.More() {
-		tok, err := dec.Token()
-		if err != nil {
-			return err
-		}
-		name, _ := tok.(string)
+	isNull, err := unmarshalOrdered(b, "criteria", func(name string, dec *json.Decoder) error {
 		var e verdictJSON
 		if err := dec.Decode(&e); err != nil {
-			return fmt.Errorf("criteria.%s: %w", name, err)
+			return err
 		}
 		out = append(out, Verdict{Name: name, Value: float64(e.Value), Limit: float64(e.Limit), Pass: e.Pass != nil && *e.Pass, Unjudged: e.Pass == nil})
+		return nil
+	})
+	if err != nil || isNull {
+		*vs = nil
+		return err
 	}
 	*vs = out
 	return nil
