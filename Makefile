@@ -23,19 +23,19 @@ vet:
 # Speed figures (README "Performance"; dated record in DEVELOPERS.md,
 # "Measurement journal").
 bench:
-	$(GO) test -run '^$$' -bench . -benchmem -count 5 ./solver/ ./cases/
+	$(GO) test -run '^$$' -bench . -benchmem -count 5 ./solver/ ./cases/ ./cases/sweep/
 
 # Sweep scaling from -j 1 to -j 2: eight alternating pairs of 1000-run
 # sweeps of the coupled bench case, one ratio per pair (shared machines are
 # noisy; read the median).
 bench-scaling:
-	$(GO) test -c -o cases.test ./cases
-	cd cases && for k in 1 2 3 4 5 6 7 8; do \
-		a=$$(../cases.test -test.run '^$$' -test.bench 'SweepBench1000/j1$$' -test.benchtime 1x | awk '/runs\/s/{print $$5}'); \
-		b=$$(../cases.test -test.run '^$$' -test.bench 'SweepBench1000/j2$$' -test.benchtime 1x | awk '/runs\/s/{print $$5}'); \
+	$(GO) test -c -o sweep.test ./cases/sweep
+	cd cases/sweep && for k in 1 2 3 4 5 6 7 8; do \
+		a=$$(../../sweep.test -test.run '^$$' -test.bench 'SweepBench1000/j1$$' -test.benchtime 1x | awk '/runs\/s/{print $$5}'); \
+		b=$$(../../sweep.test -test.run '^$$' -test.bench 'SweepBench1000/j2$$' -test.benchtime 1x | awk '/runs\/s/{print $$5}'); \
 		echo "j1 $$a runs/s  j2 $$b runs/s  ratio $$(awk "BEGIN{printf \"%.2f\", $$b/$$a}")"; \
 	done
-	rm -f cases.test
+	rm -f sweep.test
 
 # Whole-process timings (hello world, cureslab help, run --no-report of the
 # coupled bench case), alternated, N rounds: minimum and median of each.

@@ -42,7 +42,8 @@ func BenchmarkBenchVolumetric(b *testing.B) { benchRun(b, "volumetric.toml") }
 
 // TestWorkPrecision runs the coupled bench case at tolerances from loose to
 // tight against a very fine reference run on the same mesh and prints the
-// work–precision table of the README (go test ./cases -run WorkPrecision -v).
+// work–precision table of the contributor guide's measurement journal
+// (go test ./cases -run WorkPrecision -v).
 // The timings are printed, never asserted. The accuracy of the default
 // tolerance is asserted: peak temperature within 0.2 K and minimum final cure
 // within 0.002 of the reference (the requirement for the default).

@@ -32,15 +32,15 @@ func BenchmarkSweepDemoPotting(b *testing.B) {
 	benchSweep(b, s, runs)
 }
 
-// BenchmarkSweepBench1000 is the sweep of issue 8's targets: 1000 runs of
+// BenchmarkSweepBench1000 is the sweep of the speed targets: 1000 runs of
 // the coupled bench case (testdata/bench/potting.toml, 150 cells, 5 h) with
 // the top film coefficient varied from 10 to 25 W/m^2/K, with 1 and 2
 // workers, journal and summary as in a real sweep. One operation is the
 // whole sweep (seconds), so run it once:
 //
-//	go test ./cases -run '^$' -bench SweepBench1000 -benchtime 1x -count 3
+//	go test ./cases/sweep -run '^$' -bench SweepBench1000 -benchtime 1x -count 3
 func BenchmarkSweepBench1000(b *testing.B) {
-	path := filepath.Join("..", "testdata", "bench", "potting.toml")
+	path := filepath.Join("..", "..", "testdata", "bench", "potting.toml")
 	data, err := os.ReadFile(path)
 	if err != nil {
 		b.Fatal(err)
