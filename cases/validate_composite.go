@@ -100,21 +100,13 @@ func (l *loader) fibreOf(t *table, defs map[string]*physics.Material, isComp map
 			l.atValue(key, ErrReference, "fibre %q cures: a fibre must not have a [materials.%s.cure] section", name, name)
 			return nil
 		}
-		return &physics.Fibre{
-			Name: name, Density: m.Density, SpecificHeat: m.SpecificHeat.Uncured,
-			AxialConductivity: m.Conductivity.Uncured, TransverseConductivity: m.Conductivity.Uncured,
-			Source: m.Source,
-		}
+		return fibreFromMaterial(name, m)
 	}
 	if f, ok := physics.BuiltinFibre(name); ok {
 		return f
 	}
 	if m, ok := physics.Builtin(name); ok {
-		return &physics.Fibre{
-			Name: name, Density: m.Density, SpecificHeat: m.SpecificHeat.Uncured,
-			AxialConductivity: m.Conductivity.Uncured, TransverseConductivity: m.Conductivity.Uncured,
-			Source: m.Source,
-		}
+		return fibreFromMaterial(name, m)
 	}
 	names := fibreNames(defs, isComp)
 	msg := fmt.Sprintf("unknown fibre %q", name)
@@ -124,6 +116,17 @@ func (l *loader) fibreOf(t *table, defs map[string]*physics.Material, isComp map
 	l.atValue(key, ErrReference, "%s", msg).Hint = "built-in fibres: " + strings.Join(builtinFibreNames(), ", ") +
 		"; or define the fibre as [materials.NAME] with density, specific_heat and conductivity"
 	return nil
+}
+
+// fibreFromMaterial is a plain material used as a fibre: its one
+// conductivity serves along and across the fibre, its uncured values are
+// its values (it does not cure).
+func fibreFromMaterial(name string, m *physics.Material) *physics.Fibre {
+	return &physics.Fibre{
+		Name: name, Density: m.Density, SpecificHeat: m.SpecificHeat.Uncured,
+		AxialConductivity: m.Conductivity.Uncured, TransverseConductivity: m.Conductivity.Uncured,
+		Source: m.Source,
+	}
 }
 
 // resinOf resolves the resin of a composite: a plain material of the case
@@ -180,31 +183,43 @@ func fibreNames(defs map[string]*physics.Material, isComp map[string]bool) []str
 	return append(out, physics.BuiltinNames()...)
 }
 
+// Sign rules for rateConstant.
+const (
+	signAny         = iota // any finite value
+	signNonNegative        // ≥ 0
+	signPositive           // > 0
+)
+
+// rateConstant reads the rate constant key of t, checked against the sign
+// rule (signAny, signNonNegative, signPositive).
+func (l *loader) rateConstant(t *table, key string, sign int) float64 {
+	A, ok := l.quantity(t, key, units.RateConstant)
+	switch {
+	case !ok:
+	case sign == signPositive && !(A > 0):
+		l.rangeErr(t.keyPath(key), t.m[key], "%s must be positive", key)
+	case sign == signNonNegative && !(A >= 0):
+		l.rangeErr(t.keyPath(key), t.m[key], "%s must not be negative", key)
+	}
+	return A
+}
+
+// activationEnergy reads the activation energy key of t (≥ 0).
+func (l *loader) activationEnergy(t *table, key string) float64 {
+	E, ok := l.quantity(t, key, units.EnergyPerMole)
+	if ok && !(E >= 0) {
+		l.rangeErr(t.keyPath(key), t.m[key], "activation energy %s must not be negative", key)
+	}
+	return E
+}
+
 // leeLoosSpringer reads the keys of model "lee-loos-springer". before is
 // the error count when the cure section started.
 func (l *loader) leeLoosSpringer(t *table, before int) physics.Kinetics {
 	m := physics.LeeLoosSpringer{Switch: physics.DefaultSwitch}
-	rate := func(key string, sign int) float64 {
-		A, ok := l.quantity(t, key, units.RateConstant)
-		switch {
-		case !ok:
-		case sign > 0 && !(A > 0):
-			l.rangeErr(t.keyPath(key), t.m[key], "%s must be positive", key)
-		case sign == 0 && !(A >= 0):
-			l.rangeErr(t.keyPath(key), t.m[key], "%s must not be negative", key)
-		}
-		return A
-	}
-	energy := func(key string) float64 {
-		E, ok := l.quantity(t, key, units.EnergyPerMole)
-		if ok && !(E >= 0) {
-			l.rangeErr(t.keyPath(key), t.m[key], "activation energy %s must not be negative", key)
-		}
-		return E
-	}
-	m.A1, m.E1 = rate("A1", 1), energy("E1")
-	m.A2, m.E2 = rate("A2", -1), energy("E2") // A2 may be negative
-	m.A3, m.E3 = rate("A3", 0), energy("E3")
+	m.A1, m.E1 = l.rateConstant(t, "A1", signPositive), l.activationEnergy(t, "E1")
+	m.A2, m.E2 = l.rateConstant(t, "A2", signAny), l.activationEnergy(t, "E2") // A2 may be negative
+	m.A3, m.E3 = l.rateConstant(t, "A3", signNonNegative), l.activationEnergy(t, "E3")
 	if s, ok := l.number(t, "switch"); ok {
 		if !(s > 0 && s < 1) {
 			l.rangeErr(t.keyPath("switch"), s, "switch must be in (0, 1)")

@@ -283,23 +283,12 @@ func (l *loader) cure(mt *table) *physics.Cure {
 		c.GelPoint, c.GelPointDefaulted = g, false
 	}
 	rate := func(key string, positive bool) float64 {
-		A, ok := l.quantity(t, key, units.RateConstant)
-		switch {
-		case !ok:
-		case positive && !(A > 0):
-			l.rangeErr(t.keyPath(key), t.m[key], "%s must be positive", key)
-		case !(A >= 0):
-			l.rangeErr(t.keyPath(key), t.m[key], "%s must not be negative", key)
+		if positive {
+			return l.rateConstant(t, key, signPositive)
 		}
-		return A
+		return l.rateConstant(t, key, signNonNegative)
 	}
-	energy := func(key string) float64 {
-		E, ok := l.quantity(t, key, units.EnergyPerMole)
-		if ok && !(E >= 0) {
-			l.rangeErr(t.keyPath(key), t.m[key], "activation energy %s must not be negative", key)
-		}
-		return E
-	}
+	energy := func(key string) float64 { return l.activationEnergy(t, key) }
 	order := func(key string) float64 {
 		x, ok := l.number(t, key)
 		if ok && !(x >= 0) {

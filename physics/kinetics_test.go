@@ -384,17 +384,7 @@ func TestIsothermalCureMatchesRK4(t *testing.T) {
 	c := &Cure{Model: testAuto, Diffusion: &testDiff}
 	const T, a0 = 400, 0.05
 	f := func(a float64) float64 { r, _, _ := c.Rate(T, a); return r }
-	rk4 := func(h, tEnd float64) float64 {
-		a := a0
-		for range int(math.Round(tEnd / h)) {
-			k1 := f(a)
-			k2 := f(a + h/2*k1)
-			k3 := f(a + h/2*k2)
-			k4 := f(a + h*k3)
-			a += h / 6 * (k1 + 2*k2 + 2*k3 + k4)
-		}
-		return a
-	}
+	rk4 := func(h, tEnd float64) float64 { return rk4Iso(f, a0, h, tEnd) }
 	for _, tt := range []float64{200, 1000, 2000, 6000} {
 		coarse, fine := rk4(0.5, tt), rk4(0.25, tt)
 		if math.Abs(coarse-fine) > 1e-10 {

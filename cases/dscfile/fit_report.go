@@ -135,11 +135,7 @@ func printFitParams(p *textout.Printer, an *dsc.Analysis) {
 	}
 	p.Flush(tw)
 	p.Printf("  standard errors from the residual noise (s²(JᵀJ)⁻¹); they do not include baseline or model errors\n")
-	var per []string
-	for i, c := range f.Curves {
-		per = append(per, fmt.Sprintf("%s %.2g %%", filepath.Base(an.Curves[i].Scan.Name), 100*c.RMS))
-	}
-	p.Printf("  R² = %.5f, RMS residual %.3g %% of the peak rate (%s)\n", f.R2, 100*f.RMS, strings.Join(per, ", "))
+	p.Printf("  R² = %.5f, RMS residual %.3g %% of the peak rate (%s)\n", f.R2, 100*f.RMS, perCurveRMS(an))
 	conv := "converged"
 	if !f.Converged {
 		conv = "NOT converged"
@@ -166,11 +162,16 @@ func printIsoTable(p *textout.Printer, an *dsc.Analysis, m *physics.Isoconversio
 	}
 	p.Flush(tw)
 	p.Printf("  standard errors of each Friedman line (the scatter of its points only)\n")
+	p.Printf("  the table integrated along each scan: R² = %.5f, RMS residual %.3g %% of the peak rate (%s)\n", f.R2, 100*f.RMS, perCurveRMS(an))
+}
+
+// perCurveRMS lists each scan's RMS residual: "dyn-02Kmin.csv 3.7 %, ...".
+func perCurveRMS(an *dsc.Analysis) string {
 	var per []string
-	for i, c := range f.Curves {
+	for i, c := range an.Fit.Curves {
 		per = append(per, fmt.Sprintf("%s %.2g %%", filepath.Base(an.Curves[i].Scan.Name), 100*c.RMS))
 	}
-	p.Printf("  the table integrated along each scan: R² = %.5f, RMS residual %.3g %% of the peak rate (%s)\n", f.R2, 100*f.RMS, strings.Join(per, ", "))
+	return strings.Join(per, ", ")
 }
 
 // CureBlock returns the fitted [materials.NAME.cure] block (with its

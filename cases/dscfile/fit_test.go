@@ -154,25 +154,7 @@ func TestCureBlockLoads(t *testing.T) {
 		t.Fatalf("%v %s", err, an.FitRefused)
 	}
 	block := CureBlock(an, "dsc-demo-resin")
-	text := `title = "block round trip"
-[initial]
-temperature = "23 C"
-[[layer]]
-name = "resin"
-material = "dsc-demo-resin"
-thickness = "5 mm"
-[materials.dsc-demo-resin]
-density = "1180 kg/m^3"
-specific_heat = "1450 J/kg/K"
-conductivity = "0.2 W/m/K"
-[top]
-kind = "insulated"
-[bottom]
-kind = "insulated"
-[time]
-end = "1 h"
-` + block
-	c, err := cases.Parse("block.toml", []byte(text), "")
+	c, err := cases.Parse("block.toml", []byte(blockCase("dsc-demo-resin", block)), "")
 	if err != nil {
 		t.Fatalf("the fitted block does not load: %v\n%s", err, block)
 	}
@@ -255,25 +237,7 @@ func TestIsoconversionalBlockLoads(t *testing.T) {
 		t.Fatalf("%v %s", err, an.FitRefused)
 	}
 	block := CureBlock(an, "iso-resin")
-	text := `title = "isoconversional round trip"
-[initial]
-temperature = "20 C"
-[[layer]]
-name = "resin"
-material = "iso-resin"
-thickness = "0.2 mm"
-[materials.iso-resin]
-density = "1180 kg/m^3"
-specific_heat = "1450 J/kg/K"
-conductivity = "0.2 W/m/K"
-[top]
-kind = "insulated"
-[bottom]
-kind = "insulated"
-[time]
-end = "1 h"
-` + block
-	c, err := cases.Parse("block.toml", []byte(text), "")
+	c, err := cases.Parse("block.toml", []byte(blockCase("iso-resin", block)), "")
 	if err != nil {
 		t.Fatalf("the printed table does not load: %v\n%s", err, block)
 	}
@@ -299,4 +263,26 @@ end = "1 h"
 			t.Errorf("report lacks %q:\n%s", s, out.String())
 		}
 	}
+}
+
+// blockCase is a minimal case around a printed cure block of material name.
+func blockCase(name, block string) string {
+	return `title = "block round trip"
+[initial]
+temperature = "23 C"
+[[layer]]
+name = "resin"
+material = "` + name + `"
+thickness = "5 mm"
+[materials.` + name + `]
+density = "1180 kg/m^3"
+specific_heat = "1450 J/kg/K"
+conductivity = "0.2 W/m/K"
+[top]
+kind = "insulated"
+[bottom]
+kind = "insulated"
+[time]
+end = "1 h"
+` + block
 }

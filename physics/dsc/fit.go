@@ -516,15 +516,23 @@ func (fm *fitModel) simulate(l *law, d *fitData, out []float64, k1, k2, ac []flo
 		n := 2 * d.sub * j
 		out[j] = l.rate(a, k1[n], k2[n], ac[n])
 	}
-	if d.tail >= 0 {
-		var m float64
-		for _, v := range out[d.tail:] {
-			m += v
-		}
-		m /= float64(len(out) - d.tail)
-		for j := range out {
-			out[j] -= m
-		}
+	d.subtractTail(out)
+}
+
+// subtractTail subtracts from the model rates out the mean over the
+// stretch that an isothermal curve's baseline was taken from (d.tail on),
+// as the measurement had it subtracted; nothing for a dynamic curve.
+func (d *fitData) subtractTail(out []float64) {
+	if d.tail < 0 {
+		return
+	}
+	var m float64
+	for _, v := range out[d.tail:] {
+		m += v
+	}
+	m /= float64(len(out) - d.tail)
+	for j := range out {
+		out[j] -= m
 	}
 }
 

@@ -108,14 +108,5 @@ func simulateCure(c *physics.Cure, d *fitData, out []float64) {
 		}
 		out[j] = rate(d.T[j], a)
 	}
-	if d.tail >= 0 {
-		var m float64
-		for _, v := range out[d.tail:] {
-			m += v
-		}
-		m /= float64(len(out) - d.tail)
-		for j := range out {
-			out[j] -= m
-		}
-	}
+	d.subtractTail(out)
 }
