@@ -1,6 +1,6 @@
 package solver_test
 
-// Adversarial problems (issue 9): extreme but legal inputs that a user can
+// Adversarial problems: extreme but legal inputs that a user can
 // write in a case file. Each is either solved correctly — checked against
 // an analytic value, a physical bound, and the energy ledger — or ends with
 // a clear status; no snapshot ever holds NaN or Inf. Test names start with
