@@ -20,7 +20,7 @@ import (
 	"cureslab/solver/internal/reference"
 )
 
-// advBalance is the largest energy_balance_error accepted. The ledger
+// advBalance is the largest conservation residual accepted. The ledger
 // counts the reaction heat and the stored heat with the scheme's own
 // quantities, so it balances to round-off (README Case file reference, summary.json: conservation of energy); 1e-8 leaves room
 // for the Newton tolerance (1e-10 K per cell) over many steps.
@@ -65,8 +65,8 @@ func advFinite(t *testing.T, p *solver.Problem, r *solver.Result) {
 			t.Fatalf("t = %g s: heat in %g J/m²", s.Time, s.HeatIn)
 		}
 	}
-	if e := r.Summary.EnergyBalanceError; bad(e) {
-		t.Fatalf("energy balance error %g", e)
+	if e := r.Summary.ConservationResidual; bad(e) {
+		t.Fatalf("conservation residual %g", e)
 	}
 }
 
@@ -76,8 +76,8 @@ func advOK(t *testing.T, p *solver.Problem, r *solver.Result) {
 	if r.Status != solver.OK || r.EndTime != p.End {
 		t.Fatalf("status %v at t = %g s of %g s: %v", r.Status, r.EndTime, p.End, r.Err)
 	}
-	if e := r.Summary.EnergyBalanceError; !(e < advBalance) {
-		t.Errorf("energy balance error %.3g, want < %g (ledger %+v)", e, advBalance, r.Ledger)
+	if e := r.Summary.ConservationResidual; !(e < advBalance) {
+		t.Errorf("conservation residual %.3g, want < %g (ledger %+v)", e, advBalance, r.Ledger)
 	}
 }
 
@@ -203,7 +203,7 @@ func advSteadyStack(t *testing.T, m *mesh.Mesh, mats []*physics.Material, Ttop, 
 		}
 	}
 	t.Logf("%d cells, %d steps (%d rejected), balance %.3g; faces upper %v lower %v; probes %v",
-		m.Cells(), r.Summary.Steps, r.Summary.RejectedSteps, r.Summary.EnergyBalanceError, upper, lower, last.ProbeT)
+		m.Cells(), r.Summary.Steps, r.Summary.RejectedSteps, r.Summary.ConservationResidual, upper, lower, last.ProbeT)
 }
 
 // advKnownFailure names a failure these tests found and that has since been
@@ -594,7 +594,7 @@ func TestAdversarialSecondCure(t *testing.T) {
 		t.Errorf("gel time %.6g s, adiabatic integral %.6g s", got, want)
 	}
 	t.Logf("%d steps (%d rejected), gel at %.6g s (integral %.6g s), final T %.4f K, balance %.3g",
-		r.Summary.Steps, r.Summary.RejectedSteps, r.Summary.GelTimeFirst, want, last.T[0], r.Summary.EnergyBalanceError)
+		r.Summary.Steps, r.Summary.RejectedSteps, r.Summary.GelTimeFirst, want, last.T[0], r.Summary.ConservationResidual)
 }
 
 // TestAdversarialInitialCure: an initial cure of 0.999.
@@ -634,7 +634,7 @@ func TestAdversarialInitialCure(t *testing.T) {
 			End: 20, OutputTimes: outs, CureTolerance: 1e-7,
 		}
 		r := advRun(t, p)
-		// No heat flows here, so the relative energy balance error is
+		// No heat flows here, so the relative conservation residual is
 		// round-off over round-off (reported to the lead: it reads 1);
 		// only the end of the run is checked.
 		if r.Status != solver.OK || r.EndTime != p.End {
@@ -803,7 +803,7 @@ func TestAdversarialFrankKamenetskii(t *testing.T) {
 				t.Errorf("centre cure %.3f: consumption is not negligible", maxA)
 			}
 			t.Logf("θ(0) = %.6f (FK %.6f, full exponent %.6f), %d steps, centre cure %.3g, balance %.3g",
-				got, c.want, exact, r.Summary.Steps, last.Cure[50], r.Summary.EnergyBalanceError)
+				got, c.want, exact, r.Summary.Steps, last.Cure[50], r.Summary.ConservationResidual)
 		})
 	}
 	t.Run("delta=1.2", func(t *testing.T) {
@@ -821,8 +821,8 @@ func TestAdversarialFrankKamenetskii(t *testing.T) {
 		if math.Abs(re.Depth-0.005) > 0.5e-3 {
 			t.Errorf("runaway at depth %g mm, want the centre (5 mm)", re.Depth*1e3)
 		}
-		if e := r.Summary.EnergyBalanceError; !(e < advBalance) {
-			t.Errorf("energy balance error %.3g up to the runaway", e)
+		if e := r.Summary.ConservationResidual; !(e < advBalance) {
+			t.Errorf("conservation residual %.3g up to the runaway", e)
 		}
 		t.Logf("runaway at %.4g s: %v", r.EndTime, r.Err)
 	})

@@ -166,8 +166,8 @@ func TestAdiabaticRise(t *testing.T) {
 					t.Errorf("cell %d: rise %.9f K, want %.9f K", i, got, want)
 				}
 			}
-			if e := r.Summary.EnergyBalanceError; e > 1e-10 {
-				t.Errorf("energy balance error %.3g", e)
+			if e := r.Summary.ConservationResidual; e > 1e-10 {
+				t.Errorf("conservation residual %.3g", e)
 			}
 			t.Logf("rise %.4f K at cure %.5f, %d steps", last.T[0]-320, last.Cure[0], r.Summary.Steps)
 		})

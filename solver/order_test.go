@@ -46,8 +46,8 @@ func probeValues(t *testing.T, p *Problem) []float64 {
 	if err != nil || r.Status != OK {
 		t.Fatalf("run: %v %v", err, r.Err)
 	}
-	if e := r.Summary.EnergyBalanceError; e > 1e-8 {
-		t.Errorf("energy balance error %.3g > 1e-8", e)
+	if e := r.Summary.ConservationResidual; e > 1e-8 {
+		t.Errorf("conservation residual %.3g > 1e-8", e)
 	}
 	var v []float64
 	for _, s := range r.Snapshots[1:3] {

@@ -107,7 +107,7 @@ func TestStandingWaveMetalCupLedger(t *testing.T) {
 		if err != nil || r.Status != OK {
 			t.Fatalf("run: %v %v", err, r.Err)
 		}
-		if e := r.Summary.EnergyBalanceError; e > 1e-10 {
+		if e := r.Summary.ConservationResidual; e > 1e-10 {
 			t.Errorf("%d points: balance error %.3g", band.Points, e)
 		}
 		if fs := r.Summary.FieldSolutions; fs < 10 || fs > r.Summary.Steps+1 {
@@ -159,7 +159,7 @@ func TestStandingWaveControlHoldsSensor(t *testing.T) {
 	if worst > 1 {
 		t.Errorf("sensor strays %.3f K from the program", worst)
 	}
-	if e := r.Summary.EnergyBalanceError; e > 1e-10 {
+	if e := r.Summary.ConservationResidual; e > 1e-10 {
 		t.Errorf("balance error %.3g", e)
 	}
 }

@@ -387,7 +387,6 @@ func (tr *tracker) finish(s *stepper, l *Ledger) {
 		capacity += s.rho[i] * s.old.cp[i] * s.w[i]
 	}
 	sum.ConservationResidual = l.BalanceError(capacity * 1e-3)
-	sum.EnergyBalanceError = sum.ConservationResidual
 	if !s.curing {
 		return
 	}

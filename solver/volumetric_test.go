@@ -43,8 +43,8 @@ func TestVolumetricAdiabaticSlab(t *testing.T) {
 			}
 		}
 	}
-	if e := r.Summary.EnergyBalanceError; e > 1e-12 {
-		t.Errorf("energy balance error %.3g", e)
+	if e := r.Summary.ConservationResidual; e > 1e-12 {
+		t.Errorf("conservation residual %.3g", e)
 	}
 	t.Logf("heating rate %.6g K/s, ledger volumetric %.6g J/m²", rate, r.Ledger.Volumetric)
 }
@@ -198,7 +198,7 @@ func TestVolumetricControlTracksProgram(t *testing.T) {
 			worst = max(worst, math.Abs(s.ProbeT[0]-prog.At(s.Time)))
 		}
 	}
-	t.Logf("worst sensor deviation after %g s: %.3f K; %d steps; balance %.2g", settle, worst, r.Summary.Steps, r.Summary.EnergyBalanceError)
+	t.Logf("worst sensor deviation after %g s: %.3f K; %d steps; balance %.2g", settle, worst, r.Summary.Steps, r.Summary.ConservationResidual)
 	if worst > 1 {
 		t.Errorf("sensor strays %.3f K from the program (±1 K expected)", worst)
 	}

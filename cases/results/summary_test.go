@@ -223,3 +223,23 @@ func TestOutPair(t *testing.T) {
 		t.Errorf("outPair(0.82, 0.9) = %q, %q", a, b)
 	}
 }
+
+func TestOvershootWords(t *testing.T) {
+	// The terminal and the report say these words (README, summary.json:
+	// overshoot_K).
+	nan := Float(math.NaN())
+	for _, tc := range []struct {
+		s    Summary
+		want string
+	}{
+		{Summary{OvershootK: 41.5, HottestDrivingC: 65, PeakTemperatureC: 106.5}, "+41.5 K above the hottest driving temperature so far"},
+		{Summary{OvershootK: 0, HottestDrivingC: 120, PeakTemperatureC: 117.6}, "none: peak 2.4 K below the hottest driving temperature"},
+		{Summary{OvershootK: -3.2, HottestDrivingC: 120, PeakTemperatureC: 116.8}, "none: peak 3.2 K below the hottest driving temperature"},
+		{Summary{OvershootK: 0.01, HottestDrivingC: 120, PeakTemperatureC: 120.01}, "none: the peak reaches the hottest driving temperature but never passes it"},
+		{Summary{OvershootK: nan, HottestDrivingC: nan, OvershootNote: NoteUncontrolled}, "n/a: " + NoteUncontrolled},
+	} {
+		if got := OvershootWords(tc.s); got != tc.want {
+			t.Errorf("overshoot %v: %q, want %q", tc.s.OvershootK, got, tc.want)
+		}
+	}
+}
