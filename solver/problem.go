@@ -184,11 +184,6 @@ type Summary struct {
 	// ConservationResidual is the relative imbalance of the energy ledger
 	// (Ledger.BalanceError): it proves the bookkeeping, not the accuracy.
 	ConservationResidual float64
-	// EnergyBalanceError is the former name of ConservationResidual and
-	// holds the same value.
-	//
-	// Deprecated: use ConservationResidual.
-	EnergyBalanceError float64
 	// FieldSolutions counts the standing wave's field computations (0 in
 	// the other modes).
 	FieldSolutions      int
