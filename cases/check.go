@@ -99,6 +99,7 @@ func Check(w io.Writer, c *Case) error {
 	warnings := chkEstimates(p, c)
 	warnings = append(warnings, volWarnings...)
 	warnings = append(warnings, meshWarnings(c)...)
+	warnings = append(warnings, compositeWarnings(c)...)
 	warnings = append(warnings, looseWarnings(c)...)
 	p.Printf("\nWarnings\n")
 	if len(warnings) == 0 {
@@ -1255,4 +1256,23 @@ func chkDepth(d float64) string {
 		return "infinite"
 	}
 	return chkG3(d * 1e3)
+}
+
+// compositeWarnings warns where a composite ply absorbs volumetric heating:
+// its dielectric is only the resin's scaled by the resin's volume fraction.
+func compositeWarnings(c *Case) []string {
+	if c.Problem.Volumetric == nil {
+		return nil
+	}
+	var out []string
+	seen := map[*physics.Material]bool{}
+	for j, m := range c.Problem.Materials {
+		if m == nil || m.Composition == nil || m.Dielectric == nil || m.Dielectric.Shield || seen[m] {
+			continue
+		}
+		seen[m] = true
+		out = append(out, fmt.Sprintf("layer %s: the composite %s absorbs with its resin's loss factor scaled by the resin's volume fraction, the fibre taken as lossless: an estimate for glass fibre and wrong for carbon fibre, which conducts; give measured dielectric data of the ply",
+			c.Problem.Mesh.Layers[j].Name, m.Name))
+	}
+	return out
 }

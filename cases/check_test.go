@@ -157,3 +157,32 @@ func TestCheckWarnings(t *testing.T) {
 		t.Errorf("unexpected warnings in\n%s", out)
 	}
 }
+
+// A composite ply under volumetric heating draws the warning that its
+// dielectric is only an estimate.
+func TestCheckCompositeDielectricWarning(t *testing.T) {
+	ex, _ := ExampleByName("thick-laminate")
+	text := string(ex.Text) + `
+[materials.resin-LS1.dielectric]
+permittivity = 4
+loss_factor = 0.4
+
+[volumetric]
+frequency = "2.45 GHz"
+field = "1 kV/m"
+`
+	c, err := Parse("laminate-mw.toml", []byte(text), "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b strings.Builder
+	if err := Check(&b, c); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), "the composite ply-LS1 absorbs with its resin's loss factor scaled") {
+		t.Errorf("check lacks the composite dielectric warning:\n%s", b.String())
+	}
+	if got := c.Materials["ply-LS1"].Dielectric.LossFactor; math.Abs(got-0.4*0.4) > 1e-15 {
+		t.Errorf("ply loss factor %v, want 0.4 x (1 - 0.6)", got)
+	}
+}

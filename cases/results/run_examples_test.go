@@ -7,6 +7,8 @@ import (
 	"fmt"
 	"math"
 	"os"
+	"slices"
+	"strings"
 	"testing"
 )
 
@@ -185,5 +187,42 @@ func TestControlledExamplesHoldSensor(t *testing.T) {
 	}
 	if n < 3 {
 		t.Errorf("%d controlled examples, want at least 3", n)
+	}
+}
+
+func TestExampleThickLaminate(t *testing.T) {
+	c, r := runExample(t, "thick-laminate")
+	s := Summarize(c, r)
+	// The example meets its own criteria (min_cure, max_temperature,
+	// min_flow_window).
+	if s.Status != StatusOK || len(s.Criteria) != 3 {
+		t.Fatalf("status %q with %d criteria (%s), want ok with 3", s.Status, len(s.Criteria), s.Message)
+	}
+	// It shows what it is for: the core overshoots the 180 C hold, and the
+	// peak lies inside the 25 mm laminate (3 mm to 28 mm).
+	if !(s.OvershootK > 5) || !(s.PeakDepthMM > 3 && s.PeakDepthMM < 28) {
+		t.Errorf("overshoot %v K at %v mm: want a core overshoot inside the laminate", s.OvershootK, s.PeakDepthMM)
+	}
+	if s.FlowWindowS == nil || !(*s.FlowWindowS > 1200) || s.MinViscosityPaS == nil || !(*s.MinViscosityPaS > 0) {
+		t.Errorf("flow window %v, min viscosity %v", s.FlowWindowS, s.MinViscosityPaS)
+	}
+	// The heat of reaction of the plies is the resin's mass fraction of the
+	// resin's (energy balance holds with it).
+	if s.ConservationResidual > 1e-9 {
+		t.Errorf("conservation residual %g", s.ConservationResidual)
+	}
+	dir := t.TempDir()
+	if err := WriteRun(dir, c, r, s); err != nil {
+		t.Fatal(err)
+	}
+	for file, col := range map[string]string{FieldsFile: ViscosityColumn, ProbesFile: ProbeViscosityColumn("15.5")} {
+		b, err := os.ReadFile(dir + "/" + file)
+		if err != nil {
+			t.Fatal(err)
+		}
+		head, _, _ := strings.Cut(string(b), "\n")
+		if !slices.Contains(strings.Split(head, ","), col) {
+			t.Errorf("%s header %q lacks %s", file, head, col)
+		}
 	}
 }
