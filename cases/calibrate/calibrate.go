@@ -120,21 +120,22 @@ func header(r *Result) string {
 	}
 	line("Calibrated by cureslab against %s (%d thermocouples, %d readings):", r.Log.File, len(r.Log.Probes), r.Readings)
 	for _, p := range r.Params {
-		v, se := withError(p.Value, p.SE)
-		d := decimalsOf(p.SE)
-		iv := ""
-		if !math.IsNaN(p.Low) {
-			iv = fmt.Sprintf(" (95 %%: %s to %s)", fmtDec(p.Low, d), fmtDec(p.High, d))
-		}
+		v, se, iv := p.Shown()
+		start := strconv.FormatFloat(p.Start, 'g', 6, 64)
 		unit := ""
 		if p.Unit != "" {
 			unit = " " + p.Unit
 		}
-		if math.IsNaN(p.SE) {
-			line("  %s: %s -> %s%s (no standard error)", p.Key, strconv.FormatFloat(p.Start, 'g', 6, 64), v, unit)
-			continue
+		switch {
+		case p.AtBound:
+			line("  %s: %s -> %s%s (at a bound of its range; no standard error)", p.Key, start, v, unit)
+		case math.IsNaN(p.SE):
+			line("  %s: %s -> %s%s (no standard error)", p.Key, start, v, unit)
+		case iv == "—":
+			line("  %s: %s -> %s ± %s%s", p.Key, start, v, se, unit)
+		default:
+			line("  %s: %s -> %s ± %s%s (95 %%: %s)", p.Key, start, v, se, unit, iv)
 		}
-		line("  %s: %s -> %s ± %s%s%s", p.Key, strconv.FormatFloat(p.Start, 'g', 6, 64), v, se, unit, iv)
 	}
 	line("RMS residual %.3f K (%.3f K with the case's own values).", r.RMSAll, r.StartRMSAll)
 	for _, w := range r.Warnings {

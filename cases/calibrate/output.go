@@ -89,33 +89,29 @@ func writeResidualsCSV(w io.Writer, r *Result) error {
 	return cw.Error()
 }
 
-// withError formats v and its standard error se to the same decimals, two
-// significant digits of se (common practice for stating an uncertainty);
-// four significant digits of v when se is not known.
-func withError(v, se float64) (string, string) {
-	if math.IsNaN(se) || !(se > 0) {
-		return strconv.FormatFloat(v, 'g', 4, 64), "—"
+// Shown returns the value, its standard error and its 95 % interval as
+// text, to the decimals of two significant digits of the standard error
+// (common practice for stating an uncertainty), or to four significant
+// digits of the value when the standard error is not known; "—" for what
+// the log does not determine, and "at a bound" as the interval of a value
+// that ended on a bound of its range.
+func (p Param) Shown() (value, se, interval string) {
+	f := func(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
+	if p.SE > 0 && !math.IsInf(p.SE, 0) {
+		d := max(0, 1-int(math.Floor(math.Log10(p.SE))))
+		f = func(v float64) string { return strconv.FormatFloat(v, 'f', d, 64) }
 	}
-	d := max(0, 1-int(math.Floor(math.Log10(se))))
-	return strconv.FormatFloat(v, 'f', d, 64), strconv.FormatFloat(se, 'f', d, 64)
-}
-
-// decimalsOf returns the decimals withError uses for se.
-func decimalsOf(se float64) int {
-	if math.IsNaN(se) || !(se > 0) {
-		return -1
+	value, se, interval = f(p.Value), "—", "—"
+	if !math.IsNaN(p.SE) {
+		se = f(p.SE)
 	}
-	return max(0, 1-int(math.Floor(math.Log10(se))))
-}
-
-func fmtDec(v float64, d int) string {
-	if math.IsNaN(v) {
-		return "—"
+	if !math.IsNaN(p.Low) && !math.IsNaN(p.High) {
+		interval = f(p.Low) + " to " + f(p.High)
 	}
-	if d < 0 {
-		return strconv.FormatFloat(v, 'g', 4, 64)
+	if p.AtBound {
+		se, interval = "—", "at a bound"
 	}
-	return strconv.FormatFloat(v, 'f', d, 64)
+	return value, se, interval
 }
 
 // statusLine says how the fit ended.
@@ -141,15 +137,7 @@ func Print(w io.Writer, r *Result) {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "  free value\tcase\tfitted\tstd. error\t95 % interval\tunit")
 	for _, p := range r.Params {
-		v, se := withError(p.Value, p.SE)
-		d := decimalsOf(p.SE)
-		iv := "—"
-		if !math.IsNaN(p.Low) {
-			iv = fmtDec(p.Low, d) + " to " + fmtDec(p.High, d)
-		}
-		if p.AtBound {
-			se, iv = "—", "at a bound"
-		}
+		v, se, iv := p.Shown()
 		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\t%s\n", p.Key, strconv.FormatFloat(p.Start, 'g', 6, 64), v, se, iv, unitOrDash(p.Unit))
 	}
 	tw.Flush()
@@ -162,15 +150,26 @@ func Print(w io.Writer, r *Result) {
 	}
 	fmt.Fprintf(tw, "  all\t%d\t%.3f\t%.3f\n", r.Readings, r.StartRMSAll, r.RMSAll)
 	tw.Flush()
-	fmt.Fprintf(w, "\nresidual standard deviation %.3f K on %d degrees of freedom (readings − free values)\n", r.Sigma, r.DoF)
+	dof := "readings − free values"
+	for _, p := range r.Params {
+		if p.AtBound {
+			dof = "readings − free values not on a bound"
+		}
+	}
+	fmt.Fprintf(w, "\nresidual standard deviation %.3f K on %d degrees of freedom (%s)\n", r.Sigma, r.DoF, dof)
 	if r.Corr != nil && len(r.Params) > 1 {
+		// A value on a bound has no correlations (NaN): left out.
 		var cs []string
 		for i := range r.Params {
 			for j := i + 1; j < len(r.Params); j++ {
-				cs = append(cs, fmt.Sprintf("%s – %s %+.2f", r.Params[i].Key, r.Params[j].Key, r.Corr.At(i, j)))
+				if c := r.Corr.At(i, j); !math.IsNaN(c) {
+					cs = append(cs, fmt.Sprintf("%s – %s %+.2f", r.Params[i].Key, r.Params[j].Key, c))
+				}
 			}
 		}
-		fmt.Fprintf(w, "correlations: %s\n", strings.Join(cs, "; "))
+		if len(cs) > 0 {
+			fmt.Fprintf(w, "correlations: %s\n", strings.Join(cs, "; "))
+		}
 	}
 	for _, s := range r.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", s)

@@ -109,37 +109,19 @@ func fmtG3(v float64) string {
 	return strconv.FormatFloat(v, 'f', 2, 64)
 }
 
-// calibrationValuesTable lists the free values with two significant digits
-// of the standard error.
+// calibrationValuesTable lists the free values as Param.Shown writes them.
 func calibrationValuesTable(r *calibrate.Result) template.HTML {
 	var rows [][]string
 	for _, p := range r.Params {
-		d := -1
-		if p.SE > 0 {
-			d = max(0, 1-int(math.Floor(math.Log10(p.SE))))
-		}
-		f := func(v float64) string {
-			switch {
-			case math.IsNaN(v):
-				return "n/a"
-			case d < 0:
-				return strconv.FormatFloat(v, 'g', 4, 64)
-			}
-			return strconv.FormatFloat(v, 'f', d, 64)
-		}
-		iv := f(p.Low) + " to " + f(p.High)
-		se := f(p.SE)
-		if math.IsNaN(p.Low) {
-			iv = "n/a"
-		}
+		v, se, iv := p.Shown()
 		if p.AtBound {
-			iv, se = "!at a bound of its range", "n/a"
+			iv = "!" + iv + " of its range"
 		}
 		unit := p.Unit
 		if unit == "" {
 			unit = "–"
 		}
-		rows = append(rows, []string{p.Key, strconv.FormatFloat(p.Start, 'g', 6, 64), f(p.Value), se, iv, unit})
+		rows = append(rows, []string{p.Key, strconv.FormatFloat(p.Start, 'g', 6, 64), v, se, iv, unit})
 	}
 	return tableHTML([]string{"free value", "case", "fitted", "standard error", "95 % interval", "unit"}, rows, map[int]bool{1: true, 2: true, 3: true, 4: true})
 }
@@ -158,7 +140,9 @@ func correlationTable(r *calibrate.Result) template.HTML {
 			if r.Corr != nil {
 				v := r.Corr.At(i, j)
 				c = fmt.Sprintf("%+.3f", v)
-				if i == j {
+				if math.IsNaN(v) {
+					c = "n/a"
+				} else if i == j {
 					c = "1"
 				} else if math.Abs(v) > 0.95 {
 					c = "!" + c

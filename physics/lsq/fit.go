@@ -52,9 +52,13 @@ type Estimate struct {
 	// the fitted scale (the logarithm for a Log Var, mapped back by exp),
 	// clipped to the bounds.
 	Low, High []float64
-	AtBound   []bool        // the value is at (within a relative 1e-6 of) one of its bounds: its SE and interval are NaN
-	Cov       *mat.SymDense // covariance of the values; nil when not identifiable
-	Corr      *mat.SymDense // correlations; nil when not identifiable
+	// AtBound: the value is at (within a relative 1e-6 of) one of its
+	// bounds. It is held there for the statistics: its SE, interval,
+	// covariances and correlations are NaN, and the others are those of a
+	// fit with it fixed (DoF counts the other unknowns only).
+	AtBound []bool
+	Cov     *mat.SymDense // covariance of the values; nil when not identifiable
+	Corr    *mat.SymDense // correlations; nil when not identifiable
 	// Identifiable is false when JᵀWJ is not numerically positive
 	// definite: some combination of the unknowns is not determined.
 	Identifiable bool
@@ -67,7 +71,7 @@ type Estimate struct {
 
 	Residuals []float64 // unweighted residuals (model − data) at Value
 	SSR       float64   // weighted sum of squared residuals at Value
-	M, DoF    int       // residuals, and degrees of freedom M − len(Vars)
+	M, DoF    int       // residuals, and degrees of freedom M − (unknowns not on a bound)
 	Sigma     float64   // residual standard deviation √(SSR/DoF), of a residual of weight 1
 	T         float64   // the Student-t quantile of the intervals
 
@@ -334,24 +338,61 @@ func Fit(ctx context.Context, pr Problem, s Settings) (*Estimate, error) {
 	if r.Jacobian == nil {
 		return e, nil
 	}
-	e.Null, e.Condition = Nullspace(r.Jacobian)
-	cov, ok := Covariance(r.Jacobian, r.Cost)
+	// A value on a bound is held there for the statistics: its column
+	// (near zero, as the transformation flattens there) is left out.
+	var free []int
+	for i := range p {
+		if !e.AtBound[i] {
+			free = append(free, i)
+		}
+	}
+	if len(free) == 0 {
+		return e, nil
+	}
+	J := r.Jacobian
+	if len(free) < p {
+		J = mat.NewDense(m, len(free), nil)
+		for k, i := range free {
+			for row := range m {
+				J.Set(row, k, r.Jacobian.At(row, i))
+			}
+		}
+		e.DoF = m - len(free)
+		e.Sigma = math.Sqrt(e.SSR / float64(e.DoF))
+		e.T = TQuantile(level, e.DoF)
+	}
+	null, cond := Nullspace(J)
+	e.Condition = cond
+	if null != nil {
+		e.Null = make([]float64, p)
+		for k, i := range free {
+			e.Null[i] = null[k]
+		}
+	}
+	cov, ok := Covariance(J, r.Cost)
 	e.Identifiable = ok
 	if !ok {
 		return e, nil
 	}
-	e.Corr = Correlation(cov)
-	e.Cov = mat.NewSymDense(p, nil)
+	corr := Correlation(cov)
+	e.Corr, e.Cov = mat.NewSymDense(p, nil), mat.NewSymDense(p, nil)
 	for i := range p {
 		for j := i; j < p; j++ {
-			e.Cov.SetSym(i, j, dv[i]*cov.At(i, j)*dv[j])
+			e.Corr.SetSym(i, j, math.NaN())
+			e.Cov.SetSym(i, j, math.NaN())
 		}
 	}
-	for i := range p {
-		if e.AtBound[i] {
-			continue
+	for a, i := range free {
+		for b, j := range free {
+			if j < i {
+				continue
+			}
+			e.Corr.SetSym(i, j, corr.At(a, b))
+			e.Cov.SetSym(i, j, dv[i]*cov.At(a, b)*dv[j])
 		}
-		su := math.Sqrt(cov.At(i, i))
+	}
+	for a, i := range free {
+		su := math.Sqrt(cov.At(a, a))
 		e.SE[i] = math.Abs(dv[i]) * su
 		y, _ := tr[i].y(r.X[i])
 		h := e.T * math.Abs(dy[i]) * su

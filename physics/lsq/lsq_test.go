@@ -335,6 +335,23 @@ func TestFitAtBound(t *testing.T) {
 	if est.AtBound[0] || est.AtBound[2] {
 		t.Errorf("a and c are not at a bound: %v", est.AtBound)
 	}
+	// a and c get the statistics of a fit with b fixed at 0.2: the same
+	// values, standard errors and correlation as fitting a and c alone
+	// (on 30 − 2 degrees of freedom).
+	fixed, err := Fit(context.Background(), Problem{Vars: []Var{vars[0], vars[2]}, M: len(e.t), Residuals: func(dst, p []float64) {
+		e.residuals(dst, []float64{p[0], 0.2, p[1]})
+	}}, Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, i := range []int{0, 2} {
+		if math.Abs(est.Value[i]/fixed.Value[k]-1) > 1e-5 || math.Abs(est.SE[i]/fixed.SE[k]-1) > 1e-3 {
+			t.Errorf("parameter %d: %g ± %g at the bound, %g ± %g with b fixed", i, est.Value[i], est.SE[i], fixed.Value[k], fixed.SE[k])
+		}
+	}
+	if est.DoF != 28 || math.Abs(est.Corr.At(0, 2)-fixed.Corr.At(0, 1)) > 1e-3 || !math.IsNaN(est.Corr.At(0, 1)) {
+		t.Errorf("DoF %d, correlation %g (b fixed: %g), with b %g", est.DoF, est.Corr.At(0, 2), fixed.Corr.At(0, 1), est.Corr.At(0, 1))
+	}
 }
 
 func TestFitNotIdentifiable(t *testing.T) {
