@@ -115,12 +115,21 @@ func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
 	m := c.Problem.Mesh
 	n := m.Cells()
 	curing := make([]bool, n)
-	mid := make([][]byte, n) // ",depth,layer," of each cell
+	// mid[i] is ",depth,layer," of cell i, as encoding/csv writes it: all
+	// cells through one csv.Writer into one buffer, then sliced.
+	var cells bytes.Buffer
+	cw := csv.NewWriter(&cells)
+	ends := make([]int, n+1)
 	for i := range n {
 		j := m.Owner[i]
 		curing[i] = j < len(c.Problem.Materials) && c.Problem.Materials[j] != nil && c.Problem.Materials[j].Cure != nil
-		rec := appendCSVRecord(nil, []string{"", num.FormatDepth(m.Centers[i]), m.Layers[j].Name, ""})
-		mid[i] = rec[:len(rec)-1] // without its newline
+		cw.Write([]string{"", num.FormatDepth(m.Centers[i]), m.Layers[j].Name, ""}) // a bytes.Buffer does not fail
+		cw.Flush()
+		ends[i+1] = cells.Len()
+	}
+	mid := make([][]byte, n)
+	for i := range n {
+		mid[i] = cells.Bytes()[ends[i] : ends[i+1]-1] // without its newline
 	}
 	b := appendCSVRecord(make([]byte, 0, csvChunk+512), head)
 	var t []byte
