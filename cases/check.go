@@ -783,7 +783,9 @@ func chkRunaway(p *textout.Printer, c *Case, e Estimate) []string {
 	}
 	fmt.Fprintf(tw, "      hottest hold\t%s C %s\n", chkF(rs.T-273.15, 1), hold)
 	pr := c.Problem
+	caveat := "" // how the screen's assumptions differ from the case
 	if _, driven := DrivingMax(pr); !driven {
+		caveat = "; no program drives the case, so it was screened at the initial temperature and understates the risk"
 		fmt.Fprintf(tw, "      note\tno program drives the case: screened at the initial temperature, which understates the risk when a lamp or an uncontrolled field heats the part; judge by a run\n")
 	} else {
 		cool := math.Inf(1) // the hottest the faces' surroundings get, K
@@ -796,6 +798,7 @@ func chkRunaway(p *textout.Printer, c *Case, e Estimate) []string {
 			}
 		}
 		if cool < rs.T-1 {
+			caveat = fmt.Sprintf("; the screen overstates the risk here: it takes the faces' surroundings at the hold, while the air or platen stays at %s C", chkF(cool-273.15, 0))
 			fmt.Fprintf(tw, "      note\tthe screen takes the faces' surroundings at the hold temperature; here one reaches only %s C, which takes more heat away than the screen assumes\n", chkF(cool-273.15, 1))
 		}
 	}
@@ -819,7 +822,7 @@ func chkRunaway(p *textout.Printer, c *Case, e Estimate) []string {
 	fmt.Fprintf(tw, "      Biot numbers h*l/k\ttop %s, bottom %s\tl = %s mm; each face's path to the air or platen through the layers beyond it, at %s C\n",
 		biot(rs.BiTop), biot(rs.BiBottom), num.FormatDepth(rs.Length), chkF(rs.T-273.15, 0))
 	fmt.Fprintf(tw, "      delta\t%s\tE/(R T^2) * heat release at the fastest rate * l^2 / k\n", chkG3(rs.Delta))
-	fmt.Fprintf(tw, "      critical delta\t%s\tfor these Biot numbers: largest delta with a steady state of theta'' + delta*exp(theta) = 0 (Frank-Kamenetskii; 0.8785 for held faces, Semenov's Bi/e for small Bi)\n",
+	fmt.Fprintf(tw, "      critical delta\t%s\tfor these Biot numbers: the largest delta with a steady state of theta'' + delta*exp(theta) = 0, from its closed-form solutions (Frank-Kamenetskii, Diffusion and Heat Transfer in Chemical Kinetics, 1969): 0.8785 for held faces, Semenov's Bi/e for small Bi\n",
 		chkG3(rs.Critical))
 	p.Flush(tw)
 	ratio := rs.Delta / rs.Critical
@@ -839,11 +842,11 @@ func chkRunaway(p *textout.Printer, c *Case, e Estimate) []string {
 	case rs.Critical == 0:
 		return []string{fmt.Sprintf("layer %s: no heat leaves it through either face: any reaction heat accumulates (adiabatic): expect its full adiabatic rise.", e.Layer)}
 	case ratio >= 1:
-		return []string{fmt.Sprintf("layer %s: the Frank-Kamenetskii delta %s at the %s C hold exceeds its critical %s for these faces (%.0f %%): no steady state exists while the resin reacts at that rate: expect a runaway exotherm unless the resin runs out first%s. Lower the hold, cure thinner, or cool the faces better, and keep within the supplier's limits.",
-			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), chkG3(rs.Critical), 100*ratio, left)}
+		return []string{fmt.Sprintf("layer %s: the Frank-Kamenetskii delta %s at the %s C hold exceeds its critical %s for these faces (%.0f %%): no steady state exists while the resin reacts at that rate: expect a runaway exotherm unless the resin runs out first%s%s. Lower the hold, cure thinner, or cool the faces better, and keep within the supplier's limits.",
+			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), chkG3(rs.Critical), 100*ratio, left, caveat)}
 	case ratio >= RunawayCaution:
-		return []string{fmt.Sprintf("layer %s: the Frank-Kamenetskii delta %s at the %s C hold is %.0f %% of its critical %s for these faces (caution from %.0f %%): close to thermal runaway%s; a thicker layer, a hotter hold or weaker cooling would tip it over.",
-			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), 100*ratio, chkG3(rs.Critical), 100*RunawayCaution, left)}
+		return []string{fmt.Sprintf("layer %s: the Frank-Kamenetskii delta %s at the %s C hold is %.0f %% of its critical %s for these faces (caution from %.0f %%): close to thermal runaway%s%s; a thicker layer, a hotter hold or weaker cooling would tip it over.",
+			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), 100*ratio, chkG3(rs.Critical), 100*RunawayCaution, left, caveat)}
 	}
 	return nil
 }
