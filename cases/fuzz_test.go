@@ -1,24 +1,27 @@
-package cases
-
-// Fuzz targets for every reader of package cases. Each asserts properties
-// that hold for any input, not just "no panic":
-//
-//	FuzzParseResolved   case file (TOML + units + validation) end to end
-//	FuzzUnitsRoundTrip  units.Parse against formatting in SI and other units
-//	FuzzScheduleCSV     the schedule-log CSV reader, through Parse
-//	FuzzScanCSV         the DSC scan reader (ParseScan), with a WriteScan round trip
-//	FuzzCaseValues      the values of a valid case: ranges, and the solver behind them
-//
-// `go test` runs the seeds (the files below testdata/good, testdata/bad,
-// cases/examples and cases/testdata/fuzz/<Target>/); long runs are
-//
-//	go test ./cases -run '^$' -fuzz '^FuzzParseResolved$' -fuzztime 10m
-//
-// (see testdata/fuzz/README.md for the record of the runs).
+package cases_test
 
 import (
 	"bytes"
 	"context"
+	"cureslab/cases"
+	"cureslab/cases/check"
+	"cureslab/cases/units"
+	"cureslab/solver" // Fuzz targets for every reader of package cases. Each asserts properties
+
+	// that hold for any input, not just "no panic":
+	//
+	//	FuzzParseResolved   case file (TOML + units + validation) end to end
+	//	FuzzUnitsRoundTrip  units.Parse against formatting in SI and other units
+	//	FuzzScheduleCSV     the schedule-log CSV reader, through cases.Parse
+	//	FuzzScanCSV         the DSC scan reader (ParseScan), with a WriteScan round trip
+	//	FuzzCaseValues      the values of a valid case: ranges, and the solver behind them
+	//
+	// `go test` runs the seeds (the files below testdata/good, testdata/bad,
+	// cases/examples and cases/testdata/fuzz/<Target>/); long runs are
+	//
+	//	go test ./cases -run '^$' -fuzz '^FuzzParseResolved$' -fuzztime 10m
+	//
+	// (see testdata/fuzz/README.md for the record of the runs).
 	"errors"
 	"fmt"
 	"io"
@@ -32,14 +35,16 @@ import (
 	"strings"
 	"testing"
 	"time"
+)
 
-	"cureslab/cases/units"
-	"cureslab/solver"
+const (
+	badDir  = "../testdata/bad"
+	goodDir = "../testdata/good"
 )
 
 // fzSentinels are the kinds every *Error wraps exactly one of.
-var fzSentinels = []error{ErrSyntax, ErrUnknownKey, ErrType, ErrUnit, ErrRange, ErrMissing,
-	ErrDuplicate, ErrReference, ErrFile}
+var fzSentinels = []error{cases.ErrSyntax, cases.ErrUnknownKey, cases.ErrType, cases.ErrUnit, cases.ErrRange, cases.ErrMissing,
+	cases.ErrDuplicate, cases.ErrReference, cases.ErrFile}
 
 // fzSeedFiles adds every file matching the globs to f.
 func fzSeedFiles(f *testing.F, globs ...string) {
@@ -57,16 +62,16 @@ func fzSeedFiles(f *testing.F, globs ...string) {
 // newline counts; an empty text has one line).
 func fzLineCount(data []byte) int { return bytes.Count(data, []byte("\n")) + 1 }
 
-// fzCheckErrors checks the contract of Parse's errors: a non-empty
-// ErrorList of *Error, each wrapping exactly one sentinel, with a file, a
+// fzCheckErrors checks the contract of cases.Parse's errors: a non-empty
+// cases.ErrorList of *Error, each wrapping exactly one sentinel, with a file, a
 // message, and a line inside the file it names. A line of 0 (no position)
-// is allowed only for a missing value or section (ErrMissing) and for the
+// is allowed only for a missing value or section (cases.ErrMissing) and for the
 // "N more errors not shown" line that closes a long list for another file.
 // name and data are the case file; other maps further files to their
 // line counts.
-func fzCheckErrors(t *testing.T, err error, name string, data []byte, other map[string]int) ErrorList {
+func fzCheckErrors(t *testing.T, err error, name string, data []byte, other map[string]int) cases.ErrorList {
 	t.Helper()
-	var list ErrorList
+	var list cases.ErrorList
 	if !errors.As(err, &list) || len(list) == 0 {
 		t.Fatalf("error %T is not a non-empty ErrorList: %v", err, err)
 	}
@@ -100,7 +105,7 @@ func fzCheckErrors(t *testing.T, err error, name string, data []byte, other map[
 			t.Errorf("negative position: %#v", e)
 		case e.Line > lines:
 			t.Errorf("line %d beyond the %d lines of %s: %v", e.Line, lines, e.File, e)
-		case e.Line == 0 && !errors.Is(e, ErrMissing) && !(e.File != name && strings.Contains(e.Err.Error(), "more errors")):
+		case e.Line == 0 && !errors.Is(e, cases.ErrMissing) && !(e.File != name && strings.Contains(e.Err.Error(), "more errors")):
 			t.Errorf("error without a position (only missing sections may have none): %v", e)
 		}
 	}
@@ -109,17 +114,17 @@ func fzCheckErrors(t *testing.T, err error, name string, data []byte, other map[
 
 // fzCheckUnknownKeyLines checks that an unknown key that is a bare key is
 // reported on a line of the case that spells it.
-func fzCheckUnknownKeyLines(t *testing.T, list ErrorList, data []byte) {
+func fzCheckUnknownKeyLines(t *testing.T, list cases.ErrorList, data []byte) {
 	t.Helper()
 	lines := strings.Split(string(data), "\n")
 	for _, e := range list {
-		if !errors.Is(e, ErrUnknownKey) || e.Line < 1 || e.Line > len(lines) {
+		if !errors.Is(e, cases.ErrUnknownKey) || e.Line < 1 || e.Line > len(lines) {
 			continue
 		}
-		k := lastKey(e.Key)
+		k := e.Key[strings.LastIndexByte(e.Key, '.')+1:] // the last part of the key path
 		bare := k != ""
 		for i := 0; i < len(k); i++ {
-			bare = bare && IsBare(k[i])
+			bare = bare && cases.IsBare(k[i])
 		}
 		if bare && strings.Contains(e.Key, k) && !strings.Contains(lines[e.Line-1], k) {
 			t.Errorf("unknown key %q reported on line %d, which is %q", e.Key, e.Line, lines[e.Line-1])
@@ -225,7 +230,7 @@ func fzSameModel(a, b reflect.Value, path string) (bool, string) {
 // up to the stack, one valid material per layer, a positive finite end with
 // output times that increase to it, probes inside the stack, and every
 // resolved number finite (except the criteria, whose NaN means "not set").
-func fzCheckResolved(t *testing.T, c *Case) {
+func fzCheckResolved(t *testing.T, c *cases.Case) {
 	t.Helper()
 	p := c.Problem
 	if p == nil || p.Mesh == nil || p.Mesh.Cells() == 0 {
@@ -300,7 +305,7 @@ func fzCheckResolved(t *testing.T, c *Case) {
 // the solver must accept the problem (no ErrProblem for a case the loader
 // accepted), must not panic, and every snapshot must hold finite
 // temperatures and cures in [0, 1] (NaN only in cells that do not cure).
-func fzShortRun(t *testing.T, c *Case, budget time.Duration) {
+func fzShortRun(t *testing.T, c *cases.Case, budget time.Duration) {
 	t.Helper()
 	ctx, cancel := context.WithTimeout(context.Background(), budget)
 	defer cancel()
@@ -317,7 +322,7 @@ func fzShortRun(t *testing.T, c *Case, budget time.Duration) {
 // fzCheckSnapshots checks every snapshot of r for values no output file may
 // hold: non-finite temperatures, cure outside [0, 1] in curing cells, a
 // cure value in a cell that does not cure.
-func fzCheckSnapshots(t testing.TB, c *Case, r *solver.Result) {
+func fzCheckSnapshots(t testing.TB, c *cases.Case, r *solver.Result) {
 	t.Helper()
 	m := c.Problem.Mesh
 	anyCuring := false
@@ -367,9 +372,9 @@ func fzWatchdog(limit time.Duration, input []byte) (stop func()) {
 	return func() { tm.Stop() }
 }
 
-// FuzzParseResolved feeds any bytes to Parse as a case file. Properties:
+// FuzzParseResolved feeds any bytes to cases.Parse as a case file. Properties:
 //   - no panic;
-//   - a rejection is an ErrorList of positioned *Error (fzCheckErrors), and
+//   - a rejection is an cases.ErrorList of positioned *Error (fzCheckErrors), and
 //     an unknown bare key is reported on a line that spells it;
 //   - an accepted case is complete and consistent (fzCheckResolved);
 //   - parsing is deterministic: the same bytes give the same resolved model
@@ -381,7 +386,7 @@ func FuzzParseResolved(f *testing.F) {
 	fzSeedFiles(f, filepath.Join(goodDir, "*.toml"), filepath.Join(badDir, "*.toml"), "examples/*.toml")
 	f.Fuzz(func(t *testing.T, data []byte) {
 		defer fzWatchdog(fzHangLimit, data)()
-		c, err := Parse("fuzz.toml", data, goodDir)
+		c, err := cases.Parse("fuzz.toml", data, goodDir)
 		if err != nil {
 			other := map[string]int{}
 			for _, name := range []string{"oven-log.csv", "bad-log.csv", "bad-header.csv"} {
@@ -392,14 +397,14 @@ func FuzzParseResolved(f *testing.F) {
 			list := fzCheckErrors(t, err, "fuzz.toml", data, other)
 			fzCheckUnknownKeyLines(t, list, data)
 			// Determinism of the rejection, too.
-			_, err2 := Parse("fuzz.toml", data, goodDir)
+			_, err2 := cases.Parse("fuzz.toml", data, goodDir)
 			if err2 == nil || err2.Error() != err.Error() {
 				t.Fatalf("second parse gives a different result:\n%v\n---\n%v", err, err2)
 			}
 			return
 		}
 		fzCheckResolved(t, c)
-		c2, err := Parse("fuzz.toml", data, goodDir)
+		c2, err := cases.Parse("fuzz.toml", data, goodDir)
 		if err != nil {
 			t.Fatalf("second parse fails: %v", err)
 		}
@@ -407,10 +412,10 @@ func FuzzParseResolved(f *testing.F) {
 			t.Fatalf("second parse resolves a different model at %s", where)
 		}
 		var b1, b2 bytes.Buffer
-		if err := Check(&b1, c); err != nil {
+		if err := check.Check(&b1, c); err != nil {
 			t.Fatalf("Check: %v", err)
 		}
-		if err := Check(&b2, c2); err != nil || b1.String() != b2.String() {
+		if err := check.Check(&b2, c2); err != nil || b1.String() != b2.String() {
 			t.Fatalf("check text differs between two parses of the same bytes (err %v)", err)
 		}
 		fzShortRun(t, c, 20*time.Millisecond)
@@ -632,7 +637,7 @@ func FuzzScheduleCSV(f *testing.F) {
 		if err := os.WriteFile(log, data, 0o644); err != nil {
 			t.Fatal(err)
 		}
-		c, err := Parse("case.toml", []byte(fzScheduleCase), dir)
+		c, err := cases.Parse("case.toml", []byte(fzScheduleCase), dir)
 		times, temps, bad, simple := fzLogOracle(data)
 		if err != nil {
 			list := fzCheckErrors(t, err, "case.toml", []byte(fzScheduleCase), map[string]int{log: fzLineCount(data)})
@@ -745,21 +750,21 @@ func FuzzCaseValues(f *testing.F) {
 	f.Fuzz(func(t *testing.T, T0, cure, end, th1, th2, rc, k, heat, A1, E1, n, ramp, h, Tbot, probe float64) {
 		data := []byte(fmt.Sprintf(fzValuesCase, T0, cure, end, th1, th2, rc, k, heat, A1, E1, n, ramp, h, Tbot, probe))
 		defer fzWatchdog(fzHangLimit, data)()
-		c, err := Parse("values.toml", data, "")
+		c, err := cases.Parse("values.toml", data, "")
 		if err != nil {
 			list := fzCheckErrors(t, err, "values.toml", data, nil)
 			fzCheckUnknownKeyLines(t, list, data)
 			return
 		}
 		fzCheckResolved(t, c)
-		c2, err := Parse("values.toml", data, "")
+		c2, err := cases.Parse("values.toml", data, "")
 		if err != nil {
 			t.Fatalf("second parse fails: %v", err)
 		}
 		if ok, where := fzSameModel(reflect.ValueOf(c), reflect.ValueOf(c2), "Case"); !ok {
 			t.Fatalf("second parse resolves a different model at %s", where)
 		}
-		if err := Check(io.Discard, c); err != nil {
+		if err := check.Check(io.Discard, c); err != nil {
 			t.Fatalf("Check: %v", err)
 		}
 		fzShortRun(t, c, 20*time.Millisecond)

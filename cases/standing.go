@@ -12,7 +12,7 @@ import (
 // returns the absorbed power per cell per unit incident power density
 // (ε″ K, 1/m, both sources added under IncidentBoth) and the shares of the
 // incident power. Cost: one physics.Wave.Absorb, O(cells · band points).
-func stackWave(pr *solver.Problem, band physics.Band, inc physics.Incidence, T, a float64) ([]float64, physics.WaveShares) {
+func StackWave(pr *solver.Problem, band physics.Band, inc physics.Incidence, T, a float64) ([]float64, physics.WaveShares) {
 	m := pr.Mesh
 	n := m.Cells()
 	slabs := make([]physics.Slab, n)

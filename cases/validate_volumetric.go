@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 
+	"cureslab/cases/internal/num"
 	"cureslab/cases/units"
 	"cureslab/physics"
 )
@@ -247,7 +248,7 @@ func (l *loader) band(t *table, d *volDef) {
 	}
 	if !(lo > 0) || !(hi > lo) {
 		l.atValue(path, ErrRange, "band must run from a positive lowest frequency to a higher one, got %s to %s",
-			formatFrequency(lo), formatFrequency(hi)).Hint = hint + "; for one frequency write frequency = \"2.45 GHz\""
+			FormatFrequency(lo), FormatFrequency(hi)).Hint = hint + "; for one frequency write frequency = \"2.45 GHz\""
 		return
 	}
 	n := int64(physics.DefaultBandPoints)
@@ -398,7 +399,7 @@ func (l *loader) checkAbsorbers(layers []layerDef, v *physics.Volumetric) {
 
 // frequencyNote returns a note for check when f is outside every ISM band
 // allotted to industrial heating, "" when it is inside one.
-func frequencyNote(f float64) string {
+func FrequencyNote(f float64) string {
 	for _, b := range ismBands {
 		if f >= b.lo && f <= b.hi {
 			return ""
@@ -406,7 +407,7 @@ func frequencyNote(f float64) string {
 	}
 	return fmt.Sprintf("the frequency %s lies outside the ISM bands allotted to industrial heating (13.56, 27.12, 40.68 MHz; 915 MHz in the Americas; 2450, 5800 MHz): "+
 		"check the frequency, and that the loss factors were measured at it.",
-		formatFrequency(f))
+		FormatFrequency(f))
 }
 
 // ismBands are the industrial, scientific and medical bands used for
@@ -422,16 +423,16 @@ var ismBands = []struct{ lo, hi float64 }{
 }
 
 // formatFrequency writes f (Hz) in kHz, MHz or GHz with up to 6 digits.
-func formatFrequency(f float64) string {
+func FormatFrequency(f float64) string {
 	switch a := math.Abs(f); {
 	case a >= 1e9:
-		return chkG(f/1e9) + " GHz"
+		return num.G(f/1e9) + " GHz"
 	case a >= 1e6:
-		return chkG(f/1e6) + " MHz"
+		return num.G(f/1e6) + " MHz"
 	case a >= 1e3:
-		return chkG(f/1e3) + " kHz"
+		return num.G(f/1e3) + " kHz"
 	}
-	return chkG(f) + " Hz"
+	return num.G(f) + " Hz"
 }
 
 // sensorProbe returns the index of the probe at the sensor depth z, or −1.
@@ -445,3 +446,6 @@ func SensorProbe(probes []float64, z float64) int {
 	}
 	return -1
 }
+
+// chkG formats v with up to 6 significant digits (num.G), as check does.
+var chkG = num.G

@@ -11,7 +11,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
-	"cureslab/cases"
+	"cureslab/cases/check"
 	"cureslab/physics/lsq"
 	"cureslab/solver"
 )
@@ -42,7 +42,7 @@ type Result struct {
 	CaseFile, Title string // the case calibrated: its file and title
 	// Scope says which cautions apply to the case (a curing resin,
 	// volumetric heating).
-	Scope cases.CautionScope
+	Scope check.CautionScope
 	// Calibrated is the case text with the fitted values written in.
 	Calibrated string
 

@@ -28,7 +28,7 @@ var reportClock = func() time.Time { return time.Now() }
 // maps of temperature and of degree of cure (layer faces and the gel front
 // drawn), profiles through the thickness at chosen times, probe histories
 // with the driving air temperatures and the power fraction, the summary and
-// each acceptance criterion, and the cautions (cases.Cautions).
+// each acceptance criterion, and the cautions (check.Cautions).
 //
 // Method: the page shows exactly what fields.csv, probes.csv and
 // summary.json hold. Values are rounded as WriteRun writes them, so the

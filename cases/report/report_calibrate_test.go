@@ -11,6 +11,7 @@ import (
 
 	"cureslab/cases"
 	"cureslab/cases/calibrate"
+	"cureslab/cases/check"
 )
 
 // calibrationResult fits top.h and bottom.h of the calibration test slab to
@@ -80,7 +81,7 @@ func TestCalibrationReport(t *testing.T) {
 	if !strings.Contains(page, `<td class="fail">`) || !strings.Contains(page, htmlEscaped("the log cannot tell these apart")) {
 		t.Error("correlation beyond 0.95 not marked, or no warning")
 	}
-	for _, s := range cases.Cautions(cases.CautionScope{Curing: true}) {
+	for _, s := range check.Cautions(check.CautionScope{Curing: true}) {
 		if !strings.Contains(page, htmlEscaped(s)) {
 			t.Errorf("caution missing: %q", s)
 		}

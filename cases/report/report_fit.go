@@ -2,7 +2,7 @@ package report
 
 import (
 	"bytes"
-	"cureslab/cases"
+	"cureslab/cases/check"
 	"cureslab/cases/dscfile"
 	"cureslab/cases/internal/textout"
 	"cureslab/physics/dsc"
@@ -55,7 +55,7 @@ func WriteFitPlot(path string, an *dsc.Analysis, name string) error {
 }
 
 func renderFitPage(w io.Writer, an *dsc.Analysis, name string, now time.Time) error {
-	pg := &page{Title: "DSC fit: " + name, Kind: "DSC fit", Drawn: stamp(now), Scope: cases.CautionScope{Curing: true}}
+	pg := &page{Title: "DSC fit: " + name, Kind: "DSC fit", Drawn: stamp(now), Scope: check.CautionScope{Curing: true}}
 	if an.Fit != nil {
 		pg.Status, pg.StatusOK = fmt.Sprintf("fitted: R² %.4f, RMS residual %.2g %% of the peak rates", an.Fit.R2, 100*an.Fit.RMS), true
 	} else if an.FitRefused != "" {

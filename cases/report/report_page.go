@@ -1,7 +1,7 @@
 package report
 
 import (
-	"cureslab/cases"
+	"cureslab/cases/check"
 	"cureslab/cases/internal/num"
 	"html/template"
 	"io"
@@ -23,8 +23,8 @@ type page struct {
 	StatusOK bool
 	Alerts   []string // shown in a framed box under the title (failed criteria, runaway)
 	Sections []section
-	// Scope selects the cautions at the foot of the page (cases.Cautions).
-	Scope    cases.CautionScope
+	// Scope selects the cautions at the foot of the page (check.Cautions).
+	Scope    check.CautionScope
 	Cautions []string
 }
 
@@ -39,7 +39,7 @@ type section struct {
 
 // renderPage writes p as one HTML document.
 func renderPage(w io.Writer, p *page) error {
-	p.Cautions = cases.Cautions(p.Scope)
+	p.Cautions = check.Cautions(p.Scope)
 	return pageTemplate().Execute(w, p)
 }
 

@@ -1,7 +1,7 @@
 package report
 
 import (
-	"cureslab/cases"
+	"cureslab/cases/check"
 	"cureslab/cases/results"
 	"fmt"
 	"html/template"
@@ -31,7 +31,7 @@ const (
 func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 	s := d.Summary
 	pg := &page{Title: d.Title, Kind: "run report", Drawn: stamp(now),
-		Scope: cases.CautionScope{Curing: curingLayers(d) > 0, Volumetric: d.Volumetric}}
+		Scope: check.CautionScope{Curing: curingLayers(d) > 0, Volumetric: d.Volumetric}}
 	pg.Status, pg.StatusOK = statusBadge(s)
 	pg.Alerts = runAlerts(d)
 	ts := timeScaleFor(d.Times[len(d.Times)-1])

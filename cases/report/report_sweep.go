@@ -3,6 +3,7 @@ package report
 import (
 	"bytes"
 	"cureslab/cases"
+	"cureslab/cases/check"
 	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/textout"
 	"cureslab/cases/results"
@@ -236,11 +237,11 @@ var sweepLabels = map[string]string{
 // sweepScope returns the cautions' scope of a sweep page: the case's when
 // it is known; otherwise curing when a run has a final cure, and
 // volumetric (the caution is kept when the page cannot know).
-func sweepScope(sd *sweepData, c *cases.Case) cases.CautionScope {
+func sweepScope(sd *sweepData, c *cases.Case) check.CautionScope {
 	if c != nil {
-		return cases.ScopeOf(c)
+		return check.ScopeOf(c)
 	}
-	sc := cases.CautionScope{Volumetric: true}
+	sc := check.CautionScope{Volumetric: true}
 	for i := range sd.Rows {
 		if !math.IsNaN(sd.Rows[i].num(colCure)) {
 			sc.Curing = true
@@ -249,7 +250,7 @@ func sweepScope(sd *sweepData, c *cases.Case) cases.CautionScope {
 	return sc
 }
 
-func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Criteria, scope cases.CautionScope, now time.Time) error {
+func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Criteria, scope check.CautionScope, now time.Time) error {
 	pg := &page{Title: title, Kind: "sweep", Drawn: stamp(now), Scope: scope}
 	bad := 0
 	for i := range sd.Rows {

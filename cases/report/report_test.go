@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"cureslab/cases"
+	"cureslab/cases/check"
 	"cureslab/cases/results"
 	"cureslab/solver"
 	"encoding/base64"
@@ -325,7 +326,7 @@ func TestReportSelfContained(t *testing.T) {
 	if !strings.Contains(page, "<h1>Report test: slab &lt;&amp;&gt; plate</h1>") {
 		t.Error("title missing or not escaped")
 	}
-	for _, s := range cases.Cautions(cases.CautionScope{Curing: true}) {
+	for _, s := range check.Cautions(check.CautionScope{Curing: true}) {
 		if !strings.Contains(page, htmlEscaped(s)) {
 			t.Errorf("caution missing: %q", s)
 		}

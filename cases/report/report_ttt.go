@@ -2,7 +2,7 @@ package report
 
 import (
 	"bytes"
-	"cureslab/cases"
+	"cureslab/cases/check"
 	"cureslab/cases/internal/textout"
 	"cureslab/cases/ttt"
 	"errors"
@@ -101,7 +101,7 @@ func tttTimeScale(t *ttt.TTTTable) timeScale {
 }
 
 func renderTTTPage(w io.Writer, t *ttt.TTTTable, now time.Time) error {
-	pg := &page{Title: "TTT diagram: " + t.Material, Kind: "TTT diagram", Drawn: stamp(now), Scope: cases.CautionScope{Curing: true}}
+	pg := &page{Title: "TTT diagram: " + t.Material, Kind: "TTT diagram", Drawn: stamp(now), Scope: check.CautionScope{Curing: true}}
 	ts := tttTimeScale(t)
 	curves := tttCurves(t, ts)
 	plotted := 0

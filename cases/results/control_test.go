@@ -52,7 +52,7 @@ func TestGoodVolumetricOpenLoop(t *testing.T) {
 // has power_fraction after the air columns (README, Case file reference) with values in [0, 1],
 // and summary.json carries control_max_error_K.
 func TestControlledProbesAndSummary(t *testing.T) {
-	c := volCase(t, "permittivity = 20\nloss_factor = 5",
+	c := testkit.VolumetricCase(t, "permittivity = 20\nloss_factor = 5",
 		"[volumetric]\nfrequency = \"2.45 GHz\"\n[volumetric.control]\nsensor = \"5 mm\"\nprogram = \"cure\"\nmax_field = \"2 kV/m\"\n[output]\nprobes = [\"0 mm\"]\n")
 	c.Problem.End = 600
 	c.Problem.OutputTimes = []float64{120, 240, 360, 480, 600}
@@ -166,41 +166,4 @@ func checkSlice(t *testing.T, what string, got, want []float64) {
 			t.Errorf("%s[%d] = %.15g, want %.15g", what, i, got[i], want[i])
 		}
 	}
-}
-
-// volCase is a small case with volumetric heating for check and output
-// tests: one layer of material mat under still air, the [volumetric] and
-// extra text given.
-func volCase(t *testing.T, dielectric, volumetric string) *cases.Case {
-	t.Helper()
-	src := `title = "volumetric check"
-[initial]
-temperature = "20 C"
-[time]
-end = "30 min"
-[[layer]]
-name = "wet"
-material = "wet"
-thickness = "10 mm"
-[materials.wet]
-density = "1000 kg/m^3"
-specific_heat = "4180 J/kg/K"
-conductivity = "0.6 W/m/K"
-[materials.wet.dielectric]
-` + dielectric + `
-[schedules.cure]
-start = "20 C"
-segments = [{ ramp = "5 C/min", to = "60 C" }, { hold = "20 min" }]
-[top]
-kind = "convection"
-h = "5 W/m^2/K"
-air = "20 C"
-[bottom]
-kind = "insulated"
-` + volumetric
-	c, err := cases.Parse("vol.toml", []byte(src), "")
-	if err != nil {
-		t.Fatalf("Parse: %v", err)
-	}
-	return c
 }

@@ -3,6 +3,7 @@ package results
 import (
 	"context"
 	"cureslab/cases"
+	"cureslab/cases/check"
 	"cureslab/solver"
 	"fmt"
 	"math"
@@ -69,8 +70,8 @@ func TestExampleThickPotting(t *testing.T) {
 	if r.Status != solver.OK {
 		t.Fatalf("run ended %v: %v", r.Status, r.Err)
 	}
-	prog, _ := cases.DrivingMax(c.Problem)
-	est := cases.Estimates(c)
+	prog, _ := check.DrivingMax(c.Problem)
+	est := check.Estimates(c)
 	if len(est) != 1 {
 		t.Fatalf("%d curing layers, want 1", len(est))
 	}

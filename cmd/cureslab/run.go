@@ -1,6 +1,7 @@
 package main
 
 import (
+	casecheck "cureslab/cases/check"
 	"cureslab/cases/simulate"
 	"fmt"
 	"os"
@@ -197,7 +198,7 @@ Exit status: 0 the case is valid, 2 it is not (the errors go to stderr).`,
 				fmt.Fprintln(e.stderr, err)
 				return exitUsage
 			}
-			if err := cases.Check(e.stdout, c); err != nil {
+			if err := casecheck.Check(e.stdout, c); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab check: %v\n", err)
 				return exitUsage
 			}
@@ -302,7 +303,7 @@ cureslab materials fr4`,
 					return e.usageError("no built-in material or fibre named %q%s", args[0], didYouMean(args[0], append(physics.BuiltinNames(), names...)))
 				}
 				fmt.Fprintf(e.stdout, "%s\n", m.Name)
-				for _, line := range cases.DescribeMaterial(m) {
+				for _, line := range casecheck.DescribeMaterial(m) {
 					fmt.Fprintf(e.stdout, "  %s\n", line)
 				}
 				return exitOK

@@ -94,3 +94,11 @@ func At(s []float64, i int) float64 {
 
 // kelvinToC converts an absolute temperature from K to °C.
 func KtoC(T float64) float64 { return T - 273.15 }
+
+// G formats v with up to 6 significant digits, no trailing zeros.
+func G(v float64) string {
+	if v == 0 {
+		return "0"
+	}
+	return strconv.FormatFloat(v, 'g', 6, 64)
+}

@@ -1,8 +1,9 @@
-package cases
+package check
 
 import (
 	"math"
 
+	"cureslab/cases"
 	"cureslab/physics"
 	"cureslab/solver"
 )
@@ -63,7 +64,7 @@ func hottestProgram(pr *solver.Problem) *physics.Schedule {
 			consider(s)
 		}
 	}
-	if Controlled(pr) {
+	if cases.Controlled(pr) {
 		consider(&pr.Volumetric.Control.Program)
 	}
 	return best
@@ -88,7 +89,7 @@ func pathResistance(f *physics.Face, T float64) float64 {
 // screenRunaway returns the runaway screen of layer j of c at temperature
 // T0 (the hottest hold) of program prog (nil: the initial state is the
 // hold). Preconditions: layer j cures.
-func screenRunaway(c *Case, j int, T0 float64, prog *physics.Schedule) Runaway {
+func screenRunaway(c *cases.Case, j int, T0 float64, prog *physics.Schedule) Runaway {
 	pr := c.Problem
 	m := pr.Mesh
 	mat := pr.Materials[j]

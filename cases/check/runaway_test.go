@@ -1,4 +1,4 @@
-package cases
+package check
 
 import (
 	"context"
@@ -6,6 +6,7 @@ import (
 	"math"
 	"testing"
 
+	"cureslab/cases"
 	"cureslab/mesh"
 	"cureslab/physics"
 	"cureslab/solver"
@@ -24,7 +25,7 @@ import (
 // high-activation-energy, negligible-consumption limit; the Arrhenius law
 // raises the true δ_c by a relative order R T0/E = 0.022 over the
 // exponential approximation, from memory).
-func runawayCase(t *testing.T, frac float64) (*Case, Runaway) {
+func runawayCase(t *testing.T, frac float64) (*cases.Case, Runaway) {
 	t.Helper()
 	const (
 		T0, E, L, k, rho, H = 400.0, 150e3, 0.02, 0.2, 1200.0, 500e3
@@ -58,7 +59,7 @@ air = "%g K"
 [bottom]
 kind = "insulated"
 `, frac, T0, A, T0)
-	c, err := Parse("runaway.toml", []byte(text), ".")
+	c, err := cases.Parse("runaway.toml", []byte(text), ".")
 	if err != nil {
 		t.Fatal(err)
 	}

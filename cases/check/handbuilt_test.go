@@ -1,8 +1,9 @@
-package cases_test
+package check_test
 
 import (
 	"bytes"
 	"cureslab/cases"
+	"cureslab/cases/check"
 	"cureslab/cases/internal/testkit"
 	"cureslab/physics"
 	"errors"
@@ -27,7 +28,7 @@ func (w *failWriter) Write(b []byte) (int, error) {
 
 func TestCheckWriteError(t *testing.T) {
 	for _, n := range []int{0, 3, 10} {
-		if err := cases.Check(&failWriter{n}, testkit.HandBuiltCase(t)); err == nil || err.Error() != "disk full" {
+		if err := check.Check(&failWriter{n}, testkit.HandBuiltCase(t)); err == nil || err.Error() != "disk full" {
 			t.Errorf("writer failing after %d writes: err = %v, want disk full", n, err)
 		}
 	}
@@ -41,7 +42,7 @@ func TestCheckExamplesGolden(t *testing.T) {
 				t.Fatal(err)
 			}
 			var b bytes.Buffer
-			if err := cases.Check(&b, c); err != nil {
+			if err := check.Check(&b, c); err != nil {
 				t.Fatal(err)
 			}
 			for _, l := range c.Layers {
@@ -58,7 +59,7 @@ func TestCheckExamplesGolden(t *testing.T) {
 func checkOutput(t *testing.T, c *cases.Case) []byte {
 	t.Helper()
 	var b bytes.Buffer
-	if err := cases.Check(&b, c); err != nil {
+	if err := check.Check(&b, c); err != nil {
 		t.Fatal(err)
 	}
 	return b.Bytes()
@@ -66,7 +67,7 @@ func checkOutput(t *testing.T, c *cases.Case) []byte {
 
 func TestEstimates(t *testing.T) {
 	c := testkit.HandBuiltCase(t)
-	est := cases.Estimates(c)
+	est := check.Estimates(c)
 	if len(est) != 1 {
 		t.Fatalf("got %d estimates, want 1 (one curing layer)", len(est))
 	}
@@ -122,7 +123,7 @@ func TestEstimates(t *testing.T) {
 	if want := math.Ln10 / k; math.Abs(e.TimeToMinCure-want) > 1e-9*want {
 		t.Errorf("time to min_cure %.12g s, want %.12g s", e.TimeToMinCure, want)
 	}
-	if want := cases.AdiabaticRise(400e3, 1500, 1300, 0); e.AdiabaticRise != want {
+	if want := check.AdiabaticRise(400e3, 1500, 1300, 0); e.AdiabaticRise != want {
 		t.Errorf("adiabatic rise %g K, want %g K", e.AdiabaticRise, want)
 	}
 	if e.Layer != "resin" || e.Material != "resin-X" || e.Thickness != 6.35e-3 {
@@ -133,14 +134,14 @@ func TestEstimates(t *testing.T) {
 func TestCheckCautions(t *testing.T) {
 	c := testkit.HandBuiltCase(t)
 	out := string(checkOutput(t, c))
-	for _, s := range cases.Cautions(cases.ScopeOf(c)) {
+	for _, s := range check.Cautions(check.ScopeOf(c)) {
 		if !strings.Contains(out, s) {
 			t.Errorf("check output lacks the caution %q", s)
 		}
 	}
 	// The subjects every caution list must cover (common practice for
 	// exotherm, fire and microwave exposure); our wording must cover each.
-	all := strings.ToLower(strings.Join(cases.AllCautions(), " "))
+	all := strings.ToLower(strings.Join(check.AllCautions(), " "))
 	for _, w := range []string{"trial", "data sheets", "fire", "leakage", "interlock", "local codes", "licensed practice"} {
 		if !strings.Contains(all, w) {
 			t.Errorf("the cautions do not mention %q", w)

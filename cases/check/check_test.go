@@ -1,7 +1,8 @@
-package cases
+package check
 
 import (
 	"bytes"
+	"cureslab/cases"
 	"cureslab/mesh"
 	"cureslab/physics"
 	"cureslab/solver"
@@ -52,25 +53,25 @@ func TestAdiabaticRise(t *testing.T) {
 
 // chkSlab builds a case of the given layers (materials per layer) with both
 // faces convective at h to a constant air temperature Tair.
-func chkSlab(t *testing.T, layers []mesh.Layer, mats []*physics.Material, h, Tair float64) *Case {
+func chkSlab(t *testing.T, layers []mesh.Layer, mats []*physics.Material, h, Tair float64) *cases.Case {
 	t.Helper()
 	m, err := mesh.Build(layers, mesh.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
 	face := physics.Face{Kind: physics.Convection, H: h, Air: physics.Steady(Tair)}
-	c := &Case{
+	c := &cases.Case{
 		File:  "slab.toml",
 		Title: "slab",
 		Problem: &solver.Problem{
 			Mesh: m, Materials: mats, Top: face, Bottom: face,
 			InitialTemperature: 293.15, End: 3600,
 		},
-		Criteria: Criteria{MinCure: math.NaN(), MaxTemperature: math.NaN(), MaxSpread: math.NaN()},
+		Criteria: cases.Criteria{MinCure: math.NaN(), MaxTemperature: math.NaN(), MaxSpread: math.NaN()},
 		TopAir:   "20 C", BottomAir: "20 C",
 	}
 	for i, l := range layers {
-		c.Layers = append(c.Layers, LayerInfo{Name: l.Name, Material: mats[i].Name})
+		c.Layers = append(c.Layers, cases.LayerInfo{Name: l.Name, Material: mats[i].Name})
 	}
 	return c
 }
@@ -80,7 +81,7 @@ func chkInert(name string, rho, cp, k float64) *physics.Material {
 		SpecificHeat: physics.Inert(physics.Constant(cp)), Conductivity: physics.Inert(physics.Constant(k))}
 }
 
-func chkOutput(t *testing.T, c *Case) string {
+func chkOutput(t *testing.T, c *cases.Case) string {
 	t.Helper()
 	var b bytes.Buffer
 	if err := Check(&b, c); err != nil {

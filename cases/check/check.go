@@ -1,18 +1,18 @@
-package cases
+package check
 
 import (
+	"cureslab/cases"
+	"cureslab/cases/internal/num"
+	"cureslab/cases/internal/textout"
+	"cureslab/mesh"
+	"cureslab/physics"
+	"cureslab/solver"
 	"fmt"
 	"io"
 	"math"
 	"sort"
 	"strconv"
 	"strings"
-
-	"cureslab/cases/internal/num"
-	"cureslab/cases/internal/textout"
-	"cureslab/mesh"
-	"cureslab/physics"
-	"cureslab/solver"
 )
 
 // CautionScope says what a printout or a page is about, so that it carries
@@ -55,7 +55,7 @@ func AllCautions() []string { return Cautions(CautionScope{Curing: true, Volumet
 
 // ScopeOf returns the caution scope of the case c: whether a layer cures and
 // whether it has volumetric heating.
-func ScopeOf(c *Case) CautionScope {
+func ScopeOf(c *cases.Case) CautionScope {
 	var sc CautionScope
 	if c == nil || c.Problem == nil {
 		return sc
@@ -84,10 +84,10 @@ const MaxNeighbourRatio = 5
 // pre-trial estimates (Biot numbers
 // of the faces, and for each curing layer the adiabatic temperature rise
 // and conduction time against reaction half-life, see Estimate), warnings,
-// and the cautions (cases.Cautions).
+// and the cautions (check.Cautions).
 //
 // The only error it returns is a write error of w.
-func Check(w io.Writer, c *Case) error {
+func Check(w io.Writer, c *cases.Case) error {
 	p := &textout.Printer{W: w}
 	chkHeader(p, c)
 	chkStack(p, c)
@@ -115,7 +115,7 @@ func Check(w io.Writer, c *Case) error {
 	return p.Err
 }
 
-func chkHeader(p *textout.Printer, c *Case) {
+func chkHeader(p *textout.Printer, c *cases.Case) {
 	title := c.Title
 	if title == "" {
 		title = "(no title)"
@@ -126,7 +126,7 @@ func chkHeader(p *textout.Printer, c *Case) {
 	}
 }
 
-func chkStack(p *textout.Printer, c *Case) {
+func chkStack(p *textout.Printer, c *cases.Case) {
 	m := c.Problem.Mesh
 	p.Printf("\nStack, top to bottom (depth 0 is the top face): %s mm in %d cells\n", num.FormatDepth(m.Thickness()), m.Cells())
 	tw := p.Table()
@@ -152,7 +152,7 @@ func chkStack(p *textout.Printer, c *Case) {
 		}
 		rc := "-"
 		if l.ContactResistance > 0 {
-			rc = chkG(l.ContactResistance) + " m^2*K/W"
+			rc = num.G(l.ContactResistance) + " m^2*K/W"
 		}
 		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s mm\t%s to %s mm\t%d\t%s\t%s\n", l.Name, info.Material, from,
 			num.FormatDepth(l.Thickness), num.FormatDepth(m.Faces[m.First[j]]), num.FormatDepth(m.Faces[m.First[j+1]]),
@@ -163,18 +163,18 @@ func chkStack(p *textout.Printer, c *Case) {
 
 // chkLayerInfo returns the LayerInfo of layer j, or one built from the mesh
 // and the problem when the case carries none.
-func chkLayerInfo(c *Case, j int) LayerInfo {
+func chkLayerInfo(c *cases.Case, j int) cases.LayerInfo {
 	if j < len(c.Layers) {
 		return c.Layers[j]
 	}
-	info := LayerInfo{Name: c.Problem.Mesh.Layers[j].Name}
+	info := cases.LayerInfo{Name: c.Problem.Mesh.Layers[j].Name}
 	if mat := chkMaterial(c, j); mat != nil {
 		info.Material = mat.Name
 	}
 	return info
 }
 
-func chkMaterial(c *Case, j int) *physics.Material {
+func chkMaterial(c *cases.Case, j int) *physics.Material {
 	if j >= 0 && j < len(c.Problem.Materials) {
 		return c.Problem.Materials[j]
 	}
@@ -190,7 +190,7 @@ func chkContains(list []string, s string) bool {
 	return false
 }
 
-func chkMaterials(p *textout.Printer, c *Case) {
+func chkMaterials(p *textout.Printer, c *cases.Case) {
 	p.Printf("\nMaterials\n")
 	seen := map[*physics.Material]bool{}
 	for j := range c.Problem.Mesh.Layers {
@@ -238,12 +238,12 @@ func DescribeMaterial(m *physics.Material) []string {
 			chkG(cu.TotalHeat/1e3), chkG(cu.ResinFraction), gel))
 		if d := cu.Diffusion; d != nil {
 			lines = append(lines, fmt.Sprintf("diffusion: C %s, alpha_c = %s + %s 1/K * T (%s at 23 C, %s at 100 C)",
-				chkG(d.C), chkG(d.Alpha0), chkG(d.AlphaT),
+				num.G(d.C), num.G(d.Alpha0), num.G(d.AlphaT),
 				chkF(d.Alpha0+d.AlphaT*296.15, 3), chkF(d.Alpha0+d.AlphaT*373.15, 3)))
 		}
 		if g := cu.Glass; g != nil {
 			lines = append(lines, fmt.Sprintf("glass transition: Tg0 %s C, Tg_full %s C, lambda %s",
-				chkG(g.Tg0-273.15), chkG(g.TgFull-273.15), chkG(g.Lambda)))
+				num.G(g.Tg0-273.15), num.G(g.TgFull-273.15), num.G(g.Lambda)))
 		}
 	}
 	if v := m.Viscosity; v != nil && m.Cure != nil {
@@ -256,7 +256,7 @@ func DescribeMaterial(m *physics.Material) []string {
 			lines = append(lines, "microwaves: reflects (metal): absorbs nothing, and no field passes it")
 		} else {
 			lines = append(lines, fmt.Sprintf("dielectric: permittivity %s, loss factor %s uncured, %s cured",
-				chkG(d.Permittivity), chkG(d.LossFactor), chkG(d.LossFactorCured)))
+				num.G(d.Permittivity), num.G(d.LossFactor), num.G(d.LossFactorCured)))
 		}
 	}
 	if m.Source != "" {
@@ -280,25 +280,25 @@ func chkProperty(p physics.Property, unit string) string {
 		if len(v) == 0 {
 			return "0 " + unit
 		}
-		return chkG(v[0]) + " " + unit
+		return num.G(v[0]) + " " + unit
 	}
 	lo, hi := v[0], v[0]
 	for _, x := range v {
 		lo, hi = min(lo, x), max(hi, x)
 	}
-	return fmt.Sprintf("%s to %s %s (table of %d points, %s to %s C)", chkG(lo), chkG(hi), unit,
-		len(t), chkG(t[0]-273.15), chkG(t[len(t)-1]-273.15))
+	return fmt.Sprintf("%s to %s %s (table of %d points, %s to %s C)", num.G(lo), num.G(hi), unit,
+		len(t), num.G(t[0]-273.15), num.G(t[len(t)-1]-273.15))
 }
 
 func chkKinetics(k physics.Kinetics) string {
 	switch m := k.(type) {
 	case physics.NthOrder:
-		return fmt.Sprintf("nth-order, A %s 1/s, E %s kJ/mol, n %s", chkG(m.A), chkG(m.E/1e3), chkG(m.N))
+		return fmt.Sprintf("nth-order, A %s 1/s, E %s kJ/mol, n %s", num.G(m.A), num.G(m.E/1e3), num.G(m.N))
 	case *physics.NthOrder:
 		return chkKinetics(*m)
 	case physics.Autocatalytic:
 		return fmt.Sprintf("autocatalytic, A1 %s 1/s, E1 %s kJ/mol, A2 %s 1/s, E2 %s kJ/mol, m %s, n %s",
-			chkG(m.A1), chkG(m.E1/1e3), chkG(m.A2), chkG(m.E2/1e3), chkG(m.M), chkG(m.N))
+			num.G(m.A1), num.G(m.E1/1e3), num.G(m.A2), num.G(m.E2/1e3), num.G(m.M), num.G(m.N))
 	case *physics.Autocatalytic:
 		return chkKinetics(*m)
 	case physics.LeeLoosSpringer:
@@ -318,7 +318,7 @@ func chkKinetics(k physics.Kinetics) string {
 	return k.Name()
 }
 
-func chkFaces(p *textout.Printer, c *Case) {
+func chkFaces(p *textout.Printer, c *cases.Case) {
 	p.Printf("\nFaces\n")
 	tw := p.Table()
 	for _, f := range []struct {
@@ -340,9 +340,9 @@ func chkFace(f *physics.Face, driver string) string {
 	}
 	switch f.Kind {
 	case physics.Convection:
-		s := "h " + chkG(f.H) + " W/m^2/K, air " + q(driver)
+		s := "h " + num.G(f.H) + " W/m^2/K, air " + q(driver)
 		if f.Emissivity > 0 {
-			s += ", emissivity " + chkG(f.Emissivity)
+			s += ", emissivity " + num.G(f.Emissivity)
 		}
 		return s
 	case physics.Fixed:
@@ -370,7 +370,7 @@ func chkFace(f *physics.Face, driver string) string {
 	return "no heat through this face"
 }
 
-func chkSchedules(p *textout.Printer, c *Case) {
+func chkSchedules(p *textout.Printer, c *cases.Case) {
 	if len(c.Schedules) == 0 {
 		return
 	}
@@ -399,16 +399,16 @@ func chkSchedules(p *textout.Printer, c *Case) {
 	}
 }
 
-func chkTime(p *textout.Printer, c *Case) {
+func chkTime(p *textout.Printer, c *cases.Case) {
 	pr := c.Problem
 	p.Printf("\nTime and output\n")
 	tw := p.Table()
 	init := chkC(pr.InitialTemperature) + " C"
 	if chkCuring(c) {
-		init += ", cure " + chkG(pr.InitialCure) + " in curing layers"
+		init += ", cure " + num.G(pr.InitialCure) + " in curing layers"
 	}
 	fmt.Fprintf(tw, "  initial\t%s\n", init)
-	fmt.Fprintf(tw, "  end\t%s (%s s)\n", num.HumanTime(pr.End), chkG(pr.End))
+	fmt.Fprintf(tw, "  end\t%s (%s s)\n", num.HumanTime(pr.End), num.G(pr.End))
 	every := c.OutputEvery
 	if every == 0 {
 		every = pr.End / 100
@@ -434,8 +434,8 @@ func chkTime(p *textout.Printer, c *Case) {
 	if at == 0 {
 		at, da = solver.DefaultAbortTemperature, " (default)"
 	}
-	fmt.Fprintf(tw, "  tolerances\ttemperature %s K%s, cure %s%s per step\n", chkG(tt), dt, chkG(ct), dc)
-	fmt.Fprintf(tw, "  runaway limit\t%s C%s\n", chkG(at-273.15), da)
+	fmt.Fprintf(tw, "  tolerances\ttemperature %s K%s, cure %s%s per step\n", num.G(tt), dt, num.G(ct), dc)
+	fmt.Fprintf(tw, "  runaway limit\t%s C%s\n", num.G(at-273.15), da)
 	probes := make([]string, len(pr.Probes))
 	for i, d := range pr.Probes {
 		probes[i] = num.FormatDepth(d) + " mm"
@@ -449,13 +449,13 @@ func chkTime(p *textout.Printer, c *Case) {
 	fmt.Fprintf(tw, "  probes\t%s\n", strings.Join(probes, ", "))
 	var cr []string
 	if v := c.Criteria.MinCure; !math.IsNaN(v) {
-		cr = append(cr, "min_cure "+chkG(v))
+		cr = append(cr, "min_cure "+num.G(v))
 	}
 	if v := c.Criteria.MaxTemperature; !math.IsNaN(v) {
-		cr = append(cr, "max_temperature "+chkG(num.Celsius(v))+" C")
+		cr = append(cr, "max_temperature "+num.G(num.Celsius(v))+" C")
 	}
 	if v := c.Criteria.MaxSpread; !math.IsNaN(v) {
-		cr = append(cr, "max_spread "+chkG(num.Round6(v))+" K")
+		cr = append(cr, "max_spread "+num.G(num.Round6(v))+" K")
 	}
 	if v := c.Criteria.MinFlowWindow; v > 0 {
 		cr = append(cr, "min_flow_window "+num.HumanTime(v))
@@ -464,7 +464,7 @@ func chkTime(p *textout.Printer, c *Case) {
 		cr = []string{"none"}
 	}
 	fmt.Fprintf(tw, "  criteria\t%s\n", strings.Join(cr, ", "))
-	if Viscous(c.Problem) {
+	if cases.Viscous(c.Problem) {
 		flow := c.Criteria.FlowViscosity
 		if flow == 0 {
 			flow = solver.DefaultFlowViscosity
@@ -490,7 +490,7 @@ func chkLayerAt(pr *solver.Problem, z float64) int {
 	return -1
 }
 
-func chkCuring(c *Case) bool {
+func chkCuring(c *cases.Case) bool {
 	for _, m := range c.Problem.Materials {
 		if m != nil && m.Cure != nil {
 			return true
@@ -545,7 +545,7 @@ type Estimate struct {
 //
 // Cost: a few isothermal quadratures per curing layer, and one per 0.25 K of
 // the program's rise to its hottest hold (physics.Cure.CureAlong).
-func Estimates(c *Case) []Estimate {
+func Estimates(c *cases.Case) []Estimate {
 	pr := c.Problem
 	T, _ := DrivingMax(pr)
 	prog := hottestProgram(pr)
@@ -624,7 +624,7 @@ func DrivingMax(pr *solver.Problem) (float64, bool) {
 			T, found = max(T, s.Max()), true
 		}
 	}
-	if Controlled(pr) {
+	if cases.Controlled(pr) {
 		T, found = max(T, pr.Volumetric.Control.Program.Max()), true
 	}
 	if !found {
@@ -635,7 +635,7 @@ func DrivingMax(pr *solver.Problem) (float64, bool) {
 
 // chkEstimates prints the Biot numbers and the curing-layer estimates and
 // returns the warnings they raise.
-func chkEstimates(p *textout.Printer, c *Case) []string {
+func chkEstimates(p *textout.Printer, c *cases.Case) []string {
 	pr := c.Problem
 	var warn []string
 	p.Printf("\nPre-trial estimates (rough guides, not results)\n")
@@ -667,7 +667,7 @@ func chkEstimates(p *textout.Printer, c *Case) []string {
 		switch {
 		case f.face.HasAir():
 			h := f.face.H
-			note := "h " + chkG(h) + " W/m^2/K"
+			note := "h " + num.G(h) + " W/m^2/K"
 			if f.face.Emissivity > 0 {
 				ta := f.face.Air.Max()
 				hr := 4 * f.face.Emissivity * physics.StefanBoltzmann * ta * ta * ta
@@ -715,7 +715,7 @@ func chkEstimates(p *textout.Printer, c *Case) []string {
 		case math.IsNaN(e.HalfLife):
 			half = "unknown"
 		default:
-			half = num.HumanTime(e.HalfLife) + "\tisothermal, cure " + chkG(pr.InitialCure) + " to 0.5"
+			half = num.HumanTime(e.HalfLife) + "\tisothermal, cure " + num.G(pr.InitialCure) + " to 0.5"
 		}
 		fmt.Fprintf(tw, "    reaction half-life\t%s\n", half)
 		if mc := c.Criteria.MinCure; !math.IsNaN(mc) {
@@ -742,11 +742,11 @@ func chkEstimates(p *textout.Printer, c *Case) []string {
 		}
 		if v := c.Criteria.MaxTemperature; !math.IsNaN(v) && peak > v {
 			warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above max_temperature %s C: the criterion holds only if enough heat leaves.",
-				e.Layer, chkF(peak-273.15, 0), chkG(num.Celsius(v))))
+				e.Layer, chkF(peak-273.15, 0), num.G(num.Celsius(v))))
 		}
 		if peak > abort {
 			warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above the runaway limit %s C.",
-				e.Layer, chkF(peak-273.15, 0), chkG(abort-273.15)))
+				e.Layer, chkF(peak-273.15, 0), num.G(abort-273.15)))
 		}
 	}
 	return warn
@@ -760,7 +760,7 @@ func chkTimeOrNever(t float64) string {
 }
 
 // chkLayerIndex returns the index of the layer named name, −1 if none.
-func chkLayerIndex(c *Case, name string) int {
+func chkLayerIndex(c *cases.Case, name string) int {
 	for j, l := range c.Problem.Mesh.Layers {
 		if l.Name == name {
 			return j
@@ -771,7 +771,7 @@ func chkLayerIndex(c *Case, name string) int {
 
 // chkRunaway prints the Frank-Kamenetskii screen of one curing layer and
 // returns its warning, if any.
-func chkRunaway(p *textout.Printer, c *Case, e Estimate) []string {
+func chkRunaway(p *textout.Printer, c *cases.Case, e Estimate) []string {
 	rs := e.Runaway
 	p.Printf("    Runaway screen (Frank-Kamenetskii, steady slab; a guide, not a prediction):\n")
 	tw := p.Table()
@@ -877,7 +877,7 @@ const (
 
 // looseWarnings warns of step tolerances and cells far looser than the
 // defaults.
-func looseWarnings(c *Case) []string {
+func looseWarnings(c *cases.Case) []string {
 	pr := c.Problem
 	var warn []string
 	if tt := pr.TemperatureTolerance; tt >= LooseTolerance*solver.DefaultTemperatureTolerance {
@@ -909,7 +909,7 @@ func looseWarnings(c *Case) []string {
 
 // meshWarnings returns a warning when neighbouring cells differ in size by
 // more than MaxNeighbourRatio.
-func meshWarnings(c *Case) []string {
+func meshWarnings(c *cases.Case) []string {
 	m := c.Problem.Mesh
 	worst, at, count := 0.0, 0, 0
 	for i := 0; i+1 < m.Cells(); i++ {
@@ -929,17 +929,9 @@ func meshWarnings(c *Case) []string {
 		num.FormatDepth(m.Faces[at+1]), chkG3(worst), chkG3(m.Widths[at]*1e3), chkG3(m.Widths[at+1]*1e3), count)}
 }
 
-// chkG formats v with up to 6 significant digits, no trailing zeros.
-func chkG(v float64) string {
-	if v == 0 {
-		return "0"
-	}
-	return strconv.FormatFloat(v, 'g', 6, 64)
-}
-
 // chkC formats an absolute temperature T (K) in °C with up to 6
 // significant digits.
-func chkC(T float64) string { return chkG(num.Celsius(T)) }
+func chkC(T float64) string { return num.G(num.Celsius(T)) }
 
 // chkG4 formats v with 4 significant digits.
 func chkG4(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
@@ -972,7 +964,7 @@ func chkF(v float64, decimals int) string {
 // than λ/8 under an exponential model (which ignores standing waves), a
 // sensor near a node of the standing wave, and a program ramp faster than
 // the full power heats any absorbing layer.
-func chkVolumetric(p *textout.Printer, c *Case) []string {
+func chkVolumetric(p *textout.Printer, c *cases.Case) []string {
 	v := c.Problem.Volumetric
 	if v == nil {
 		return nil
@@ -980,7 +972,7 @@ func chkVolumetric(p *textout.Printer, c *Case) []string {
 	var warn []string
 	info := c.Volumetric
 	if info == nil {
-		info = &VolumetricInfo{}
+		info = &cases.VolumetricInfo{}
 	}
 	pr := c.Problem
 	standing := v.Attenuation == physics.StandingWave
@@ -994,20 +986,20 @@ func chkVolumetric(p *textout.Printer, c *Case) []string {
 		}
 		ism := "inside an ISM band"
 		for _, f := range []float64{v.Band.Lo, v.Band.Hi} {
-			if note := frequencyNote(f); note != "" {
+			if note := cases.FrequencyNote(f); note != "" {
 				ism = "not inside one ISM band"
 				warn = append(warn, note)
 			}
 		}
 		fmt.Fprintf(tw, "  band\t%s to %s (%s), %d equally spaced frequencies%s, both ends included: the absorbed power is their mean\n",
-			formatFrequency(v.Band.Lo), formatFrequency(v.Band.Hi), ism, v.Band.Points, def)
+			cases.FormatFrequency(v.Band.Lo), cases.FormatFrequency(v.Band.Hi), ism, v.Band.Points, def)
 	} else {
 		band := "an ISM band"
-		if note := frequencyNote(v.Frequency); note != "" {
+		if note := cases.FrequencyNote(v.Frequency); note != "" {
 			band = "not an ISM band"
 			warn = append(warn, note)
 		}
-		fmt.Fprintf(tw, "  frequency\t%s (%s)\n", formatFrequency(v.Frequency), band)
+		fmt.Fprintf(tw, "  frequency\t%s (%s)\n", cases.FormatFrequency(v.Frequency), band)
 	}
 	switch {
 	case standing:
@@ -1018,17 +1010,17 @@ func chkVolumetric(p *textout.Printer, c *Case) []string {
 		}[v.Incident]
 		fmt.Fprintf(tw, "  incident\t%s\n", from)
 		if v.Control != nil {
-			fmt.Fprintf(tw, "  incident power\t%s kW/m^2 at full power; the controller scales it by the power fraction\n", chkG(v.IncidentPower/1e3))
+			fmt.Fprintf(tw, "  incident power\t%s kW/m^2 at full power; the controller scales it by the power fraction\n", num.G(v.IncidentPower/1e3))
 		} else {
-			fmt.Fprintf(tw, "  incident power\t%s kW/m^2, on from start to end\n", chkG(v.IncidentPower/1e3))
+			fmt.Fprintf(tw, "  incident power\t%s kW/m^2, on from start to end\n", num.G(v.IncidentPower/1e3))
 		}
 	case v.Control != nil:
-		fmt.Fprintf(tw, "  field\t%s kV/m rms at full power (max_field); the controller sets max_field * sqrt(power fraction)\n", chkG(v.Field/1e3))
+		fmt.Fprintf(tw, "  field\t%s kV/m rms at full power (max_field); the controller sets max_field * sqrt(power fraction)\n", num.G(v.Field/1e3))
 		if info.FieldUnused {
 			warn = append(warn, "[volumetric] field is not used: under [volumetric.control] the field at full power is max_field.")
 		}
 	default:
-		fmt.Fprintf(tw, "  field\t%s kV/m rms, on from start to end\n", chkG(v.Field/1e3))
+		fmt.Fprintf(tw, "  field\t%s kV/m rms, on from start to end\n", num.G(v.Field/1e3))
 	}
 	att := map[physics.Attenuation]string{
 		physics.Uniform:      "none: the same field in every layer",
@@ -1100,12 +1092,12 @@ func chkVolumetric(p *textout.Printer, c *Case) []string {
 			if v.Attenuation != physics.Uniform && l.Thickness > lambda/8 {
 				warn = append(warn, fmt.Sprintf("layer %q is %s mm thick, more than an eighth of the wavelength in it (%s mm at %s): "+
 					"the field forms standing waves there, which attenuation %q ignores; attenuation = \"standing-wave\" computes them.",
-					l.Name, num.FormatDepth(l.Thickness), chkG3(lambda*1e3), formatFrequency(f0), v.Attenuation.String()))
+					l.Name, num.FormatDepth(l.Thickness), chkG3(lambda*1e3), cases.FormatFrequency(f0), v.Attenuation.String()))
 			}
 		}
 		rate := pu / (mat.Density * cp)
 		fastest = max(fastest, rate)
-		cols := []string{l.Name, info.Material, chkG(d.Permittivity), chkG(d.LossFactor) + " -> " + chkG(d.LossFactorCured),
+		cols := []string{l.Name, info.Material, num.G(d.Permittivity), num.G(d.LossFactor) + " -> " + num.G(d.LossFactorCured),
 			chkG3(lambda*1e3) + " mm"}
 		if standing {
 			cols = append(cols, share)
@@ -1162,9 +1154,9 @@ func chkVolumetric(p *textout.Printer, c *Case) []string {
 		prog = "(as loaded)"
 	}
 	fmt.Fprintf(tw, "    program\t%s, highest %s C\n", prog, chkC(ctl.Program.Max()))
-	fmt.Fprintf(tw, "    period\t%s s%s\n", chkG(ctl.Period), def("period"))
-	fmt.Fprintf(tw, "    gain\t%s 1/K%s\n", chkG(ctl.Gain), def("gain"))
-	fmt.Fprintf(tw, "    integral time\t%s s%s\n", chkG(ctl.IntegralTime), def("integral_time"))
+	fmt.Fprintf(tw, "    period\t%s s%s\n", num.G(ctl.Period), def("period"))
+	fmt.Fprintf(tw, "    gain\t%s 1/K%s\n", num.G(ctl.Gain), def("gain"))
+	fmt.Fprintf(tw, "    integral time\t%s s%s\n", num.G(ctl.IntegralTime), def("integral_time"))
 	p.Flush(tw)
 	if ramp := chkFastestRamp(ctl.Program); ramp > fastest {
 		raise := "max_field"
@@ -1199,8 +1191,8 @@ func chkStanding(pr *solver.Problem, v *physics.Volumetric, band physics.Band, i
 	if inc == physics.IncidentBoth {
 		w.sources = 2
 	}
-	w.pUncured, w.uncured = stackWave(pr, band, inc, pr.InitialTemperature, pr.InitialCure)
-	w.pCured, w.cured = stackWave(pr, band, inc, pr.InitialTemperature, 1)
+	w.pUncured, w.uncured = cases.StackWave(pr, band, inc, pr.InitialTemperature, pr.InitialCure)
+	w.pCured, w.cured = cases.StackWave(pr, band, inc, pr.InitialTemperature, 1)
 	for i := range w.pUncured {
 		w.pUncured[i] *= w.S
 		w.pCured[i] *= w.S
@@ -1263,7 +1255,7 @@ func chkDepth(d float64) string {
 
 // compositeWarnings warns where a composite ply absorbs volumetric heating:
 // its dielectric is only the resin's scaled by the resin's volume fraction.
-func compositeWarnings(c *Case) []string {
+func compositeWarnings(c *cases.Case) []string {
 	if c.Problem.Volumetric == nil {
 		return nil
 	}
@@ -1279,3 +1271,6 @@ func compositeWarnings(c *Case) []string {
 	}
 	return out
 }
+
+// chkG formats v with up to 6 significant digits (num.G).
+var chkG = num.G
