@@ -162,7 +162,7 @@ func TestCheckWarnings(t *testing.T) {
 // A composite ply under volumetric heating draws the warning that its
 // dielectric is only an estimate.
 func TestCheckCompositeDielectricWarning(t *testing.T) {
-	ex, _ := ExampleByName("thick-laminate")
+	ex, _ := cases.ExampleByName("thick-laminate")
 	text := string(ex.Text) + `
 [materials.resin-LS1.dielectric]
 permittivity = 4
@@ -172,7 +172,7 @@ loss_factor = 0.4
 frequency = "2.45 GHz"
 field = "1 kV/m"
 `
-	c, err := Parse("laminate-mw.toml", []byte(text), "")
+	c, err := cases.Parse("laminate-mw.toml", []byte(text), "")
 	if err != nil {
 		t.Fatal(err)
 	}
