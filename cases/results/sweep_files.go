@@ -26,15 +26,16 @@ const (
 // SweepColumns are the summary columns of summary.csv after the varied
 // keys, named by the keys of Vocabulary (summary.json's), in this order.
 // Criteria come next as min_cure_pass, max_temperature_pass,
-// max_spread_pass ("true", "false", or empty when the case does not set
+// max_spread_pass, min_flow_window_pass ("true", "false", or empty when the case does not set
 // the criterion), then status, error, and note (what the run changed
 // beyond its values, such as a probe below a thinner stack left out; see
 // cases.Case.Notes).
 var SweepColumns = sweepColumns("peak_temperature_C", "peak_time_s", "peak_depth_mm", "overshoot_K",
 	"heating_lag_K", "cooling_lag_K",
 	"max_spread_K", "min_final_cure", "min_final_cure_depth_mm", "mean_final_cure", "time_to_min_cure_s",
-	"gel_time_first_s", "gel_time_last_s", "min_final_glass_transition_C", "conservation_residual", "steps",
-	"end_time_s")
+	"gel_time_first_s", "gel_time_last_s", "min_final_glass_transition_C",
+	"min_viscosity_Pa_s", "flow_window_s", // empty without a viscosity law
+	"conservation_residual", "steps", "end_time_s")
 
 // SweepColumn is one summary column of summary.csv.
 type SweepColumn struct {
@@ -53,7 +54,7 @@ func sweepColumns(keys ...string) []SweepColumn {
 }
 
 // sweepCriteria are the criteria columns, in order.
-var SweepCriteria = []string{CriterionMinCure, CriterionMaxTemperature, CriterionMaxSpread}
+var SweepCriteria = []string{CriterionMinCure, CriterionMaxTemperature, CriterionMaxSpread, CriterionMinFlowWindow}
 
 // csvFloat writes a summary value as summary.json does; null is empty.
 func csvFloat(f Float) string {
