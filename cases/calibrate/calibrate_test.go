@@ -267,3 +267,43 @@ func TestNoWaveWarningWithoutNoise(t *testing.T) {
 		t.Errorf("heat of reaction 100 J/g against a log made with 120: %d wave warnings, want 2 (RMS %v, lag-1 %v)", waves, r.RMS, r.Autocorr)
 	}
 }
+
+func TestWideIntervalWarning(t *testing.T) {
+	// A contact resistance of 1e-3 m²K/W between 6 mm of resin and a
+	// steel plate changes the temperatures by a few tenths of a kelvin,
+	// comparable to the 0.3 K noise: the log pins it down only loosely,
+	// its 95 % interval is wider than the value, and the fit says so.
+	file := "testdata/plate.toml"
+	data, _ := os.ReadFile(file)
+	v, _, err := cases.NewCaseVariant(file, data, "testdata")
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec := "layer.plate.contact_resistance=1e-7m^2*K/W:1e-1m^2*K/W"
+	b, err := bind(v, frees(spec))
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, err := b.problem([]float64{1e-3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	l := logOf(t, p, []float64{0, 6e-3, 9e-3}, 0.3, 9)
+	r, err := Calibrate(context.Background(), file, data, "testdata", l, frees(spec), Options{Jobs: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	pr := r.Params[0]
+	if pr.AtBound || !(pr.High-pr.Low > pr.Value) {
+		t.Fatalf("the test needs an interior value with a wide interval: %g, interval %g to %g", pr.Value, pr.Low, pr.High)
+	}
+	found := false
+	for _, w := range r.Warnings {
+		if strings.Contains(w, "the 95 % interval of layer.plate.contact_resistance") && strings.Contains(w, "is wider than the value: "+cannotTell) {
+			found = true
+		}
+	}
+	if !found {
+		t.Errorf("no wide-interval warning: %g, interval %g to %g, warnings %q", pr.Value, pr.Low, pr.High, r.Warnings)
+	}
+}
