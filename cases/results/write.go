@@ -87,15 +87,22 @@ func appendCSVRecord(b []byte, rec []string) []byte {
 	return append(b, sb.Bytes()...)
 }
 
-// flushCSV writes b to w when it has reached csvChunk, and returns the
-// buffer to append to next.
-func flushCSV(w io.Writer, b []byte) ([]byte, error) {
+// endRow ends the row in b with a newline and writes b to w once it has
+// reached csvChunk; it returns the buffer to append to next.
+func endRow(w io.Writer, b []byte) ([]byte, error) {
+	b = append(b, '\n')
 	if len(b) < csvChunk {
 		return b, nil
 	}
 	_, err := w.Write(b)
 	return b[:0], err
 }
+
+// sigCol and celsiusCol append the next column: a comma, then v with 9
+// significant digits (num.Sig), or the temperature T (K) in °C rounded to
+// 1e-6 (num.Fixed).
+func sigCol(b []byte, v float64) []byte     { return num.AppendSig(append(b, ','), v) }
+func celsiusCol(b []byte, T float64) []byte { return num.AppendFixed(append(b, ','), num.KtoC(T), 6) }
 
 // writeFields writes fields.csv: one row per (output time, cell centre).
 // The bytes are those encoding/csv writes for the header and the formatted
@@ -144,26 +151,20 @@ func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
 			b = append(b, mid[i]...)
 			b = num.AppendFixed(b, num.KtoC(s.T[i]), 6)
 			if curing[i] {
-				b = append(b, ',')
-				b = num.AppendSig(b, num.At(s.Cure, i))
-				b = append(b, ',')
-				b = num.AppendSig(b, num.At(s.Rate, i))
-				b = append(b, ',')
-				b = num.AppendFixed(b, num.KtoC(num.At(s.Tg, i)), 6)
+				b = sigCol(b, num.At(s.Cure, i))
+				b = sigCol(b, num.At(s.Rate, i))
+				b = celsiusCol(b, num.At(s.Tg, i))
 			} else {
 				b = append(b, ",,,"...)
 			}
 			if power {
-				b = append(b, ',')
-				b = num.AppendSig(b, num.At(s.Power, i))
+				b = sigCol(b, num.At(s.Power, i))
 			}
 			if viscous {
-				b = append(b, ',')
-				b = num.AppendSig(b, num.At(s.Viscosity, i))
+				b = sigCol(b, num.At(s.Viscosity, i))
 			}
-			b = append(b, '\n')
 			var err error
-			if b, err = flushCSV(w, b); err != nil {
+			if b, err = endRow(w, b); err != nil {
 				return err
 			}
 		}
@@ -219,36 +220,27 @@ func writeProbes(w io.Writer, c *cases.Case, r *solver.Result) error {
 		s := &r.Snapshots[k]
 		b = num.AppendTime(b, s.Time)
 		for i := range p.Probes {
-			b = append(b, ',')
-			b = num.AppendFixed(b, num.KtoC(num.At(s.ProbeT, i)), 6)
-			b = append(b, ',')
-			b = num.AppendSig(b, num.At(s.ProbeCure, i))
+			b = celsiusCol(b, num.At(s.ProbeT, i))
+			b = sigCol(b, num.At(s.ProbeCure, i))
 		}
 		if p.Top.Kind == physics.Convection {
-			b = append(b, ',')
-			b = num.AppendFixed(b, num.KtoC(s.AirTop), 6)
+			b = celsiusCol(b, s.AirTop)
 		}
 		if p.Bottom.Kind == physics.Convection {
-			b = append(b, ',')
-			b = num.AppendFixed(b, num.KtoC(s.AirBottom), 6)
+			b = celsiusCol(b, s.AirBottom)
 		}
 		if cases.Controlled(p) {
-			b = append(b, ',')
-			b = num.AppendFixed(b, num.KtoC(p.Volumetric.Control.Program.At(s.Time)), 6)
-			b = append(b, ',')
-			b = num.AppendSig(b, s.PowerFraction)
+			b = celsiusCol(b, p.Volumetric.Control.Program.At(s.Time))
+			b = sigCol(b, s.PowerFraction)
 		}
-		b = append(b, ',')
-		b = num.AppendSig(b, s.HeatIn)
+		b = sigCol(b, s.HeatIn)
 		if viscous {
 			for i := range p.Probes {
-				b = append(b, ',')
-				b = num.AppendSig(b, num.At(s.ProbeViscosity, i))
+				b = sigCol(b, num.At(s.ProbeViscosity, i))
 			}
 		}
-		b = append(b, '\n')
 		var err error
-		if b, err = flushCSV(w, b); err != nil {
+		if b, err = endRow(w, b); err != nil {
 			return err
 		}
 	}
