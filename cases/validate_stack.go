@@ -364,7 +364,8 @@ func (l *loader) checkFlowCriteria(root *table, layers []layerDef) {
 			return
 		}
 	}
-	t := l.sub(root, "criteria", criteriaKeys, func(string) string { return "" })
+	m, _ := root.m["criteria"].(map[string]any) // [criteria] itself was checked by criteria
+	t := &table{path: "criteria", m: m}
 	for _, k := range []string{"flow_viscosity", "min_flow_window"} {
 		if t.has(k) {
 			l.atKey(t.keyPath(k), ErrRange, "%s needs a layer whose material has a [materials.NAME.viscosity] section", k)
