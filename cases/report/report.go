@@ -6,7 +6,6 @@ import (
 	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/textout"
 	"cureslab/cases/results"
-	"cureslab/physics"
 	"cureslab/solver"
 	"errors"
 	"fmt"
@@ -189,10 +188,10 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 		tb.Probes = append(tb.Probes, probeData{Label: l, Depth: readBack(l)})
 	}
 	var air []seriesData
-	if p.Top.Kind == physics.Convection {
+	if p.Top.HasAir() {
 		air = append(air, seriesData{Column: "air_top_C"})
 	}
-	if p.Bottom.Kind == physics.Convection {
+	if p.Bottom.HasAir() {
 		air = append(air, seriesData{Column: "air_bottom_C"})
 	}
 	controlled := p.Volumetric != nil && p.Volumetric.Control != nil // probes.csv has program_C and power_fraction

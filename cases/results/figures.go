@@ -149,7 +149,7 @@ func signedTime(t float64) string {
 // Why overshoot_K is null (overshoot_note in summary.json).
 const (
 	NoteUncontrolled = "volumetric heating without control: no program sets the part's temperature (the air only takes heat away), so there is nothing to overshoot"
-	NoteNoDriver     = "nothing drives the case: no air, held face or control program"
+	NoteNoDriver     = "nothing drives the case: no convective face, held face or control program (an imposed flux sets no temperature, and its air only takes heat away)"
 )
 
 // overshootNote returns why the overshoot of a run of c is null, "" when

@@ -5,7 +5,6 @@ import (
 	"cureslab/cases"
 	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/textout"
-	"cureslab/physics"
 	"cureslab/solver"
 	"encoding/csv"
 	"encoding/json"
@@ -181,10 +180,10 @@ func probesHeader(c *cases.Case) []string {
 		l := num.FormatDepth(d)
 		h = append(h, "T_"+l+"mm_C", "cure_"+l+"mm")
 	}
-	if p.Top.Kind == physics.Convection {
+	if p.Top.HasAir() {
 		h = append(h, "air_top_C")
 	}
-	if p.Bottom.Kind == physics.Convection {
+	if p.Bottom.HasAir() {
 		h = append(h, "air_bottom_C")
 	}
 	if cases.Controlled(p) {
@@ -223,10 +222,10 @@ func writeProbes(w io.Writer, c *cases.Case, r *solver.Result) error {
 			b = celsiusCol(b, num.At(s.ProbeT, i))
 			b = sigCol(b, num.At(s.ProbeCure, i))
 		}
-		if p.Top.Kind == physics.Convection {
+		if p.Top.HasAir() {
 			b = celsiusCol(b, s.AirTop)
 		}
-		if p.Bottom.Kind == physics.Convection {
+		if p.Bottom.HasAir() {
 			b = celsiusCol(b, s.AirBottom)
 		}
 		if cases.Controlled(p) {
