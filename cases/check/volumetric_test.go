@@ -1,6 +1,7 @@
 package check
 
 import (
+	"cureslab/cases"
 	"cureslab/cases/internal/testkit"
 	"cureslab/physics"
 	"strings"
@@ -91,5 +92,65 @@ func TestStandingWaveCase(t *testing.T) {
 		if !strings.Contains(out, want) {
 			t.Errorf("check output lacks %q:\n%s", want, out)
 		}
+	}
+}
+
+// TestCheckStandingWaveWarnings: a resin layer on an aluminium plate. Under
+// an exponential field check warns that 10 mm is more than λ/8 in the resin
+// (λ = λ0/n′, n′ = √(ε′/2 (√(1 + (ε″/ε′)²) + 1)) = 2.0025 for ε′ = 4, ε″ = 0.4,
+// λ0 = 122.36 mm at 2.45 GHz: λ = 61.1 mm, analytic; λ/8 =
+// 7.6 mm) and calls the plate "reflects (metal)", never transparent; under a
+// standing wave it does not warn of λ/8 but of a sensor on the metal, at the
+// node of the field there (E = 0 on a perfect conductor: analytic).
+func TestCheckStandingWaveWarnings(t *testing.T) {
+	stack := func(vol string) *cases.Case {
+		src := `title = "standing-wave check"
+[initial]
+temperature = "20 C"
+[time]
+end = "30 min"
+[[layer]]
+name = "resin"
+material = "r"
+thickness = "10 mm"
+[[layer]]
+name = "plate"
+material = "aluminium"
+thickness = "2 mm"
+[materials.r]
+density = "1100 kg/m^3"
+specific_heat = "1500 J/kg/K"
+conductivity = "0.2 W/m/K"
+[materials.r.dielectric]
+permittivity = 4
+loss_factor = 0.4
+[top]
+kind = "convection"
+h = "5 W/m^2/K"
+air = "20 C"
+[bottom]
+kind = "insulated"
+` + vol
+		c, err := cases.Parse("sw.toml", []byte(src), "")
+		if err != nil {
+			t.Fatalf("Parse: %v", err)
+		}
+		return c
+	}
+	out := chkOutput(t, stack("[volumetric]\nfrequency = \"2.45 GHz\"\nfield = \"1 kV/m\"\nattenuation = \"top\"\n"))
+	for _, want := range []string{"more than an eighth of the wavelength in it (61.1 mm at 2.45 GHz)", "plate (aluminium): reflects (metal)",
+		"For comparison, a plane wave from the same face(s)"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("exponential: check output lacks %q:\n%s", want, out)
+		}
+	}
+	if strings.Contains(out, "transparent") {
+		t.Errorf("exponential: the aluminium plate is called transparent:\n%s", out)
+	}
+	out = chkOutput(t, stack("[volumetric]\nattenuation = \"standing-wave\"\nincident = \"top\"\nincident_power = \"2 kW/m^2\"\nfrequency = \"2.45 GHz\"\n"+
+		"[volumetric.control]\nsensor = \"10 mm\"\nprogram = \"60 C\"\n"))
+	if strings.Contains(out, "eighth of the wavelength") || !strings.Contains(out, "the sensor at 10 mm sits near a node of the standing wave") ||
+		!strings.Contains(out, "plate (aluminium): reflects (metal)") {
+		t.Errorf("standing wave: check output:\n%s", out)
 	}
 }
