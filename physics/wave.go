@@ -91,16 +91,21 @@ type WaveShares struct {
 // permittivities change; Absorb allocates nothing. A Wave serves one
 // goroutine at a time.
 type Wave struct {
-	band   Band
-	kLo    float64 // free-space wave number at Lo, 1/m
-	dk     float64 // its step between frequencies, 1/m
-	cells  int
-	seg    []segment
-	gam    []complex128 // Γ at the bottom of each segment, per frequency (segment-major)
-	tr     []complex128 // field transmission to the next segment, per frequency
-	run    []complex128 // per frequency: Γ below, then the forward amplitude
-	rev    []Slab       // the stack reversed, for incidence from the bottom
-	second []float64    // the bottom source's absorption under IncidentBoth
+	band  Band
+	kLo   float64 // free-space wave number at Lo, 1/m
+	dk    float64 // its step between frequencies, 1/m
+	cells int
+	seg   []segment
+	// Per segment and frequency (segment-major): the closed-form integral
+	// of |E|² per unit |A|² (lossy segments), |A|² into the segment over
+	// |A|² at the top of the segment above (from the air for the first),
+	// and the factor that carries |A|² from the top of the segment to the
+	// top of the next (or into the air below, for the last).
+	in, into, on []float64
+	run          []complex128 // per frequency: Γ, carried up the stack
+	aa           []float64    // per frequency: |A|², carried down
+	rev          []Slab       // the stack reversed, for incidence from the bottom
+	second       []float64    // the bottom source's absorption under IncidentBoth
 }
 
 // segment is a run of slabs that the wave crosses as one uniform medium:
@@ -117,7 +122,7 @@ type segment struct {
 // NewWave returns the workspace for stacks of up to cells slabs over band.
 // It panics on an invalid band (Lo ≤ 0, Hi < Lo, Points < 1, or
 // Points = 1 with Hi ≠ Lo): package cases validates user input first.
-// Cost: about 32·cells·Points bytes.
+// Cost: about 24·cells·Points bytes.
 func NewWave(cells int, band Band) *Wave {
 	if !band.valid() || cells < 1 {
 		panic(fmt.Sprintf("physics: NewWave with %d cells, band %+v", cells, band))
@@ -128,9 +133,11 @@ func NewWave(cells int, band Band) *Wave {
 		kLo:    2 * math.Pi * band.Lo / SpeedOfLight,
 		cells:  cells,
 		seg:    make([]segment, 0, cells),
-		gam:    make([]complex128, cells*nf),
-		tr:     make([]complex128, cells*nf),
+		in:     make([]float64, cells*nf),
+		into:   make([]float64, cells*nf),
+		on:     make([]float64, cells*nf),
 		run:    make([]complex128, nf),
+		aa:     make([]float64, nf),
 		rev:    make([]Slab, cells),
 		second: make([]float64, cells),
 	}
@@ -158,35 +165,36 @@ func (w *Wave) Band() Band { return w.band }
 //
 // Method: each slab is a uniform medium of refractive index
 // n = √(ε′ − jε″) in which the field is a forward and a backward wave,
-// E = A(e^{−jkζ} + Γ e^{jkζ}), k = k0 n, ζ from the slab's top. The
-// reflection coefficient is carried up from the bottom (air below, or
-// Γ = −1 on a conductor's face) by the impedance recursion
+// E = A(e^{−jkζ} + Γ_top e^{jkζ}), k = k0 n = β − jα, ζ from the slab's top.
+// One pass up the stack carries the reflection coefficient from the bottom
+// (air below, or Γ = −1 on a conductor's face) by the impedance recursion
 //
-//	Γ_top = Γ_bot e^{−2jkw},  Γ_bot(above) = (ρ + Γ_top)/(1 + ρ Γ_top),  ρ = (n_a − n_b)/(n_a + n_b),
+//	Γ_top = Γ_bot z²,  z = e^{−jkw},  Γ_bot(above) = (ρ + Γ_top)/(1 + ρ Γ_top),  ρ = (n_a − n_b)/(n_a + n_b),
 //
-// and the amplitudes carried down by A_b = A_a e^{−jk_a w_a} (1 + ρ)/(1 + ρ Γ_top,b),
-// which never divides by a field node. The integral of |E|² over a slab is
-// taken in closed form,
+// and one pass down carries |A|², since A_b = A_a z_a (1 + ρ)/(1 + ρ Γ_top,b)
+// gives |A_b|² = |A_a|² |z_a|² |1 + ρ|²/|1 + ρ Γ_top,b|², which never divides
+// by a field node. The integral of |E|² over a slab is taken in closed form;
+// with Γ_bot = Γ_top/z² and q = 1 − e^{−2αw} = 1 − |z|²,
 //
-//	∫₀ʷ |E|² dζ = |A|² [ (1 − e^{−2αw})/(2α) (1 + |Γ|² e^{2αw}) + 2 Re(Γ e^{jβw}) sin(βw)/β ],  k = β − jα,
+//	k0 ∫₀ʷ |E|² dζ = |A|² [ q/(2n″) (1 + |Γ_bot|² (1 − q)) − (2/n′) Re(Γ_bot z) Im(z) ]
 //
-// so Σ w_i ε″_i K_i = 1 − |Γ|² − |T|² (Poynting's theorem) holds to
-// round-off. Over a band, the phase factors e^{−jk w} and 1 − e^{−2αw} of
-// each slab follow exact geometric recurrences in frequency (the
-// frequencies are equally spaced), so the inner loop over frequencies is
-// multiplications only; their relative error grows by about one rounding
-// unit per frequency. Consecutive lossless slabs of equal permittivity are
-// crossed as one. Reference: Orfanidis, Electromagnetic Waves and
-// Antennas, multilayer structures chapter (the recursion); Born & Wolf,
-// Principles of Optics, §1.6 (stratified media).
+// (k0/(2α) = 1/(2n″), k0/β = 1/n′), which holds no growing exponential, so
+// Σ w_i ε″_i K_i = 1 − |Γ|² − |T|² (Poynting's theorem) holds to round-off.
+// Over a band, each slab's phase factor z and q follow exact recurrences
+// in frequency (the frequencies are equally spaced), so the inner loops
+// over frequencies are multiplications only; their relative error grows by
+// about one rounding unit per frequency. Consecutive lossless slabs of equal
+// permittivity are crossed as one. Reference: Orfanidis, Electromagnetic
+// Waves and Antennas, multilayer structures chapter (the recursion); Born &
+// Wolf, Principles of Optics, §1.6 (stratified media).
 //
 // Preconditions: len(dst) = len(slabs) ≤ the workspace's cells, every
 // width > 0, ε′ > 0, ε″ ≥ 0 (panics on a length mismatch).
 //
-// Cost: O(len(slabs) · Points): per slab and frequency about ten complex
-// multiplications and one complex division in two passes (twice that for
-// IncidentBoth), plus per slab a complex square root and a few
-// exponentials; no allocation.
+// Cost: O(len(slabs) · Points): per slab and frequency about five complex
+// multiplications, one real division and some twenty real operations going
+// up, two multiplications coming down (twice that for IncidentBoth), plus
+// per slab a complex square root and a few exponentials; no allocation.
 func (w *Wave) Absorb(dst []float64, slabs []Slab, inc Incidence) WaveShares {
 	n := len(slabs)
 	if len(dst) != n || n > w.cells {
@@ -263,80 +271,104 @@ func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 		w.seg[m-1].rho, w.seg[m-1].tau = -1, 0
 	}
 	run := w.run[:nf]
-	// Backward pass: Γ at the bottom of the lowest segment, then up. Row c
-	// of w.tr is the field transmission into segment c from above (from
-	// the air for c = 0).
+	// One pass up the stack: Γ at the bottom of each segment (air below, or
+	// −1 on a conductor), the factors that carry |A|² down, and the
+	// closed-form integral of each lossy segment, which needs Γ and the
+	// phase factor z = e^{−jkw} of the segment alone.
 	for f := range run {
 		run[f] = w.seg[m-1].rho
 	}
 	for c := m - 1; c >= 0; c-- {
 		sg := &w.seg[c]
-		z2, z2d := w.phase(sg, 2) // e^{−2jkw}
-		gam := w.gam[c*nf : (c+1)*nf : (c+1)*nf]
-		tr := w.tr[c*nf : (c+1)*nf : (c+1)*nf]
-		gam, tr = gam[:len(run)], tr[:len(run)] // no bounds checks below
-		var rho, tau complex128                 // of the interface above this segment
+		z, zd := w.phase(sg)
+		in := w.in[c*nf : (c+1)*nf : (c+1)*nf]
+		into := w.into[c*nf : (c+1)*nf : (c+1)*nf]
+		on := w.on[c*nf : (c+1)*nf : (c+1)*nf]
+		in, into, on = in[:len(run)], into[:len(run)], on[:len(run)] // no bounds checks below
+		next := into                                                 // |A|² factor into the segment below (unused for the last)
+		if c+1 < m {
+			next = w.into[(c+1)*nf : (c+2)*nf]
+			next = next[:len(run)]
+		}
+		var rho, tau complex128 // of the interface above this segment
 		if c > 0 {
 			rho, tau = w.seg[c-1].rho, w.seg[c-1].tau
 		} else {
 			n0 := sg.n
 			rho, tau = (1-n0)/(1+n0), 2/(1+n0)
 		}
+		tt := real(tau)*real(tau) + imag(tau)*imag(tau)
+		// Into the air below: Γ = 0 there, so |A|² gains |τ|²; onto a
+		// conductor nothing passes.
+		last := 0.0
+		if c == m-1 && !metal {
+			last = real(sg.tau)*real(sg.tau) + imag(sg.tau)*imag(sg.tau)
+		}
+		// The lossy segment's closed form (see Absorb): q = 1 − |z|² by its
+		// own recurrence in frequency, q_{f+1} = q_f + p (1 − q_f), which
+		// has no cancellation for thin slabs.
+		n1, n2 := real(sg.n), -imag(sg.n)
+		var q, p, c1, c2 float64
+		if sg.lossy {
+			q = -math.Expm1(-2 * w.kLo * n2 * sg.width)
+			p = -math.Expm1(-2 * w.dk * n2 * sg.width)
+			c1, c2 = 1/(2*n2), 2/n1
+		}
 		for f := range run {
-			gam[f] = run[f] // Γ at the bottom of this segment
-			g := run[f] * z2
+			gb := run[f] // Γ at the bottom of this segment
+			zz := real(z)*real(z) + imag(z)*imag(z)
+			if sg.lossy {
+				gg := real(gb)*real(gb) + imag(gb)*imag(gb)
+				gz := real(gb)*real(z) - imag(gb)*imag(z) // Re(Γ_bot z)
+				in[f] = q*c1*(1+gg*(1-q)) - c2*gz*imag(z)
+				q += p * (1 - q)
+			}
+			if c+1 < m {
+				on[f] = zz * next[f]
+			} else {
+				on[f] = zz * last
+			}
+			g := gb * (z * z) // Γ at the top of this segment
 			// 1/(1 + ρ g) without the library's scaled complex division:
 			// |ρ| < 1 and |g| ≤ 1 keep the denominator away from zero.
 			d := 1 + rho*g
 			r := 1 / (real(d)*real(d) + imag(d)*imag(d))
-			id := complex(real(d)*r, -imag(d)*r)
-			run[f] = (rho + g) * id // Γ at the bottom of the segment above (or of the stack)
-			tr[f] = tau * id
-			z2 *= z2d
+			run[f] = (rho + g) * complex(real(d)*r, -imag(d)*r) // Γ at the bottom of the segment above (or of the stack)
+			into[f] = tt * r                                    // |τ/(1 + ρ g)|²
+			z *= zd
 		}
 	}
-	// run holds Γ of the whole stack: the reflectance, then the forward
-	// pass from the amplitude entering segment 0 (per unit incident field).
+	// run holds Γ of the whole stack. Down the stack: |A|² at the top of
+	// each segment per unit incident |E|², the cells' integrals weighted by
+	// it, and what reaches the air below.
 	var refl float64
+	aa := w.aa[:nf]
 	for f := range run {
 		g := run[f]
 		refl += real(g)*real(g) + imag(g)*imag(g)
-		run[f] = w.tr[f]
+		aa[f] = w.into[f]
 	}
-	var trans float64
 	for c := range m {
 		sg := &w.seg[c]
-		z, zd := w.phase(sg, 1) // e^{−jkw}
-		last := c+1 == m
-		next := w.tr[c*nf : (c+1)*nf] // (not used for the last segment)
-		if !last {
-			next = w.tr[(c+1)*nf : (c+2)*nf]
-		}
-		switch {
-		case sg.lossy:
-			dst[sg.first] = w.absorbSegment(sg, z, zd, w.gam[c*nf:(c+1)*nf], next, last)
-		case !last:
-			next = next[:len(run)]
-			for f := range run {
-				run[f] *= z * next[f]
-				z *= zd
+		in := w.in[c*nf : (c+1)*nf]
+		on := w.on[c*nf : (c+1)*nf]
+		in, on = in[:len(aa)], on[:len(aa)]
+		if sg.lossy {
+			sum := 0.0
+			for f, a := range aa {
+				sum += a * in[f]
+				aa[f] = a * on[f]
 			}
+			dst[sg.first] = sum / (float64(nf) * sg.width)
+			continue
 		}
-		if last && !metal {
-			// Into the air below: Γ = 0 there, so the factor is τ (run
-			// holds the amplitudes at the bottom of the last segment).
-			if !sg.lossy {
-				for f := range run {
-					run[f] *= z
-					z *= zd
-				}
-			}
-			tau := sg.tau
-			for _, a := range run {
-				a *= tau
-				trans += real(a)*real(a) + imag(a)*imag(a)
-			}
+		for f := range aa {
+			aa[f] *= on[f]
 		}
+	}
+	var trans float64
+	for _, a := range aa {
+		trans += a
 	}
 	abs := 0.0
 	for _, sg := range w.seg {
@@ -349,56 +381,14 @@ func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 	return WaveShares{Reflected: refl * inv, Transmitted: trans * inv, Absorbed: abs}
 }
 
-// phase returns e^{−j m k w} of the segment at the band's first frequency
-// and its ratio between consecutive frequencies.
-func (w *Wave) phase(sg *segment, m float64) (z, zd complex128) {
+// phase returns e^{−jkw} of the segment at the band's first frequency and
+// its ratio between consecutive frequencies.
+func (w *Wave) phase(sg *segment) (z, zd complex128) {
 	e := func(k float64) complex128 {
-		a := m * k * sg.width
+		a := k * sg.width
 		s, c := math.Sincos(a * real(sg.n))
 		r := math.Exp(a * imag(sg.n)) // imag(n) = −n″ ≤ 0
 		return complex(r*c, -r*s)
 	}
 	return e(w.kLo), e(w.dk)
-}
-
-// absorbSegment returns the band-mean K of a lossy one-slab segment from
-// the amplitudes at its top (w.run) and Γ at its bottom (gam), and moves
-// the amplitudes on: to the top of the next segment (through next), or to
-// the bottom of the segment when it is the last.
-//
-// With Γ_top = Γ_bot z², z = e^{−jkw} = e^{−αw} e^{−jβw}, the closed form of
-// Wave.Absorb becomes, per unit |A|²,
-//
-//	k0 ∫₀ʷ |E|² dζ = q/(2n″) (1 + |Γ_bot|² (1 − q)) − (2/n′) Re(Γ_bot z) Im(z),  q = 1 − e^{−2αw},
-//
-// (k0/(2α) = 1/(2n″), k0/β = 1/n′), which holds no growing exponential.
-func (w *Wave) absorbSegment(sg *segment, z, zd complex128, gam, next []complex128, last bool) float64 {
-	n1, n2 := real(sg.n), -imag(sg.n)
-	wd := sg.width
-	// q = 1 − |z|² by its own recurrence in frequency: q_{f+1} = q_f +
-	// p (1 − q_f) with p = 1 − e^{−2Δα w} has no cancellation for thin
-	// slabs.
-	q := -math.Expm1(-2 * w.kLo * n2 * wd)
-	p := -math.Expm1(-2 * w.dk * n2 * wd)
-	c1 := 1 / (2 * n2)
-	c2 := 2 / n1
-	run := w.run[:w.band.Points]
-	gam = gam[:len(run)]
-	next = next[:len(run)]
-	sum := 0.0
-	for f, a := range run {
-		g := gam[f]
-		gg := real(g)*real(g) + imag(g)*imag(g)
-		gz := real(g)*real(z) - imag(g)*imag(z) // Re(Γ_bot z)
-		in := q*c1*(1+gg*(1-q)) - c2*gz*imag(z)
-		sum += (real(a)*real(a) + imag(a)*imag(a)) * in
-		if last {
-			run[f] = a * z
-		} else {
-			run[f] = a * z * next[f]
-		}
-		z *= zd
-		q += p * (1 - q)
-	}
-	return sum / (float64(len(run)) * wd)
 }
