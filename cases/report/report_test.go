@@ -266,9 +266,9 @@ func TestReportMapPixels(t *testing.T) {
 			}
 		}
 	}
-	// The plate does not cure: its rows are grey on the cure map.
+	// The plate does not cure: its rows have the no-value colour on the cure map.
 	if got := imgs[2].At(0, kz*nCells-1); !sameColor(got, noValueColor) {
-		t.Errorf("cure map in the plate: %v, want the no-value grey", got)
+		t.Errorf("cure map in the plate: %v, want the no-value colour", got)
 	}
 }
 
