@@ -24,7 +24,8 @@ type Quantity struct {
 
 // Vocabulary lists the numbers of a run's summary in the order of
 // summary.json. Terminal, report, CSV headers and README take their names
-// from here (TestVocabularyEverywhere).
+// from here (TestVocabularyEverywhere); every number of summary.json has its
+// line (TestVocabularyComplete).
 var Vocabulary = []Quantity{
 	{"peak_temperature_C", "peak temperature", "°C",
 		"the highest temperature of any cell at any time (read between steps too)",
@@ -87,6 +88,8 @@ var Vocabulary = []Quantity{
 		func(s *Summary) float64 { return optional(s.FlowWindowS) }},
 	{"flow_viscosity_Pa_s", "flow threshold", "Pa·s", "the viscosity below which the resin counts as flowing (criteria.flow_viscosity, default 100 Pa·s)",
 		func(s *Summary) float64 { return optional(s.FlowViscosityPaS) }},
+	{"control_sensor_depth_mm", "sensor depth", "mm", "under closed-loop volumetric heating, the depth of the controlled temperature",
+		func(s *Summary) float64 { return optional(s.ControlSensorDepthMM) }},
 	{"conservation_residual", "conservation residual", "",
 		"the relative imbalance of the run's energy ledger (heat in + reaction heat against the change in stored heat): it proves the bookkeeping, not the accuracy",
 		func(s *Summary) float64 { return float64(s.ConservationResidual) }},

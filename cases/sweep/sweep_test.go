@@ -640,6 +640,26 @@ func TestSweepDroppedProbe(t *testing.T) {
 	if want := []float64{0, 1e-3}; len(c.Probes) != 2 || math.Abs(c.Probes[1]-want[1]) > 1e-15 {
 		t.Errorf("probes %v, want %v", c.Probes, want)
 	}
+	// The run says so: in the case's notes, the note column of its row,
+	// sweep.log, and the report of the sweep.
+	const note = "left out the probe below the 2 mm stack of this run: output.probes.2 (3 mm)"
+	if len(c.Notes) != 1 || c.Notes[0] != note {
+		t.Errorf("notes %q, want %q", c.Notes, note)
+	}
+	s2 := newTinySweep(t, "", SweepSettings{Vary: mustVary(t, "layer.resin.thickness=1mm,2.5mm")})
+	dir := t.TempDir()
+	rep := runSweep(t, s2, dir, SweepOptions{Jobs: 1})
+	if len(rep.Noted) != 1 || rep.Noted[0] != 0 || rep.Note != note {
+		t.Errorf("report: noted runs %v, note %q; want run 0 with %q", rep.Noted, rep.Note, note)
+	}
+	rows := testkit.ReadCSV(t, filepath.Join(dir, results.SweepSummaryFile))
+	if h := rows[0]; h[len(h)-1] != "note" || rows[1][len(h)-1] != note || rows[2][len(h)-1] != "" {
+		t.Errorf("summary.csv note column: header %q, rows %q and %q", h[len(h)-1], rows[1][len(h)-1], rows[2][len(h)-1])
+	}
+	logText, err := os.ReadFile(filepath.Join(dir, results.SweepLogFile))
+	if err != nil || !strings.Contains(string(logText), "run 00000 ok") || !strings.Contains(string(logText), `note="`+note+`"`) {
+		t.Errorf("sweep.log does not note the probe left out (%v):\n%s", err, logText)
+	}
 	// A varied probe is checked as written.
 	s = newTinySweep(t, "", SweepSettings{Vary: mustVary(t, "output.probes.2=9mm")})
 	if _, err := s.Case(0); err == nil || !strings.Contains(err.Error(), "output.probes.2") {

@@ -167,3 +167,18 @@ func TestSweepCommand(t *testing.T) {
 		}
 	}
 }
+
+// TestSweepNotesProbeLeftOut: a run whose thinner stack leaves a probe
+// below it says so on the terminal, besides its row and sweep.log.
+func TestSweepNotesProbeLeftOut(t *testing.T) {
+	chdir(t)
+	writeExample(t, "thick-potting-oven", "pot.toml")
+	code, out, errs := cl(t, "sweep", "pot.toml", "--vary", "layer.potting.thickness=6mm,12mm", "-j", "1", "--no-report", "-o", "sw")
+	if code != exitOK && code != exitCriteria {
+		t.Fatalf("exit %d\n%s%s", code, out, errs)
+	}
+	want := "note: 1 run (0): left out the probes below the 9.6 mm stack of this run: output.probes.2 (12 mm), output.probes.3 (13.6 mm), output.probes.4 (15.6 mm)"
+	if !strings.Contains(out, want) {
+		t.Errorf("stdout lacks %q:\n%s", want, out)
+	}
+}
