@@ -3,6 +3,7 @@ package main
 import (
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -23,6 +24,17 @@ func TestTuneCommand(t *testing.T) {
 		if _, err := os.Stat(filepath.Join(dir, "out", f)); err != nil {
 			t.Errorf("%s not written: %v", f, err)
 		}
+	}
+	// Times for reading carry no six decimals: "1.23 h (4428 s)".
+	tuned, _ := os.ReadFile(filepath.Join(dir, "out", "tuned.toml"))
+	long := regexp.MustCompile(`\d\.\d{4,} s\b`)
+	for name, text := range map[string]string{"stdout": out, "tuned.toml": string(tuned)} {
+		if m := long.FindString(text); m != "" {
+			t.Errorf("%s writes a time as %q:\n%s", name, m, text)
+		}
+	}
+	if !regexp.MustCompile(`cycle time [0-9.]+ (min|h) \(\d+ s\)`).MatchString(out) {
+		t.Errorf("no readable cycle time in:\n%s", out)
 	}
 
 	// No program in the range meets min_cure: exit 1, tune.csv only.
