@@ -59,7 +59,7 @@ func TestVocabularyEverywhere(t *testing.T) {
 		MaxSpreadK: 2, MinFinalCure: 0.9, MinFinalCureDepthMM: 2, MeanFinalCure: 0.95, TimeToMinCureS: 7200,
 		GelTimeFirstS: 3000, GelTimeLastS: 3100, MinFinalGlassTransitionC: 90, EnergyBalanceError: 1e-15,
 		Steps: 10, EndTimeS: 9000, ControlMaxErrorK: &e, ControlSensorDepthMM: &z,
-		Criteria: Verdicts{{CriterionMinCure, 0.9, 0.85, true}}}
+		Criteria: Verdicts{{Name: CriterionMinCure, Value: 0.9, Limit: 0.85, Pass: true}}}
 	rows := SummaryRows(s)
 	if len(rows) < 14 {
 		t.Errorf("%d summary rows, want every quantity that applies", len(rows))
