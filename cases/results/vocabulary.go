@@ -35,7 +35,7 @@ var Vocabulary = []Quantity{
 	{"peak_depth_mm", "depth of the peak", "mm", "where the peak temperature was reached (depth 0 is the top face)",
 		func(s *Summary) float64 { return float64(s.PeakDepthMM) }},
 	{"overshoot_K", "overshoot", "K",
-		"the largest excess of any cell over the hottest driving temperature (air, platen or control program) at the same time",
+		"the largest excess of any cell over the hottest temperature any driver (air, platen or control program) has reached so far; negative when the part never passes it",
 		func(s *Summary) float64 { return float64(s.OvershootK) }},
 	{"hottest_driving_temperature_C", "hottest driving temperature", "°C", "the hottest temperature any driver reached over the run",
 		func(s *Summary) float64 { return float64(s.HottestDrivingC) }},

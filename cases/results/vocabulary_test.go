@@ -28,7 +28,7 @@ func TestVocabularyComplete(t *testing.T) {
 				want = su[1] // the longer suffix comes later and wins
 			}
 		}
-		if q.Unit != want {
+		if want != "" && q.Unit != want {
 			t.Errorf("%s: unit %q, its key says %q", q.Key, q.Unit, want)
 		}
 	}
@@ -57,7 +57,7 @@ func TestVocabularyEverywhere(t *testing.T) {
 	e, z := Float(0.8), Float(12)
 	s := Summary{Title: "t", Status: StatusOK, PeakTemperatureC: 100, PeakTimeS: 60, PeakDepthMM: 1, OvershootK: 3,
 		MaxSpreadK: 2, MinFinalCure: 0.9, MinFinalCureDepthMM: 2, MeanFinalCure: 0.95, TimeToMinCureS: 7200,
-		GelTimeFirstS: 3000, GelTimeLastS: 3100, MinFinalGlassTransitionC: 90, EnergyBalanceError: 1e-15,
+		GelTimeFirstS: 3000, GelTimeLastS: 3100, MinFinalGlassTransitionC: 90, ConservationResidual: 1e-15,
 		Steps: 10, EndTimeS: 9000, ControlMaxErrorK: &e, ControlSensorDepthMM: &z,
 		Criteria: Verdicts{{Name: CriterionMinCure, Value: 0.9, Limit: 0.85, Pass: true}}}
 	rows := SummaryRows(s)
@@ -85,7 +85,7 @@ func TestVocabularyEverywhere(t *testing.T) {
 	cmp := ComparisonRows([]Compared{{Name: "a", Ran: true, Summary: s}, {Name: "b", Ran: true, Summary: Summary{Status: StatusOK,
 		PeakTemperatureC: nan, PeakTimeS: nan, PeakDepthMM: nan, OvershootK: nan, MaxSpreadK: nan, MinFinalCure: nan,
 		MinFinalCureDepthMM: nan, MeanFinalCure: nan, TimeToMinCureS: nan, GelTimeFirstS: nan, GelTimeLastS: nan,
-		MinFinalGlassTransitionC: nan, EnergyBalanceError: nan, EndTimeS: nan}}})
+		MinFinalGlassTransitionC: nan, ConservationResidual: nan, EndTimeS: nan}}})
 	for _, r := range cmp[1:] {
 		if !labels[r[0]] {
 			t.Errorf("comparison row %q is not a label of Vocabulary", r[0])
@@ -124,7 +124,7 @@ func TestQuantityFormat(t *testing.T) {
 		{"time_to_min_cure_s", 22604.059067, "6.28 h"},
 		{"gel_time_first_s", 95.3, "95.3 s"},
 		{"steps", 17820, "17820"},
-		{"energy_balance_error", 7.44704253e-15, "7.45e-15"},
+		{"conservation_residual", 7.44704253e-15, "7.45e-15"},
 		{"peak_temperature_C", math.NaN(), "n/a"},
 	} {
 		if got := Term(tc.key).Format(tc.v); got != tc.want {
