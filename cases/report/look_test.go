@@ -13,7 +13,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
 
-	"cureslab/cases"
+	"cureslab/cases/check"
 	"cureslab/cases/results"
 )
 
@@ -301,7 +301,7 @@ func TestCautionsByPage(t *testing.T) {
 		if got := strings.Contains(tc.page, fire); got != tc.wantFire {
 			t.Errorf("%s page: self-heating caution %v, want %v", tc.name, got, tc.wantFire)
 		}
-		for _, s := range cases.Cautions(cases.CautionScope{}) {
+		for _, s := range check.Cautions(check.CautionScope{}) {
 			if !strings.Contains(tc.page, htmlEscaped(s)) {
 				t.Errorf("%s page lacks the caution %q", tc.name, s)
 			}

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"cureslab/cases"
+	casecheck "cureslab/cases/check"
 	"cureslab/cases/results"
 )
 
@@ -33,7 +34,7 @@ var readmeBlocks = map[string]func(t *testing.T) string{
 	// The cautions, as check and the report pages word them.
 	"cautions": func(t *testing.T) string {
 		var b strings.Builder
-		for _, s := range cases.AllCautions() {
+		for _, s := range casecheck.AllCautions() {
 			fmt.Fprintf(&b, "- %s\n", s)
 		}
 		return b.String()
