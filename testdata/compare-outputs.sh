@@ -1,5 +1,6 @@
 #!/usr/bin/env bash
-# Runs the demo, every case under testdata/good and testdata/bench, a compare
+# Runs the demo, check and run on every case under testdata/good and
+# testdata/bench and check on every embedded example, a compare
 # of the good cases, a small sweep and a short tune with two cureslab binaries
 # and compares their outputs byte for byte (report pages modulo the line that
 # carries the drawing time). Used to show that a refactoring changes no output.
@@ -18,6 +19,7 @@ runall() { # BIN DIR
   for f in "$root"/testdata/good/*.toml "$root"/testdata/bench/*.toml; do
     n=$(basename "$(dirname "$f")")-$(basename "$f" .toml)
     "$bin" run "$f" -o "$n" >"$n.stdout" 2>&1; echo "$n $?" >>codes
+    "$bin" check "$f" >"$n.check" 2>&1; echo "$n check $?" >>codes
   done
   "$bin" compare "$root"/testdata/good/potting.toml "$root"/testdata/good/platen.toml \
     "$root"/testdata/good/volumetric-controlled.toml -o cmp >cmp.stdout 2>&1; echo "cmp $?" >>codes
@@ -25,6 +27,9 @@ runall() { # BIN DIR
   "$bin" ttt "$root"/testdata/good/potting.toml --material grey-potting-7 -o ttt.csv --plot ttt.html >ttt.stdout 2>&1; echo "ttt $?" >>codes
   "$bin" fit "$root"/testdata/dsc/dyn-*.csv -o fit.toml --plot fit.html >fit.stdout 2>&1; echo "fit $?" >>codes
   "$bin" example thick-potting-oven >demo/thick-potting-oven.toml
+  for ex in $("$bin" example | awk '{print $1}'); do
+    "$bin" example "$ex" >"ex-$ex.toml" 2>/dev/null && "$bin" check "ex-$ex.toml" >"ex-$ex.check" 2>&1
+  done
   "$bin" tune "$root"/testdata/tune/hold.toml --program oven -j 1 -o tune >tune.stdout 2>&1; echo "tune $?" >>codes
   "$bin" run demo/thick-potting-oven.toml --uncertain 4 -j 1 -o unc >unc.stdout 2>&1; echo "unc $?" >>codes
   "$bin" report demo/thick-potting-oven >report.stdout 2>&1; echo "report $?" >>codes
