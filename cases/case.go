@@ -57,7 +57,7 @@ type Criteria struct {
 	MinFlowWindow float64 // s, the shortest flow window allowed; 0 means not set
 }
 
-// controlled reports whether p's volumetric heating is under closed-loop
+// Controlled reports whether p's volumetric heating is under closed-loop
 // control (probes.csv then has a power_fraction column).
 func Controlled(p *solver.Problem) bool {
 	return p.Volumetric != nil && p.Volumetric.Control != nil

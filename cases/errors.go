@@ -143,7 +143,7 @@ func (l ErrorList) sortFor(file string) ErrorList {
 	return out
 }
 
-// detail is the Err of an Error: a message that wraps a sentinel kind and,
+// Detail is the Err of an Error: a message that wraps a sentinel kind and,
 // optionally, the error that caused it (a *units.Error, an *os.PathError).
 type Detail struct {
 	Kind  error
@@ -212,7 +212,7 @@ func editDistance(a, b string) int {
 	return prev[len(y)]
 }
 
-// flattenErrors writes the errors of a case on one line: each as
+// FlattenErrors writes the errors of a case on one line: each as
 // "file:line:col: key: message", without hints, joined by "; ".
 func FlattenErrors(err error) string {
 	var list ErrorList

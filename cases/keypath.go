@@ -59,7 +59,7 @@ func parseDroppingProbes(name, text, dir string, t map[string]any, keep func(pat
 	return c, err
 }
 
-// leaf returns the value at a path found by resolveKey.
+// Leaf returns the value at a path found by resolveKey.
 func Leaf(doc map[string]any, path []string) any {
 	var cur any = doc
 	for _, p := range path {
@@ -74,7 +74,7 @@ func Leaf(doc map[string]any, path []string) any {
 	return cur
 }
 
-// checkKind checks the values of v against the value old that the case has
+// CheckKind checks the values of v against the value old that the case has
 // at the key: a quantity must stay a quantity of the same dimension, a
 // number a number and a boolean a boolean, so that a missing unit ("10"
 // for top.h) is caught before anything runs. A value that has the right
@@ -122,7 +122,7 @@ func CheckKind(old any, v Vary) error {
 	return nil
 }
 
-// cloneTree deep-copies a decoded TOML value.
+// CloneTree deep-copies a decoded TOML value.
 func CloneTree(v any) any {
 	switch x := v.(type) {
 	case map[string]any:
@@ -147,7 +147,7 @@ func CloneTree(v any) any {
 	return v
 }
 
-// setPath sets the value at a path found by resolveKey.
+// SetPath sets the value at a path found by resolveKey.
 func SetPath(t map[string]any, path []string, v any) {
 	var cur any = t
 	for i, p := range path {
@@ -173,7 +173,7 @@ func SetPath(t map[string]any, path []string, v any) {
 	}
 }
 
-// resolveKey follows the sweep key path key through the decoded case doc
+// ResolveKey follows the sweep key path key through the decoded case doc
 // and returns the path of keys and 0-based indices that the loader uses
 // (a layer named in the key becomes its index: layer.potting.thickness ->
 // layer.0.thickness), and whether the last key is present in the case.
@@ -312,7 +312,7 @@ func index(a any, i int) any {
 	return nil
 }
 
-// listValue checks one element of a values list and returns it as shown in
+// ListValue checks one element of a values list and returns it as shown in
 // summary.csv and as it goes into the case: a string is normalised by
 // normalizeQuantity, a number is written in its shortest form.
 func ListValue(x any) (shown string, value any, err error) {
@@ -352,7 +352,7 @@ func normalizeQuantity(s string) string {
 	return spaced
 }
 
-// splitNumber splits s into the decimal number at its start (sign, digits,
+// SplitNumber splits s into the decimal number at its start (sign, digits,
 // point, exponent) and the rest; num is "" when s does not start with one.
 func SplitNumber(s string) (num, rest string) {
 	i := 0
@@ -388,7 +388,7 @@ func SplitNumber(s string) (num, rest string) {
 	return s[:i], s[i:]
 }
 
-// dimOf returns the first dimension, in the order of package units, that s
+// DimOf returns the first dimension, in the order of package units, that s
 // reads as, or 0 when it reads as none.
 func DimOf(s string) units.Dim {
 	for d := units.Length; d <= units.Viscosity; d++ {
@@ -399,7 +399,7 @@ func DimOf(s string) units.Dim {
 	return 0
 }
 
-// span is a resolved range of a sweep: both ends in the unit of From (or
+// Span is a resolved range of a sweep: both ends in the unit of From (or
 // plain numbers), so that a value between them is written in that unit.
 type Span struct {
 	From, To float64 // in unit (plain numbers when unit is "")
@@ -408,7 +408,7 @@ type Span struct {
 	Decimals int     // decimals written: 9 significant digits of the larger end
 }
 
-// newSpan resolves the ends of a range: both quantities of one dimension
+// NewSpan resolves the ends of a range: both quantities of one dimension
 // (To is converted to the unit of From), or both plain numbers.
 //
 // Method: the dimension is the first one both ends read as (units.Parse);
@@ -488,7 +488,7 @@ func PlainNumber(x any) (float64, bool) {
 	return 0, false
 }
 
-// at returns the value of the range at fraction f in [0, 1] (f = 1 gives To
+// At returns the value of the range at fraction f in [0, 1] (f = 1 gives To
 // exactly), as shown in summary.csv and as it goes into the case:
 //
 //	v = From + (To − From)·f, in the unit of From
@@ -520,7 +520,7 @@ func (sp Span) At(f float64) (shown string, value any) {
 	return s, s
 }
 
-// scalarText classifies a value typed on the command line as TOML would:
+// ScalarText classifies a value typed on the command line as TOML would:
 // true/false are booleans, an integer or a decimal number is a number,
 // anything else is a string (a quantity with its unit, normalised, or a
 // name).
@@ -543,7 +543,7 @@ func ScalarText(s string) any {
 	return normalizeQuantity(s)
 }
 
-// caseVariant is a case file whose decoded values can be replaced before the
+// CaseVariant is a case file whose decoded values can be replaced before the
 // normal loader validates it again, as a sweep run does: positions in
 // messages still come from the text.
 type CaseVariant struct {
@@ -551,7 +551,7 @@ type CaseVariant struct {
 	Doc             map[string]any // only read
 }
 
-// newCaseVariant decodes the case text data; the case itself must be valid.
+// NewCaseVariant decodes the case text data; the case itself must be valid.
 func NewCaseVariant(name string, data []byte, dir string) (*CaseVariant, *Case, error) {
 	text := string(data)
 	var doc map[string]any
@@ -565,13 +565,13 @@ func NewCaseVariant(name string, data []byte, dir string) (*CaseVariant, *Case, 
 	return &CaseVariant{Name: name, Text: text, dir: dir, Doc: doc}, c, nil
 }
 
-// valueSetting is one replaced value: a path found by resolveKey and the value.
+// ValueSetting is one replaced value: a path found by resolveKey and the value.
 type ValueSetting struct {
 	Path  []string
 	Value any
 }
 
-// tree returns a deep copy of the decoded case with sets applied in order;
+// Tree returns a deep copy of the decoded case with sets applied in order;
 // a valueSetting of time.end creates [time] when the case has none.
 func (v *CaseVariant) Tree(sets []ValueSetting) map[string]any {
 	t := CloneTree(v.Doc).(map[string]any)
@@ -586,14 +586,14 @@ func (v *CaseVariant) Tree(sets []ValueSetting) map[string]any {
 	return t
 }
 
-// parse validates the tree t (from tree). A probe of [output] that the
+// Parse validates the tree t (from tree). A probe of [output] that the
 // values put below the stack (a thinner layer) is dropped rather than
 // failing the case, as in a sweep run: probes do not enter the summary.
 func (v *CaseVariant) Parse(t map[string]any) (*Case, error) {
 	return parseDroppingProbes(v.Name, v.Text, v.dir, t, func(string) bool { return false })
 }
 
-// sweepSection returns the [sweep] section of the case (empty when it has
+// SweepSection returns the [sweep] section of the case (empty when it has
 // none). The case was validated by newCaseVariant, so it has no errors.
 func (v *CaseVariant) SweepSection() *SweepSpec {
 	l := &loader{file: v.Name, dir: v.dir, loc: newLocator(v.Text)}
@@ -603,20 +603,20 @@ func (v *CaseVariant) SweepSection() *SweepSpec {
 	return &SweepSpec{}
 }
 
-// errorAt returns an error of the given kind positioned at the value of the
+// ErrorAt returns an error of the given kind positioned at the value of the
 // key path key in the case file.
 func (v *CaseVariant) ErrorAt(key string, kind error, msg string) error {
 	p := newLocator(v.Text).value(key)
 	return ErrorList{{File: v.Name, Line: p.Line, Col: p.Col, Key: key, Err: &Detail{Kind: kind, Msg: msg}}}
 }
 
-// validate checks the tree t (from tree) like a case file.
+// Validate checks the tree t (from tree) like a case file.
 func (v *CaseVariant) Validate(t map[string]any) error {
 	_, err := parseTree(v.Name, v.Text, t, v.dir)
 	return err
 }
 
-// parseKeeping validates the tree t like parse, but a probe below the stack
+// ParseKeeping validates the tree t like parse, but a probe below the stack
 // fails the case when keep(its key path) says so (see parseDroppingProbes).
 func (v *CaseVariant) ParseKeeping(t map[string]any, keep func(path string) bool) (*Case, error) {
 	return parseDroppingProbes(v.Name, v.Text, v.dir, t, keep)

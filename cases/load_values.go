@@ -298,7 +298,7 @@ func (l *loader) rangeErr(path string, v any, format string, args ...any) *Error
 	return l.atValue(path, ErrRange, "%s, got %s", fmt.Sprintf(format, args...), Written(v))
 }
 
-// written formats a TOML value as the user wrote it.
+// Written formats a TOML value as the user wrote it.
 func Written(v any) string {
 	switch x := v.(type) {
 	case string:
@@ -360,7 +360,7 @@ func isIndex(s string) bool {
 	return err == nil
 }
 
-// celsius formats an absolute temperature in K for a message.
+// Celsius formats an absolute temperature in K for a message.
 func Celsius(T float64) string { return strconv.FormatFloat(T-273.15, 'g', 6, 64) + " C" }
 
 // article returns the dimension word of d with its article: "a length",

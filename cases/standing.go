@@ -5,7 +5,7 @@ import (
 	"cureslab/solver"
 )
 
-// stackWave solves the plane wave of the standing-wave model on the stack of
+// StackWave solves the plane wave of the standing-wave model on the stack of
 // pr (one slab per cell, as the solver does: ε′ of the material's dielectric
 // section, 1 without one; shields are conductors) with every cell at
 // temperature T and every curing cell at cure a, over band, from inc. It

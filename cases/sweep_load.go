@@ -38,7 +38,7 @@ type Vary struct {
 	Count    int
 }
 
-// isRange reports whether v is a range (From/To) rather than a list.
+// IsRange reports whether v is a range (From/To) rather than a list.
 func (v Vary) IsRange() bool { return v.From != nil || v.To != nil }
 
 // SweepSpec is the [sweep] section of a case as read by the loader.

@@ -259,7 +259,7 @@ func uncPlainSpread(s string) (abs, rel float64, err error) {
 	return x, 0, nil
 }
 
-// readUncertainty returns the [uncertainty] of the case text (decoded as
+// ReadUncertainty returns the [uncertainty] of the case text (decoded as
 // doc), nil when it has none, or the errors of that section.
 func ReadUncertainty(name, text string, doc map[string]any) (*Uncertainty, error) {
 	l := &loader{file: name, loc: newLocator(text)}
@@ -290,7 +290,7 @@ func (in *UncertainInput) offset(u, w float64) float64 {
 	return w * (2*u - 1)
 }
 
-// perturb returns the value cur (as found in a decoded case) moved by the
+// Perturb returns the value cur (as found in a decoded case) moved by the
 // sample u, as shown in uncertainty.csv and as it goes into the case. A
 // quantity keeps the unit it is written in (the change is made in SI and
 // converted back exactly, also for the affine temperature scales); a plain
@@ -332,7 +332,7 @@ func (in *UncertainInput) Perturb(cur any, u float64) (shown string, value any, 
 	return "", nil, fmt.Errorf("%s is %s, not a number", in.Key, kindOf(cur))
 }
 
-// sample applies the uncertain inputs of u at the sample point us (one u in
+// Sample applies the uncertain inputs of u at the sample point us (one u in
 // [0, 1) per input) to the tree t in place, and returns the values as shown.
 func (u *Uncertainty) Sample(t map[string]any, us []float64) ([]string, error) {
 	shown := make([]string, len(u.Inputs))

@@ -34,7 +34,7 @@ var (
 // scheduleHeader is the header a schedule file must start with.
 var scheduleHeader = []string{"time_s", "temperature_C"}
 
-// maxFileErrors bounds the errors reported for one schedule file.
+// MaxFileErrors bounds the errors reported for one schedule file.
 const MaxFileErrors = 10
 
 // schedules reads every [schedules.X]. A schedule with errors maps to nil,

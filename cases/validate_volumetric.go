@@ -397,7 +397,7 @@ func (l *loader) checkAbsorbers(layers []layerDef, v *physics.Volumetric) {
 	}
 }
 
-// frequencyNote returns a note for check when f is outside every ISM band
+// FrequencyNote returns a note for check when f is outside every ISM band
 // allotted to industrial heating, "" when it is inside one.
 func FrequencyNote(f float64) string {
 	for _, b := range ismBands {
@@ -422,7 +422,7 @@ var ismBands = []struct{ lo, hi float64 }{
 	{5.725e9, 5.875e9},
 }
 
-// formatFrequency writes f (Hz) in kHz, MHz or GHz with up to 6 digits.
+// FormatFrequency writes f (Hz) in kHz, MHz or GHz with up to 6 digits.
 func FormatFrequency(f float64) string {
 	switch a := math.Abs(f); {
 	case a >= 1e9:
@@ -435,7 +435,7 @@ func FormatFrequency(f float64) string {
 	return num.G(f) + " Hz"
 }
 
-// sensorProbe returns the index of the probe at the sensor depth z, or −1.
+// SensorProbe returns the index of the probe at the sensor depth z, or −1.
 // The loader adds the sensor to the probes when no probe is there, so that
 // probes.csv records the controlled temperature.
 func SensorProbe(probes []float64, z float64) int {

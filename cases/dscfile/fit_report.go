@@ -319,7 +319,7 @@ func r2Label(r2 float64, n int) string {
 	return fmt.Sprintf(" (R² %.4f)", r2)
 }
 
-// programLabel is "10 K/min" or "isothermal 110 C".
+// ProgramLabel is "10 K/min" or "isothermal 110 C".
 func ProgramLabel(p dsc.Program) string {
 	if p.Kind == dsc.Isothermal {
 		return "isothermal " + fmtSig(num.Round(p.Temperature-273.15, 1), 4) + " C"

@@ -262,7 +262,7 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 func readBack(s string) float64 {
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil {
-		panic("cases: cannot read back " + s)
+		panic("report: cannot read back " + s)
 	}
 	return v
 }

@@ -39,7 +39,7 @@ import (
 // WriteFileAtomic; its directory must exist. Cost: linear in the samples.
 func WriteFitPlot(path string, an *dsc.Analysis, name string) error {
 	if an == nil || len(an.Curves) == 0 {
-		return errors.New("cases.WriteFitPlot: an analysis with at least one scan is required")
+		return errors.New("report.WriteFitPlot: an analysis with at least one scan is required")
 	}
 	if fi, err := os.Stat(filepath.Dir(path)); err != nil || !fi.IsDir() {
 		return fmt.Errorf("cannot write %s: its directory does not exist", path)

@@ -363,7 +363,7 @@ func (m *rasterMap) Plot(c draw.Canvas, p *plot.Plot) {
 	ya, yb := trY(m.y0), trY(m.y1)
 	if ya < yb {
 		// Row 0 must be drawn at y0; the canvas draws row 0 on top.
-		panic("cases: rasterMap needs row 0 at the top of the canvas (use an inverted y axis)")
+		panic("report: rasterMap needs row 0 at the top of the canvas (use an inverted y axis)")
 	}
 	c.DrawImage(vg.Rectangle{Min: vg.Point{X: min(xa, xb), Y: yb}, Max: vg.Point{X: max(xa, xb), Y: ya}}, m.img)
 }

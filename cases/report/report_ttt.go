@@ -37,7 +37,7 @@ import (
 // WriteFileAtomic; its directory must exist. Cost: linear in the rows.
 func WriteTTTPlot(path string, t *ttt.TTTTable) error {
 	if t == nil || len(t.Rows) == 0 {
-		return errors.New("cases.WriteTTTPlot: a TTT table with at least one row is required")
+		return errors.New("report.WriteTTTPlot: a TTT table with at least one row is required")
 	}
 	if fi, err := os.Stat(filepath.Dir(path)); err != nil || !fi.IsDir() {
 		return fmt.Errorf("cannot write %s: its directory does not exist", path)

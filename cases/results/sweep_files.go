@@ -53,7 +53,7 @@ func sweepColumns(keys ...string) []SweepColumn {
 	return out
 }
 
-// sweepCriteria are the criteria columns, in order.
+// SweepCriteria are the criteria columns, in order.
 var SweepCriteria = []string{CriterionMinCure, CriterionMaxTemperature, CriterionMaxSpread, CriterionMinFlowWindow}
 
 // csvFloat writes a summary value as summary.json does; null is empty.
@@ -65,7 +65,7 @@ func csvFloat(f Float) string {
 	return string(b)
 }
 
-// sweepHeader is the header of summary.csv for the varied keys.
+// SweepHeader is the header of summary.csv for the varied keys.
 func SweepHeader(keys []string) []string {
 	h := append([]string{"run"}, keys...)
 	for _, c := range SweepColumns {
@@ -81,7 +81,7 @@ func SweepHeader(keys []string) []string {
 // header (status, error and note end it).
 func SweepStatusCol(header []string) int { return len(header) - 3 }
 
-// sweepDef is the content of sweep.json: what defines a sweep, and nothing
+// SweepDef is the content of sweep.json: what defines a sweep, and nothing
 // that depends on where or how it runs, so that every shard of one sweep
 // writes the same bytes.
 type SweepDef struct {

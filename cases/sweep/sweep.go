@@ -349,7 +349,7 @@ func (s *Sweep) point(r int) (shown []string, values []any) {
 // the order of Keys. It panics if r is outside [0, Runs).
 func (s *Sweep) Values(r int) []string {
 	if r < 0 || r >= s.Runs {
-		panic(fmt.Sprintf("cases: run %d outside the sweep (0 to %d)", r, s.Runs-1))
+		panic(fmt.Sprintf("sweep: run %d outside the sweep (0 to %d)", r, s.Runs-1))
 	}
 	shown, _ := s.point(r)
 	return shown
@@ -360,7 +360,7 @@ func (s *Sweep) Values(r int) []string {
 // replaced). It panics if r is outside [0, Runs).
 func (s *Sweep) Case(r int) (*cases.Case, error) {
 	if r < 0 || r >= s.Runs {
-		panic(fmt.Sprintf("cases: run %d outside the sweep (0 to %d)", r, s.Runs-1))
+		panic(fmt.Sprintf("sweep: run %d outside the sweep (0 to %d)", r, s.Runs-1))
 	}
 	_, vals := s.point(r)
 	return s.caseOf(vals)
@@ -424,7 +424,7 @@ func (s *Sweep) definition() []byte {
 	d.RunsSHA256 = hex.EncodeToString(h.Sum(nil))
 	b, err := json.MarshalIndent(d, "", "  ")
 	if err != nil {
-		panic("cases: sweep definition: " + err.Error()) // not reached: plain types
+		panic("sweep: definition: " + err.Error()) // not reached: plain types
 	}
 	return append(b, '\n')
 }

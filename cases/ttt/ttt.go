@@ -244,7 +244,7 @@ func PrintTTT(w io.Writer, t *TTTTable) error {
 	return p.Err
 }
 
-// tttTime formats a time in s for reading: s below 2 min, min below 2 h, h
+// TttTime formats a time in s for reading: s below 2 min, min below 2 h, h
 // below 2 days, days below 2 years, years beyond.
 func TttTime(t float64) string {
 	const day, year = 86400, 365.25 * 86400

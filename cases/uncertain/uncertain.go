@@ -119,7 +119,7 @@ func WithUncertainty(s results.Summary, rep *UncertainReport) results.Summary {
 	return out
 }
 
-// lhsPoints returns n Latin-hypercube points in [0, 1)^k: gonum's
+// LhsPoints returns n Latin-hypercube points in [0, 1)^k: gonum's
 // samplemv.LatinHypercube on the unit cube with a PCG source seeded with
 // (seed, 0), so that the same seed gives the same points (McKay, Beckman &
 // Conover, Technometrics 21(2), 1979: one point in each of the n equal
@@ -333,7 +333,7 @@ func uncRound(x float64) float64 {
 	return y
 }
 
-// criteriaOf returns the criteria that c sets, with their limits in the
+// CriteriaOf returns the criteria that c sets, with their limits in the
 // units of summary.json and no value.
 func CriteriaOf(c *cases.Case) []results.Verdict {
 	var out []results.Verdict
@@ -359,7 +359,7 @@ func CriteriaOf(c *cases.Case) []results.Verdict {
 // panics otherwise. Cost O(1).
 func Quantile(p float64, x []float64) float64 {
 	if len(x) == 0 || !(p >= 0 && p <= 1) {
-		panic(fmt.Sprintf("cases: Quantile(%v) of %d values", p, len(x)))
+		panic(fmt.Sprintf("uncertain: Quantile(%v) of %d values", p, len(x)))
 	}
 	h := float64(len(x)-1) * p
 	i := int(math.Floor(h))
@@ -617,7 +617,7 @@ func PrintUncertainty(w io.Writer, rep *UncertainReport) error {
 	return tw.Flush()
 }
 
-// uncProgress draws "k/n what" on one line updated in place; nil w draws
+// UncProgress draws "k/n what" on one line updated in place; nil w draws
 // nothing.
 type UncProgress struct {
 	mu    sync.Mutex
@@ -631,7 +631,7 @@ type UncProgress struct {
 
 func (p *UncProgress) add(k int) { p.AddWith(k, "") }
 
-// addWith counts k more done and shows extra after the count.
+// AddWith counts k more done and shows extra after the count.
 func (p *UncProgress) AddWith(k int, extra string) {
 	if p == nil || p.W == nil {
 		return

@@ -15,7 +15,7 @@ func HumanTime(t float64) string {
 	return strconv.FormatFloat(t/3600, 'f', 2, 64) + " h"
 }
 
-// celsius converts K to °C rounded to 1e-6 K; NaN stays NaN.
+// Celsius converts K to °C rounded to 1e-6 K; NaN stays NaN.
 func Celsius(T float64) float64 { return Round6(KtoC(T)) }
 
 // millimetres converts m to mm rounded to 1e-9 mm; NaN stays NaN.
@@ -45,7 +45,7 @@ func Round(v float64, decimals int) float64 {
 	return x
 }
 
-// roundSig rounds v to 9 significant digits; NaN and ±Inf pass through.
+// RoundSig rounds v to 9 significant digits; NaN and ±Inf pass through.
 func RoundSig(v float64) float64 {
 	if math.IsNaN(v) || math.IsInf(v, 0) || v == 0 {
 		return v
@@ -83,7 +83,7 @@ func Sig(v float64) string {
 	return strconv.FormatFloat(v, 'g', 9, 64)
 }
 
-// at returns s[i], or NaN when s is too short (a snapshot without that
+// At returns s[i], or NaN when s is too short (a snapshot without that
 // quantity).
 func At(s []float64, i int) float64 {
 	if i < len(s) {

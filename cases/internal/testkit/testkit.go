@@ -29,7 +29,7 @@ func Updating() bool {
 	return f != nil && f.Value.String() == "true"
 }
 
-// outGolden compares got with testdata/name, or rewrites the file with -update.
+// Golden compares got with testdata/name, or rewrites the file with -update.
 func Golden(t *testing.T, name string, got []byte) {
 	t.Helper()
 	path := filepath.Join("testdata", name)
@@ -51,7 +51,7 @@ func Golden(t *testing.T, name string, got []byte) {
 	}
 }
 
-// outTestCase builds a small case by hand, without the loader: a curing
+// HandBuiltCase builds a small case by hand, without the loader: a curing
 // resin layer 6.35 mm (1/4 in) thick over an FR-4 board 11.1125 mm (7/16 in)
 // thick, convective top driven by an oven program, insulated bottom. The
 // odd imperial depths exercise the shortest-decimal probe names.
@@ -116,7 +116,7 @@ func HandBuiltCase(t testing.TB) *cases.Case {
 	}
 }
 
-// outTestResult is a hand-made result for outTestCase: two snapshots with
+// HandBuiltResult is a hand-made result for HandBuiltCase: two snapshots with
 // values that test the number format (23.000000000000043 °C, a NaN glass
 // transition, a probe in the board).
 func HandBuiltResult() *solver.Result {
@@ -155,7 +155,7 @@ func HandBuiltResult() *solver.Result {
 	}
 }
 
-// readCSV reads a CSV output file whole.
+// ReadCSV reads a CSV output file whole.
 func ReadCSV(t testing.TB, path string) [][]string {
 	t.Helper()
 	f, err := os.Open(path)
@@ -172,7 +172,7 @@ func ReadCSV(t testing.TB, path string) [][]string {
 
 const TuneDir = "../../testdata/tune"
 
-// uncCase returns the text of testdata/tune/NAME.toml with extra appended.
+// TuneCase returns the text of testdata/tune/NAME.toml with extra appended.
 func TuneCase(t *testing.T, name, extra string) []byte {
 	t.Helper()
 	b, err := os.ReadFile(filepath.Join(TuneDir, name+".toml"))
@@ -182,7 +182,7 @@ func TuneCase(t *testing.T, name, extra string) []byte {
 	return append(b, []byte("\n"+extra)...)
 }
 
-// tttCase is a case with one curing resin (invented numbers: autocatalytic
+// TTTCase is a case with one curing resin (invented numbers: autocatalytic
 // with diffusion and a glass transition) on an aluminium plate.
 const TTTCase = `title = "ttt"
 [initial]

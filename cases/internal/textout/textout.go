@@ -51,7 +51,7 @@ func WriteFileAtomic(dir, name string, write func(io.Writer) error) (err error) 
 	return os.Rename(tmp, filepath.Join(dir, name))
 }
 
-// chkPrinter writes formatted text and keeps the first error.
+// Printer writes formatted text and keeps the first error.
 type Printer struct {
 	W   io.Writer
 	Err error
@@ -63,7 +63,7 @@ func (p *Printer) Printf(format string, a ...any) {
 	}
 }
 
-// table returns a tabwriter on p's writer; flush it with p.flush.
+// Table returns a tabwriter on p's writer; flush it with p.flush.
 func (p *Printer) Table() *tabwriter.Writer {
 	return tabwriter.NewWriter(Writer{p}, 0, 0, 2, ' ', 0)
 }
