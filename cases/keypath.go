@@ -1,6 +1,7 @@
 package cases
 
 import (
+	"context"
 	"cureslab/cases/internal/num"
 	"cureslab/cases/units"
 	"cureslab/physics"
@@ -21,7 +22,7 @@ import (
 // enter the summary, so the run goes on without it, and the case's Notes
 // say which probes were left out.
 func parseDroppingProbes(name, text, dir string, t map[string]any, keep func(path string) bool) (*Case, error) {
-	c, err := parseTree(name, text, t, dir)
+	c, err := parseTree(context.Background(), name, text, t, dir)
 	var list ErrorList
 	if err == nil || !errors.As(err, &list) {
 		return c, err
@@ -47,7 +48,7 @@ func parseDroppingProbes(name, text, dir string, t map[string]any, keep func(pat
 		}
 	}
 	out["probes"] = kept
-	c, err = parseTree(name, text, t, dir)
+	c, err = parseTree(context.Background(), name, text, t, dir)
 	if err == nil {
 		word := "probe"
 		if len(left) > 1 {
@@ -553,12 +554,16 @@ type CaseVariant struct {
 
 // NewCaseVariant decodes the case text data; the case itself must be valid.
 func NewCaseVariant(name string, data []byte, dir string) (*CaseVariant, *Case, error) {
+	scan, err := preScan(name, data)
+	if err != nil {
+		return nil, nil, err
+	}
 	text := string(data)
 	var doc map[string]any
 	if _, err := toml.Decode(text, &doc); err != nil {
-		return nil, nil, ErrorList{syntaxError(name, text, err)}
+		return nil, nil, ErrorList{syntaxError(name, text, err, scan)}
 	}
-	c, err := parseTree(name, text, doc, dir)
+	c, err := parseTree(context.Background(), name, text, doc, dir)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -612,7 +617,7 @@ func (v *CaseVariant) ErrorAt(key string, kind error, msg string) error {
 
 // Validate checks the tree t (from tree) like a case file.
 func (v *CaseVariant) Validate(t map[string]any) error {
-	_, err := parseTree(v.Name, v.Text, t, v.dir)
+	_, err := parseTree(context.Background(), v.Name, v.Text, t, v.dir)
 	return err
 }
 

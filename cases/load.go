@@ -1,15 +1,18 @@
 package cases
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 
 	"github.com/BurntSushi/toml"
 
+	"cureslab/cases/internal/num"
+	"cureslab/cases/limits"
+	"cureslab/cases/tomltext"
 	"cureslab/mesh"
 	"cureslab/physics"
 	"cureslab/solver"
@@ -21,12 +24,19 @@ var topKeys = []string{"title", "initial", "time", "layer", "mesh", "materials",
 
 // Load reads, validates and resolves the case file at path (see Parse);
 // relative paths inside it are taken from its directory.
-func Load(path string) (*Case, error) {
-	data, err := os.ReadFile(path)
+func Load(path string) (*Case, error) { return LoadContext(context.Background(), path) }
+
+// LoadContext is Load that stops when ctx is cancelled (the error then
+// wraps ctx.Err()). The case file, and every file it names, must be a
+// regular file (not a FIFO or a device) of at most limits.MaxFileSize
+// bytes, checked before it is opened; it is read in chunks with ctx
+// checked between them (limits.ReadFile).
+func LoadContext(ctx context.Context, path string) (*Case, error) {
+	data, err := limits.ReadFile(ctx, path, limits.MaxFileSize)
 	if err != nil {
 		return nil, ErrorList{{File: path, Err: &Detail{Kind: ErrFile, Cause: err, Msg: fmt.Sprintf("cannot read the case file: %v", err)}}}
 	}
-	return Parse(path, data, filepath.Dir(path))
+	return parse(ctx, path, data, filepath.Dir(path))
 }
 
 // Parse reads, validates and resolves a case file (README, Case file reference) given as
@@ -50,19 +60,28 @@ func Load(path string) (*Case, error) {
 // the file name without its extension. Cost: linear in the size of the
 // file, plus the schedule files it reads and the mesh it builds.
 func Parse(name string, data []byte, dir string) (*Case, error) {
+	return parse(context.Background(), name, data, dir)
+}
+
+func parse(ctx context.Context, name string, data []byte, dir string) (*Case, error) {
+	scan, err := preScan(name, data)
+	if err != nil {
+		return nil, err
+	}
 	text := string(data)
 	var doc map[string]any
 	if _, err := toml.Decode(text, &doc); err != nil {
-		return nil, ErrorList{syntaxError(name, text, err)}
+		return nil, ErrorList{syntaxError(name, text, err, scan)}
 	}
-	return parseTree(name, text, doc, dir)
+	return parseTree(ctx, name, text, doc, dir)
 }
 
 // parseTree is Parse of the document doc decoded from text, which a sweep
 // run has changed in place of some values; positions still come from text.
 // doc is only read.
-func parseTree(name, text string, doc map[string]any, dir string) (*Case, error) {
-	l := &loader{file: name, dir: dir, loc: newLocator(text)}
+func parseTree(ctx context.Context, name, text string, doc map[string]any, dir string) (*Case, error) {
+	l := &loader{file: name, dir: dir, loc: newLocator(text), ctx: ctx}
+	l.checkTexts("", doc)
 	c := l.build(doc)
 	if err := l.errs.sortFor(name).Err(); err != nil {
 		return nil, err
@@ -116,7 +135,8 @@ func (l *loader) build(doc map[string]any) *Case {
 	if !layersOK {
 		total = 0 // unknown: do not judge probe depths against it
 	}
-	p.Probes = l.probes(root, total)
+	var probePaths []string
+	p.Probes, probePaths = l.probes(root, total)
 	if vol != nil && vol.vol.Control != nil && SensorProbe(p.Probes, vol.vol.Control.Sensor) < 0 {
 		p.Probes = append(p.Probes, vol.vol.Control.Sensor) // probes.csv records the controlled temperature
 	}
@@ -160,6 +180,10 @@ func (l *loader) build(doc map[string]any) *Case {
 		// reference).
 		for i, z := range p.Probes {
 			p.Probes[i] = snapToLayerFace(p.Mesh, z)
+		}
+		l.checkProbeColumns(p.Probes[:len(probePaths)], probePaths, num.FormatDepth)
+		if len(l.errs) > 0 {
+			return nil
 		}
 		if vol != nil && vol.vol.Control != nil {
 			vol.vol.Control.Sensor = snapToLayerFace(p.Mesh, vol.vol.Control.Sensor)
@@ -206,12 +230,46 @@ func (l *loader) checkStart(layers []layerDef, defs map[string]*physics.Material
 	}
 }
 
+// preScan scans case text before the TOML library parses it
+// (tomltext.Check) and refuses text that nests deeper than
+// limits.MaxNesting: the library's cost grows faster than the depth.
+func preScan(name string, data []byte) (tomltext.Scan, error) {
+	scan := tomltext.Check(data, limits.MaxNesting)
+	if scan.Depth > limits.MaxNesting {
+		return scan, ErrorList{{File: name, Line: scan.Deepest.Line, Col: scan.Deepest.Col,
+			Err:  &Detail{Kind: ErrSyntax, Msg: fmt.Sprintf("tables, arrays and dotted keys nest deeper than %d levels here; a case file needs about 6", limits.MaxNesting)},
+			Hint: caret(string(data), scan.Deepest.Line, scan.Deepest.Col, 1)}}
+	}
+	return scan, nil
+}
+
+// unclosedWhat explains each construct tomltext reports left open.
+var unclosedWhat = map[string]string{
+	"array of tables header": "this [[table]] header is not closed on its line: end it with ]]",
+	"table header":           "this [table] header is not closed on its line: end it with ]",
+	"string":                 "this string is not closed on its line: end it with the quote it opens with",
+	"multi-line string":      "this multi-line string is never closed: end it with three quotes",
+	"array":                  "this array is never closed: end it with ]",
+	"inline table":           "this inline table is never closed: end it with } on the same line",
+}
+
 // syntaxError turns an error of the TOML parser into an *Error with the
-// parser's position and the offending line with a caret under it.
-func syntaxError(name, text string, err error) *Error {
+// parser's position and the offending line with a caret under it. When
+// the scan found a construct left open at or before the parser's position
+// (a header without its bracket, a string without its quote), the error
+// points at the line and column where that construct opens, with the
+// parser's message after it: the parser only notices the problem later
+// (in a file with CR LF line ends, it reports a string cut by its line end
+// on the line before, hence the one line of slack).
+func syntaxError(name, text string, err error, scan tomltext.Scan) *Error {
 	var pe toml.ParseError
 	if !errors.As(err, &pe) {
 		return &Error{File: name, Err: &Detail{Kind: ErrSyntax, Cause: err, Msg: err.Error()}}
+	}
+	if msg, ok := unclosedWhat[scan.Unclosed]; ok && (pe.Position.Line < 1 || scan.Open.Line <= pe.Position.Line+1) {
+		return &Error{File: name, Line: scan.Open.Line, Col: scan.Open.Col, Key: lastKeyBefore(text, scan.Open.Line, scan.Open.Col),
+			Err:  &Detail{Kind: ErrSyntax, Cause: err, Msg: msg},
+			Hint: caret(text, scan.Open.Line, scan.Open.Col, 1)}
 	}
 	if pe.Position.Line < 1 {
 		// The TOML library reports some lexer errors (a newline inside a

@@ -1,6 +1,7 @@
 package cases
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"sort"
@@ -16,6 +17,7 @@ import (
 type loader struct {
 	file string // name used in messages
 	dir  string // directory of relative paths
+	ctx  context.Context
 	loc  *locator
 	errs ErrorList
 	// suggested holds the key paths offered as "did you mean" for an

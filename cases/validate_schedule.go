@@ -2,12 +2,13 @@ package cases
 
 import (
 	"bytes"
+	"context"
+	"cureslab/cases/limits"
 	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"sort"
 	"strconv"
@@ -237,7 +238,11 @@ func (l *loader) scheduleFile(key, name string) (physics.Schedule, bool) {
 	if !filepath.IsAbs(name) && l.dir != "" {
 		full = filepath.Join(l.dir, name)
 	}
-	data, err := os.ReadFile(full)
+	ctx := l.ctx
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	data, err := limits.ReadFile(ctx, full, limits.MaxFileSize)
 	if err != nil {
 		l.add(l.loc.value(key), key, ErrFile, err, fmt.Sprintf("cannot read the schedule file: %v", err))
 		return physics.Schedule{}, false

@@ -290,17 +290,24 @@ func outputTimes(end, every float64) []float64 {
 	return append(times, end)
 }
 
-// probes reads [output] probes: depths in [0, total].
-func (l *loader) probes(root *table, total float64) []float64 {
+// probes reads [output] probes: depths in [0, total], at most MaxProbes;
+// it returns the key path of each depth returned too.
+func (l *loader) probes(root *table, total float64) ([]float64, []string) {
 	t := l.sub(root, "output", outputKeys, nil)
 	if t == nil {
-		return nil
+		return nil, nil
 	}
 	arr, ok := l.array(t, "probes")
 	if !ok {
-		return nil
+		return nil, nil
+	}
+	if len(arr) > MaxProbes {
+		l.atValue("output.probes", ErrRange, "%d probes: at most %d are allowed (each adds two columns to probes.csv and a curve to the report)", len(arr), MaxProbes).Hint =
+			"keep the depths you will read; fields.csv holds every cell at every output time"
+		return nil, nil
 	}
 	out := make([]float64, 0, len(arr))
+	var paths []string
 	for i, v := range arr {
 		path := fmt.Sprintf("output.probes.%d", i)
 		z, ok := l.quantityAt(path, v, units.Length)
@@ -314,9 +321,10 @@ func (l *loader) probes(root *table, total float64) []float64 {
 			l.rangeErr(path, v, "the probe lies below the stack, which is %g mm thick", total*1e3)
 		default:
 			out = append(out, min(z, total))
+			paths = append(paths, path)
 		}
 	}
-	return out
+	return out, paths
 }
 
 // criteria reads [criteria]; unset values are NaN.

@@ -1,15 +1,16 @@
 package sweep
 
 import (
+	"context"
 	"crypto/sha256"
 	"cureslab/cases"
+	"cureslab/cases/limits"
 	"cureslab/cases/results"
 	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
 	"math/rand/v2"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -99,7 +100,7 @@ type axis struct {
 // LoadSweep reads the case file at path and resolves its sweep (see
 // NewSweep); relative paths in the case are taken from its directory.
 func LoadSweep(path string, set SweepSettings) (*Sweep, error) {
-	data, err := os.ReadFile(path)
+	data, err := limits.ReadFile(context.Background(), path, limits.MaxFileSize)
 	if err != nil {
 		return nil, cases.ErrorList{{File: path, Err: &cases.Detail{Kind: cases.ErrFile, Cause: err, Msg: fmt.Sprintf("cannot read the case file: %v", err)}}}
 	}

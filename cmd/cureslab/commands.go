@@ -153,6 +153,18 @@ func (c *Command) run(e *env, args []string) int {
 	return runner(e, fs.Args())
 }
 
+// loadError prints the error of loading a case file and returns its exit
+// status: exitInterrupted when Ctrl-C or SIGTERM stopped the reading,
+// exitUsage otherwise.
+func (e *env) loadError(err error) int {
+	if e.ctx.Err() != nil && errors.Is(err, e.ctx.Err()) {
+		fmt.Fprintf(e.stderr, "cureslab %s: interrupted while reading the case file; nothing was written\n", e.cmd.Name)
+		return exitInterrupted
+	}
+	fmt.Fprintln(e.stderr, err)
+	return exitUsage
+}
+
 // usageError prints a usage error of the running command with the hint and
 // returns exitUsage.
 func (e *env) usageError(format string, a ...any) int {

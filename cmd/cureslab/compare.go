@@ -41,7 +41,7 @@ cureslab compare oven.toml microwave.toml -o compare-out`,
 			var cs []*cases.Case
 			bad := false
 			for _, path := range args {
-				c, err := cases.Load(path)
+				c, err := cases.LoadContext(e.ctx, path)
 				if err != nil {
 					fmt.Fprintln(e.stderr, err)
 					bad = true

@@ -299,13 +299,14 @@ func TestInterrupted(t *testing.T) {
 
 	var out, errb bytes.Buffer
 	e := &env{ctx: ctx, stdout: &out, stderr: &errb}
-	if code := runCmd.run(e, []string{"tile.toml", "-o", "cut"}); code != 130 || strings.Contains(out.String(), "FAILED") {
-		t.Errorf("run: exit %d, want 130 and no FAILED line\nstdout:\n%s\nstderr:\n%s", code, out.String(), errb.String())
+	if code := runCmd.run(e, []string{"tile.toml", "-o", "cut"}); code != 130 || !strings.Contains(errb.String(), "interrupted") {
+		t.Errorf("run: exit %d, want 130 and a note\nstdout:\n%s\nstderr:\n%s", code, out.String(), errb.String())
 	}
-	// The outputs up to the interruption are kept, and say so; the
-	// criteria are not judged.
-	if s := readSummary(t, "cut"); s.Status != results.StatusInterrupted || s.Message == "" || len(s.Criteria) == 0 || !s.Criteria[0].Unjudged {
-		t.Errorf("summary status %q, message %q, criteria %+v; want interrupted with a message, criteria not judged", s.Status, s.Message, s.Criteria)
+	// Interrupted while reading the case: nothing was computed, nothing is
+	// written. (An interruption during the run keeps its outputs: see the
+	// attack table, run-sigint.)
+	if _, err := os.Stat("cut"); !os.IsNotExist(err) {
+		t.Errorf("an interrupted run created its directory: %v", err)
 	}
 
 	out.Reset()

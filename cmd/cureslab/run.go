@@ -2,6 +2,7 @@ package main
 
 import (
 	casecheck "cureslab/cases/check"
+	"cureslab/cases/limits"
 	"cureslab/cases/simulate"
 	"fmt"
 	"os"
@@ -63,14 +64,13 @@ cureslab run potting.toml -o potting-out`,
 			if *samples < 0 || *jobs < 0 {
 				return e.usageError("--uncertain and --jobs take a positive count")
 			}
-			c, err := cases.Load(args[0])
+			c, err := cases.LoadContext(e.ctx, args[0])
 			if err != nil {
-				fmt.Fprintln(e.stderr, err)
-				return exitUsage
+				return e.loadError(err)
 			}
 			var text []byte
 			if *samples > 0 {
-				if text, err = os.ReadFile(args[0]); err == nil {
+				if text, err = limits.ReadFile(e.ctx, args[0], limits.MaxFileSize); err == nil {
 					err = uncertain.CheckUncertain(c, text)
 				}
 				if err != nil {
@@ -193,10 +193,9 @@ Exit status: 0 the case is valid, 2 it is not (the errors go to stderr).`,
 			if len(args) != 1 {
 				return e.usageError("expects one case file, got %d arguments", len(args))
 			}
-			c, err := cases.Load(args[0])
+			c, err := cases.LoadContext(e.ctx, args[0])
 			if err != nil {
-				fmt.Fprintln(e.stderr, err)
-				return exitUsage
+				return e.loadError(err)
 			}
 			if err := casecheck.Check(e.stdout, c); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab check: %v\n", err)

@@ -85,7 +85,7 @@ cureslab ttt potting.toml --material potting-resin-A --plot ttt.html`,
 					return e.usageError("%s", msg)
 				}
 			}
-			c, err := cases.Load(args[0])
+			c, err := cases.LoadContext(e.ctx, args[0])
 			if err != nil {
 				fmt.Fprintln(e.stderr, err)
 				return exitUsage

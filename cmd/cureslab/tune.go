@@ -1,9 +1,9 @@
 package main
 
 import (
+	"cureslab/cases/limits"
 	"errors"
 	"fmt"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -89,7 +89,7 @@ cureslab tune potting.toml --program oven --robust 20 --seed 7`,
 			if msg := checkOutDir(dir); msg != "" {
 				return e.usageError("%s", msg)
 			}
-			data, err := os.ReadFile(args[0])
+			data, err := limits.ReadFile(e.ctx, args[0], limits.MaxFileSize)
 			if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab tune: cannot read the case file: %v\n", err)
 				return exitUsage
