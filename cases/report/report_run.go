@@ -563,21 +563,29 @@ func historyFigure(d *runData, ts timeScale) (string, string, error) {
 		if z := d.Summary.ControlSensorDepthMM; z != nil {
 			sensor = float64(*z)
 		}
+		// addDrivers draws the driving temperatures that are (program true)
+		// or are not the control program.
+		addDrivers := func(program bool) error {
+			for j, dv := range d.Drivers {
+				if (dv.Column == results.ProgramColumn) != program {
+					continue
+				}
+				st := driverStyleOf(dv.Column, j)
+				l, err := addSeries(pT, series{X: t, Y: dv.Values, Color: st.Color, Width: st.Width, Dash: st.Dash.Dash})
+				if err != nil {
+					return err
+				}
+				lines = append(lines, dv.Values)
+				if l != nil {
+					legAdd(dv.Name, l)
+				}
+			}
+			return nil
+		}
 		// The control program goes under the probes, so that the sensor's
 		// trace is seen on it.
-		for j, dv := range d.Drivers {
-			if dv.Column != results.ProgramColumn {
-				continue
-			}
-			st := driverStyleOf(dv.Column, j)
-			l, err := addSeries(pT, series{X: t, Y: dv.Values, Color: st.Color, Width: st.Width, Dash: st.Dash.Dash})
-			if err != nil {
-				return err
-			}
-			lines = append(lines, dv.Values)
-			if l != nil {
-				legAdd(dv.Name, l)
-			}
+		if err := addDrivers(true); err != nil {
+			return err
 		}
 		for j, pr := range d.Probes {
 			c, dash := lineColor(j)
@@ -594,19 +602,8 @@ func historyFigure(d *runData, ts timeScale) (string, string, error) {
 				legAdd(name, l)
 			}
 		}
-		for j, dv := range d.Drivers {
-			if dv.Column == results.ProgramColumn {
-				continue
-			}
-			st := driverStyleOf(dv.Column, j)
-			l, err := addSeries(pT, series{X: t, Y: dv.Values, Color: st.Color, Width: st.Width, Dash: st.Dash.Dash})
-			if err != nil {
-				return err
-			}
-			lines = append(lines, dv.Values)
-			if l != nil {
-				legAdd(dv.Name, l)
-			}
+		if err := addDrivers(false); err != nil {
+			return err
 		}
 		lo, hi := valueRange(lines...)
 		if lim, ok := limits[results.CriterionMaxTemperature]; ok && !math.IsNaN(lim) {
