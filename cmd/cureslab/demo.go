@@ -121,6 +121,9 @@ func demoCompare(e *env, ran map[string]results.Compared, names []string, dir st
 		return exitUsage
 	}
 	results.PrintComparison(e.stdout, rows)
+	if len(rows) == 2 && rows[0].Name == "thick-potting-oven" {
+		fmt.Fprintln(e.stdout, demoTakeaway(rows[1].Summary, rows[0].Summary))
+	}
 	fmt.Fprintf(e.stdout, "table in %s\n", filepath.Join(dir, results.CompareFile))
 	if opt.Report {
 		if err := simulate.CompareReport(dir, rows); err != nil {
@@ -129,4 +132,15 @@ func demoCompare(e *env, ran map[string]results.Compared, names []string, dir st
 		}
 	}
 	return exitOK
+}
+
+// demoTakeaway says in one sentence what volumetric heating (v) buys
+// against the oven (o): the overshoot for the cure reached, and what it
+// costs in time.
+func demoTakeaway(v, o results.Summary) string {
+	f := func(key string, s results.Summary) string { q := results.Term(key); return q.Format(q.Value(&s)) }
+	return fmt.Sprintf("volumetric heating against the oven: overshoot %+.1f K against %+.1f K, least final cure %s against %s; "+
+		"min_cure reached after %s against %s, program end %s against %s",
+		float64(v.OvershootK), float64(o.OvershootK), f("min_final_cure", v), f("min_final_cure", o),
+		f("time_to_min_cure_s", v), f("time_to_min_cure_s", o), f("end_time_s", v), f("end_time_s", o))
 }

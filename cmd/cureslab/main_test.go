@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -285,6 +286,11 @@ func TestDemo(t *testing.T) {
 	}
 	if code != worst {
 		t.Errorf("demo exit %d, want %d from the runs", code, worst)
+	}
+	// The demo says what volumetric heating buys: far less overshoot for
+	// the same cure, at the price of time.
+	if !regexp.MustCompile(`volumetric heating against the oven: overshoot \+\d+\.\d K against \+\d+\.\d K, least final cure 0\.\d+ against 0\.\d+; min_cure reached after [0-9.]+ (min|h) against [0-9.]+ (min|h), program end`).MatchString(out) {
+		t.Errorf("the demo does not say what volumetric heating buys:\n%s", out)
 	}
 	if _, err := os.Stat(filepath.Join("tmp", "compare", report.CompareReportFile)); err != nil {
 		t.Errorf("no comparison report: %v", err)
