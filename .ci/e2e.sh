@@ -6,7 +6,7 @@
 # root), takes a screenshot of each, and fails if a page logs anything to
 # the console, starts a network request, or renders blank. The checks of the
 # browser's artefacts are the Go test TestE2EReportsInBrowser (build tag
-# e2e, cases/report_e2e_test.go); two control pages prove that each
+# e2e, cases/report/report_e2e_test.go); two control pages prove that each
 # detector fires.
 #
 # Usage: bash .ci/e2e.sh            (CI=true: a missing browser is an error)
@@ -132,7 +132,7 @@ fi
 
 say "checking console, network and screenshots"
 set +e
-CURESLAB_E2E_DIR="$shots" go test -tags e2e -count=1 -run '^TestE2EReportsInBrowser$' -v ./cases/ >"$work/check.log" 2>&1
+CURESLAB_E2E_DIR="$shots" go test -tags e2e -count=1 -run '^TestE2EReportsInBrowser$' -v ./cases/report/ >"$work/check.log" 2>&1
 rc=$?
 set -e
 if [ "$rc" -ne 0 ]; then
