@@ -93,12 +93,12 @@ func CheckKind(old any, v Vary) error {
 			xs, ok := x.(string)
 			if d == 0 {
 				if !ok {
-					return fmt.Errorf("the case has the string %q here, not %s", o, kindOf(x))
+					return fmt.Errorf("the case has the string %q here, not %s", o, KindOf(x))
 				}
 				continue
 			}
 			if !ok {
-				return fmt.Errorf("%s is %s with its unit (the case has %q), not %s: write it like %q", v.Key, article(d), o, kindOf(x), d.Example())
+				return fmt.Errorf("%s is %s with its unit (the case has %q), not %s: write it like %q", v.Key, article(d), o, KindOf(x), d.Example())
 			}
 			if _, err := units.Parse(xs, d); err != nil {
 				if d == units.Temperature {
@@ -112,11 +112,11 @@ func CheckKind(old any, v Vary) error {
 			switch x.(type) {
 			case int64, float64:
 			default:
-				return fmt.Errorf("%s is a plain number (the case has %s), not %s", v.Key, Written(o), kindOf(x))
+				return fmt.Errorf("%s is a plain number (the case has %s), not %s", v.Key, Written(o), KindOf(x))
 			}
 		case bool:
 			if _, ok := x.(bool); !ok {
-				return fmt.Errorf("%s is true or false (the case has %v), not %s", v.Key, o, kindOf(x))
+				return fmt.Errorf("%s is true or false (the case has %v), not %s", v.Key, o, KindOf(x))
 			}
 		}
 	}
@@ -334,7 +334,7 @@ func ListValue(x any) (shown string, value any, err error) {
 	case bool:
 		return strconv.FormatBool(v), v, nil
 	}
-	return "", nil, fmt.Errorf("a varied value must be a single value (a string with its unit, a number or a boolean), got %s", kindOf(x))
+	return "", nil, fmt.Errorf("a varied value must be a single value (a string with its unit, a number or a boolean), got %s", KindOf(x))
 }
 
 // normalizeQuantity puts one space between the number and the unit of a
@@ -466,7 +466,7 @@ func NewSpan(from, to any) (Span, error) {
 		}
 		sp = Span{From: a, To: (bSI - off) / (one - off), Unit: unit}
 	default:
-		return sp, fmt.Errorf("from must be a quantity with its unit or a plain number, got %s", kindOf(from))
+		return sp, fmt.Errorf("from must be a quantity with its unit or a plain number, got %s", KindOf(from))
 	}
 	if math.IsNaN(sp.To) || math.IsInf(sp.To, 0) || math.IsNaN(sp.From) || math.IsInf(sp.From, 0) {
 		return sp, fmt.Errorf("the ends of the range must be finite")

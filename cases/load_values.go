@@ -84,7 +84,7 @@ func (t *table) has(key string) bool {
 func (l *loader) open(path string, v any, valid []string, note func(key string) string) *table {
 	m, ok := v.(map[string]any)
 	if !ok {
-		l.atValue(path, ErrType, "must be a table, got %s", kindOf(v)).Hint =
+		l.atValue(path, ErrType, "must be a table, got %s", KindOf(v)).Hint =
 			fmt.Sprintf("write it as a section [%s] with keys inside, or as an inline table { key = value, ... }", path)
 		return nil
 	}
@@ -191,7 +191,7 @@ func (l *loader) quantityAt(path string, v any, d units.Dim) (float64, bool) {
 		e.Hint = "write the value as a string with its unit, " + example
 		return 0, false
 	}
-	e := l.atValue(path, ErrType, "expected %s as a string with its unit, got %s", article(d), kindOf(v))
+	e := l.atValue(path, ErrType, "expected %s as a string with its unit, got %s", article(d), KindOf(v))
 	e.Hint = example
 	return 0, false
 }
@@ -219,7 +219,7 @@ func (l *loader) numberAt(path string, v any) (float64, bool) {
 		}
 		return 0, false
 	default:
-		l.atValue(path, ErrType, "expected a plain number, got %s", kindOf(v))
+		l.atValue(path, ErrType, "expected a plain number, got %s", KindOf(v))
 		return 0, false
 	}
 	if math.IsNaN(f) || math.IsInf(f, 0) {
@@ -242,7 +242,7 @@ func (l *loader) integer(t *table, key string) (int64, bool) {
 		l.atValue(path, ErrType, "expected a whole number, got %v", x).Hint =
 			fmt.Sprintf("write it without a decimal point, for example: %s = 40", key)
 	default:
-		l.atValue(path, ErrType, "expected a whole number, got %s", kindOf(t.m[key]))
+		l.atValue(path, ErrType, "expected a whole number, got %s", KindOf(t.m[key]))
 	}
 	return 0, false
 }
@@ -254,7 +254,7 @@ func (l *loader) str(t *table, key string) (string, bool) {
 	}
 	s, ok := t.m[key].(string)
 	if !ok {
-		l.atValue(t.keyPath(key), ErrType, "expected a string, got %s", kindOf(t.m[key]))
+		l.atValue(t.keyPath(key), ErrType, "expected a string, got %s", KindOf(t.m[key]))
 	}
 	return s, ok
 }
@@ -266,7 +266,7 @@ func (l *loader) boolean(t *table, key string) (bool, bool) {
 	}
 	b, ok := t.m[key].(bool)
 	if !ok {
-		l.atValue(t.keyPath(key), ErrType, "expected true or false, got %s", kindOf(t.m[key]))
+		l.atValue(t.keyPath(key), ErrType, "expected true or false, got %s", KindOf(t.m[key]))
 	}
 	return b, ok
 }
@@ -290,7 +290,7 @@ func (l *loader) arrayAt(path string, v any) ([]any, bool) {
 		}
 		return out, true
 	}
-	l.atValue(path, ErrType, "expected an array [ ... ], got %s", kindOf(v))
+	l.atValue(path, ErrType, "expected an array [ ... ], got %s", KindOf(v))
 	return nil, false
 }
 
@@ -311,8 +311,8 @@ func Written(v any) string {
 	return fmt.Sprint(v)
 }
 
-// kindOf names the TOML type of v for a message.
-func kindOf(v any) string {
+// KindOf names the TOML type of v for a message.
+func KindOf(v any) string {
 	switch x := v.(type) {
 	case string:
 		return fmt.Sprintf("the string %q", x)

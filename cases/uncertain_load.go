@@ -10,8 +10,6 @@ import (
 	"strings"
 	"unicode"
 
-	"gonum.org/v1/gonum/stat/distuv"
-
 	"cureslab/cases/units"
 )
 
@@ -70,7 +68,7 @@ func (l *loader) uncertaintySection(root *table) *Uncertainty {
 	}
 	m, ok := root.m["uncertainty"].(map[string]any)
 	if !ok {
-		l.atValue("uncertainty", ErrType, "must be a table, got %s", kindOf(root.m["uncertainty"])).Hint =
+		l.atValue("uncertainty", ErrType, "must be a table, got %s", KindOf(root.m["uncertainty"])).Hint =
 			"write it as a section:\n[uncertainty]\n\"top.h\" = \"±20 %\""
 		return nil
 	}
@@ -134,7 +132,7 @@ func (l *loader) uncertaintySection(root *table) *Uncertainty {
 				}
 				lp = t.keyPath("spread")
 			default:
-				l.atValue(lp, ErrType, "expected a spread such as \"±20 %%\", got %s", kindOf(m[k])).Hint = uncertaintyHint
+				l.atValue(lp, ErrType, "expected a spread such as \"±20 %%\", got %s", KindOf(m[k])).Hint = uncertaintyHint
 				continue
 			}
 			in, ok := l.uncertainInput(root, key, lp, spread, dist)
@@ -224,7 +222,7 @@ func (l *loader) uncertainInput(root *table, key, lp, spread, dist string) (Unce
 		}
 		in.Abs, in.Rel = abs, rel
 	default:
-		l.atKey("uncertainty."+key, ErrType, "%s is %s: only numbers and quantities can be uncertain", key, kindOf(old))
+		l.atKey("uncertainty."+key, ErrType, "%s is %s: only numbers and quantities can be uncertain", key, KindOf(old))
 		return in, false
 	}
 	return in, true
@@ -268,82 +266,4 @@ func ReadUncertainty(name, text string, doc map[string]any) (*Uncertainty, error
 		return nil, err
 	}
 	return u, nil
-}
-
-// halfWidth returns w for the nominal value v (SI).
-func (in *UncertainInput) halfWidth(v float64) float64 {
-	if in.Rel != 0 {
-		return in.Rel * math.Abs(v)
-	}
-	return in.Abs
-}
-
-// uncClampU keeps a sample inside (0, 1), so that Φ⁻¹ stays finite (|z| < 6).
-func uncClampU(u float64) float64 { return min(max(u, 1e-9), 1-1e-9) }
-
-// offset returns the change of the value for the sample u in [0, 1) and the
-// half-width w: uniform w·(2u − 1), normal (w/2)·Φ⁻¹(u).
-func (in *UncertainInput) offset(u, w float64) float64 {
-	if in.Distribution == DistNormal {
-		return w / 2 * distuv.UnitNormal.Quantile(uncClampU(u))
-	}
-	return w * (2*u - 1)
-}
-
-// Perturb returns the value cur (as found in a decoded case) moved by the
-// sample u, as shown in uncertainty.csv and as it goes into the case. A
-// quantity keeps the unit it is written in (the change is made in SI and
-// converted back exactly, also for the affine temperature scales); a plain
-// number stays a number. A zero half-width returns cur unchanged.
-func (in *UncertainInput) Perturb(cur any, u float64) (shown string, value any, err error) {
-	switch x := cur.(type) {
-	case string:
-		d := DimOf(x)
-		if d == 0 {
-			return "", nil, fmt.Errorf("%s is %q, not a quantity", in.Key, x)
-		}
-		v, err := units.Parse(x, d)
-		if err != nil {
-			return "", nil, fmt.Errorf("%s: %v", in.Key, err)
-		}
-		w := in.halfWidth(v)
-		if w == 0 {
-			return x, x, nil
-		}
-		_, unit := SplitNumber(strings.TrimSpace(x))
-		unit = strings.TrimSpace(unit)
-		off, err0 := units.Parse("0 "+unit, d)
-		one, err1 := units.Parse("1 "+unit, d)
-		if err0 != nil || err1 != nil || one == off {
-			return "", nil, fmt.Errorf("%s: cannot write a value in the unit %q of %q", in.Key, unit, x)
-		}
-		y := (v + in.offset(u, w) - off) / (one - off)
-		s := strconv.FormatFloat(y, 'g', 10, 64) + " " + unit
-		return s, s, nil
-	case int64, float64:
-		v, _ := PlainNumber(x)
-		w := in.halfWidth(v)
-		if w == 0 {
-			return Written(x), x, nil
-		}
-		y, _ := strconv.ParseFloat(strconv.FormatFloat(v+in.offset(u, w), 'g', 10, 64), 64)
-		return strconv.FormatFloat(y, 'g', -1, 64), y, nil
-	}
-	return "", nil, fmt.Errorf("%s is %s, not a number", in.Key, kindOf(cur))
-}
-
-// Sample applies the uncertain inputs of u at the sample point us (one u in
-// [0, 1) per input) to the tree t in place, and returns the values as shown.
-func (u *Uncertainty) Sample(t map[string]any, us []float64) ([]string, error) {
-	shown := make([]string, len(u.Inputs))
-	for k := range u.Inputs {
-		in := &u.Inputs[k]
-		s, val, err := in.Perturb(Leaf(t, in.Path), us[k])
-		if err != nil {
-			return nil, err
-		}
-		SetPath(t, in.Path, val)
-		shown[k] = s
-	}
-	return shown, nil
 }

@@ -57,7 +57,7 @@ func (l *loader) materials(root *table) (defs map[string]*physics.Material, repl
 	}
 	all, ok := root.m["materials"].(map[string]any)
 	if !ok {
-		l.atValue("materials", ErrType, "must be a table of materials, got %s", kindOf(root.m["materials"])).Hint =
+		l.atValue("materials", ErrType, "must be a table of materials, got %s", KindOf(root.m["materials"])).Hint =
 			"write each material as a section: [materials.NAME]"
 		return defs, nil
 	}

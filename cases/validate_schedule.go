@@ -47,7 +47,7 @@ func (l *loader) schedules(root *table) map[string]*physics.Schedule {
 	}
 	all, ok := root.m["schedules"].(map[string]any)
 	if !ok {
-		l.atValue("schedules", ErrType, "must be a table of schedules, got %s", kindOf(root.m["schedules"])).Hint =
+		l.atValue("schedules", ErrType, "must be a table of schedules, got %s", KindOf(root.m["schedules"])).Hint =
 			"write each schedule as a section: [schedules.NAME]"
 		return defs
 	}
@@ -196,7 +196,7 @@ func (l *loader) points(path string, v any, d units.Dim) (physics.Schedule, bool
 		pp := fmt.Sprintf("%s.%d", path, i)
 		pair, isArr := pv.([]any)
 		if !isArr || len(pair) != 2 {
-			l.atValue(pp, ErrType, "a point is a pair [time, value], got %s", kindOf(pv)).Hint =
+			l.atValue(pp, ErrType, "a point is a pair [time, value], got %s", KindOf(pv)).Hint =
 				fmt.Sprintf("for example: [\"10 min\", %q]", d.Example())
 			ok = false
 			continue

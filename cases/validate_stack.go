@@ -52,7 +52,7 @@ func (l *loader) layers(root *table, defs map[string]*physics.Material) ([]layer
 	case []any:
 		items = v
 	default:
-		l.atValue("layer", ErrType, "layer must be an array of tables, got %s", kindOf(v)).Hint =
+		l.atValue("layer", ErrType, "layer must be an array of tables, got %s", KindOf(v)).Hint =
 			"write [[layer]] (two brackets) before each layer, top to bottom"
 		return nil, false
 	}

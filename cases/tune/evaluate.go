@@ -4,6 +4,7 @@ import (
 	"cureslab/cases"
 	"cureslab/cases/internal/num"
 	"cureslab/cases/results"
+	"cureslab/cases/uncertain"
 	"cureslab/solver"
 	"fmt"
 	"math"
@@ -162,7 +163,7 @@ func (t *tuner) runPoint(cs *cases.Case, tr map[string]any, i int) pointRun {
 	sc := cs
 	if t.pts != nil {
 		st := cases.CloneTree(tr).(map[string]any)
-		if _, err := t.unc.Sample(st, t.pts[i]); err != nil {
+		if _, err := uncertain.Sample(t.unc, st, t.pts[i]); err != nil {
 			return pointRun{status: results.StatusFailed, err: err.Error()}
 		}
 		var err error

@@ -213,7 +213,7 @@ func uncertain(ctx context.Context, c *cases.Case, data []byte, opt UncertainOpt
 // runSample runs one sample of a study.
 func runSample(ctx context.Context, v *cases.CaseVariant, unc *cases.Uncertainty, us []float64) UncertainSample {
 	t := v.Tree(nil)
-	shown, err := unc.Sample(t, us)
+	shown, err := Sample(unc, t, us)
 	if err != nil {
 		return UncertainSample{Values: make([]string, len(us)), Summary: results.Summary{Status: results.StatusFailed, Message: err.Error()}, Err: err.Error()}
 	}

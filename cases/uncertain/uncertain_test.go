@@ -176,7 +176,7 @@ func TestPerturb(t *testing.T) {
 		{cases.UncertainInput{Key: "x.n", Rel: 0.1, Distribution: cases.DistUniform}, int64(2), 0, "1.8"},
 		{cases.UncertainInput{Key: "x.n", Abs: 0, Distribution: cases.DistUniform}, "7 mm", 0.9, "7 mm"},
 	} {
-		got, val, err := tc.in.Perturb(tc.cur, tc.u)
+		got, val, err := Perturb(&tc.in, tc.cur, tc.u)
 		if err != nil {
 			t.Errorf("perturb(%v, %v): %v", tc.cur, tc.u, err)
 			continue
