@@ -159,7 +159,7 @@ func marginValue(name string, v float64) string {
 	case results.CriterionMinCure:
 		return strconv.FormatFloat(v, 'f', 4, 64)
 	case results.CriterionMaxTemperature:
-		return strconv.FormatFloat(v, 'f', 2, 64) + " C"
+		return strconv.FormatFloat(v, 'f', 2, 64) + " °C"
 	}
 	return strconv.FormatFloat(v, 'f', 2, 64) + " K"
 }
