@@ -120,6 +120,7 @@ type Set struct {
 	kind   Kind
 	old    []string // the files of the previous set (manifest or kind names present)
 	staged []string // final names staged so far, in order
+	kept   []string // names kept in place as part of the new set
 	locked bool
 	done   bool
 }
@@ -158,7 +159,13 @@ func (s *Set) prepare() error {
 	}
 	if m != nil {
 		if m.Kind != s.kind.Name {
-			return &KindError{Dir: s.Dir, Want: s.kind.Name, Found: m.Kind, Files: present(s.Dir, m.Files)}
+			names := m.Files
+			for _, k := range Kinds {
+				if k.Name == m.Kind {
+					names = union(k.Marks, m.Files)
+				}
+			}
+			return &KindError{Dir: s.Dir, Want: s.kind.Name, Found: m.Kind, Files: present(s.Dir, names)}
 		}
 		s.old = m.Files
 		return nil
@@ -289,6 +296,18 @@ func (s *Set) add(name string) {
 	}
 }
 
+// Keep makes the named files, as they are now in the directory, part of
+// the new set: Commit neither moves nor removes them and the manifest
+// lists them (for a writer that appends to a file in place, such as a
+// sweep's summary). Names that do not exist are ignored.
+func (s *Set) Keep(names ...string) {
+	for _, n := range names {
+		if _, err := os.Lstat(filepath.Join(s.Dir, n)); err == nil && localName(n) && !slices.Contains(s.kept, n) {
+			s.kept = append(s.kept, n)
+		}
+	}
+}
+
 // Staged returns the names staged so far.
 func (s *Set) Staged() []string { return slices.Clone(s.staged) }
 
@@ -321,7 +340,7 @@ func (s *Set) Commit() error {
 	}
 	defer s.unlock()
 	s.done = true
-	m := manifest{Kind: s.kind.Name, Files: slices.Clone(s.staged)}
+	m := manifest{Kind: s.kind.Name, Files: union(s.staged, s.kept)}
 	b, _ := json.MarshalIndent(m, "", "  ")
 	if err := writeSynced(filepath.Join(s.Dir, ManifestFile+stagingExt), append(b, '\n')); err != nil {
 		s.removeStaged()
@@ -331,6 +350,9 @@ func (s *Set) Commit() error {
 	// aside.
 	var aside []string
 	for _, n := range union(s.old, s.kind.Names, s.staged, []string{ManifestFile}) {
+		if slices.Contains(s.kept, n) && !slices.Contains(s.staged, n) {
+			continue
+		}
 		p := filepath.Join(s.Dir, n)
 		if _, err := os.Lstat(p); err != nil {
 			continue

@@ -5,6 +5,7 @@ import (
 	"cureslab/cases"
 	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/textout"
+	"cureslab/cases/outdir"
 	"cureslab/cases/results"
 	"cureslab/solver"
 	"errors"
@@ -72,6 +73,24 @@ func RedrawReport(dir string) error {
 		return err
 	}
 	return writeRunReport(dir, d)
+}
+
+// StageReport draws report.html for a run, as WriteReport does, into the
+// output set (package outdir): it goes in place with the run's files at
+// the set's Commit.
+func StageReport(set *outdir.Set, c *cases.Case, r *solver.Result, s results.Summary) error {
+	d, err := runDataOf(c, r, s)
+	if err != nil {
+		return fmt.Errorf("report: %w", err)
+	}
+	var b bytes.Buffer
+	if err := renderRunReport(&b, d, reportClock()); err != nil {
+		return fmt.Errorf("drawing %s: %w", ReportFile, err)
+	}
+	if err := set.Stage(ReportFile, func(w io.Writer) error { _, err := w.Write(b.Bytes()); return err }); err != nil {
+		return fmt.Errorf("writing %s: %w", ReportFile, err)
+	}
+	return nil
 }
 
 func writeRunReport(dir string, d *runData) error {

@@ -4,14 +4,13 @@ import (
 	"bytes"
 	"cureslab/cases"
 	"cureslab/cases/internal/num"
-	"cureslab/cases/internal/textout"
+	"cureslab/cases/outdir"
 	"cureslab/solver"
 	"encoding/csv"
 	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
-	"os"
 	"slices"
 )
 
@@ -24,8 +23,11 @@ const (
 
 // WriteRun writes the output files of one run into dir, creating dir if it
 // does not exist: fields.csv, probes.csv and summary.json (README, Case file reference).
-// Each file is written with WriteFileAtomic, so an existing directory gets
-// its files replaced one by one and a failed write leaves the previous file.
+// The directory holds one complete set (package outdir): the files are
+// written under staging names and put in place together, files of an
+// earlier run that this one does not write (a report, uncertainty.csv) are
+// removed, a directory of another kind of output is refused, and a failed
+// write leaves the previous set.
 //
 // The caller must have validated c (as Load does): WriteRun is the first
 // thing that touches the output directory. r may come from a run that ended
@@ -42,16 +44,28 @@ func WriteRun(dir string, c *cases.Case, r *solver.Result, s Summary) error {
 	if c == nil || c.Problem == nil || c.Problem.Mesh == nil || r == nil {
 		return errors.New("results.WriteRun: case, problem, mesh and result are required")
 	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
+	set, err := outdir.Open(dir, RunKind)
+	if err != nil {
 		return err
 	}
-	if err := textout.WriteFileAtomic(dir, FieldsFile, func(w io.Writer) error { return writeFields(w, c, r) }); err != nil {
+	if err := StageRun(set, c, r, s); err != nil {
+		set.Abort()
+		return err
+	}
+	return set.Commit()
+}
+
+// StageRun writes fields.csv, probes.csv and summary.json of a run into
+// the output set (package outdir): they go in place together, with the
+// set's other files, at its Commit. Preconditions as for WriteRun.
+func StageRun(set *outdir.Set, c *cases.Case, r *solver.Result, s Summary) error {
+	if err := set.Stage(FieldsFile, func(w io.Writer) error { return writeFields(w, c, r) }); err != nil {
 		return fmt.Errorf("writing %s: %w", FieldsFile, err)
 	}
-	if err := textout.WriteFileAtomic(dir, ProbesFile, func(w io.Writer) error { return writeProbes(w, c, r) }); err != nil {
+	if err := set.Stage(ProbesFile, func(w io.Writer) error { return writeProbes(w, c, r) }); err != nil {
 		return fmt.Errorf("writing %s: %w", ProbesFile, err)
 	}
-	if err := textout.WriteFileAtomic(dir, SummaryFile, func(w io.Writer) error { return writeSummary(w, s) }); err != nil {
+	if err := set.Stage(SummaryFile, func(w io.Writer) error { return writeSummary(w, s) }); err != nil {
 		return fmt.Errorf("writing %s: %w", SummaryFile, err)
 	}
 	return nil

@@ -14,6 +14,7 @@ import (
 	"path/filepath"
 
 	"cureslab/cases"
+	"cureslab/cases/outdir"
 	"cureslab/cases/report"
 	"cureslab/cases/results"
 	"cureslab/solver"
@@ -34,6 +35,11 @@ type Options struct {
 	// difference as the summary's estimated_error (results.EstimatedError).
 	// Only for a run that ended normally; the mesh is not refined.
 	Verify bool
+	// Set, when not nil, is the run's output set, opened by the caller,
+	// who adds files to it and commits it; Case then only stages into it.
+	// When nil, Case opens dir as a run's set (refusing a directory of
+	// another kind before it computes anything) and commits it.
+	Set *outdir.Set
 }
 
 // Case runs c until it ends or ctx is cancelled and writes its outputs into
@@ -47,22 +53,39 @@ type Options struct {
 // second-order scheme), one summary, the writes (and the report, about
 // 0.05 s on the examples).
 func Case(ctx context.Context, c *cases.Case, dir string, opt Options) results.Compared {
+	set := opt.Set
+	if set == nil {
+		var err error
+		if set, err = outdir.Open(dir, results.RunKind); err != nil {
+			return results.Compared{Case: c, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed}, Err: err}
+		}
+	}
+	finish := func(out results.Compared) results.Compared {
+		switch {
+		case opt.Set != nil:
+		case out.Err != nil:
+			set.Abort()
+		default:
+			out.Err = set.Commit()
+		}
+		return out
+	}
 	r, err := solver.Run(ctx, c.Problem)
 	if err != nil {
-		return results.Compared{Case: c, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed}, Err: err}
+		return finish(results.Compared{Case: c, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed}, Err: err})
 	}
 	out := results.Compared{Case: c, Ran: true, Summary: results.Summarize(c, r), Result: r}
 	if opt.Verify && r.Status == solver.OK {
 		out.Summary.EstimatedError = verify(ctx, c, r)
 	}
-	if err := results.WriteRun(dir, c, r, out.Summary); err != nil {
+	if err := results.StageRun(set, c, r, out.Summary); err != nil {
 		out.Err = err
-		return out
+		return finish(out)
 	}
 	if opt.Report {
-		out.Err = report.WriteReport(dir, c, r, out.Summary)
+		out.Err = report.StageReport(set, c, r, out.Summary)
 	}
-	return out
+	return finish(out)
 }
 
 // verify returns the estimated error of run r of c from a second run at

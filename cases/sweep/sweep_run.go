@@ -5,6 +5,7 @@ import (
 	"context"
 	"cureslab/cases"
 	"cureslab/cases/internal/textout"
+	"cureslab/cases/outdir"
 	"cureslab/cases/results"
 	"cureslab/solver"
 	"encoding/csv"
@@ -134,6 +135,18 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 	if jobs < 1 {
 		return rep, &sweepError{msg: fmt.Sprintf("-j %d: want at least 1 job", opt.Jobs)}
 	}
+	// One sweep at a time in dir (a lock file), and never into another
+	// kind of output: refused before anything is written.
+	set, err := outdir.Open(dir, results.SweepKind)
+	if err != nil {
+		return rep, err
+	}
+	committed := false
+	defer func() {
+		if !committed {
+			set.Abort()
+		}
+	}()
 	if err := claimSweepDir(dir, s.def); err != nil {
 		return rep, err
 	}
@@ -192,6 +205,11 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 	}
 	if err := writeSweepSummary(dir, header, j.rows); err != nil {
 		return rep, fmt.Errorf("writing %s: %w", filepath.Join(dir, results.SweepSummaryFile), err)
+	}
+	set.Keep(results.SweepSummaryFile)
+	committed = true
+	if err := set.Commit(); err != nil {
+		return rep, err
 	}
 	log.printf("stop done=%d/%d ok=%d criteria-failed=%d runaway=%d failed=%d interrupted=%v",
 		rep.Done, rep.Runs, rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed, rep.Interrupted)

@@ -3,7 +3,9 @@ package main
 import (
 	casecheck "cureslab/cases/check"
 	"cureslab/cases/limits"
+	"cureslab/cases/outdir"
 	"cureslab/cases/simulate"
+	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -63,6 +65,9 @@ cureslab run potting.toml -o potting-out`,
 			}
 			if *samples < 0 || *jobs < 0 {
 				return e.usageError("--uncertain and --jobs take a positive count")
+			}
+			if *samples > maxSamples {
+				return e.usageError("--uncertain %d: at most %d samples (each is a whole run); a few hundred give the 5 and 95 %% values to a few per cent", *samples, maxSamples)
 			}
 			c, err := cases.LoadContext(e.ctx, args[0])
 			if err != nil {
@@ -134,6 +139,9 @@ cureslab run potting.toml -o potting-out`,
 	},
 }
 
+// maxSamples is the most samples --uncertain takes: each is a whole run.
+const maxSamples = 100000
+
 // defaultOutDir is ./NAME-out for the case file path/NAME.toml.
 func defaultOutDir(path string) string { return besideCase(path, "-out") }
 
@@ -156,7 +164,12 @@ func checkOutDir(dir string) string {
 // command name cmd.
 func runCase(e *env, cmd string, c *cases.Case, dir string, opt simulate.Options) (results.Compared, int) {
 	o := simulate.Case(e.ctx, c, dir, opt)
+	var ke *outdir.KindError
+	var be *outdir.BusyError
 	switch {
+	case errors.As(o.Err, &ke) || errors.As(o.Err, &be):
+		fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, o.Err)
+		return o, exitUsage
 	case !o.Ran:
 		fmt.Fprintf(e.stderr, "cureslab %s: %s: %v\n", cmd, c.File, o.Err)
 		return o, exitFailure
