@@ -111,7 +111,7 @@ func TestOpenRefusesAnotherKind(t *testing.T) {
 	before := listing(t, dir)
 	_, err := Open(dir, runKind)
 	var ke *KindError
-	if !errors.As(err, &ke) || ke.Found != "sweep" || !strings.Contains(err.Error(), "summary.csv, sweep.json") {
+	if !errors.As(err, &ke) || ke.Found != "sweep" || !strings.Contains(err.Error(), "sweep.json, summary.csv") {
 		t.Errorf("a run into a sweep's directory: %v", err)
 	}
 	if listing(t, dir) != before {
