@@ -194,7 +194,7 @@ func TestWriteRunCreatesDirAndReplaces(t *testing.T) {
 	if err := WriteRun(dir, c, r, Summarize(c, r)); err != nil {
 		t.Fatal(err)
 	}
-	// A second run into the same directory replaces the files one by one.
+	// A second run into the same directory replaces the set whole.
 	r.Snapshots = r.Snapshots[:1]
 	if err := WriteRun(dir, c, r, Summarize(c, r)); err != nil {
 		t.Fatal(err)
@@ -203,9 +203,11 @@ func TestWriteRunCreatesDirAndReplaces(t *testing.T) {
 	if len(rows) != 2 {
 		t.Errorf("probes.csv after the second run has %d rows, want 2", len(rows))
 	}
+	// The three files and the record of the set (outdir.ManifestFile):
+	// no temporary, staging or set-aside file is left.
 	entries, _ := os.ReadDir(dir)
-	if len(entries) != 3 {
-		t.Errorf("output directory holds %d entries, want 3", len(entries))
+	if len(entries) != 4 {
+		t.Errorf("output directory holds %d entries, want 4: %v", len(entries), entries)
 	}
 	if err := WriteRun(dir, nil, r, Summary{}); err == nil {
 		t.Error("WriteRun with a nil case succeeded")
