@@ -7,7 +7,7 @@ import (
 	"testing"
 )
 
-// A loss factor may be a table in temperature (issue 4); the table's values
+// A loss factor may be a table in temperature; the table's values
 // are plain numbers, its temperatures carry units.
 const lossTableCase = `
 [initial]

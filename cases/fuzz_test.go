@@ -1,27 +1,24 @@
 package cases_test
 
+// Fuzz targets for every reader of package cases. Each asserts properties
+// that hold for any input, not just "no panic":
+//
+//	FuzzParseResolved   case file (TOML + units + validation) end to end
+//	FuzzUnitsRoundTrip  units.Parse against formatting in SI and other units
+//	FuzzScheduleCSV     the schedule-log CSV reader, through cases.Parse
+//	FuzzScanCSV         the DSC scan reader (ParseScan), with a WriteScan round trip
+//	FuzzCaseValues      the values of a valid case: ranges, and the solver behind them
+//
+// `go test` runs the seeds (the files below testdata/good, testdata/bad,
+// cases/examples and cases/testdata/fuzz/<Target>/); long runs are
+//
+//	go test ./cases -run '^$' -fuzz '^FuzzParseResolved$' -fuzztime 10m
+//
+// (see testdata/fuzz/README.md for the record of the runs).
+
 import (
 	"bytes"
 	"context"
-	"cureslab/cases"
-	"cureslab/cases/check"
-	"cureslab/cases/units"
-	"cureslab/solver" // Fuzz targets for every reader of package cases. Each asserts properties
-
-	// that hold for any input, not just "no panic":
-	//
-	//	FuzzParseResolved   case file (TOML + units + validation) end to end
-	//	FuzzUnitsRoundTrip  units.Parse against formatting in SI and other units
-	//	FuzzScheduleCSV     the schedule-log CSV reader, through cases.Parse
-	//	FuzzScanCSV         the DSC scan reader (ParseScan), with a WriteScan round trip
-	//	FuzzCaseValues      the values of a valid case: ranges, and the solver behind them
-	//
-	// `go test` runs the seeds (the files below testdata/good, testdata/bad,
-	// cases/examples and cases/testdata/fuzz/<Target>/); long runs are
-	//
-	//	go test ./cases -run '^$' -fuzz '^FuzzParseResolved$' -fuzztime 10m
-	//
-	// (see testdata/fuzz/README.md for the record of the runs).
 	"errors"
 	"fmt"
 	"io"
@@ -35,6 +32,11 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"cureslab/cases"
+	"cureslab/cases/check"
+	"cureslab/cases/units"
+	"cureslab/solver"
 )
 
 const (

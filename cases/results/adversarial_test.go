@@ -1,18 +1,15 @@
 package results
 
+// Adversarial cases end to end: each case file goes through Parse,
+// solver.Run and WriteRun into a temporary directory, and is either solved
+// correctly — checked against an analytic value or a physical bound, and the
+// energy ledger — or refused by the loader with a clear, positioned message.
+// No output file may hold NaN or Inf, or a temperature at or below absolute
+// zero. The solver-level twins of these cases, with tighter analytic checks,
+// are in solver/adversarial_test.go.
+
 import (
 	"context"
-	"cureslab/cases"
-	"cureslab/cases/internal/testkit"
-	"cureslab/physics"
-	"cureslab/solver" // Adversarial cases end to end (issue 9): each case file goes through
-
-	// Parse, solver.Run and WriteRun into a temporary directory, and is either
-	// solved correctly — checked against an analytic value or a physical bound,
-	// and the energy ledger — or refused by the loader with a clear, positioned
-	// message. No output file may hold NaN or Inf, or a temperature at or below
-	// absolute zero. The solver-level twins of these cases, with tighter
-	// analytic checks, are in solver/adversarial_test.go.
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -22,6 +19,11 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"cureslab/cases"
+	"cureslab/cases/internal/testkit"
+	"cureslab/physics"
+	"cureslab/solver"
 )
 
 // advKnown names a failure these tests found and that has since been fixed;

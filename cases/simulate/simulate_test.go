@@ -15,8 +15,7 @@ import (
 )
 
 // TestCompareOvenMicrowave compares the two potting examples, the same part
-// cured in an oven and by controlled microwave heating (issue 4, "Done
-// when"), and checks the table against the runs.
+// cured in an oven and by controlled microwave heating, and checks the table against the runs.
 func TestCompareOvenMicrowave(t *testing.T) {
 	oven, micro := exampleCase(t, "thick-potting-oven"), exampleCase(t, "thick-potting-microwave")
 	dir := t.TempDir()
