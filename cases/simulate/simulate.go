@@ -10,7 +10,6 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"os"
 	"path/filepath"
 
 	"cureslab/cases"
@@ -120,9 +119,16 @@ func verify(ctx context.Context, c *cases.Case, r *solver.Result) *results.Estim
 //
 // Cost: the sum of the runs.
 func Compare(ctx context.Context, cs []*cases.Case, dir string, opt Options) ([]results.Compared, error) {
-	if err := os.MkdirAll(dir, 0o755); err != nil {
+	set, err := outdir.Open(dir, results.CompareKind)
+	if err != nil {
 		return nil, err
 	}
+	committed := false
+	defer func() {
+		if !committed {
+			set.Abort()
+		}
+	}()
 	names := results.CompareNames(cs)
 	rows := make([]results.Compared, len(cs))
 	for i, c := range cs {
@@ -136,10 +142,16 @@ func Compare(ctx context.Context, cs []*cases.Case, dir string, opt Options) ([]
 	if err := results.WriteComparison(dir, rows); err != nil {
 		return rows, fmt.Errorf("writing %s: %w", results.CompareFile, err)
 	}
+	var rerr error
 	if opt.Report {
-		return rows, CompareReport(dir, rows)
+		rerr = CompareReport(dir, rows)
 	}
-	return rows, nil
+	set.Keep(results.CompareFile, "report.html")
+	committed = true
+	if err := set.Commit(); err != nil {
+		return rows, err
+	}
+	return rows, rerr
 }
 
 // CompareReport writes the comparison page of the rows that ran into dir

@@ -43,7 +43,9 @@ cureslab compare oven.toml microwave.toml -o compare-out`,
 			for _, path := range args {
 				c, err := cases.LoadContext(e.ctx, path)
 				if err != nil {
-					fmt.Fprintln(e.stderr, err)
+					if e.loadError(err) == exitInterrupted {
+						return exitInterrupted
+					}
 					bad = true
 					continue
 				}

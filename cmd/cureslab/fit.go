@@ -121,9 +121,16 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 					fmt.Fprintf(e.stderr, "\rfit: iteration %d, RMS residual %.3g %% ", it, 100*rms)
 				}
 			}
-			an, err := dsc.Analyze(scans, opt)
+			an, err := dsc.AnalyzeContext(e.ctx, scans, opt)
 			if opt.Progress != nil {
 				fmt.Fprintln(e.stderr)
+			}
+			if e.ctx.Err() != nil {
+				if an != nil {
+					dscfile.PrintFit(e.stdout, an, *name)
+				}
+				fmt.Fprintf(e.stderr, "cureslab fit: interrupted before the fit converged: no block written; what was computed is shown above\n")
+				return exitInterrupted
 			}
 			if err != nil {
 				for _, one := range unjoin(err) {

@@ -87,8 +87,7 @@ cureslab ttt potting.toml --material potting-resin-A --plot ttt.html`,
 			}
 			c, err := cases.LoadContext(e.ctx, args[0])
 			if err != nil {
-				fmt.Fprintln(e.stderr, err)
-				return exitUsage
+				return e.loadError(err)
 			}
 			t, err := ttt.TTT(c, *material, opt)
 			if err != nil {
