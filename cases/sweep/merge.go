@@ -55,6 +55,8 @@ func MergeSweeps(out string, dirs []string, allowMissing bool) (MergeReport, err
 	var def []byte
 	var d results.SweepDef
 	rows := make(map[int][]string)
+	var damaged, damagedDirs []string // damaged records, and the shard of each
+	var damagedRuns []int
 	var header []string
 	for i, dir := range dirs {
 		b, err := os.ReadFile(filepath.Join(dir, results.SweepDefinitionFile))
@@ -79,13 +81,19 @@ func MergeSweeps(out string, dirs []string, allowMissing bool) (MergeReport, err
 			return rep, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
 				"%s and %s hold different sweeps: %s", dirs[0], dir, results.DefDiff(def, b))}
 		}
-		rs, _, err := readJournal(filepath.Join(dir, results.SweepJournalFile), header, d.Runs)
+		jc, err := readJournal(filepath.Join(dir, results.SweepJournalFile), header, d.Runs)
 		if errors.Is(err, fs.ErrNotExist) {
 			continue // the shard has not committed anything yet
 		}
 		if err != nil {
 			return rep, err
 		}
+		for _, dm := range jc.Damaged {
+			damaged = append(damaged, fmt.Sprintf("%s: %s", filepath.Join(dir, results.SweepJournalFile), dm))
+			damagedDirs = append(damagedDirs, dir)
+			damagedRuns = append(damagedRuns, dm.Run)
+		}
+		rs := jc.Rows
 		for r, rec := range rs {
 			if prev, ok := rows[r]; !ok {
 				rows[r] = rec
@@ -95,6 +103,17 @@ func MergeSweeps(out string, dirs []string, allowMissing bool) (MergeReport, err
 		}
 	}
 	rep.Rows = len(rows)
+	var lost []string
+	for i, r := range damagedRuns {
+		if _, ok := rows[r]; !ok || r < 0 {
+			lost = append(lost, damaged[i]+" (in the shard "+damagedDirs[i]+")")
+		}
+	}
+	if len(lost) > 0 && !allowMissing {
+		return rep, &sweepError{kind: ErrSweepIncomplete, msg: fmt.Sprintf(
+			"the journal of a shard is damaged: %s; run that shard again with the same sweep command into the same directory (it does the damaged runs again), then merge; nothing was written",
+			strings.Join(lost, "; "))}
+	}
 	statusCol := results.SweepStatusCol(header)
 	for r := range rep.Runs {
 		rec, ok := rows[r]

@@ -5,13 +5,13 @@ import (
 	"context"
 	"cureslab/cases"
 	"cureslab/cases/internal/textout"
+	jrn "cureslab/cases/journal"
 	"cureslab/cases/outdir"
 	"cureslab/cases/results"
 	"cureslab/solver"
 	"encoding/csv"
 	"errors"
 	"fmt"
-	"hash/crc32"
 	"io"
 	"io/fs"
 	"os"
@@ -84,6 +84,10 @@ type SweepReport struct {
 	// crash while committing) or damaged: it was cut off and its runs are
 	// done again.
 	Repaired bool
+	// Damaged lists the damaged records left out of the journal, and
+	// Redone the runs they cost (done again in this sweep).
+	Damaged []jrn.Damage
+	Redone  []int
 	// Interrupted reports that ctx was cancelled before every run was done.
 	Interrupted bool
 	// Noted lists the committed runs whose row has a note (a probe left
@@ -157,6 +161,7 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 	}
 	defer j.close()
 	rep.Repaired = j.repaired
+	rep.Damaged, rep.Redone = j.damaged, j.redone
 
 	statusCol := results.SweepStatusCol(header)
 	count := func(rec []string) { rep.add(rec[statusCol]) }
@@ -449,61 +454,35 @@ func syncDir(dir string) {
 type journal struct {
 	f        *os.File
 	rows     map[int][]string
-	repaired bool // a torn or damaged tail was cut off
+	repaired bool // damaged records were left out
+	damaged  []jrn.Damage
+	redone   []int // runs whose only records were damaged
 	buf      bytes.Buffer
 }
 
-// readJournal reads the rows of the journal at path. A record that does not
-// check (wrong field count, CRC, run index) ends the reading: it and what
-// follows are left out, and good is the byte offset where they start. A
-// header that differs from header is an error (ErrSweepMismatch).
-func readJournal(path string, header []string, runs int) (rows map[int][]string, good int64, err error) {
-	f, err := os.Open(path)
+// readJournal reads the journal at path record by record
+// (journal.Read): a damaged record costs that record only, and the later
+// records that check are kept; the damage is listed in the contents. A
+// first line that is not the header of this sweep is an error wrapping
+// ErrSweepMismatch that says how to recover.
+func readJournal(path string, header []string, runs int) (*jrn.Contents, error) {
+	data, err := os.ReadFile(path)
 	if err != nil {
-		return nil, 0, err
+		return nil, err
 	}
-	defer f.Close()
-	r := csv.NewReader(f)
-	r.FieldsPerRecord = -1
-	h, err := r.Read()
-	if err != nil || !slices.Equal(h, append(slices.Clip(header), "crc32")) {
-		return nil, 0, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
-			"%s does not have the columns of this sweep (written by another version?)", path)}
+	c, err := jrn.Read(path, data, header, runs)
+	if err != nil {
+		return nil, &sweepError{kind: ErrSweepMismatch, msg: err.Error()}
 	}
-	good = r.InputOffset()
-	rows = make(map[int][]string)
-	for {
-		rec, err := r.Read()
-		if err != nil || !checkRecord(rec, len(header), runs) {
-			break // io.EOF, or a torn or damaged record
-		}
-		good = r.InputOffset()
-		n, _ := strconv.Atoi(rec[0])
-		if _, ok := rows[n]; !ok {
-			rows[n] = rec[:len(header)]
-		}
-	}
-	return rows, good, nil
+	return c, nil
 }
 
-// checkRecord reports whether rec is a whole journal record.
-func checkRecord(rec []string, n, runs int) bool {
-	if len(rec) != n+1 {
-		return false
-	}
-	r, err := strconv.Atoi(rec[0])
-	if err != nil || r < 0 || r >= runs || strconv.Itoa(r) != rec[0] {
-		return false
-	}
-	return rec[n] == recordCRC(rec[:n])
-}
-
-func recordCRC(fields []string) string {
-	return fmt.Sprintf("%08x", crc32.ChecksumIEEE([]byte(strings.Join(fields, "\x1f"))))
-}
+func recordCRC(fields []string) string { return jrn.Sum(fields) }
 
 // openJournal opens dir's journal for appending, creating it with its
-// header, and cuts off a torn tail.
+// header. A journal with damaged records (or a last record cut short) is
+// first rewritten, atomically, with its sound records only, so that the
+// runs of the damaged ones are done again and appended.
 func openJournal(dir string, header []string, runs int) (*journal, error) {
 	path := filepath.Join(dir, results.SweepJournalFile)
 	if _, err := os.Stat(path); errors.Is(err, fs.ErrNotExist) {
@@ -518,19 +497,29 @@ func openJournal(dir string, header []string, runs int) (*journal, error) {
 		}
 		syncDir(dir)
 	}
-	rows, good, err := readJournal(path, header, runs)
+	c, err := readJournal(path, header, runs)
 	if err != nil {
 		return nil, err
 	}
-	fi, err := os.Stat(path)
-	if err != nil {
-		return nil, err
-	}
-	repaired := fi.Size() > good
-	if repaired {
-		if err := os.Truncate(path, good); err != nil {
+	if len(c.Damaged) > 0 {
+		runsKept := make([]int, 0, len(c.Rows))
+		for r := range c.Rows {
+			runsKept = append(runsKept, r)
+		}
+		slices.Sort(runsKept)
+		err := textout.WriteFileAtomic(dir, results.SweepJournalFile, func(w io.Writer) error {
+			cw := csv.NewWriter(w)
+			cw.Write(append(slices.Clip(header), "crc32"))
+			for _, r := range runsKept {
+				cw.Write(jrn.Record(c.Rows[r]))
+			}
+			cw.Flush()
+			return cw.Error()
+		})
+		if err != nil {
 			return nil, err
 		}
+		syncDir(dir)
 	}
 	f, err := os.OpenFile(path, os.O_RDWR|os.O_APPEND, 0)
 	if err != nil {
@@ -538,16 +527,16 @@ func openJournal(dir string, header []string, runs int) (*journal, error) {
 	}
 	// A last record without its newline (cut just before it) is whole:
 	// end its line before appending.
-	last := make([]byte, 1)
-	if good > 0 {
-		if _, err := f.ReadAt(last, good-1); err == nil && last[0] != '\n' {
+	if fi, err := f.Stat(); err == nil && fi.Size() > 0 {
+		last := make([]byte, 1)
+		if _, err := f.ReadAt(last, fi.Size()-1); err == nil && last[0] != '\n' {
 			if _, err := f.Write([]byte("\n")); err != nil {
 				f.Close()
 				return nil, err
 			}
 		}
 	}
-	return &journal{f: f, rows: rows, repaired: repaired}, nil
+	return &journal{f: f, rows: c.Rows, repaired: len(c.Damaged) > 0, damaged: c.Damaged, redone: c.Runs()}, nil
 }
 
 // append commits rows: written in one call and synced; they count as

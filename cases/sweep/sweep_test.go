@@ -739,9 +739,9 @@ func TestSweepJournalNoNewline(t *testing.T) {
 	if !bytes.Equal(readFile(t, filepath.Join(dir, results.SweepSummaryFile)), readFile(t, filepath.Join(whole, results.SweepSummaryFile))) {
 		t.Error("summary.csv differs from the uninterrupted one")
 	}
-	rows, _, err := readJournal(path, results.SweepHeader(s.Keys), s.Runs)
-	if err != nil || len(rows) != 18 {
-		t.Errorf("journal after resume: %d rows, %v", len(rows), err)
+	jc, err := readJournal(path, results.SweepHeader(s.Keys), s.Runs)
+	if err != nil || len(jc.Rows) != 18 || len(jc.Damaged) != 0 {
+		t.Errorf("journal after resume: %v, %v", jc, err)
 	}
 }
 
@@ -765,8 +765,8 @@ func TestSweepGroupCommit(t *testing.T) {
 	if a, b := readFile(t, filepath.Join(each, results.SweepSummaryFile)), readFile(t, filepath.Join(grouped, results.SweepSummaryFile)); !bytes.Equal(a, b) {
 		t.Errorf("summary.csv differs between grouped and run-by-run commits")
 	}
-	rows, _, err := readJournal(filepath.Join(grouped, results.SweepJournalFile), results.SweepHeader(s.Keys), s.Runs)
-	if err != nil || len(rows) != 18 {
-		t.Errorf("journal: %d rows, %v", len(rows), err)
+	jc, err := readJournal(filepath.Join(grouped, results.SweepJournalFile), results.SweepHeader(s.Keys), s.Runs)
+	if err != nil || len(jc.Rows) != 18 {
+		t.Errorf("journal: %v, %v", jc, err)
 	}
 }

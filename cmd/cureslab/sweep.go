@@ -150,8 +150,12 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 				}
 			}
 			if rep.Repaired {
-				fmt.Fprintf(e.stderr, "cureslab sweep: the last record of %s was cut short (a crash?); that run was done again\n",
-					filepath.Join(dir, results.SweepJournalFile))
+				jpath := filepath.Join(dir, results.SweepJournalFile)
+				for _, d := range rep.Damaged {
+					fmt.Fprintf(e.stderr, "cureslab sweep: %s: %s\n", jpath, d)
+				}
+				fmt.Fprintf(e.stderr, "cureslab sweep: %s: %s done again (%s); every other record was kept\n",
+					jpath, plural(len(rep.Redone), "run", "runs"), runList(rep.Redone))
 			}
 			if rep.Interrupted {
 				fmt.Fprintf(e.stderr, "cureslab sweep: interrupted after %d of %d runs; run the same command again to finish\n", rep.Done, rep.Runs)
