@@ -10,6 +10,22 @@ import (
 	"cureslab/physics"
 )
 
+// controlledPotting is thickPotting heated by a controlled microwave field
+// (invented dielectric data), the sensor at the given depth.
+func controlledPotting(t testing.TB, cells int, sensor float64) *Problem {
+	p := thickPotting(t, cells)
+	m := *p.Materials[0]
+	m.Dielectric = &physics.Dielectric{Permittivity: 4, LossFactor: 0.4, LossFactorCured: 0.05}
+	p.Materials[0] = &m
+	prog, err := physics.FromSegments(296.15, []physics.Segment{{Rate: 2.0 / 60, To: 343.15}, {Hold: 3600}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p.Volumetric = &physics.Volumetric{Frequency: 2.45e9, Field: 3000, Attenuation: physics.FromTop,
+		Control: &physics.Control{Sensor: sensor, Program: prog, Period: 30, Gain: 0.2, IntegralTime: 60}}
+	return p
+}
+
 // copySnapshot returns s with slices of its own.
 func copySnapshot(s *Snapshot) Snapshot {
 	c := *s
@@ -25,16 +41,7 @@ func copySnapshot(s *Snapshot) Snapshot {
 // contract of RunStream (a regression guard, no outside reference).
 func TestRunStreamSameSnapshots(t *testing.T) {
 	controlled := func() *Problem {
-		p := thickPotting(t, 30)
-		m := *p.Materials[0]
-		m.Dielectric = &physics.Dielectric{Permittivity: 4, LossFactor: 0.4, LossFactorCured: 0.05}
-		p.Materials[0] = &m
-		prog, err := physics.FromSegments(296.15, []physics.Segment{{Rate: 2.0 / 60, To: 343.15}, {Hold: 3600}})
-		if err != nil {
-			t.Fatal(err)
-		}
-		p.Volumetric = &physics.Volumetric{Frequency: 2.45e9, Field: 3000, Attenuation: physics.FromTop,
-			Control: &physics.Control{Sensor: 0.005, Program: prog, Period: 30, Gain: 0.2, IntegralTime: 60}}
+		p := controlledPotting(t, 30, 0.005)
 		p.OutputTimes = nil
 		return p
 	}

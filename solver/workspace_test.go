@@ -7,7 +7,6 @@ import (
 	"runtime"
 	"testing"
 
-	"cureslab/physics"
 )
 
 // TestWorkspaceSameResults runs a sequence of different problems (coupled,
@@ -24,19 +23,7 @@ func TestWorkspaceSameResults(t *testing.T) {
 		p.Top.Emissivity = 0
 		return p
 	}
-	volumetric := func(cells int) *Problem {
-		p := thickPotting(t, cells)
-		m := *p.Materials[0]
-		m.Dielectric = &physics.Dielectric{Permittivity: 4, LossFactor: 0.4, LossFactorCured: 0.05}
-		p.Materials[0] = &m
-		prog, err := physics.FromSegments(296.15, []physics.Segment{{Rate: 2.0 / 60, To: 343.15}, {Hold: 3600}})
-		if err != nil {
-			t.Fatal(err)
-		}
-		p.Volumetric = &physics.Volumetric{Frequency: 2.45e9, Field: 3000, Attenuation: physics.FromTop,
-			Control: &physics.Control{Sensor: 0.01, Program: prog, Period: 30, Gain: 0.2, IntegralTime: 60}}
-		return p
-	}
+	volumetric := func(cells int) *Problem { return controlledPotting(t, cells, 0.01) }
 	seq := []*Problem{coupled(40), linear(40), volumetric(40), coupled(25), volumetric(60), linear(60), coupled(60)}
 	var ws Workspace
 	for k, p := range seq {

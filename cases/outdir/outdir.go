@@ -41,7 +41,7 @@
 package outdir
 
 import (
-	"bufio"
+	"cureslab/cases/internal/textout"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -246,23 +246,8 @@ func (s *Set) Stage(name string, write func(io.Writer) error) (err error) {
 	if err != nil {
 		return err
 	}
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(path)
-		}
-	}()
-	bw := bufio.NewWriterSize(f, 64<<10)
-	if err = write(bw); err != nil {
-		return err
-	}
-	if err = bw.Flush(); err != nil {
-		return err
-	}
-	if err = f.Sync(); err != nil {
-		return err
-	}
-	if err = f.Close(); err != nil {
+	if err := textout.WriteSynced(f, write); err != nil {
+		os.Remove(path)
 		return err
 	}
 	s.add(name)

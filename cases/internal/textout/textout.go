@@ -26,29 +26,34 @@ func WriteFileAtomic(dir, name string, write func(io.Writer) error) (err error) 
 		return err
 	}
 	tmp := f.Name()
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(tmp)
-		}
-	}()
-	bw := bufio.NewWriterSize(f, 64<<10)
-	if err = write(bw); err != nil {
-		return err
-	}
-	if err = bw.Flush(); err != nil {
-		return err
-	}
-	if err = f.Sync(); err != nil {
-		return err
-	}
-	if err = f.Chmod(0o644); err != nil {
-		return err
-	}
-	if err = f.Close(); err != nil {
+	if err := WriteSynced(f, write); err != nil {
+		os.Remove(tmp)
 		return err
 	}
 	return os.Rename(tmp, filepath.Join(dir, name))
+}
+
+// WriteSynced writes the new file f through write (buffered), flushes it,
+// syncs it to disk, gives it mode 0644 and closes it. On error f is closed
+// and the error returned; removing the file is the caller's. write must
+// not keep the writer after it returns.
+func WriteSynced(f *os.File, write func(io.Writer) error) error {
+	bw := bufio.NewWriterSize(f, 64<<10)
+	err := write(bw)
+	if err == nil {
+		err = bw.Flush()
+	}
+	if err == nil {
+		err = f.Sync()
+	}
+	if err == nil {
+		err = f.Chmod(0o644)
+	}
+	if err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
 }
 
 // Printer writes formatted text and keeps the first error.
