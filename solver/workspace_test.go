@@ -6,7 +6,6 @@ import (
 	"reflect"
 	"runtime"
 	"testing"
-
 )
 
 // TestWorkspaceSameResults runs a sequence of different problems (coupled,
