@@ -138,13 +138,17 @@ type Candidate struct {
 
 // TuneResult is the outcome of Tune.
 type TuneResult struct {
-	Program string
-	File    string // the case file
-	Free    []FreeValue
-	Robust  int     // samples per candidate (0: the nominal case only)
-	Share   float64 // share required (1 without Robust)
-	Seed    uint64
-	Inputs  []cases.UncertainInput // the uncertain inputs with Robust
+	// Interrupted marks the result of a search stopped by Ctrl-C or
+	// SIGTERM (set by the caller): Best is then the best program found so
+	// far, and tuned.toml says so.
+	Interrupted bool
+	Program     string
+	File        string // the case file
+	Free        []FreeValue
+	Robust      int     // samples per candidate (0: the nominal case only)
+	Share       float64 // share required (1 without Robust)
+	Seed        uint64
+	Inputs      []cases.UncertainInput // the uncertain inputs with Robust
 	// Own is the case's own program, Best the shortest feasible candidate
 	// (nil when none is feasible), Closest the candidate nearest to
 	// feasible when none is (nil otherwise).

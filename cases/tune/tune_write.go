@@ -128,6 +128,10 @@ func WriteTune(dir string, r *TuneResult) error {
 // tunedText is the content of tuned.toml.
 func tunedText(r *TuneResult) string {
 	var b strings.Builder
+	if r.Interrupted {
+		b.WriteString("# INTERRUPTED: the search was stopped (Ctrl-C or SIGTERM) before it finished.\n")
+		b.WriteString("# This is the best program found so far, not the answer: run tune again.\n")
+	}
 	b.WriteString("# Recommended by cureslab tune: the shortest program found that meets every\n")
 	fmt.Fprintf(&b, "# criterion of %s. A simulation is no substitute for a qualified trial.\n", r.File)
 	fmt.Fprintf(&b, "# Cycle time %s", num.Duration(r.Best.Cycle))

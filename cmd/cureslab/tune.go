@@ -45,7 +45,8 @@ criterion's value and margin, feasible), and prints the cycle time, the margins,
 the limiting criterion and the saving against the case's own program.
 
 Exit status: 0 a program meeting the criteria was found, 1 none in the ranges
-meets them (tune.csv is written), 2 bad input or usage, 3 interrupted.`,
+meets them (tune.csv is written), 2 bad input or usage, 130 interrupted by
+Ctrl-C or SIGTERM (the best program so far in tuned.toml, marked INTERRUPTED).`,
 	Example: `cureslab example thick-potting-oven > potting.toml
 cureslab tune potting.toml --program oven -o potting-tune
 cureslab tune potting.toml --program oven --free schedules.oven.segments.1.hold=1h:6h
@@ -110,14 +111,21 @@ cureslab tune potting.toml --program oven --robust 20 --seed 7`,
 				fmt.Fprintf(e.stderr, "cureslab tune: %v\n", err)
 				return exitFailure
 			}
+			res.Interrupted = err != nil
 			if werr := tune.WriteTune(dir, res); werr != nil {
 				fmt.Fprintf(e.stderr, "cureslab tune: %v\n", werr)
 				return exitUsage
 			}
 			if err != nil { // interrupted
-				fmt.Fprintf(e.stderr, "cureslab tune: interrupted after %d candidates; %s holds them\n",
-					len(res.Candidates), filepath.Join(dir, tune.TuneFile))
-				return exitFailure
+				if res.Best != nil {
+					fmt.Fprintf(e.stdout, "interrupted after %d candidates: the best program so far is in %s, marked INTERRUPTED (not the answer); candidates in %s\n",
+						len(res.Candidates), filepath.Join(dir, tune.TunedFile), filepath.Join(dir, tune.TuneFile))
+				} else {
+					fmt.Fprintf(e.stdout, "interrupted after %d candidates, none meeting the criteria yet; candidates in %s\n",
+						len(res.Candidates), filepath.Join(dir, tune.TuneFile))
+				}
+				fmt.Fprintf(e.stderr, "cureslab tune: interrupted\n")
+				return exitInterrupted
 			}
 			tune.PrintTune(e.stdout, res)
 			if res.Best == nil {
