@@ -271,3 +271,30 @@ func writeSummary(w io.Writer, s Summary) error {
 	_, err = w.Write(b)
 	return err
 }
+
+// FieldsSize estimates fields.csv of a run of c before it runs: rows =
+// cells × output times (t = 0 and the end included), bytes = rows × a
+// row's typical length (about 60 characters of numbers plus the layer's
+// name, more with the power and viscosity columns). The estimate is within
+// a few tens of per cent of the file, enough to refuse a run whose output
+// would fill a disk or memory. Cost O(cells).
+func FieldsSize(c *cases.Case) (bytes, rows int64) {
+	p := c.Problem
+	if p == nil || p.Mesh == nil {
+		return 0, 0
+	}
+	times := int64(101)
+	if p.OutputTimes != nil {
+		times = int64(len(p.OutputTimes)) + 2
+	}
+	extra := 0
+	if p.Volumetric != nil {
+		extra += 12
+	}
+	var perTime int64
+	for i := range p.Mesh.Cells() {
+		perTime += int64(60 + extra + len(p.Mesh.Layers[p.Mesh.Owner[i]].Name))
+	}
+	cells := int64(p.Mesh.Cells())
+	return perTime * times, cells * times
+}

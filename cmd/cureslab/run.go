@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"text/tabwriter"
 
@@ -59,9 +60,14 @@ cureslab run potting.toml -o potting-out`,
 		jobs := fs.IntP("jobs", "j", 0, "with --uncertain, `N` runs at a time (default: all cores)")
 		noReport := fs.Bool("no-report", false, "do not write "+report.ReportFile)
 		verify := fs.Bool("verify", false, "run again at tolerances ten times tighter and report the estimated error")
+		fieldsLimit := fs.String("fields-limit", "2GB", "refuse a run whose fields.csv would pass `SIZE` (kB, MB, GB; 0: no limit)")
 		return func(e *env, args []string) int {
 			if len(args) != 1 {
 				return e.usageError("expects one case file, got %d arguments", len(args))
+			}
+			limit, ok := parseSize(*fieldsLimit)
+			if !ok {
+				return e.usageError("--fields-limit %q: give a size such as 2GB, 500MB or 0 (no limit)", *fieldsLimit)
 			}
 			if *samples < 0 || *jobs < 0 {
 				return e.usageError("--uncertain and --jobs take a positive count")
@@ -82,6 +88,12 @@ cureslab run potting.toml -o potting-out`,
 					fmt.Fprintf(e.stderr, "cureslab run: --uncertain: %v\n", err)
 					return exitUsage
 				}
+			}
+			if size, rows := results.FieldsSize(c); limit > 0 && size > limit {
+				fmt.Fprintf(e.stderr, "cureslab run: %s: fields.csv would hold %d rows (%d cells × %d output times), about %s, above the limit of %s: "+
+					"write fewer output times (time.output_every), use coarser cells (mesh.max_cell), or raise the limit with --fields-limit SIZE; nothing was written\n",
+					args[0], rows, c.Problem.Mesh.Cells(), rows/int64(c.Problem.Mesh.Cells()), limits.Size(size), limits.Size(limit))
+				return exitUsage
 			}
 			dir := *out
 			if dir == "" {
@@ -137,6 +149,27 @@ cureslab run potting.toml -o potting-out`,
 			return code
 		}
 	},
+}
+
+// parseSize reads a size such as 2GB, 500MB, 64kB or 0 (binary multiples,
+// as limits.Size writes them).
+func parseSize(s string) (int64, bool) {
+	s = strings.TrimSpace(s)
+	mult := int64(1)
+	for _, u := range []struct {
+		suffix string
+		m      int64
+	}{{"GB", 1 << 30}, {"MB", 1 << 20}, {"kB", 1 << 10}, {"B", 1}} {
+		if strings.HasSuffix(s, u.suffix) {
+			s, mult = strings.TrimSpace(strings.TrimSuffix(s, u.suffix)), u.m
+			break
+		}
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil || v < 0 || v*float64(mult) > 1e18 {
+		return 0, false
+	}
+	return int64(v * float64(mult)), true
 }
 
 // maxSamples is the most samples --uncertain takes: each is a whole run.
