@@ -52,43 +52,6 @@ func TestGoodVolumetricControlled(t *testing.T) {
 	}
 }
 
-// volCase is a small case with volumetric heating for check and output
-// tests: one layer of material mat under still air, the [volumetric] and
-// extra text given.
-func volCase(t *testing.T, dielectric, volumetric string) *Case {
-	t.Helper()
-	src := `title = "volumetric check"
-[initial]
-temperature = "20 C"
-[time]
-end = "30 min"
-[[layer]]
-name = "wet"
-material = "wet"
-thickness = "10 mm"
-[materials.wet]
-density = "1000 kg/m^3"
-specific_heat = "4180 J/kg/K"
-conductivity = "0.6 W/m/K"
-[materials.wet.dielectric]
-` + dielectric + `
-[schedules.cure]
-start = "20 C"
-segments = [{ ramp = "5 C/min", to = "60 C" }, { hold = "20 min" }]
-[top]
-kind = "convection"
-h = "5 W/m^2/K"
-air = "20 C"
-[bottom]
-kind = "insulated"
-` + volumetric
-	c, err := Parse("vol.toml", []byte(src), "")
-	if err != nil {
-		t.Fatalf("Parse: %v", err)
-	}
-	return c
-}
-
 // TestFrequencyNote checks the ISM bands (ITU Radio
 // Regulations 5.138, 5.150, 5.280: 13.56, 27.12, 40.68 MHz, 915 MHz,
 // 2450 MHz, 5800 MHz, confirmed).

@@ -193,7 +193,6 @@ func figureHTML(svg, caption string) template.HTML {
 
 // Number formats of the report (internal/num, shared with the terminal).
 func fmtC(v float64) string    { return num.TextC(v) }    // a temperature, °C
-func fmtK(v float64) string    { return num.TextK(v) }    // a temperature difference, K
 func fmtMM(v float64) string   { return num.TextMM(v) }   // a depth, mm
 func fmtCure(v float64) string { return num.TextCure(v) } // a degree of cure
 func fmtTime(v float64) string { return num.TextTime(v) } // a time given in s

@@ -518,20 +518,6 @@ func OutPair(v, l float64) (string, string) {
 	return a, b
 }
 
-func outT(f Float) string {
-	if !OutOK(f) {
-		return "n/a"
-	}
-	return strconv.FormatFloat(float64(f), 'f', 1, 64)
-}
-
-func outCure(f Float) string {
-	if !OutOK(f) {
-		return "n/a"
-	}
-	return strconv.FormatFloat(float64(f), 'f', 3, 64)
-}
-
 func outDepth(f Float) string {
 	if !OutOK(f) {
 		return "n/a"
