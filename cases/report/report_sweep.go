@@ -16,6 +16,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -35,13 +36,15 @@ const SweepReportFile = "report.html"
 // Sweep.Run or MergeSweeps) and writes dir/report.html: one self-contained
 // page in the style of the run report.
 //
-//   - two varied keys in grid mode: process-window maps of min_final_cure
-//     and of peak_temperature_C, one cell per run (first key across, second
+//   - two varied keys in grid mode: process-window maps of min_final_cure,
+//     of peak_temperature_C and, when any run has one, of flow_window_s,
+//     one cell per run (first key across, second
 //     key up, in the order of the values as written), coloured with the
 //     cividis palette; a cell whose run did not pass (a criterion failed,
 //     or the run failed or ran away) is outlined and crossed;
-//   - one varied key: min_final_cure and peak_temperature_C against it,
-//     runs that did not pass marked with a cross;
+//   - one varied key: min_final_cure, peak_temperature_C and (when any
+//     run has one) flow_window_s against it, one panel each, runs that did
+//     not pass marked with a cross;
 //   - otherwise (more keys, or latin-hypercube with two or more keys): a
 //     table of every run, the worst first.
 //
@@ -52,8 +55,9 @@ const SweepReportFile = "report.html"
 // Order of the tables: with crit (the case's criteria, nil when unknown),
 // by the smallest relative margin over the criteria that crit sets,
 // smallest first, where the margin of min_cure is (v − L)/L, of
-// max_temperature (L − v)/L with both in kelvin, and of max_spread
-// (L − v)/L; runs without a value (failed) come first. crit is ignored
+// max_temperature (L − v)/L with both in kelvin, of max_spread (L − v)/L
+// and of min_flow_window (v − L)/L; runs without a value (failed) come
+// first. crit is ignored
 // when a varied key is under "criteria." (the limits differ between runs).
 // Without limits: by status (failed, runaway, criteria-failed, ok), then
 // by min_final_cure, smallest first.
@@ -227,11 +231,44 @@ func readSweepData(dir string) (*sweepData, error) {
 const (
 	colCure = "min_final_cure"
 	colPeak = "peak_temperature_C"
+	colFlow = "flow_window_s"
 )
 
 var sweepLabels = map[string]string{
 	colCure: results.Heading(colCure),
 	colPeak: results.Heading(colPeak),
+	colFlow: results.Heading(colFlow),
+}
+
+// sweepColumns returns the columns a sweep page draws: the least final cure
+// and the peak temperature, and the flow window when any run has one (the
+// case's resin has a viscosity law).
+func sweepColumns(sd *sweepData) []string {
+	cols := []string{colCure, colPeak}
+	for i := range sd.Rows {
+		if !math.IsNaN(sd.Rows[i].num(colFlow)) {
+			return append(cols, colFlow)
+		}
+	}
+	return cols
+}
+
+// sweepColumnsText names the drawn columns for a caption: "least final cure
+// and peak temperature", or with the flow window, "least final cure, peak
+// temperature and flow window".
+func sweepColumnsText(cols []string) string {
+	var b strings.Builder
+	for i, c := range cols {
+		switch {
+		case i == 0:
+		case i == len(cols)-1:
+			b.WriteString(" and ")
+		default:
+			b.WriteString(", ")
+		}
+		b.WriteString(results.Label(c))
+	}
+	return b.String()
 }
 
 // sweepScope returns the cautions' scope of a sweep page: the case's when
@@ -273,7 +310,7 @@ func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Cri
 	switch {
 	case len(sd.Rows) == 0:
 	case len(sd.Keys) == 2 && sd.Mode == cases.ModeGrid:
-		for _, c := range []string{colCure, colPeak} {
+		for _, c := range sweepColumns(sd) {
 			svg, _, err := sweepMapFigure(sd, c)
 			if err != nil {
 				return err
@@ -283,12 +320,13 @@ func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Cri
 					"runs that did not pass (a criterion failed, or the run failed or ran away). White, hatched: no value.")})
 		}
 	case len(sd.Keys) == 1:
-		svg, err := sweepLineFigure(sd)
+		cols := sweepColumns(sd)
+		svg, err := sweepLineFigure(sd, cols)
 		if err != nil {
 			return err
 		}
 		pg.Sections = append(pg.Sections, section{ID: "lines", Heading: "Against " + sd.Keys[0],
-			Body: figureHTML(svg, capital(results.Label(colCure))+" and "+results.Label(colPeak)+" of each run. Crosses: runs that did not pass "+
+			Body: figureHTML(svg, capital(sweepColumnsText(cols))+" of each run. Crosses: runs that did not pass "+
 				"(a criterion failed, or the run failed or ran away).")})
 	default:
 		pg.Sections = append(pg.Sections, section{ID: "runs", Heading: "Every run, the worst first",
@@ -347,6 +385,9 @@ func sweepLimits(crit *cases.Criteria) map[string]float64 {
 	if !math.IsNaN(crit.MaxSpread) {
 		m[results.CriterionMaxSpread] = crit.MaxSpread
 	}
+	if crit.MinFlowWindow > 0 {
+		m[results.CriterionMinFlowWindow] = crit.MinFlowWindow
+	}
 	if len(m) == 0 {
 		return nil
 	}
@@ -370,6 +411,9 @@ func sweepMargin(r *sweepRow, lim map[string]float64) float64 {
 		case results.CriterionMaxSpread:
 			v = r.num("max_spread_K")
 			x = (L - v) / L
+		case results.CriterionMinFlowWindow:
+			v = r.num(colFlow)
+			x = (v - L) / L
 		}
 		if math.IsNaN(v) {
 			if r.Status == results.StatusFailed || r.Status == results.StatusRunaway {
@@ -440,6 +484,10 @@ func sweepTable(sd *sweepData, idx []int, crit *cases.Criteria) template.HTML {
 	lim := sweepLimits(crit)
 	head := append([]string{"run"}, sd.Keys...)
 	head = append(head, "status", results.Heading(colCure), results.Heading(colPeak), results.Heading("max_spread_K"))
+	flow := slices.Contains(sweepColumns(sd), colFlow)
+	if flow {
+		head = append(head, results.Heading(colFlow))
+	}
 	if lim != nil {
 		head = append(head, "smallest margin")
 	}
@@ -454,6 +502,9 @@ func sweepTable(sd *sweepData, idx []int, crit *cases.Criteria) template.HTML {
 		}
 		row := append([]string{run}, r.Vals...)
 		row = append(row, r.Status, fmtCure(r.num(colCure)), fmtNum(r.num(colPeak), 1), fmtNum(r.num("max_spread_K"), 1))
+		if flow {
+			row = append(row, fmtNum(r.num(colFlow), 0))
+		}
 		if lim != nil {
 			m := sweepMargin(r, lim)
 			s := "n/a"
@@ -662,11 +713,15 @@ func sweepMapFigure(sd *sweepData, col string) (string, *cellMap, error) {
 	if hi-lo < minSpan {
 		lo, hi = (lo+hi)/2-minSpan/2, (lo+hi)/2+minSpan/2
 	}
+	if col == colCure {
+		lo, hi = cureScale(lo, hi)
+	}
 	for k, v := range vals {
 		m.idx[k] = mapIndex(v, lo, hi)
 	}
 	h := vg.Length(mapHeight + 35)
 	svg, err := svgFigure(figWidth, h, "process window of "+col, func(dc draw.Canvas) error {
+		dc = draw.Crop(dc, 0, 0, 0, -vg.Points(6)) // room for a tick label at the top of the colour bar
 		p := newPlot("", "")
 		xa.apply(&p.X)
 		ya.apply(&p.Y)
@@ -681,15 +736,24 @@ func sweepMapFigure(sd *sweepData, col string) (string, *cellMap, error) {
 	return svg, m, err
 }
 
-// sweepLineFigure draws min_final_cure and peak_temperature_C against the
-// one varied key, a cross on each run that did not pass.
-func sweepLineFigure(sd *sweepData) (string, error) {
+// cureScale moves a scale [lo, hi] of a degree of cure down so that it ends
+// at 1 when it reaches past 1 (no cure above 1 is drawn), keeping its span.
+func cureScale(lo, hi float64) (float64, float64) {
+	if hi > 1 {
+		return lo - (hi - 1), 1
+	}
+	return lo, hi
+}
+
+// sweepLineFigure draws the columns cols (sweepColumns), one panel each,
+// against the one varied key, a cross on each run that did not pass.
+func sweepLineFigure(sd *sweepData, cols []string) (string, error) {
 	ax := newSweepAxis(sd.Keys[0], distinctValues(sd, 0), false)
 	rows := append([]sweepRow(nil), sd.Rows...)
 	sort.SliceStable(rows, func(i, j int) bool { return ax.Pos[rows[i].Vals[0]] < ax.Pos[rows[j].Vals[0]] })
-	return svgFigure(figWidth, vg.Length(2*panelHeight+40), "sweep over "+sd.Keys[0], func(dc draw.Canvas) error {
+	return svgFigure(figWidth, vg.Length(len(cols)*panelHeight+40), "sweep over "+sd.Keys[0], func(dc draw.Canvas) error {
 		var plots [][]*plot.Plot
-		for n, col := range []string{colCure, colPeak} {
+		for n, col := range cols {
 			p := newPlot(ax.Label, sweepLabels[col])
 			addGrid(p)
 			ax.apply(&p.X)
@@ -735,6 +799,9 @@ func sweepLineFigure(sd *sweepData) (string, error) {
 					span = 0.01
 				}
 				p.Y.Min, p.Y.Max = niceRange(lo, hi, 0.08, span)
+				if col == colCure {
+					p.Y.Min, p.Y.Max = cureScale(p.Y.Min, p.Y.Max)
+				}
 			}
 			if !ax.Numeric {
 				p.X.Min, p.X.Max = -0.5, float64(len(ax.Ticks))-0.5
@@ -743,8 +810,10 @@ func sweepLineFigure(sd *sweepData) (string, error) {
 			}
 			plots = append(plots, []*plot.Plot{p})
 		}
-		plots[0][0].X.Label.Text = ""
-		cs := plot.Align(plots, draw.Tiles{Rows: 2, Cols: 1, PadY: vg.Points(8)}, dc)
+		for _, row := range plots[:len(plots)-1] {
+			row[0].X.Label.Text = ""
+		}
+		cs := plot.Align(plots, draw.Tiles{Rows: len(plots), Cols: 1, PadY: vg.Points(8)}, dc)
 		for i, row := range plots {
 			row[0].Draw(cs[i][0])
 		}

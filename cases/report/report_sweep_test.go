@@ -139,6 +139,62 @@ func TestSweepReportOneKey(t *testing.T) {
 	}
 }
 
+// tinyViscosity gives the tiny resin a Castro–Macosko viscosity law, so
+// that the runs have a flow window.
+const tinyViscosity = `
+[materials.tiny-resin.viscosity]
+model = "castro-macosko"
+eta0 = "3.2e-8 Pa*s"
+E = "60 kJ/mol"
+a = 1.5
+b = 1.0
+`
+
+// A resin with a viscosity law: a third panel, the flow window of each run
+// (summary.csv's flow_window_s), and a flow-window column in the table of
+// runs that did not pass.
+func TestSweepReportFlowWindow(t *testing.T) {
+	fixedClock(t)
+	s := newTinySweep(t, tinyViscosity, sweep.SweepSettings{Vary: mustVary(t, "layer.resin.thickness=2mm,3mm,4mm")})
+	dir := t.TempDir()
+	runSweep(t, s, dir, sweep.SweepOptions{Jobs: 2})
+	c, err := s.Case(0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// A flow window longer than any run's: every run fails min_flow_window.
+	c.Criteria = cases.Criteria{MinCure: math.NaN(), MaxTemperature: math.NaN(), MaxSpread: math.NaN(), FlowViscosity: 100, MinFlowWindow: 1e6}
+	if err := WriteSweepReport(dir, "tiny sweep", c); err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, SweepReportFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	page := string(b)
+	figs := svgs(page)
+	if len(figs) != 1 {
+		t.Fatalf("%d figures, want 1", len(figs))
+	}
+	texts := svgTexts(t, figs[0])
+	for _, want := range []string{"least final cure (–)", "peak temperature (°C)", "flow window (s)"} {
+		if !hasText(texts, want) {
+			t.Errorf("figure lacks the axis label %q; texts %q", want, texts)
+		}
+	}
+	if !strings.Contains(page, "Least final cure, peak temperature and flow window of each run.") {
+		t.Error("the caption does not name the flow window")
+	}
+	if !strings.Contains(page, "<th>flow window (s)</th>") {
+		t.Error("the table of runs that did not pass has no flow-window column")
+	}
+	// Without a viscosity law: two panels, as before.
+	_, plain := sweepPage(t, sweep.SweepSettings{Vary: mustVary(t, "layer.resin.thickness=2mm,3mm")}, nil)
+	if hasText(svgTexts(t, svgs(plain)[0]), "flow window (s)") {
+		t.Error("a sweep without a viscosity law draws a flow window")
+	}
+}
+
 // Three keys: no figure, a table of every run, the smallest margin first.
 func TestSweepReportTable(t *testing.T) {
 	crit := &cases.Criteria{MinCure: 0.5, MaxTemperature: 200 + 273.15, MaxSpread: math.NaN()}
@@ -199,6 +255,12 @@ func TestSweepMarginOrder(t *testing.T) {
 	}
 	if want := []int{3, 6, 1, 4, 2, 0, 5}; !slices.Equal(got, want) {
 		t.Errorf("order without limits %v, want %v", got, want)
+	}
+	// min_flow_window: (v − L)/L, by hand.
+	fl := sweepRow{Run: 7, Status: results.StatusOK, Num: map[string]float64{colCure: 0.9, colPeak: 100, colFlow: 900}}
+	lim := sweepLimits(&cases.Criteria{MinCure: math.NaN(), MaxTemperature: math.NaN(), MaxSpread: math.NaN(), MinFlowWindow: 1200})
+	if m := sweepMargin(&fl, lim); math.Abs(m+0.25) > 1e-12 {
+		t.Errorf("flow-window margin %v, want (900−1200)/1200 = -0.25", m)
 	}
 }
 
