@@ -239,6 +239,14 @@ func TestTuneRobust(t *testing.T) {
 	if spread.Best.ShareMet < 0.9 || spread.Best.Runs != 10 {
 		t.Errorf("robust best meets the criteria in %v of %d runs, want at least 0.9 of 10", spread.Best.ShareMet, spread.Best.Runs)
 	}
+	// The criterion values under --robust say which sample they are.
+	var out strings.Builder
+	if err := PrintTune(&out, spread); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out.String(), "each criterion's value is the one that 9 of the 10 samples meet or better") {
+		t.Errorf("the robust criterion values do not say what they are:\n%s", out.String())
+	}
 }
 
 // TestTuneDeterministic: the same seed gives the same candidates and the

@@ -143,6 +143,9 @@ func tunedText(r *TuneResult) string {
 		fmt.Fprintf(&b, "# Robust: every criterion met in %.1f %% of %d samples of [uncertainty] (required %.1f %%).\n",
 			100*r.Best.ShareMet, r.Robust, 100*r.Share)
 	}
+	if r.Robust > 0 {
+		fmt.Fprintf(&b, "# %s.\n", robustValuesText(r))
+	}
 	for _, m := range r.Best.Criteria {
 		fmt.Fprintf(&b, "# %s: %s (limit %s, margin %s)\n", m.Name, marginValue(m.Name, m.Value), marginValue(m.Name, m.Limit), marginText(m))
 	}
@@ -305,6 +308,9 @@ func PrintTune(w io.Writer, r *TuneResult) error {
 		}
 	}
 	fmt.Fprintln(w)
+	if r.Robust > 0 {
+		fmt.Fprintf(w, "%s:\n", robustValuesText(r))
+	}
 	printMargins(w, r.Best)
 	if len(r.Limiting) > 0 {
 		at := ""
@@ -334,6 +340,14 @@ func PrintTune(w io.Writer, r *TuneResult) error {
 		fmt.Fprintf(w, "the case sets time.end: with this program set it to %s s\n", num.SecondsUp(r.Best.Cycle+r.EndOffset))
 	}
 	return nil
+}
+
+// robustValuesText says what a criterion's value means under --robust:
+// each criterion on its own, the value that the required number of samples
+// meet or better (the aggregate in evaluate).
+func robustValuesText(r *TuneResult) string {
+	need := int(math.Ceil(r.Share*float64(r.Robust) - 1e-9))
+	return fmt.Sprintf("each criterion's value is the one that %d of the %d samples meet or better (taken criterion by criterion)", need, r.Robust)
 }
 
 func cycleText(c float64) string {
