@@ -107,23 +107,10 @@ func (l *loader) build(doc map[string]any) *Case {
 	vol, volOK := l.volumetric(root, scheds, layers, layersOK)
 
 	p := &solver.Problem{InitialTemperature: T0, InitialCure: cure0}
-	programEnd := 0.0
-	for _, f := range []*faceDef{top, bottom} {
-		if f == nil {
-			programEnd = -1 // unknown: the face has errors of its own
-			break
-		}
-		programEnd = max(programEnd, f.end)
-	}
-	if !volOK {
-		programEnd = -1 // unknown: [volumetric] has errors of its own
-	} else if vol != nil && programEnd >= 0 {
-		programEnd = max(programEnd, vol.end)
-	}
 	if !initOK {
 		T0 = 0
 	}
-	c.OutputEvery = l.timing(root, p, programEnd, T0)
+	c.OutputEvery = l.timing(root, p, programEnd(top, bottom, vol, volOK), T0)
 	if vol != nil {
 		l.checkControlSamples(vol.vol.Control, p.End)
 	}
@@ -158,36 +145,11 @@ func (l *loader) build(doc map[string]any) *Case {
 		return nil
 	}
 
-	geom := make([]mesh.Layer, len(layers))
-	for i, d := range layers {
-		geom[i] = d.geom
-	}
-	m, err := mesh.Build(geom, opt)
-	if err != nil { // not reached: every layer was checked above
-		key := "layer"
-		var le *mesh.LayerError
-		if errors.As(err, &le) {
-			key = fmt.Sprintf("layer.%d", le.Index)
-		}
-		l.add(l.loc.table(key), key, ErrRange, err, err.Error())
+	if p.Mesh = l.buildMesh(layers, opt); p.Mesh == nil {
 		return nil
 	}
-	p.Mesh = m
-	{
-		// A depth typed as a layer face ("0.4 mm") may differ by rounding
-		// from the face the mesh built by adding thicknesses: put it on the
-		// face, so that it reads the upper layer's side (README, Case file
-		// reference).
-		for i, z := range p.Probes {
-			p.Probes[i] = snapToLayerFace(p.Mesh, z)
-		}
-		l.checkProbeColumns(p.Probes[:len(probePaths)], probePaths, num.FormatDepth)
-		if len(l.errs) > 0 {
-			return nil
-		}
-		if vol != nil && vol.vol.Control != nil {
-			vol.vol.Control.Sensor = snapToLayerFace(p.Mesh, vol.vol.Control.Sensor)
-		}
+	if !l.placeProbes(p, probePaths, vol) {
+		return nil
 	}
 	p.Top, p.Bottom = top.face, bottom.face
 	c.TopAir, c.BottomAir = top.driver, bottom.driver
@@ -207,6 +169,66 @@ func (l *loader) build(doc map[string]any) *Case {
 	}
 	c.Problem = p
 	return c
+}
+
+// programEnd returns the end of the programs the faces and the volumetric
+// heating follow, s: 0 if none has one, −1 if unknown because a face or
+// [volumetric] has errors of its own (nil, or volOK false).
+func programEnd(top, bottom *faceDef, vol *volDef, volOK bool) float64 {
+	end := 0.0
+	for _, f := range []*faceDef{top, bottom} {
+		if f == nil {
+			return -1
+		}
+		end = max(end, f.end)
+	}
+	if !volOK {
+		return -1
+	}
+	if vol != nil {
+		end = max(end, vol.end)
+	}
+	return end
+}
+
+// buildMesh builds the mesh of the checked layers with opt; nil, with the
+// error added, if mesh.Build refuses them.
+func (l *loader) buildMesh(layers []layerDef, opt mesh.Options) *mesh.Mesh {
+	geom := make([]mesh.Layer, len(layers))
+	for i, d := range layers {
+		geom[i] = d.geom
+	}
+	m, err := mesh.Build(geom, opt)
+	if err != nil { // not reached: every layer was checked before
+		key := "layer"
+		var le *mesh.LayerError
+		if errors.As(err, &le) {
+			key = fmt.Sprintf("layer.%d", le.Index)
+		}
+		l.add(l.loc.table(key), key, ErrRange, err, err.Error())
+		return nil
+	}
+	return m
+}
+
+// placeProbes puts the probe depths of p and the control sensor of vol on
+// the mesh: a depth typed as a layer face ("0.4 mm") may differ by rounding
+// from the face the mesh built by adding thicknesses, so it goes on the
+// face and reads the upper layer's side (README, Case file reference). The
+// first len(paths) probes are the case's own, written at paths; it returns
+// false if two of them now fall in the same column of probes.csv.
+func (l *loader) placeProbes(p *solver.Problem, paths []string, vol *volDef) bool {
+	for i, z := range p.Probes {
+		p.Probes[i] = snapToLayerFace(p.Mesh, z)
+	}
+	l.checkProbeColumns(p.Probes[:len(paths)], paths, num.FormatDepth)
+	if len(l.errs) > 0 {
+		return false
+	}
+	if vol != nil && vol.vol.Control != nil {
+		vol.vol.Control.Sensor = snapToLayerFace(p.Mesh, vol.vol.Control.Sensor)
+	}
+	return true
 }
 
 // checkStart reports an autocatalytic resin of the case that can never start

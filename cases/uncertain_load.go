@@ -109,28 +109,10 @@ func (l *loader) uncertaintySection(root *table) *Uncertainty {
 					walk(key, x) // a group of dotted keys
 					continue
 				}
-				t := l.open(lp, x, uncertaintyEntryKeys, nil)
-				if !l.require(t, "spread") {
+				var ok bool
+				if spread, dist, lp, ok = l.uncertaintyEntry(lp, x); !ok {
 					continue
 				}
-				s, ok := l.str(t, "spread")
-				if !ok {
-					continue
-				}
-				spread = s
-				if d, ok := l.str(t, "distribution"); ok {
-					if !Contains(distributions, d) {
-						e := l.rangeErr(t.keyPath("distribution"), d, "distribution must be %q or %q", DistUniform, DistNormal)
-						if g := Suggest(d, distributions); g != "" {
-							e.Hint = fmt.Sprintf("did you mean distribution = %q?", g)
-						}
-						continue
-					}
-					dist = d
-				} else if t.has("distribution") {
-					continue
-				}
-				lp = t.keyPath("spread")
 			default:
 				l.atValue(lp, ErrType, "expected a spread such as \"±20 %%\", got %s", KindOf(m[k])).Hint = uncertaintyHint
 				continue
@@ -163,6 +145,34 @@ func (l *loader) uncertaintySection(root *table) *Uncertainty {
 		u.Inputs = append(u.Inputs, f.in)
 	}
 	return u
+}
+
+// uncertaintyEntry reads the entry { spread, distribution } at the key
+// path lp: the spread as written, the distribution (uniform by default)
+// and the key path of the spread, for positions; ok is false if the entry
+// has errors (reported in l).
+func (l *loader) uncertaintyEntry(lp string, x map[string]any) (spread, dist, at string, ok bool) {
+	t := l.open(lp, x, uncertaintyEntryKeys, nil)
+	if !l.require(t, "spread") {
+		return "", "", "", false
+	}
+	if spread, ok = l.str(t, "spread"); !ok {
+		return "", "", "", false
+	}
+	dist = DistUniform
+	if d, ok := l.str(t, "distribution"); ok {
+		if !Contains(distributions, d) {
+			e := l.rangeErr(t.keyPath("distribution"), d, "distribution must be %q or %q", DistUniform, DistNormal)
+			if g := Suggest(d, distributions); g != "" {
+				e.Hint = fmt.Sprintf("did you mean distribution = %q?", g)
+			}
+			return "", "", "", false
+		}
+		dist = d
+	} else if t.has("distribution") {
+		return "", "", "", false
+	}
+	return spread, dist, t.keyPath("spread"), true
 }
 
 const uncertaintyHint = "for example:\n[uncertainty]\n\"top.h\" = \"±20 %\"\n\"layer.potting.thickness\" = { spread = \"±0.3 mm\", distribution = \"normal\" }"

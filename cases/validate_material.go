@@ -225,14 +225,7 @@ func (l *loader) cure(mt *table) *physics.Cure {
 	var note func(string) string
 	if keys, known := cureModelKeys[model]; known {
 		valid = append(append([]string{}, cureCommonKeys...), keys...)
-		note = func(k string) string {
-			for _, other := range cureModels {
-				if other != model && Contains(cureModelKeys[other], k) {
-					return fmt.Sprintf("%s belongs to the %q model; model %q (%s) uses %s", k, other, model, cureModelForms[model], quoteKeys(keys))
-				}
-			}
-			return ""
-		}
+		note = cureKeyNote(model)
 	}
 	t := l.open(path, mt.m["cure"], valid, note)
 	if t == nil {
@@ -282,6 +275,34 @@ func (l *loader) cure(mt *table) *physics.Cure {
 		}
 		c.GelPoint, c.GelPointDefaulted = g, false
 	}
+	c.Model = l.kinetics(t, model, before)
+	c.Diffusion = l.diffusion(t)
+	c.Glass = l.glassTransition(t)
+	if len(l.errs) > before {
+		return nil
+	}
+	return c
+}
+
+// cureKeyNote returns the note on a key that belongs to a cure model other
+// than model (a known one), with the form and the keys of model.
+func cureKeyNote(model string) func(string) string {
+	keys := cureModelKeys[model]
+	return func(k string) string {
+		for _, other := range cureModels {
+			if other != model && Contains(cureModelKeys[other], k) {
+				return fmt.Sprintf("%s belongs to the %q model; model %q (%s) uses %s", k, other, model, cureModelForms[model], quoteKeys(keys))
+			}
+		}
+		return ""
+	}
+}
+
+// kinetics reads the rate constants, activation energies and orders (or the
+// isoconversional table) of the cure model model from t; nil for an unknown
+// model or an isoconversional table that cannot be read. before is the
+// number of errors when t was opened.
+func (l *loader) kinetics(t *table, model string, before int) physics.Kinetics {
 	rate := func(key string, positive bool) float64 {
 		if positive {
 			return l.rateConstant(t, key, signPositive)
@@ -298,47 +319,59 @@ func (l *loader) cure(mt *table) *physics.Cure {
 	}
 	switch model {
 	case "nth-order":
-		c.Model = physics.NthOrder{A: rate("A1", true), E: energy("E1"), N: order("n")}
+		return physics.NthOrder{A: rate("A1", true), E: energy("E1"), N: order("n")}
 	case "autocatalytic":
 		a := physics.Autocatalytic{A1: rate("A1", false), E1: energy("E1"), A2: rate("A2", false), E2: energy("E2"), M: order("m"), N: order("n")}
 		if t.has("A1") && t.has("A2") && a.A1 == 0 && a.A2 == 0 && len(l.errs) == before {
 			l.atValue(t.keyPath("A2"), ErrRange, "A1 and A2 are both zero: the resin never reacts")
 		}
-		c.Model = a
+		return a
 	case "lee-loos-springer":
-		c.Model = l.leeLoosSpringer(t, before)
+		return l.leeLoosSpringer(t, before)
 	case "isoconversional":
 		if m := l.isoTable(t); m != nil {
-			c.Model = m
+			return m
 		}
 	}
-	if d := l.sub(t, "diffusion", diffusionKeys, nil); d != nil && l.require(d, diffusionKeys...) {
-		var f physics.Diffusion
-		var ok bool
-		if f.C, ok = l.number(d, "C"); ok && !(f.C > 0) {
-			l.rangeErr(d.keyPath("C"), f.C, "C must be positive")
-		}
-		f.Alpha0, _ = l.number(d, "alpha_c0")
-		f.AlphaT, _ = l.quantity(d, "alpha_cT", units.InverseTemperature)
-		c.Diffusion = &f
-	}
-	if g := l.sub(t, "glass_transition", glassKeys, nil); g != nil && l.require(g, glassKeys...) {
-		var dib physics.DiBenedetto
-		var ok0, ok1, ok bool
-		dib.Tg0, ok0 = l.quantity(g, "Tg0", units.Temperature)
-		dib.TgFull, ok1 = l.quantity(g, "Tg_full", units.Temperature)
-		if ok0 && ok1 && !(dib.TgFull > dib.Tg0) {
-			l.rangeErr(g.keyPath("Tg_full"), g.m["Tg_full"], "Tg_full must be above Tg0 (%s)", Celsius(dib.Tg0))
-		}
-		if dib.Lambda, ok = l.number(g, "lambda"); ok && !(dib.Lambda > 0 && dib.Lambda <= 1) {
-			l.rangeErr(g.keyPath("lambda"), dib.Lambda, "lambda must be in (0, 1]")
-		}
-		c.Glass = &dib
-	}
-	if len(l.errs) > before {
+	return nil
+}
+
+// diffusion reads the optional [materials.X.cure.diffusion] of the cure
+// table t; nil if absent or its keys are missing.
+func (l *loader) diffusion(t *table) *physics.Diffusion {
+	d := l.sub(t, "diffusion", diffusionKeys, nil)
+	if d == nil || !l.require(d, diffusionKeys...) {
 		return nil
 	}
-	return c
+	var f physics.Diffusion
+	var ok bool
+	if f.C, ok = l.number(d, "C"); ok && !(f.C > 0) {
+		l.rangeErr(d.keyPath("C"), f.C, "C must be positive")
+	}
+	f.Alpha0, _ = l.number(d, "alpha_c0")
+	f.AlphaT, _ = l.quantity(d, "alpha_cT", units.InverseTemperature)
+	return &f
+}
+
+// glassTransition reads the optional [materials.X.cure.glass_transition]
+// of the cure table t (DiBenedetto: Tg0 < Tg_full, λ in (0, 1]); nil if
+// absent or its keys are missing.
+func (l *loader) glassTransition(t *table) *physics.DiBenedetto {
+	g := l.sub(t, "glass_transition", glassKeys, nil)
+	if g == nil || !l.require(g, glassKeys...) {
+		return nil
+	}
+	var dib physics.DiBenedetto
+	var ok0, ok1, ok bool
+	dib.Tg0, ok0 = l.quantity(g, "Tg0", units.Temperature)
+	dib.TgFull, ok1 = l.quantity(g, "Tg_full", units.Temperature)
+	if ok0 && ok1 && !(dib.TgFull > dib.Tg0) {
+		l.rangeErr(g.keyPath("Tg_full"), g.m["Tg_full"], "Tg_full must be above Tg0 (%s)", Celsius(dib.Tg0))
+	}
+	if dib.Lambda, ok = l.number(g, "lambda"); ok && !(dib.Lambda > 0 && dib.Lambda <= 1) {
+		l.rangeErr(g.keyPath("lambda"), dib.Lambda, "lambda must be in (0, 1]")
+	}
+	return &dib
 }
 
 // dielectric reads [materials.X.dielectric]: relative permittivity ε′ ≥ 1,

@@ -353,22 +353,7 @@ func (l *loader) face(root *table, which string, scheds map[string]*physics.Sche
 	valid := allFaceKeys
 	var note func(string) string
 	if keys, ok := faceKeys[kind]; ok {
-		valid = keys
-		note = func(k string) string {
-			if !Contains(allFaceKeys, k) {
-				return ""
-			}
-			for _, other := range faceKinds {
-				if Contains(faceKeys[other], k) {
-					a := "a"
-					if kind == "insulated" {
-						a = "an"
-					}
-					return fmt.Sprintf("%s %s face has no %s (it belongs to kind %q); valid keys here: %s", a, kind, k, other, strings.Join(keys, ", "))
-				}
-			}
-			return ""
-		}
+		valid, note = keys, faceKeyNote(kind)
 	}
 	t := l.open(which, root.m[which], valid, note)
 	if t == nil {
@@ -389,86 +374,120 @@ func (l *loader) face(root *table, which string, scheds map[string]*physics.Sche
 		return nil
 	}
 	f := &faceDef{}
+	ok := true
 	switch kind {
 	case "insulated":
 		f.face.Kind = physics.Insulated
 	case "convection":
-		f.face.Kind = physics.Convection
-		l.require(t, "h", "air")
-		h, okH := l.quantity(t, "h", units.HeatTransferCoefficient)
-		eps, okE := l.number(t, "emissivity")
-		if okE && !(eps >= 0 && eps <= 1) {
-			l.rangeErr(t.keyPath("emissivity"), eps, "emissivity must be in [0, 1]")
-		}
-		switch {
-		case okH && !(h >= 0):
-			l.rangeErr(t.keyPath("h"), t.m["h"], "h must not be negative")
-		case okH && h == 0 && !(eps > 0):
-			l.rangeErr(t.keyPath("h"), t.m["h"], "with h = 0 and no emissivity the face exchanges no heat").Hint =
-				"say kind = \"insulated\" for a face that exchanges no heat"
-		}
-		f.face.H, f.face.Emissivity = h, eps
-		var ok bool
-		if f.face.Air, f.driver, f.end, ok = l.driver(t, "air", scheds); !ok {
-			return nil
-		}
+		ok = l.convectionFace(t, f, scheds)
 	case "fixed":
 		f.face.Kind = physics.Fixed
 		l.require(t, "temperature")
-		var ok bool
-		if f.face.Set, f.driver, f.end, ok = l.driver(t, "temperature", scheds); !ok {
-			return nil
-		}
+		f.face.Set, f.driver, f.end, ok = l.driver(t, "temperature", scheds)
 	case "flux":
-		f.face.Kind = physics.Flux
-		if l.require(t, "flux") {
-			path := t.keyPath("flux")
-			switch v := t.m["flux"].(type) {
-			case []any:
-				s, ok := l.points(path, v, units.HeatFlux)
-				if !ok {
-					return nil
-				}
-				f.face.Flux, f.end = s, s.End()
-			default:
-				q, ok := l.quantityAt(path, v, units.HeatFlux)
-				if !ok {
-					return nil
-				}
-				f.face.Flux = physics.Steady(q)
-			}
-		}
-		// Optional exchange with air beside the imposed flux: a lamp over
-		// a part that still loses heat by convection and radiation.
-		h, okH := l.quantity(t, "h", units.HeatTransferCoefficient)
-		eps, okE := l.number(t, "emissivity")
-		switch {
-		case okH && !(h >= 0):
-			l.rangeErr(t.keyPath("h"), t.m["h"], "h must not be negative")
-		case okE && !(eps >= 0 && eps <= 1):
-			l.rangeErr(t.keyPath("emissivity"), eps, "emissivity must be in [0, 1]")
-		case h > 0 || eps > 0:
-			if n := len(l.errs); !l.require(t, "air") {
-				if len(l.errs) > n {
-					l.errs[len(l.errs)-1].Hint = "a flux face that also loses heat by convection or radiation needs the air temperature, for example: air = \"23 C\""
-				}
-				return nil
-			}
-			f.face.H, f.face.Emissivity = h, eps
-			sched, text, end, ok := l.driver(t, "air", scheds)
-			if !ok {
-				return nil
-			}
-			f.face.Air, f.driver, f.end = sched, text, max(f.end, end)
-		case t.has("air"):
-			l.atValue(t.keyPath("air"), ErrRange, "air on a flux face needs h > 0 or emissivity > 0 (with neither, no heat is exchanged with it)").Hint =
-				"add, for example, h = \"10 W/m^2/K\", or remove air"
-		}
+		ok = l.fluxFace(t, f, scheds)
 	}
-	if len(l.errs) > before {
+	if !ok || len(l.errs) > before {
 		return nil
 	}
 	return f
+}
+
+// faceKeyNote returns the note on a key that belongs to a face kind other
+// than kind (a known one), listing the keys valid for kind.
+func faceKeyNote(kind string) func(string) string {
+	keys := faceKeys[kind]
+	return func(k string) string {
+		if !Contains(allFaceKeys, k) {
+			return ""
+		}
+		for _, other := range faceKinds {
+			if Contains(faceKeys[other], k) {
+				a := "a"
+				if kind == "insulated" {
+					a = "an"
+				}
+				return fmt.Sprintf("%s %s face has no %s (it belongs to kind %q); valid keys here: %s", a, kind, k, other, strings.Join(keys, ", "))
+			}
+		}
+		return ""
+	}
+}
+
+// convectionFace reads the keys of a convection face t into f: h, the
+// optional emissivity (in [0, 1]) and the air temperature. It returns false
+// when the air temperature cannot be read.
+func (l *loader) convectionFace(t *table, f *faceDef, scheds map[string]*physics.Schedule) bool {
+	f.face.Kind = physics.Convection
+	l.require(t, "h", "air")
+	h, okH := l.quantity(t, "h", units.HeatTransferCoefficient)
+	eps, okE := l.number(t, "emissivity")
+	if okE && !(eps >= 0 && eps <= 1) {
+		l.rangeErr(t.keyPath("emissivity"), eps, "emissivity must be in [0, 1]")
+	}
+	switch {
+	case okH && !(h >= 0):
+		l.rangeErr(t.keyPath("h"), t.m["h"], "h must not be negative")
+	case okH && h == 0 && !(eps > 0):
+		l.rangeErr(t.keyPath("h"), t.m["h"], "with h = 0 and no emissivity the face exchanges no heat").Hint =
+			"say kind = \"insulated\" for a face that exchanges no heat"
+	}
+	f.face.H, f.face.Emissivity = h, eps
+	var ok bool
+	f.face.Air, f.driver, f.end, ok = l.driver(t, "air", scheds)
+	return ok
+}
+
+// fluxFace reads the keys of a flux face t into f: the imposed flux (a
+// constant or points in time) and the optional exchange with air beside it
+// (h, emissivity, air). It returns false when the flux or the air
+// temperature cannot be read.
+func (l *loader) fluxFace(t *table, f *faceDef, scheds map[string]*physics.Schedule) bool {
+	f.face.Kind = physics.Flux
+	if l.require(t, "flux") {
+		path := t.keyPath("flux")
+		switch v := t.m["flux"].(type) {
+		case []any:
+			s, ok := l.points(path, v, units.HeatFlux)
+			if !ok {
+				return false
+			}
+			f.face.Flux, f.end = s, s.End()
+		default:
+			q, ok := l.quantityAt(path, v, units.HeatFlux)
+			if !ok {
+				return false
+			}
+			f.face.Flux = physics.Steady(q)
+		}
+	}
+	// Optional exchange with air beside the imposed flux: a lamp over
+	// a part that still loses heat by convection and radiation.
+	h, okH := l.quantity(t, "h", units.HeatTransferCoefficient)
+	eps, okE := l.number(t, "emissivity")
+	switch {
+	case okH && !(h >= 0):
+		l.rangeErr(t.keyPath("h"), t.m["h"], "h must not be negative")
+	case okE && !(eps >= 0 && eps <= 1):
+		l.rangeErr(t.keyPath("emissivity"), eps, "emissivity must be in [0, 1]")
+	case h > 0 || eps > 0:
+		if n := len(l.errs); !l.require(t, "air") {
+			if len(l.errs) > n {
+				l.errs[len(l.errs)-1].Hint = "a flux face that also loses heat by convection or radiation needs the air temperature, for example: air = \"23 C\""
+			}
+			return false
+		}
+		f.face.H, f.face.Emissivity = h, eps
+		sched, text, end, ok := l.driver(t, "air", scheds)
+		if !ok {
+			return false
+		}
+		f.face.Air, f.driver, f.end = sched, text, max(f.end, end)
+	case t.has("air"):
+		l.atValue(t.keyPath("air"), ErrRange, "air on a flux face needs h > 0 or emissivity > 0 (with neither, no heat is exchanged with it)").Hint =
+			"add, for example, h = \"10 W/m^2/K\", or remove air"
+	}
+	return true
 }
 
 // driver reads a temperature that is either the name of a [schedules.X] or

@@ -120,7 +120,8 @@ func (b *binding) problem(vals []float64) (*solver.Problem, error) {
 	return c.Problem, nil
 }
 
-// bind resolves the free values in the case v.
+// bind resolves the free values in the case v (bindFree) and checks that
+// the case accepts a change of each (checkChanges).
 func bind(v *cases.CaseVariant, frees []Free) (*binding, error) {
 	if len(frees) == 0 {
 		return nil, freeFail("no free value: give one or more --free KEY, such as --free top.h")
@@ -128,128 +129,193 @@ func bind(v *cases.CaseVariant, frees []Free) (*binding, error) {
 	b := &binding{v: v}
 	seen := map[string]string{}
 	for _, f := range frees {
-		fail := func(format string, a ...any) error {
-			return freeFail("--free %s: %s", f.Key, fmt.Sprintf(format, a...))
-		}
-		first := strings.SplitN(f.Key, ".", 2)[0]
-		for _, s := range fixedSections {
-			if first == s {
-				return nil, fail("[%s] describes the computation or its outputs, not the part or the process: it cannot be fitted", s)
-			}
-		}
-		path, exists, err := cases.ResolveKey(v.Doc, f.Key)
+		bf, err := bindFree(v, f, seen)
 		if err != nil {
-			return nil, fail("%v", err)
+			return nil, err
 		}
-		joined := strings.Join(path, ".")
-		if prev, dup := seen[joined]; dup {
-			return nil, fail("the same value as --free %s", prev)
+		if bf.note != "" {
+			b.notes = append(b.notes, bf.note)
 		}
-		seen[joined] = f.Key
-		p := Param{Key: f.Key, Lo: math.Inf(-1), Hi: math.Inf(1)}
-		plain := false
-		var start float64
-		var dim units.Dim
-		if exists {
-			switch old := cases.Leaf(v.Doc, path).(type) {
-			case int64, float64:
-				plain = true
-				start, _ = cases.PlainNumber(old)
-			case string:
-				num, unit := cases.SplitNumber(strings.TrimSpace(old))
-				dim = cases.DimOf(old)
-				if num == "" || dim == 0 {
-					return nil, fail("the case has %q there, not a number or a quantity: only numeric values can be fitted", old)
+		b.params = append(b.params, bf.p)
+		b.paths = append(b.paths, bf.path)
+		b.plain = append(b.plain, bf.plain)
+	}
+	if err := b.checkChanges(); err != nil {
+		return nil, err
+	}
+	return b, nil
+}
+
+// boundFree is one free value resolved in the case.
+type boundFree struct {
+	p     Param
+	path  []string  // its key path in the case's tree
+	plain bool      // written as a plain number (else a quantity in p.Unit)
+	dim   units.Dim // the dimension of its quantity (0 when plain)
+	note  string    // where the fit starts when not from the case's value, "" otherwise
+	fail  func(format string, a ...any) error
+}
+
+// bindFree resolves f in the case v: its key path (not in a fixed section,
+// not the same value as an earlier one, recorded in seen), its unit (the
+// case's, or the bounds' for a value the case does not set), its bounds and
+// scale, and its starting value (the case's, else the middle of its range).
+func bindFree(v *cases.CaseVariant, f Free, seen map[string]string) (*boundFree, error) {
+	fail := func(format string, a ...any) error {
+		return freeFail("--free %s: %s", f.Key, fmt.Sprintf(format, a...))
+	}
+	first := strings.SplitN(f.Key, ".", 2)[0]
+	for _, s := range fixedSections {
+		if first == s {
+			return nil, fail("[%s] describes the computation or its outputs, not the part or the process: it cannot be fitted", s)
+		}
+	}
+	path, exists, err := cases.ResolveKey(v.Doc, f.Key)
+	if err != nil {
+		return nil, fail("%v", err)
+	}
+	joined := strings.Join(path, ".")
+	if prev, dup := seen[joined]; dup {
+		return nil, fail("the same value as --free %s", prev)
+	}
+	seen[joined] = f.Key
+	bf := &boundFree{p: Param{Key: f.Key, Lo: math.Inf(-1), Hi: math.Inf(1)}, path: path, fail: fail}
+	var start float64
+	if exists {
+		start, err = bf.fromCase(cases.Leaf(v.Doc, path))
+	} else {
+		err = bf.fromBounds(v, f)
+	}
+	if err != nil {
+		return nil, err
+	}
+	p := &bf.p
+	if f.Lo != nil {
+		if p.Lo, err = bf.bound(f.Lo, "lower"); err != nil {
+			return nil, err
+		}
+	}
+	if f.Hi != nil {
+		if p.Hi, err = bf.bound(f.Hi, "upper"); err != nil {
+			return nil, err
+		}
+	}
+	if !(p.Lo < p.Hi) {
+		return nil, fail("the lower bound is not below the upper one")
+	}
+	p.Log = logDims[bf.dim]
+	p.Ratio = bf.dim != units.Temperature
+	if err := bf.setStart(start, exists); err != nil {
+		return nil, err
+	}
+	return bf, nil
+}
+
+// fromCase takes the unit (or plainness) of the free value from old, the
+// value the case has there, and returns old as a number in that unit.
+func (bf *boundFree) fromCase(old any) (float64, error) {
+	switch old := old.(type) {
+	case int64, float64:
+		bf.plain = true
+		start, _ := cases.PlainNumber(old)
+		return start, nil
+	case string:
+		num, unit := cases.SplitNumber(strings.TrimSpace(old))
+		bf.dim = cases.DimOf(old)
+		if num == "" || bf.dim == 0 {
+			return 0, bf.fail("the case has %q there, not a number or a quantity: only numeric values can be fitted", old)
+		}
+		bf.p.Unit = strings.TrimSpace(unit)
+		start, _ := cases.InUnit(old, bf.p.Unit)
+		return start, nil
+	default:
+		return 0, bf.fail("the case has %s there: only numeric values can be fitted", cases.Written(old))
+	}
+}
+
+// fromBounds handles a free value f that the case does not set: a key the
+// case could have (a default) or a misspelt one. Its range must be given
+// and its lower bound gives its unit.
+func (bf *boundFree) fromBounds(v *cases.CaseVariant, f Free) error {
+	var probe any = int64(0)
+	if f.Lo != nil {
+		probe = f.Lo
+	}
+	if err := v.Validate(v.Tree([]cases.ValueSetting{{Path: bf.path, Value: probe}})); errors.Is(err, cases.ErrUnknownKey) {
+		var list cases.ErrorList
+		if errors.As(err, &list) {
+			for _, e := range list {
+				if errors.Is(e, cases.ErrUnknownKey) {
+					return bf.fail("%v", e.Err)
 				}
-				p.Unit = strings.TrimSpace(unit)
-				start, _ = cases.InUnit(old, p.Unit)
-			default:
-				return nil, fail("the case has %s there: only numeric values can be fitted", cases.Written(old))
-			}
-		} else {
-			// Not in the case: a key the case could have (a default), or
-			// a misspelt one.
-			var probe any = int64(0)
-			if f.Lo != nil {
-				probe = f.Lo
-			}
-			if err := v.Validate(v.Tree([]cases.ValueSetting{{Path: path, Value: probe}})); errors.Is(err, cases.ErrUnknownKey) {
-				var list cases.ErrorList
-				if errors.As(err, &list) {
-					for _, e := range list {
-						if errors.Is(e, cases.ErrUnknownKey) {
-							return nil, fail("%v", e.Err)
-						}
-					}
-				}
-				return nil, fail("%v", err)
-			}
-			// The bounds give its unit.
-			if f.Lo == nil || f.Hi == nil {
-				return nil, fail("the case does not set it: give its range, such as %s=LO:HI with units", f.Key)
-			}
-			if s, ok := f.Lo.(string); ok {
-				num, unit := cases.SplitNumber(strings.TrimSpace(s))
-				dim = cases.DimOf(s)
-				if num == "" || dim == 0 {
-					return nil, fail("the bound %q is not a quantity with a unit", s)
-				}
-				p.Unit = strings.TrimSpace(unit)
-			} else {
-				plain = true
 			}
 		}
-		bound := func(x any, which string) (float64, error) {
-			if plain {
-				if y, ok := cases.PlainNumber(x); ok {
-					return y, nil
-				}
-				return 0, fail("the %s bound %s must be a plain number, as the value is", which, cases.Written(x))
-			}
-			if _, isNum := x.(string); !isNum {
-				return 0, fail("the %s bound %s needs a unit, such as %s", which, cases.Written(x), dim.Example())
-			}
-			y, ok := cases.InUnit(x, p.Unit)
-			if !ok || cases.DimOf(x.(string)) != dim {
-				return 0, fail("the %s bound %s is not %s like the value (%s)", which, cases.Written(x), dim.WithArticle(), p.Unit)
-			}
+		return bf.fail("%v", err)
+	}
+	if f.Lo == nil || f.Hi == nil {
+		return bf.fail("the case does not set it: give its range, such as %s=LO:HI with units", f.Key)
+	}
+	s, ok := f.Lo.(string)
+	if !ok {
+		bf.plain = true
+		return nil
+	}
+	num, unit := cases.SplitNumber(strings.TrimSpace(s))
+	bf.dim = cases.DimOf(s)
+	if num == "" || bf.dim == 0 {
+		return bf.fail("the bound %q is not a quantity with a unit", s)
+	}
+	bf.p.Unit = strings.TrimSpace(unit)
+	return nil
+}
+
+// bound returns the bound x (which: "lower" or "upper") in the free value's
+// unit: a plain number for a plain value, else a quantity of its dimension.
+func (bf *boundFree) bound(x any, which string) (float64, error) {
+	if bf.plain {
+		if y, ok := cases.PlainNumber(x); ok {
 			return y, nil
 		}
-		if f.Lo != nil {
-			if p.Lo, err = bound(f.Lo, "lower"); err != nil {
-				return nil, err
-			}
-		}
-		if f.Hi != nil {
-			if p.Hi, err = bound(f.Hi, "upper"); err != nil {
-				return nil, err
-			}
-		}
-		if !(p.Lo < p.Hi) {
-			return nil, fail("the lower bound is not below the upper one")
-		}
-		p.Log = logDims[dim]
-		p.Ratio = dim != units.Temperature
-		if !exists || (p.Log && !(start > 0)) {
-			switch {
-			case p.Log && p.Lo > 0 && !math.IsInf(p.Hi, 1):
-				start = math.Sqrt(p.Lo * p.Hi)
-			case !p.Log && !math.IsInf(p.Lo, -1) && !math.IsInf(p.Hi, 1):
-				start = (p.Lo + p.Hi) / 2
-			default:
-				return nil, fail("the case's value is %s: a fit on a logarithmic scale starts from a positive value; give a range with a positive lower bound, such as %s=LO:HI", fmtVal(start), f.Key)
-			}
-			b.notes = append(b.notes, fmt.Sprintf("%s starts at the middle of its range (%s %s)%s", f.Key, fmtVal(start), p.Unit,
-				map[bool]string{true: ", geometric: it is fitted on a logarithmic scale", false: ""}[p.Log]))
-		} else if !(start > p.Lo && start < p.Hi) {
-			return nil, fail("the case's value %s %s is not inside the range: the fit starts from the case's values; widen the range or edit the case", fmtVal(start), p.Unit)
-		}
-		p.Start = start
-		b.params = append(b.params, p)
-		b.paths = append(b.paths, path)
-		b.plain = append(b.plain, plain)
+		return 0, bf.fail("the %s bound %s must be a plain number, as the value is", which, cases.Written(x))
 	}
-	// Every free value must be one the case accepts other values of.
+	if _, isNum := x.(string); !isNum {
+		return 0, bf.fail("the %s bound %s needs a unit, such as %s", which, cases.Written(x), bf.dim.Example())
+	}
+	y, ok := cases.InUnit(x, bf.p.Unit)
+	if !ok || cases.DimOf(x.(string)) != bf.dim {
+		return 0, bf.fail("the %s bound %s is not %s like the value (%s)", which, cases.Written(x), bf.dim.WithArticle(), bf.p.Unit)
+	}
+	return y, nil
+}
+
+// setStart sets where the fit starts: start, the case's value, when the
+// case sets one (exists) that lies inside the range (and is positive on a
+// logarithmic scale); else the middle of the range, geometric on a
+// logarithmic scale, said in a note.
+func (bf *boundFree) setStart(start float64, exists bool) error {
+	p := &bf.p
+	if !exists || (p.Log && !(start > 0)) {
+		switch {
+		case p.Log && p.Lo > 0 && !math.IsInf(p.Hi, 1):
+			start = math.Sqrt(p.Lo * p.Hi)
+		case !p.Log && !math.IsInf(p.Lo, -1) && !math.IsInf(p.Hi, 1):
+			start = (p.Lo + p.Hi) / 2
+		default:
+			return bf.fail("the case's value is %s: a fit on a logarithmic scale starts from a positive value; give a range with a positive lower bound, such as %s=LO:HI", fmtVal(start), p.Key)
+		}
+		bf.note = fmt.Sprintf("%s starts at the middle of its range (%s %s)%s", p.Key, fmtVal(start), p.Unit,
+			map[bool]string{true: ", geometric: it is fitted on a logarithmic scale", false: ""}[p.Log])
+	} else if !(start > p.Lo && start < p.Hi) {
+		return bf.fail("the case's value %s %s is not inside the range: the fit starts from the case's values; widen the range or edit the case", fmtVal(start), p.Unit)
+	}
+	p.Start = start
+	return nil
+}
+
+// checkChanges refuses a free value the case does not accept other values
+// of: each is moved by 0.1 % from its start (to 1e-3 from 0), the others
+// at theirs, and the case parsed again.
+func (b *binding) checkChanges() error {
 	vals := make([]float64, len(b.params))
 	for i, p := range b.params {
 		vals[i] = p.Start
@@ -266,8 +332,8 @@ func bind(v *cases.CaseVariant, frees []Free) (*binding, error) {
 			if errors.As(err, &list) && len(list) > 0 {
 				msg = list[0].Err.Error()
 			}
-			return nil, freeFail("--free %s: the case is invalid when it changes (%s): it cannot be fitted", p.Key, msg)
+			return freeFail("--free %s: the case is invalid when it changes (%s): it cannot be fitted", p.Key, msg)
 		}
 	}
-	return b, nil
+	return nil
 }

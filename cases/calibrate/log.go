@@ -114,30 +114,69 @@ func ReadLog(name string, data []byte) (*Log, error) {
 	r.Comment = '#'
 	r.FieldsPerRecord = -1
 	r.TrimLeadingSpace = true
-	errs := &logErrors{file: name}
+	lr := &logReader{r: r, errs: &logErrors{file: name}, log: &Log{File: name}}
 	head, err := r.Read()
 	if err == io.EOF {
-		errs.add(0, 0, "", "the file is empty\n%s", exampleLog)
-		return nil, errs.err()
+		lr.errs.add(0, 0, "", "the file is empty\n%s", exampleLog)
+		return nil, lr.errs.err()
 	}
 	if err != nil {
 		return nil, csvError(name, err)
 	}
-	head = append([]string(nil), head...)
-	l := &Log{File: name}
-	timeCol := -1
-	probeOf := make([]int, len(head)) // column -> index into l.Probes, -1 for none
+	lr.header(append([]string(nil), head...))
+	if len(lr.errs.list) > 0 {
+		return nil, lr.errs.err()
+	}
+	for {
+		rec, err := r.Read()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			var pe *csv.ParseError
+			if errors.As(err, &pe) && !errors.Is(pe.Err, csv.ErrFieldCount) {
+				lr.errs.add(pe.Line, pe.Column, "", "%v", pe.Err)
+				return nil, lr.errs.err()
+			}
+			return nil, csvError(name, err)
+		}
+		lr.row(rec)
+	}
+	if len(lr.errs.list) > 0 {
+		return nil, lr.errs.err()
+	}
+	return lr.finish()
+}
+
+// logReader is the state of ReadLog between the rows of a log.
+type logReader struct {
+	r        *csv.Reader
+	errs     *logErrors
+	log      *Log
+	width    int   // cells in the header
+	timeCol  int   // column of time_s, −1 if none
+	probeOf  []int // column -> index into log.Probes, −1 for none
+	prevLine int   // line of the last time read
+}
+
+// header reads the header row head: the time_s column and the
+// T_<depth>mm_C columns, each depth once.
+func (lr *logReader) header(head []string) {
+	l, errs := lr.log, lr.errs
+	lr.width = len(head)
+	lr.timeCol = -1
+	lr.probeOf = make([]int, len(head))
 	for i, h := range head {
 		h = strings.TrimSpace(h)
-		probeOf[i] = -1
-		line, col := r.FieldPos(i)
+		lr.probeOf[i] = -1
+		line, col := lr.r.FieldPos(i)
 		switch {
 		case h == "time_s":
-			if timeCol >= 0 {
-				errs.add(line, col, h, "a second time_s column (the first is column %d)", timeCol+1)
+			if lr.timeCol >= 0 {
+				errs.add(line, col, h, "a second time_s column (the first is column %d)", lr.timeCol+1)
 				continue
 			}
-			timeCol = i
+			lr.timeCol = i
 		case strings.HasPrefix(h, "T_") && strings.HasSuffix(h, "mm_C") && len(h) > len("T_mm_C"):
 			label := strings.TrimSuffix(strings.TrimPrefix(h, "T_"), "mm_C")
 			z, err := strconv.ParseFloat(label, 64)
@@ -155,82 +194,73 @@ func ReadLog(name string, data []byte) (*Log, error) {
 			if dup {
 				continue
 			}
-			probeOf[i] = len(l.Probes)
+			lr.probeOf[i] = len(l.Probes)
 			l.Probes = append(l.Probes, Probe{Column: h, Label: label, Depth: z * 1e-3, Line: line, Col: col})
 		}
 	}
-	if timeCol < 0 {
+	if lr.timeCol < 0 {
 		errs.add(1, 1, "", "no time_s column (the header has %s)\n%s", quoteList(head), exampleLog)
 	}
 	if len(l.Probes) == 0 && len(errs.list) == 0 {
 		errs.add(1, 1, "", "no temperature column T_<depth>mm_C (the header has %s)\n%s", quoteList(head), exampleLog)
 	}
-	if len(errs.list) > 0 {
-		return nil, errs.err()
+}
+
+// row reads one data row rec: its time, which must come after the last
+// one, and a temperature (°C, NaN for an empty cell) for every probe.
+func (lr *logReader) row(rec []string) {
+	l, errs := lr.log, lr.errs
+	line, _ := lr.r.FieldPos(0)
+	if len(rec) != lr.width {
+		errs.add(line, 1, "", "%d cells, but the header has %d columns", len(rec), lr.width)
+		return
 	}
-	prevLine := 0
-	for {
-		rec, err := r.Read()
-		if err == io.EOF {
-			break
-		}
-		if err != nil {
-			var pe *csv.ParseError
-			if errors.As(err, &pe) && !errors.Is(pe.Err, csv.ErrFieldCount) {
-				errs.add(pe.Line, pe.Column, "", "%v", pe.Err)
-				return nil, errs.err()
-			}
-			return nil, csvError(name, err)
-		}
-		line, _ := r.FieldPos(0)
-		if len(rec) != len(head) {
-			errs.add(line, 1, "", "%d cells, but the header has %d columns", len(rec), len(head))
+	tcell := strings.TrimSpace(rec[lr.timeCol])
+	_, tc := lr.r.FieldPos(lr.timeCol)
+	tm, err := strconv.ParseFloat(tcell, 64)
+	switch {
+	case tcell == "":
+		errs.add(line, tc, "time_s", "the time is empty: every row needs its time in seconds")
+		return
+	case err != nil || math.IsNaN(tm) || math.IsInf(tm, 0):
+		errs.add(line, tc, "time_s", "%q is not a time in seconds", tcell)
+		return
+	case len(l.Times) > 0 && !(tm > l.Times[len(l.Times)-1]):
+		errs.add(line, tc, "time_s", "%s s does not come after %s s on line %d: times must increase", tcell,
+			strconv.FormatFloat(l.Times[len(l.Times)-1], 'g', -1, 64), lr.prevLine)
+		return
+	}
+	l.Times = append(l.Times, tm)
+	l.Lines = append(l.Lines, line)
+	lr.prevLine = line
+	for i, k := range lr.probeOf {
+		if k < 0 {
 			continue
 		}
-		tcell := strings.TrimSpace(rec[timeCol])
-		_, tc := r.FieldPos(timeCol)
-		tm, err := strconv.ParseFloat(tcell, 64)
+		p := &l.Probes[k]
+		cell := strings.TrimSpace(rec[i])
+		if cell == "" {
+			p.T = append(p.T, math.NaN())
+			continue
+		}
+		v, err := strconv.ParseFloat(cell, 64)
+		_, col := lr.r.FieldPos(i)
 		switch {
-		case tcell == "":
-			errs.add(line, tc, "time_s", "the time is empty: every row needs its time in seconds")
-			continue
-		case err != nil || math.IsNaN(tm) || math.IsInf(tm, 0):
-			errs.add(line, tc, "time_s", "%q is not a time in seconds", tcell)
-			continue
-		case len(l.Times) > 0 && !(tm > l.Times[len(l.Times)-1]):
-			errs.add(line, tc, "time_s", "%s s does not come after %s s on line %d: times must increase", tcell,
-				strconv.FormatFloat(l.Times[len(l.Times)-1], 'g', -1, 64), prevLine)
-			continue
+		case err != nil || math.IsNaN(v) || math.IsInf(v, 0):
+			errs.add(line, col, p.Column, "%q is not a temperature in °C (leave the cell empty for a missing reading)", cell)
+			v = math.NaN()
+		case v < -273.15:
+			errs.add(line, col, p.Column, "%s °C is below absolute zero", cell)
+			v = math.NaN()
 		}
-		l.Times = append(l.Times, tm)
-		l.Lines = append(l.Lines, line)
-		prevLine = line
-		for i, k := range probeOf {
-			if k < 0 {
-				continue
-			}
-			p := &l.Probes[k]
-			cell := strings.TrimSpace(rec[i])
-			if cell == "" {
-				p.T = append(p.T, math.NaN())
-				continue
-			}
-			v, err := strconv.ParseFloat(cell, 64)
-			_, col := r.FieldPos(i)
-			switch {
-			case err != nil || math.IsNaN(v) || math.IsInf(v, 0):
-				errs.add(line, col, p.Column, "%q is not a temperature in °C (leave the cell empty for a missing reading)", cell)
-				v = math.NaN()
-			case v < -273.15:
-				errs.add(line, col, p.Column, "%s °C is below absolute zero", cell)
-				v = math.NaN()
-			}
-			p.T = append(p.T, v+273.15)
-		}
+		p.T = append(p.T, v+273.15)
 	}
-	if len(errs.list) > 0 {
-		return nil, errs.err()
-	}
+}
+
+// finish refuses a log with no data row, drops the probes with no reading
+// (named in Dropped) and refuses a log left with none.
+func (lr *logReader) finish() (*Log, error) {
+	l, errs := lr.log, lr.errs
 	if len(l.Times) == 0 {
 		errs.add(0, 0, "", "no data rows after the header")
 		return nil, errs.err()

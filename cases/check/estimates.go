@@ -144,14 +144,37 @@ func DrivingMax(pr *solver.Problem) (float64, bool) {
 	return T, true
 }
 
-// chkEstimates prints the Biot numbers and the curing-layer estimates and
-// returns the warnings they raise.
+// chkEstimates prints the Biot numbers (chkBiot) and the curing-layer
+// estimates (chkLayerEstimate) and returns the warnings they raise.
 func chkEstimates(p *textout.Printer, c *cases.Case) []string {
-	pr := c.Problem
-	var warn []string
 	p.Printf("\nPre-trial estimates (rough guides, not results)\n")
+	chkBiot(p, c)
+	est := Estimates(c)
+	if len(est) == 0 {
+		p.Printf("  No layer cures: the case is pure heat conduction.\n")
+		return nil
+	}
+	abort := c.Problem.AbortTemperature
+	if abort == 0 {
+		abort = solver.DefaultAbortTemperature
+	}
+	var warn []string
+	for _, e := range est {
+		warn = append(warn, chkLayerEstimate(p, c, e, abort)...)
+	}
+	return warn
+}
 
-	// Biot numbers of the whole stack.
+// chkBiot prints the Biot number of each face of c over the whole stack:
+//
+//	Bi = h L / k_eff,  k_eff = L / Σ (l_j / k_j + R_j)
+//
+// with L the stack's thickness, l_j, k_j the layers' thicknesses and
+// conductivities at the initial temperature and cure, R_j their contact
+// resistances, and h the face's coefficient plus, with an emissivity ε, the
+// radiation linearised at the highest air temperature T_a: 4 ε σ T_a³.
+func chkBiot(p *textout.Printer, c *cases.Case) {
+	pr := c.Problem
 	m := pr.Mesh
 	T0 := pr.InitialTemperature
 	L, R := m.Thickness(), 0.0
@@ -194,71 +217,70 @@ func chkEstimates(p *textout.Printer, c *cases.Case) []string {
 		}
 	}
 	p.Flush(tw)
+}
 
-	est := Estimates(c)
-	if len(est) == 0 {
-		p.Printf("  No layer cures: the case is pure heat conduction.\n")
-		return warn
+// chkLayerEstimate prints the estimates of one curing layer (adiabatic
+// rise, conduction time, reaction half-life, time to min_cure, peak
+// reaction rate) and its runaway screen (chkRunaway), and returns the
+// warnings: min_cure out of reach in the case's time, conduction slower than
+// the reaction, and an adiabatic core above max_temperature or above abort,
+// the runaway limit (K).
+func chkLayerEstimate(p *textout.Printer, c *cases.Case, e Estimate, abort float64) []string {
+	pr := c.Problem
+	var warn []string
+	p.Printf("  Layer %s (%s), at the highest driving temperature %s C:\n", e.Layer, e.Material, chkF(e.T-273.15, 1))
+	tw := p.Table()
+	peak := e.T + e.AdiabaticRise
+	fmt.Fprintf(tw, "    adiabatic temperature rise\t%s K\tif no reaction heat left the layer; an adiabatic core would reach %s C\n",
+		chkF(e.AdiabaticRise, 1), chkF(peak-273.15, 0))
+	rs := e.Runaway
+	scale := "the layer (heat leaves through one face)"
+	if rs.Half {
+		scale = "half the layer (heat leaves through both faces)"
 	}
-	abort := pr.AbortTemperature
-	if abort == 0 {
-		abort = solver.DefaultAbortTemperature
+	fmt.Fprintf(tw, "    conduction time l^2/a\t%s\tl = %s mm, %s; a = k/(rho*c_p) = %s m^2/s\n",
+		num.HumanTime(e.ConductionTime), num.FormatDepth(rs.Length), scale, chkG3(e.Diffusivity))
+	var half string
+	switch {
+	case e.HalfLife == 0:
+		half = "already past half cure at the start"
+	case math.IsInf(e.HalfLife, 1):
+		half = "never: the resin does not react from its initial cure at this temperature"
+	case math.IsNaN(e.HalfLife):
+		half = "unknown"
+	default:
+		half = num.HumanTime(e.HalfLife) + "\tisothermal, cure " + num.G(pr.InitialCure) + " to 0.5"
 	}
-	for _, e := range est {
-		p.Printf("  Layer %s (%s), at the highest driving temperature %s C:\n", e.Layer, e.Material, chkF(e.T-273.15, 1))
-		tw := p.Table()
-		peak := e.T + e.AdiabaticRise
-		fmt.Fprintf(tw, "    adiabatic temperature rise\t%s K\tif no reaction heat left the layer; an adiabatic core would reach %s C\n",
-			chkF(e.AdiabaticRise, 1), chkF(peak-273.15, 0))
-		rs := e.Runaway
-		scale := "the layer (heat leaves through one face)"
-		if rs.Half {
-			scale = "half the layer (heat leaves through both faces)"
+	fmt.Fprintf(tw, "    reaction half-life\t%s\n", half)
+	if mc := c.Criteria.MinCure; !math.IsNaN(mc) {
+		ttm := "never at this temperature"
+		if !math.IsInf(e.TimeToMinCure, 1) {
+			ttm = num.HumanTime(e.TimeToMinCure)
 		}
-		fmt.Fprintf(tw, "    conduction time l^2/a\t%s\tl = %s mm, %s; a = k/(rho*c_p) = %s m^2/s\n",
-			num.HumanTime(e.ConductionTime), num.FormatDepth(rs.Length), scale, chkG3(e.Diffusivity))
-		var half string
-		switch {
-		case e.HalfLife == 0:
-			half = "already past half cure at the start"
-		case math.IsInf(e.HalfLife, 1):
-			half = "never: the resin does not react from its initial cure at this temperature"
-		case math.IsNaN(e.HalfLife):
-			half = "unknown"
-		default:
-			half = num.HumanTime(e.HalfLife) + "\tisothermal, cure " + num.G(pr.InitialCure) + " to 0.5"
-		}
-		fmt.Fprintf(tw, "    reaction half-life\t%s\n", half)
-		if mc := c.Criteria.MinCure; !math.IsNaN(mc) {
-			ttm := "never at this temperature"
-			if !math.IsInf(e.TimeToMinCure, 1) {
-				ttm = num.HumanTime(e.TimeToMinCure)
-			}
-			fmt.Fprintf(tw, "    time to min_cure %s\t%s\tisothermal at %s C from cure %s; the case runs %s\n",
-				chkG(mc), ttm, chkF(e.T-273.15, 1), chkG(pr.InitialCure), num.HumanTime(pr.End))
-		}
-		if e.PeakRate > 0 {
-			fmt.Fprintf(tw, "    peak reaction rate\t%s 1/s\tisothermal, at cure %s; apparent activation energy %s kJ/mol\n",
-				chkG3(e.PeakRate), chkF(e.PeakCure, 2), chkF(e.ApparentE/1e3, 1))
-		}
-		p.Flush(tw)
-		warn = append(warn, chkRunaway(p, c, e)...)
-		if mc := c.Criteria.MinCure; e.TimeToMinCure > pr.End {
-			warn = append(warn, fmt.Sprintf("layer %s: even held at %s C from the start, the resin needs %s (isothermal) to reach min_cure %s, longer than the case's %s: it gets there only with help from its own exotherm, if at all.",
-				e.Layer, chkF(e.T-273.15, 1), chkTimeOrNever(e.TimeToMinCure), chkG(mc), num.HumanTime(pr.End)))
-		}
-		if e.HalfLife > 0 && e.ConductionTime > e.HalfLife {
-			warn = append(warn, fmt.Sprintf("layer %s: the conduction time (%s) is longer than the reaction half-life at %s C (%s): the exotherm can run ahead of conduction: expect the core to overshoot the program.",
-				e.Layer, num.HumanTime(e.ConductionTime), chkF(e.T-273.15, 0), num.HumanTime(e.HalfLife)))
-		}
-		if v := c.Criteria.MaxTemperature; !math.IsNaN(v) && peak > v {
-			warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above max_temperature %s C: the criterion holds only if enough heat leaves.",
-				e.Layer, chkF(peak-273.15, 0), num.G(num.Celsius(v))))
-		}
-		if peak > abort {
-			warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above the runaway limit %s C.",
-				e.Layer, chkF(peak-273.15, 0), num.G(abort-273.15)))
-		}
+		fmt.Fprintf(tw, "    time to min_cure %s\t%s\tisothermal at %s C from cure %s; the case runs %s\n",
+			chkG(mc), ttm, chkF(e.T-273.15, 1), chkG(pr.InitialCure), num.HumanTime(pr.End))
+	}
+	if e.PeakRate > 0 {
+		fmt.Fprintf(tw, "    peak reaction rate\t%s 1/s\tisothermal, at cure %s; apparent activation energy %s kJ/mol\n",
+			chkG3(e.PeakRate), chkF(e.PeakCure, 2), chkF(e.ApparentE/1e3, 1))
+	}
+	p.Flush(tw)
+	warn = append(warn, chkRunaway(p, c, e)...)
+	if mc := c.Criteria.MinCure; e.TimeToMinCure > pr.End {
+		warn = append(warn, fmt.Sprintf("layer %s: even held at %s C from the start, the resin needs %s (isothermal) to reach min_cure %s, longer than the case's %s: it gets there only with help from its own exotherm, if at all.",
+			e.Layer, chkF(e.T-273.15, 1), chkTimeOrNever(e.TimeToMinCure), chkG(mc), num.HumanTime(pr.End)))
+	}
+	if e.HalfLife > 0 && e.ConductionTime > e.HalfLife {
+		warn = append(warn, fmt.Sprintf("layer %s: the conduction time (%s) is longer than the reaction half-life at %s C (%s): the exotherm can run ahead of conduction: expect the core to overshoot the program.",
+			e.Layer, num.HumanTime(e.ConductionTime), chkF(e.T-273.15, 0), num.HumanTime(e.HalfLife)))
+	}
+	if v := c.Criteria.MaxTemperature; !math.IsNaN(v) && peak > v {
+		warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above max_temperature %s C: the criterion holds only if enough heat leaves.",
+			e.Layer, chkF(peak-273.15, 0), num.G(num.Celsius(v))))
+	}
+	if peak > abort {
+		warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above the runaway limit %s C.",
+			e.Layer, chkF(peak-273.15, 0), num.G(abort-273.15)))
 	}
 	return warn
 }

@@ -15,26 +15,21 @@ import (
 
 // chkVolumetric prints the volumetric heating of c, if any: frequency or
 // band, the field (or the standing wave's incidence and power) and the
-// attenuation; for every absorbing layer ε′, ε″ uncured and cured, the
-// wavelength in the material (physics.Wavelength), the power density
-// (exponential modes: P = 2π f ε0 ε″ E² at the full field; standing wave:
-// the layer's mean and its cells' range from the plane-wave solution at
-// full incident power, chkStanding), the heating rate P/(ρ c_p) it would
-// give with no heat lost (c_p at the initial temperature, uncured), and the
-// penetration depth D_p (physics.PenetrationDepth); the plane wave's
+// attenuation (chkSource); for every absorbing layer ε′, ε″ uncured and
+// cured, the wavelength in the material, the power density, the heating
+// rate and the penetration depth (chkAbsorbers); the plane wave's
 // reflected, transmitted and absorbed shares; the layers that absorb
 // nothing (a shield "reflects (metal)"); and the controller's settings with
-// their defaults marked. It returns the warnings: a frequency outside the
-// ISM bands, a field that control does not use, an absorbing layer thicker
-// than λ/8 under an exponential model (which ignores standing waves), a
-// sensor near a node of the standing wave, and a program ramp faster than
-// the full power heats any absorbing layer.
+// their defaults marked (chkControl). It returns the warnings: a frequency
+// outside the ISM bands, a field that control does not use, an absorbing
+// layer thicker than λ/8 under an exponential model (which ignores standing
+// waves), a sensor near a node of the standing wave, and a program ramp
+// faster than the full power heats any absorbing layer.
 func chkVolumetric(p *textout.Printer, c *cases.Case) []string {
 	v := c.Problem.Volumetric
 	if v == nil {
 		return nil
 	}
-	var warn []string
 	info := c.Volumetric
 	if info == nil {
 		info = &cases.VolumetricInfo{}
@@ -42,8 +37,55 @@ func chkVolumetric(p *textout.Printer, c *cases.Case) []string {
 	pr := c.Problem
 	standing := v.Attenuation == physics.StandingWave
 	p.Printf("\nVolumetric heating\n")
+	warn := chkSource(p, v, info)
+
+	var sw *chkWave
+	if standing {
+		sw = chkStanding(pr, v, v.Frequencies(), v.Incident)
+		p.Printf("  Plane wave at full power, uncured -> cured: reflected %s -> %s, transmitted %s -> %s, absorbed %s -> %s\n",
+			chkPct(sw.uncured.Reflected), chkPct(sw.cured.Reflected), chkPct(sw.uncured.Transmitted), chkPct(sw.cured.Transmitted),
+			chkPct(sw.uncured.Absorbed), chkPct(sw.cured.Absorbed))
+		p.Printf("  Absorbing layers at full power (uncured -> cured; power density: the layer's mean, and its cells' range;\n  heating rate at the mean with no heat lost):\n")
+	} else {
+		p.Printf("  Absorbing layers, at the full field (uncured -> cured; heating rate with no heat lost):\n")
+	}
+	fastest, w := chkAbsorbers(p, c, sw)
+	warn = append(warn, w...)
+	if !standing && v.Attenuation != physics.Uniform {
+		inc := map[physics.Attenuation]physics.Incidence{physics.FromTop: physics.IncidentTop,
+			physics.FromBottom: physics.IncidentBottom, physics.FromBoth: physics.IncidentBoth}[v.Attenuation]
+		w := chkStanding(pr, v, physics.Band{Lo: v.Frequency, Hi: v.Frequency, Points: 1}, inc)
+		p.Printf("  For comparison, a plane wave from the same face(s) (attenuation = \"standing-wave\"), uncured -> cured:\n"+
+			"    reflected %s -> %s, transmitted %s -> %s, absorbed %s -> %s\n",
+			chkPct(w.uncured.Reflected), chkPct(w.cured.Reflected), chkPct(w.uncured.Transmitted), chkPct(w.cured.Transmitted),
+			chkPct(w.uncured.Absorbed), chkPct(w.cured.Absorbed))
+	}
+	if standing && v.Control != nil {
+		if i := pr.Mesh.Locate(v.Control.Sensor); i >= 0 {
+			j := pr.Mesh.Owner[i]
+			if mean, _, _, _ := sw.layer(pr.Mesh, j, sw.pUncured); mean > 0 && sw.pUncured[i] < 0.2*mean {
+				warn = append(warn, fmt.Sprintf("the sensor at %s mm sits near a node of the standing wave: the power there is %s of its layer's mean (uncured). "+
+					"The controller will heat the rest of %q until this cell follows the program, so the layer runs hotter than the sensor; "+
+					"consider the sensor at the hottest depth, or a band.",
+					num.FormatDepth(v.Control.Sensor), chkPct(sw.pUncured[i]/mean), pr.Mesh.Layers[j].Name))
+			}
+		}
+	}
+	if v.Control == nil {
+		return warn
+	}
+	return append(warn, chkControl(p, pr, v, info, fastest)...)
+}
+
+// chkSource prints the table of the source of volumetric heating v: the
+// frequency (or the band of a swept standing wave), the field or the
+// incident wave and its power, and the attenuation. It returns the warnings
+// of a frequency outside the ISM bands and of a field that control does not
+// use.
+func chkSource(p *textout.Printer, v *physics.Volumetric, info *cases.VolumetricInfo) []string {
+	var warn []string
+	standing := v.Attenuation == physics.StandingWave
 	tw := p.Table()
-	f0 := v.Frequency // the frequency of the estimates: the band's centre
 	if standing && v.Band.Points > 0 {
 		def := ""
 		if info.BandPointsDefault {
@@ -96,24 +138,31 @@ func chkVolumetric(p *textout.Printer, c *cases.Case) []string {
 	}[v.Attenuation]
 	fmt.Fprintf(tw, "  attenuation\t%s\n", att)
 	p.Flush(tw)
+	return warn
+}
 
-	var sw *chkWave
-	if standing {
-		sw = chkStanding(pr, v, v.Frequencies(), v.Incident)
-		p.Printf("  Plane wave at full power, uncured -> cured: reflected %s -> %s, transmitted %s -> %s, absorbed %s -> %s\n",
-			chkPct(sw.uncured.Reflected), chkPct(sw.cured.Reflected), chkPct(sw.uncured.Transmitted), chkPct(sw.cured.Transmitted),
-			chkPct(sw.uncured.Absorbed), chkPct(sw.cured.Absorbed))
-		p.Printf("  Absorbing layers at full power (uncured -> cured; power density: the layer's mean, and its cells' range;\n  heating rate at the mean with no heat lost):\n")
-	} else {
-		p.Printf("  Absorbing layers, at the full field (uncured -> cured; heating rate with no heat lost):\n")
-	}
-	tw = p.Table()
+// chkAbsorbers prints the table of the layers of c that absorb, then one
+// line for each layer that absorbs nothing. Per absorbing layer: ε′, ε″
+// uncured and cured, the wavelength in the material (physics.Wavelength),
+// the power density (exponential modes: P = 2π f ε0 ε″ E² at the full
+// field; standing wave, where sw is the solution of chkStanding: the
+// layer's mean and its cells' range at full incident power, and its share
+// of the incident power), the heating rate P/(ρ c_p) it would give with no
+// heat lost (c_p at the initial temperature, uncured) and the penetration
+// depth (physics.PenetrationDepth). It returns the fastest such heating
+// rate, K/s, and the warnings of layers thicker than λ/8 under an
+// exponential model.
+func chkAbsorbers(p *textout.Printer, c *cases.Case, sw *chkWave) (fastest float64, warn []string) {
+	pr := c.Problem
+	v := pr.Volumetric
+	standing := sw != nil
+	f0 := v.Frequency // the frequency of the estimates: the band's centre
+	tw := p.Table()
 	if standing {
 		fmt.Fprintf(tw, "    layer\tmaterial\teps'\teps''\twavelength\tabsorbed share\tpower density\theating rate\tpenetration depth\n")
 	} else {
 		fmt.Fprintf(tw, "    layer\tmaterial\teps'\teps''\twavelength\tpower density\theating rate\tpenetration depth\n")
 	}
-	fastest := 0.0 // fastest full-power heating rate of an absorbing layer, K/s
 	var others []string
 	for j, l := range pr.Mesh.Layers {
 		mat := chkMaterial(c, j)
@@ -176,31 +225,15 @@ func chkVolumetric(p *textout.Printer, c *cases.Case) []string {
 	for _, o := range others {
 		p.Printf("    %s\n", o)
 	}
-	if !standing && v.Attenuation != physics.Uniform {
-		inc := map[physics.Attenuation]physics.Incidence{physics.FromTop: physics.IncidentTop,
-			physics.FromBottom: physics.IncidentBottom, physics.FromBoth: physics.IncidentBoth}[v.Attenuation]
-		w := chkStanding(pr, v, physics.Band{Lo: f0, Hi: f0, Points: 1}, inc)
-		p.Printf("  For comparison, a plane wave from the same face(s) (attenuation = \"standing-wave\"), uncured -> cured:\n"+
-			"    reflected %s -> %s, transmitted %s -> %s, absorbed %s -> %s\n",
-			chkPct(w.uncured.Reflected), chkPct(w.cured.Reflected), chkPct(w.uncured.Transmitted), chkPct(w.cured.Transmitted),
-			chkPct(w.uncured.Absorbed), chkPct(w.cured.Absorbed))
-	}
-	if standing && v.Control != nil {
-		if i := pr.Mesh.Locate(v.Control.Sensor); i >= 0 {
-			j := pr.Mesh.Owner[i]
-			if mean, _, _, _ := sw.layer(pr.Mesh, j, sw.pUncured); mean > 0 && sw.pUncured[i] < 0.2*mean {
-				warn = append(warn, fmt.Sprintf("the sensor at %s mm sits near a node of the standing wave: the power there is %s of its layer's mean (uncured). "+
-					"The controller will heat the rest of %q until this cell follows the program, so the layer runs hotter than the sensor; "+
-					"consider the sensor at the hottest depth, or a band.",
-					num.FormatDepth(v.Control.Sensor), chkPct(sw.pUncured[i]/mean), pr.Mesh.Layers[j].Name))
-			}
-		}
-	}
+	return fastest, warn
+}
 
+// chkControl prints the settings of the controller of v (sensor, program,
+// period, gain, integral time), the defaults marked, and returns the
+// warning of a program that ramps faster than fastest, the quickest
+// full-power heating rate of an absorbing layer (K/s).
+func chkControl(p *textout.Printer, pr *solver.Problem, v *physics.Volumetric, info *cases.VolumetricInfo, fastest float64) []string {
 	ctl := v.Control
-	if ctl == nil {
-		return warn
-	}
 	def := func(key string) string {
 		if chkContains(info.Defaults, key) {
 			return " (default)"
@@ -208,7 +241,7 @@ func chkVolumetric(p *textout.Printer, c *cases.Case) []string {
 		return ""
 	}
 	p.Printf("  Control (PI, sampled; the power fraction stays in [0, 1])\n")
-	tw = p.Table()
+	tw := p.Table()
 	where := ""
 	if j := chkLayerAt(pr, ctl.Sensor); j >= 0 {
 		where = " (" + pr.Mesh.Layers[j].Name + ")"
@@ -225,13 +258,13 @@ func chkVolumetric(p *textout.Printer, c *cases.Case) []string {
 	p.Flush(tw)
 	if ramp := chkFastestRamp(ctl.Program); ramp > fastest {
 		raise := "max_field"
-		if standing {
+		if v.Attenuation == physics.StandingWave {
 			raise = "incident_power"
 		}
-		warn = append(warn, fmt.Sprintf("the control program ramps at up to %s K/min, faster than the full power heats any absorbing layer (%s K/min with no heat lost): the sensor will lag the program; raise %s or slow the ramp.",
-			chkG3(ramp*60), chkG3(fastest*60), raise))
+		return []string{fmt.Sprintf("the control program ramps at up to %s K/min, faster than the full power heats any absorbing layer (%s K/min with no heat lost): the sensor will lag the program; raise %s or slow the ramp.",
+			chkG3(ramp*60), chkG3(fastest*60), raise)}
 	}
-	return warn
+	return nil
 }
 
 // chkWave is the standing-wave solution of a case's stack at the start
