@@ -137,6 +137,43 @@ func Read(path string, data []byte, columns []string, runs int) (*Contents, erro
 	return readRecords(data[n:], 2, header, runs)
 }
 
+// ReadEarlier reads a journal written by an earlier version whose rows
+// lacked the columns added (a subset of columns, kept in their order): its
+// first line must be the header of columns without added. Each good
+// record's row is returned in the layout of columns, with an empty field
+// in each added column; damaged records are listed as by Read. ok is false
+// when the header is not that earlier one. Whether an empty field is the
+// right value is the caller's to know. Cost: linear in len(data).
+func ReadEarlier(path string, data []byte, columns, added []string, runs int) (c *Contents, ok bool) {
+	var old []string
+	for _, col := range columns {
+		if !slices.Contains(added, col) {
+			old = append(old, col)
+		}
+	}
+	if len(old) == len(columns) {
+		return nil, false
+	}
+	c, err := Read(path, data, old, runs)
+	if err != nil {
+		return nil, false
+	}
+	for run, row := range c.Rows {
+		full := make([]string, 0, len(columns))
+		k := 0
+		for _, col := range columns {
+			if slices.Contains(added, col) {
+				full = append(full, "")
+				continue
+			}
+			full = append(full, row[k])
+			k++
+		}
+		c.Rows[run] = full
+	}
+	return c, true
+}
+
 // readRecords reads the records in data, the first on line line.
 func readRecords(data []byte, line int, header []string, runs int) (*Contents, error) {
 	c := &Contents{Rows: map[int][]string{}}

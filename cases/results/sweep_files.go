@@ -37,6 +37,13 @@ var SweepColumns = sweepColumns("peak_temperature_C", "peak_time_s", "peak_depth
 	"min_viscosity_Pa_s", "flow_window_s", // empty without a viscosity law
 	"conservation_residual", "steps", "end_time_s")
 
+// SweepColumnsAdded are the columns of summary.csv (and of a sweep's
+// journal) that later versions added to the first layout: all three are
+// empty for a case without a viscosity law and without min_flow_window,
+// so the runs of an earlier journal of such a case are kept, with those
+// columns empty, when the sweep is resumed.
+var SweepColumnsAdded = []string{"min_viscosity_Pa_s", "flow_window_s", "min_flow_window_pass"}
+
 // SweepColumn is one summary column of summary.csv.
 type SweepColumn struct {
 	Name string

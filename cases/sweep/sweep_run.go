@@ -84,6 +84,10 @@ type SweepReport struct {
 	// crash while committing) or damaged: it was cut off and its runs are
 	// done again.
 	Repaired bool
+	// Upgraded is the number of runs taken over from a journal written by
+	// an earlier version without the columns results.SweepColumnsAdded
+	// (kept with those columns empty; see openJournal).
+	Upgraded int
 	// Damaged lists the damaged records left out of the journal, and
 	// Redone the runs they cost (done again in this sweep).
 	Damaged []jrn.Damage
@@ -155,11 +159,12 @@ func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepRep
 		return rep, err
 	}
 	header := results.SweepHeader(s.Keys)
-	j, err := openJournal(dir, header, s.Runs)
+	j, err := openJournal(dir, header, s.Runs, s.earlierJournalOK)
 	if err != nil {
 		return rep, err
 	}
 	defer j.close()
+	rep.Upgraded = j.upgraded
 	rep.Repaired = j.repaired
 	rep.Damaged, rep.Redone = j.damaged, j.redone
 
@@ -439,6 +444,23 @@ func claimSweepDir(dir string, def []byte) error {
 	return nil
 }
 
+// earlierJournalOK reports whether the columns results.SweepColumnsAdded
+// are empty in every run of s by construction: in no run's case does a
+// material have a viscosity law or the criteria set min_flow_window (a run
+// whose case is invalid has them empty too). Only then may a journal of an
+// earlier version, without those columns, be taken over. Cost: one case
+// build per run; asked only when the journal's header is not the present
+// one.
+func (s *Sweep) earlierJournalOK() bool {
+	for r := range s.Runs {
+		c, err := s.Case(r)
+		if err == nil && (cases.Viscous(c.Problem) || c.Criteria.MinFlowWindow != 0) {
+			return false
+		}
+	}
+	return true
+}
+
 // syncDir flushes the directory entry of a new or renamed file to disk,
 // where the system supports it.
 func syncDir(dir string) {
@@ -457,6 +479,7 @@ type journal struct {
 	repaired bool // damaged records were left out
 	damaged  []jrn.Damage
 	redone   []int // runs whose only records were damaged
+	upgraded int   // runs taken over from a journal of an earlier version
 	buf      bytes.Buffer
 }
 
@@ -483,7 +506,13 @@ func recordCRC(fields []string) string { return jrn.Sum(fields) }
 // header. A journal with damaged records (or a last record cut short) is
 // first rewritten, atomically, with its sound records only, so that the
 // runs of the damaged ones are done again and appended.
-func openJournal(dir string, header []string, runs int) (*journal, error) {
+//
+// earlier (asked only then) allows a journal written by an earlier version, without the
+// columns results.SweepColumnsAdded, to be taken over: its runs are kept
+// with those columns empty and the journal is rewritten in the present
+// layout (journal.upgraded). Only for a case where those columns are empty
+// by construction (Sweep.earlierJournalOK).
+func openJournal(dir string, header []string, runs int, earlier func() bool) (*journal, error) {
 	path := filepath.Join(dir, results.SweepJournalFile)
 	if _, err := os.Stat(path); errors.Is(err, fs.ErrNotExist) {
 		err := textout.WriteFileAtomic(dir, results.SweepJournalFile, func(w io.Writer) error {
@@ -498,10 +527,18 @@ func openJournal(dir string, header []string, runs int) (*journal, error) {
 		syncDir(dir)
 	}
 	c, err := readJournal(path, header, runs)
+	upgraded := false
+	if err != nil && earlier != nil && earlier() {
+		if data, rerr := os.ReadFile(path); rerr == nil {
+			if ce, ok := jrn.ReadEarlier(path, data, header, results.SweepColumnsAdded, runs); ok {
+				c, err, upgraded = ce, nil, true
+			}
+		}
+	}
 	if err != nil {
 		return nil, err
 	}
-	if len(c.Damaged) > 0 {
+	if len(c.Damaged) > 0 || upgraded {
 		runsKept := make([]int, 0, len(c.Rows))
 		for r := range c.Rows {
 			runsKept = append(runsKept, r)
@@ -536,7 +573,11 @@ func openJournal(dir string, header []string, runs int) (*journal, error) {
 			}
 		}
 	}
-	return &journal{f: f, rows: c.Rows, repaired: len(c.Damaged) > 0, damaged: c.Damaged, redone: c.Runs()}, nil
+	j := &journal{f: f, rows: c.Rows, repaired: len(c.Damaged) > 0, damaged: c.Damaged, redone: c.Runs()}
+	if upgraded {
+		j.upgraded = len(c.Rows)
+	}
+	return j, nil
 }
 
 // append commits rows: written in one call and synced; they count as

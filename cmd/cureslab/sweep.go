@@ -137,6 +137,12 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 			}
 			fmt.Fprintf(e.stdout, ": %d ok, %d criteria-failed, %d runaway, %d failed\n",
 				rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed)
+			if rep.Upgraded > 0 {
+				fmt.Fprintf(e.stdout, "note: %s was written by an earlier version of cureslab, without the columns %s: "+
+					"its %s kept, with those columns empty (no run of this case has a viscosity law or min_flow_window)\n",
+					filepath.Join(dir, results.SweepJournalFile), strings.Join(results.SweepColumnsAdded, ", "),
+					plural(rep.Upgraded, "run is", "runs are"))
+			}
 			if n := len(rep.Noted); n > 0 {
 				fmt.Fprintf(e.stdout, "note: %s %s: %s (the note column of %s says so for each)\n",
 					plural(n, "run", "runs"), runList(rep.Noted), rep.Note, results.SweepSummaryFile)
