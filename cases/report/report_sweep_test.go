@@ -3,6 +3,7 @@ package report
 import (
 	"context"
 	"cureslab/cases"
+	"cureslab/cases/internal/testkit"
 	"cureslab/cases/results"
 	"cureslab/cases/sweep"
 	"math"
@@ -139,23 +140,12 @@ func TestSweepReportOneKey(t *testing.T) {
 	}
 }
 
-// tinyViscosity gives the tiny resin a Castro–Macosko viscosity law, so
-// that the runs have a flow window.
-const tinyViscosity = `
-[materials.tiny-resin.viscosity]
-model = "castro-macosko"
-eta0 = "3.2e-8 Pa*s"
-E = "60 kJ/mol"
-a = 1.5
-b = 1.0
-`
-
 // A resin with a viscosity law: a third panel, the flow window of each run
 // (summary.csv's flow_window_s), and a flow-window column in the table of
 // runs that did not pass.
 func TestSweepReportFlowWindow(t *testing.T) {
 	fixedClock(t)
-	s := newTinySweep(t, tinyViscosity, sweep.SweepSettings{Vary: mustVary(t, "layer.resin.thickness=2mm,3mm,4mm")})
+	s := newTinySweep(t, testkit.TinyViscosity, sweep.SweepSettings{Vary: mustVary(t, "layer.resin.thickness=2mm,3mm,4mm")})
 	dir := t.TempDir()
 	runSweep(t, s, dir, sweep.SweepOptions{Jobs: 2})
 	c, err := s.Case(0)

@@ -827,8 +827,7 @@ func TestSweepResumeEarlierJournal(t *testing.T) {
 		t.Errorf("second resume: upgraded %d, resumed %d of %d", rep.Upgraded, rep.Resumed, rep.Runs)
 	}
 
-	visc := "\n[materials.tiny-resin.viscosity]\nmodel = \"castro-macosko\"\neta0 = \"3.2e-8 Pa*s\"\nE = \"60 kJ/mol\"\na = 1.5\nb = 1.0\n"
-	s := newTinySweep(t, visc, SweepSettings{Vary: mustVary(t, "layer.resin.thickness=1mm,2mm")})
+	s := newTinySweep(t, testkit.TinyViscosity, SweepSettings{Vary: mustVary(t, "layer.resin.thickness=1mm,2mm")})
 	dir := t.TempDir()
 	runSweep(t, s, dir, SweepOptions{Jobs: 2})
 	earlierJournal(t, dir)

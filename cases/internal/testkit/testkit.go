@@ -267,3 +267,15 @@ kind = "insulated"
 	}
 	return c
 }
+
+// TinyViscosity, appended to testdata/sweep/tiny.toml, gives its resin a
+// Castro–Macosko viscosity law (invented values), so that the runs have a
+// least viscosity and a flow window.
+const TinyViscosity = `
+[materials.tiny-resin.viscosity]
+model = "castro-macosko"
+eta0 = "3.2e-8 Pa*s"
+E = "60 kJ/mol"
+a = 1.5
+b = 1.0
+`
