@@ -211,13 +211,15 @@ func (s *stepper) run(ctx context.Context, sink Sink) *Result {
 	}
 	lastShot := math.NaN() // time of the last snapshot taken
 	var sinkErr error
+	var shown Snapshot // the one snapshot handed to the sink, reused
 	emit := func(snap Snapshot) {
 		lastShot = snap.Time
 		if sink == nil {
 			res.Snapshots = append(res.Snapshots, snap)
 			return
 		}
-		sinkErr = sink(&snap)
+		shown = snap
+		sinkErr = sink(&shown)
 		s.store.rewind()
 	}
 	if sink == nil {

@@ -41,6 +41,7 @@
 package outdir
 
 import (
+	"bufio"
 	"cureslab/cases/internal/textout"
 	"encoding/json"
 	"errors"
@@ -252,6 +253,71 @@ func (s *Set) Stage(name string, write func(io.Writer) error) (err error) {
 	}
 	s.add(name)
 	return nil
+}
+
+// File is a file of a set being written piece by piece (Create): a
+// buffered writer on its staging file. Close puts it among the staged
+// files, flushed and synced; Commit then puts it in place with the others.
+type File struct {
+	set  *Set
+	name string
+	f    *os.File
+	bw   *bufio.Writer
+	err  error // the first write error
+}
+
+// Create opens the file name of the set under its staging name for a
+// writer that produces it piece by piece (a run's rows as they are
+// computed), where Stage needs the whole content in one call. The file is
+// staged at once, so that Abort removes it however far it got; the caller
+// must Close it before Commit. Errors: file-system errors, nothing staged.
+func (s *Set) Create(name string) (*File, error) {
+	if s.done {
+		panic("outdir: Create after Commit or Abort")
+	}
+	if !localName(name) || !slices.Contains(s.kind.Names, name) {
+		panic("outdir: " + name + " is not a name the kind " + s.kind.Name + " declares")
+	}
+	f, err := os.OpenFile(filepath.Join(s.Dir, name+stagingExt), os.O_WRONLY|os.O_CREATE|os.O_TRUNC, 0o644)
+	if err != nil {
+		return nil, err
+	}
+	s.add(name)
+	return &File{set: s, name: name, f: f, bw: bufio.NewWriterSize(f, 64<<10)}, nil
+}
+
+// Write implements io.Writer (buffered); after an error it writes nothing
+// more and returns that error.
+func (f *File) Write(p []byte) (int, error) {
+	if f.err != nil {
+		return 0, f.err
+	}
+	n, err := f.bw.Write(p)
+	f.err = err
+	return n, err
+}
+
+// Close flushes the file, syncs it to disk, gives it mode 0644 and closes
+// it; it returns the first error of any write or of these steps.
+func (f *File) Close() error {
+	if f.f == nil {
+		return f.err
+	}
+	err := f.err
+	if err == nil {
+		err = f.bw.Flush()
+	}
+	if err == nil {
+		err = f.f.Sync()
+	}
+	if err == nil {
+		err = f.f.Chmod(0o644)
+	}
+	if cerr := f.f.Close(); err == nil {
+		err = cerr
+	}
+	f.f, f.err = nil, err
+	return err
 }
 
 // StageDir creates the folder name of the set under its staging name and

@@ -280,3 +280,47 @@ func TestRecoveryLeavesOtherFiles(t *testing.T) {
 		t.Error("a user file was renamed")
 	}
 }
+
+// A file written piece by piece (Create) is part of the set once closed and
+// committed; a set aborted part-way through such a file leaves the previous
+// set, with no staging file behind. Source: the package's contract.
+func TestCreateWritesPieceByPiece(t *testing.T) {
+	dir := t.TempDir()
+	write(t, dir, runKind, "one", "fields.csv", "summary.json")
+	before := listing(t, dir)
+	s, err := Open(dir, runKind)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := s.Create("fields.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	io.WriteString(f, "two rows: ")
+	s.Abort() // stopped before Close
+	if got := listing(t, dir); got != before {
+		t.Errorf("after Abort with a file open:\n%s\nwant\n%s", got, before)
+	}
+	s, err = Open(dir, runKind)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f, err = s.Create("fields.csv"); err != nil {
+		t.Fatal(err)
+	}
+	for _, piece := range []string{"row 1, ", "row 2"} {
+		if _, err := io.WriteString(f, piece); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := f.Close(); err != nil {
+		t.Fatal(err)
+	}
+	stage(t, s, "two", "summary.json")
+	if err := s.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if got, want := listing(t, dir), ".cureslab-set.json\nfields.csv: row 1, row 2\nsummary.json: two summary.json\n"; got != want {
+		t.Errorf("after Commit:\n%s\nwant\n%s", got, want)
+	}
+}

@@ -27,7 +27,9 @@ const CompareReportFile = "report.html"
 // air that drives each case), and their final profiles through the
 // thickness overlaid. Each row names its case and the subdirectory
 // dir/NAME that holds its own report.html; a row without a result is a case
-// that did not run (it is listed, not drawn).
+// that did not run (it is listed, not drawn). A row whose result keeps no
+// snapshots (streamed to its files, package simulate) is read back from its
+// directory (row.Dir), as RedrawReport reads it.
 //
 // Method: each case becomes the same report data as WriteReport uses, so
 // values are those of its output files. Cost: as WriteReport per case.
@@ -44,10 +46,17 @@ func WriteCompareReport(dir string, rows []results.Compared) error {
 	for i, row := range rows {
 		names[i] = row.Name
 		c := row.Case
-		if row.Result == nil || c == nil || c.Problem == nil || c.Problem.Mesh == nil {
+		var d *runData
+		var err error
+		switch {
+		case row.Result == nil || c == nil || c.Problem == nil || c.Problem.Mesh == nil:
 			continue
+		case len(row.Result.Snapshots) == 0 && row.Dir != "":
+			// A streamed run: its fields are read back from its files.
+			d, err = readRunData(row.Dir)
+		default:
+			d, err = runDataOf(c, row.Result, row.Summary)
 		}
-		d, err := runDataOf(c, row.Result, row.Summary)
 		if err != nil {
 			return fmt.Errorf("report of %s: %w", names[i], err)
 		}

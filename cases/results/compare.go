@@ -39,8 +39,13 @@ type Compared struct {
 	// not start or was not started.
 	Ran     bool
 	Summary Summary
-	// Result is the solver's result; nil when the case did not run.
+	// Result is the solver's result; nil when the case did not run. A run
+	// whose snapshots were streamed to its files (package simulate) keeps
+	// none in memory (Result.Snapshots nil): its fields are read back from
+	// Dir.
 	Result *solver.Result
+	// Dir is the run's output directory; "" when it wrote none.
+	Dir string
 	// Err says what went wrong: the run could not start, its outputs could
 	// not be written, or it was not started (interrupted).
 	Err error
@@ -235,19 +240,48 @@ func ComparisonMarkdown(w io.Writer, rows []Compared) error {
 // (a case not made by Load), or when r has no snapshot. Cost: one pass over
 // the snapshots.
 func ControlError(c *cases.Case, r *solver.Result) float64 {
+	ct := newControlTrack(c)
+	for i := range r.Snapshots {
+		ct.add(&r.Snapshots[i])
+	}
+	return ct.value()
+}
+
+// controlTrack accumulates ControlError over the snapshots of a run as
+// they come, in constant memory.
+type controlTrack struct {
+	at    func(t float64) float64 // the control program, K; nil when not controlled
+	k     int                     // the probe at the sensor
+	worst float64
+	seen  bool
+}
+
+func newControlTrack(c *cases.Case) controlTrack {
 	p := c.Problem
 	if !cases.Controlled(p) {
-		return math.NaN()
+		return controlTrack{}
 	}
 	ctl := p.Volumetric.Control
 	k := cases.SensorProbe(p.Probes, ctl.Sensor)
-	if k < 0 || len(r.Snapshots) == 0 {
+	if k < 0 {
+		return controlTrack{}
+	}
+	return controlTrack{at: ctl.Program.At, k: k}
+}
+
+func (ct *controlTrack) add(s *solver.Snapshot) {
+	if ct.at == nil {
+		return
+	}
+	ct.seen = true
+	ct.worst = max(ct.worst, math.Abs(ct.at(s.Time)-num.At(s.ProbeT, ct.k)))
+}
+
+// value is ControlError of the snapshots added: NaN when not controlled or
+// when none was added.
+func (ct *controlTrack) value() float64 {
+	if !ct.seen {
 		return math.NaN()
 	}
-	worst := 0.0
-	for i := range r.Snapshots {
-		s := &r.Snapshots[i]
-		worst = max(worst, math.Abs(ctl.Program.At(s.Time)-num.At(s.ProbeT, k)))
-	}
-	return worst
+	return ct.worst
 }

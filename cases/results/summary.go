@@ -249,6 +249,13 @@ type Summary struct {
 // units of summary.json, the verdicts of c's criteria (Judge) and the
 // status (StatusOf). time_to_min_cure_s is null when c sets no min_cure.
 func Summarize(c *cases.Case, r *solver.Result) Summary {
+	return summarize(c, r, ControlError(c, r))
+}
+
+// summarize is Summarize with the control error (ControlError) given, so
+// that a run whose snapshots were streamed (RunWriter) is summarised from
+// what was accumulated as they passed.
+func summarize(c *cases.Case, r *solver.Result, controlError float64) Summary {
 	s := r.Summary
 	v := Judge(c, r)
 	out := Summary{
@@ -303,7 +310,7 @@ func Summarize(c *cases.Case, r *solver.Result) Summary {
 		}
 	}
 	if cases.Controlled(c.Problem) {
-		e := Float(num.Round6(ControlError(c, r)))
+		e := Float(num.Round6(controlError))
 		out.ControlMaxErrorK = &e
 		z := Float(num.MM(c.Problem.Volumetric.Control.Sensor))
 		out.ControlSensorDepthMM = &z

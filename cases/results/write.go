@@ -65,10 +65,7 @@ func StageRun(set *outdir.Set, c *cases.Case, r *solver.Result, s Summary) error
 	if err := set.Stage(ProbesFile, func(w io.Writer) error { return writeProbes(w, c, r) }); err != nil {
 		return fmt.Errorf("writing %s: %w", ProbesFile, err)
 	}
-	if err := set.Stage(SummaryFile, func(w io.Writer) error { return writeSummary(w, s) }); err != nil {
-		return fmt.Errorf("writing %s: %w", SummaryFile, err)
-	}
-	return nil
+	return StageSummary(set, s)
 }
 
 // FieldsHeader is the header row of fields.csv; a case with volumetric
@@ -117,69 +114,96 @@ func endRow(w io.Writer, b []byte) ([]byte, error) {
 func sigCol(b []byte, v float64) []byte     { return num.AppendSig(append(b, ','), v) }
 func celsiusCol(b []byte, T float64) []byte { return num.AppendFixed(append(b, ','), num.KtoC(T), 6) }
 
-// writeFields writes fields.csv: one row per (output time, cell centre).
-// The bytes are those encoding/csv writes for the header and the formatted
-// fields (num.Fixed, num.Sig; the layer name quoted as encoding/csv quotes
-// it), built with append-style formatting: the columns that never change
-// (depth, layer) once per cell, the time once per snapshot.
-func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
+// fieldRows formats the rows of fields.csv of one case, a snapshot at a
+// time: the columns that never change (depth, layer) are formatted once
+// per cell, the time once per snapshot.
+type fieldRows struct {
+	n              int
+	power, viscous bool
+	curing         []bool
+	mid            [][]byte // ",depth,layer," of each cell, as encoding/csv writes it
+	t              []byte
+}
+
+// newFieldRows returns the row formatter of fields.csv for c and its
+// header row (FieldsHeader, with the power and viscosity columns where
+// they apply).
+func newFieldRows(c *cases.Case) (*fieldRows, []string) {
 	head := slices.Clip(FieldsHeader)
-	power := c.Problem.Volumetric != nil
-	if power {
+	f := &fieldRows{power: c.Problem.Volumetric != nil, viscous: cases.Viscous(c.Problem)}
+	if f.power {
 		head = append(head, PowerColumn)
 	}
-	viscous := cases.Viscous(c.Problem)
-	if viscous {
+	if f.viscous {
 		head = append(head, ViscosityColumn)
 	}
 	m := c.Problem.Mesh
 	n := m.Cells()
-	curing := make([]bool, n)
-	// mid[i] is ",depth,layer," of cell i, as encoding/csv writes it: all
-	// cells through one csv.Writer into one buffer, then sliced.
+	f.n = n
+	f.curing = make([]bool, n)
+	// All cells through one csv.Writer into one buffer, then sliced.
 	var cells bytes.Buffer
 	cw := csv.NewWriter(&cells)
 	ends := make([]int, n+1)
 	for i := range n {
 		j := m.Owner[i]
-		curing[i] = j < len(c.Problem.Materials) && c.Problem.Materials[j] != nil && c.Problem.Materials[j].Cure != nil
+		f.curing[i] = j < len(c.Problem.Materials) && c.Problem.Materials[j] != nil && c.Problem.Materials[j].Cure != nil
 		cw.Write([]string{"", num.FormatDepth(m.Centers[i]), m.Layers[j].Name, ""}) // a bytes.Buffer does not fail
 		cw.Flush()
 		ends[i+1] = cells.Len()
 	}
-	mid := make([][]byte, n)
+	f.mid = make([][]byte, n)
 	for i := range n {
-		mid[i] = cells.Bytes()[ends[i] : ends[i+1]-1] // without its newline
+		f.mid[i] = cells.Bytes()[ends[i] : ends[i+1]-1] // without its newline
 	}
-	b := appendCSVRecord(make([]byte, 0, csvChunk+512), head)
-	var t []byte
-	for k := range r.Snapshots {
-		s := &r.Snapshots[k]
-		if len(s.T) != n {
-			return fmt.Errorf("snapshot %d has %d temperatures for %d cells", k, len(s.T), n)
+	return f, head
+}
+
+// append appends the rows of snapshot s (number k, for messages) to b,
+// handing b to w each time it reaches csvChunk (endRow); it returns the
+// buffer to append to next.
+func (f *fieldRows) append(w io.Writer, b []byte, s *solver.Snapshot, k int) ([]byte, error) {
+	n := f.n
+	if len(s.T) != n {
+		return b, fmt.Errorf("snapshot %d has %d temperatures for %d cells", k, len(s.T), n)
+	}
+	f.t = num.AppendTime(f.t[:0], s.Time)
+	for i := range n {
+		b = append(b, f.t...)
+		b = append(b, f.mid[i]...)
+		b = num.AppendFixed(b, num.KtoC(s.T[i]), 6)
+		if f.curing[i] {
+			b = sigCol(b, num.At(s.Cure, i))
+			b = sigCol(b, num.At(s.Rate, i))
+			b = celsiusCol(b, num.At(s.Tg, i))
+		} else {
+			b = append(b, ",,,"...)
 		}
-		t = num.AppendTime(t[:0], s.Time)
-		for i := range n {
-			b = append(b, t...)
-			b = append(b, mid[i]...)
-			b = num.AppendFixed(b, num.KtoC(s.T[i]), 6)
-			if curing[i] {
-				b = sigCol(b, num.At(s.Cure, i))
-				b = sigCol(b, num.At(s.Rate, i))
-				b = celsiusCol(b, num.At(s.Tg, i))
-			} else {
-				b = append(b, ",,,"...)
-			}
-			if power {
-				b = sigCol(b, num.At(s.Power, i))
-			}
-			if viscous {
-				b = sigCol(b, num.At(s.Viscosity, i))
-			}
-			var err error
-			if b, err = endRow(w, b); err != nil {
-				return err
-			}
+		if f.power {
+			b = sigCol(b, num.At(s.Power, i))
+		}
+		if f.viscous {
+			b = sigCol(b, num.At(s.Viscosity, i))
+		}
+		var err error
+		if b, err = endRow(w, b); err != nil {
+			return b, err
+		}
+	}
+	return b, nil
+}
+
+// writeFields writes fields.csv: one row per (output time, cell centre).
+// The bytes are those encoding/csv writes for the header and the formatted
+// fields (num.Fixed, num.Sig; the layer name quoted as encoding/csv quotes
+// it), built with append-style formatting (fieldRows).
+func writeFields(w io.Writer, c *cases.Case, r *solver.Result) error {
+	f, head := newFieldRows(c)
+	b := appendCSVRecord(make([]byte, 0, csvChunk+512), head)
+	for k := range r.Snapshots {
+		var err error
+		if b, err = f.append(w, b, &r.Snapshots[k], k); err != nil {
+			return err
 		}
 	}
 	_, err := w.Write(b)
@@ -223,37 +247,41 @@ const ProgramColumn = "program_C"
 // viscosity law.
 func ProbeViscosityColumn(label string) string { return "viscosity_" + label + "mm_Pa_s" }
 
-// writeProbes writes probes.csv: one row per output time, formatted like
-// writeFields.
-func writeProbes(w io.Writer, c *cases.Case, r *solver.Result) error {
+// appendProbeRow appends the row of probes.csv of snapshot s of a run of
+// c to b, formatted like fieldRows, and hands b to w once it reaches
+// csvChunk (endRow).
+func appendProbeRow(w io.Writer, b []byte, c *cases.Case, s *solver.Snapshot) ([]byte, error) {
 	p := c.Problem
-	viscous := cases.Viscous(p)
+	b = num.AppendTime(b, s.Time)
+	for i := range p.Probes {
+		b = celsiusCol(b, num.At(s.ProbeT, i))
+		b = sigCol(b, num.At(s.ProbeCure, i))
+	}
+	if p.Top.HasAir() {
+		b = celsiusCol(b, s.AirTop)
+	}
+	if p.Bottom.HasAir() {
+		b = celsiusCol(b, s.AirBottom)
+	}
+	if cases.Controlled(p) {
+		b = celsiusCol(b, p.Volumetric.Control.Program.At(s.Time))
+		b = sigCol(b, s.PowerFraction)
+	}
+	b = sigCol(b, s.HeatIn)
+	if cases.Viscous(p) {
+		for i := range p.Probes {
+			b = sigCol(b, num.At(s.ProbeViscosity, i))
+		}
+	}
+	return endRow(w, b)
+}
+
+// writeProbes writes probes.csv: one row per output time (appendProbeRow).
+func writeProbes(w io.Writer, c *cases.Case, r *solver.Result) error {
 	b := appendCSVRecord(make([]byte, 0, csvChunk+512), probesHeader(c))
 	for k := range r.Snapshots {
-		s := &r.Snapshots[k]
-		b = num.AppendTime(b, s.Time)
-		for i := range p.Probes {
-			b = celsiusCol(b, num.At(s.ProbeT, i))
-			b = sigCol(b, num.At(s.ProbeCure, i))
-		}
-		if p.Top.HasAir() {
-			b = celsiusCol(b, s.AirTop)
-		}
-		if p.Bottom.HasAir() {
-			b = celsiusCol(b, s.AirBottom)
-		}
-		if cases.Controlled(p) {
-			b = celsiusCol(b, p.Volumetric.Control.Program.At(s.Time))
-			b = sigCol(b, s.PowerFraction)
-		}
-		b = sigCol(b, s.HeatIn)
-		if viscous {
-			for i := range p.Probes {
-				b = sigCol(b, num.At(s.ProbeViscosity, i))
-			}
-		}
 		var err error
-		if b, err = endRow(w, b); err != nil {
+		if b, err = appendProbeRow(w, b, c, &r.Snapshots[k]); err != nil {
 			return err
 		}
 	}

@@ -1,9 +1,10 @@
 // Package simulate is the one path of a simulation from a validated case to its
-// output files: solve (solver.Run) → summarise once (results.Summarize) →
-// write fields.csv, probes.csv and summary.json (results.WriteRun) → draw
-// report.html (report.WriteReport). The commands run, demo and compare go
-// through it; sweeps, tuning and uncertainty runs use the same steps
-// without the report.
+// output files: solve (solver.RunStream), handing each snapshot as it comes
+// to the rows of fields.csv and probes.csv (results.RunWriter, into the
+// run's output set) → summarise once at the end (results.RunWriter.Summarize)
+// → summary.json → report.html (report.StageReport). The commands run, demo
+// and compare go through it; sweeps, tuning and uncertainty runs use the
+// same steps without the report.
 package simulate
 
 import (
@@ -11,6 +12,7 @@ import (
 	"errors"
 	"fmt"
 	"path/filepath"
+	"slices"
 
 	"cureslab/cases"
 	"cureslab/cases/outdir"
@@ -69,22 +71,66 @@ func Case(ctx context.Context, c *cases.Case, dir string, opt Options) results.C
 		}
 		return out
 	}
-	r, err := solver.Run(ctx, c.Problem)
+	// The snapshots go to the files as they come (results.RunWriter): the
+	// writer is made at the first one, once the solver has accepted the
+	// problem, so that a refused problem stages nothing.
+	var rw *results.RunWriter
+	var werr error             // the writer could not be made
+	var kept []solver.Snapshot // for the report, until it draws from a stream
+	sink := func(s *solver.Snapshot) error {
+		if rw == nil {
+			var err error
+			if rw, err = results.NewRunWriter(set, c); err != nil {
+				werr = err
+				return err
+			}
+		}
+		if opt.Report {
+			kept = append(kept, copySnapshot(s))
+		}
+		return rw.Add(s)
+	}
+	r, err := solver.RunStream(ctx, c.Problem, sink)
 	if err != nil {
 		return finish(results.Compared{Case: c, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed}, Err: err})
 	}
-	out := results.Compared{Case: c, Ran: true, Summary: results.Summarize(c, r), Result: r}
+	out := results.Compared{Case: c, Ran: true, Result: r, Dir: dir}
+	if rw == nil { // the solver hands over the initial state, unless the writer failed
+		out.Summary = results.Summarize(c, r)
+		out.Err = werr
+		if werr == nil {
+			out.Err = fmt.Errorf("the run of %s produced no snapshot", c.File)
+		}
+		return finish(out)
+	}
+	werr = rw.Close()
+	out.Summary = rw.Summarize(r)
+	if werr != nil {
+		out.Err = werr
+		return finish(out)
+	}
 	if opt.Verify && r.Status == solver.OK {
 		out.Summary.EstimatedError = verify(ctx, c, r)
 	}
-	if err := results.StageRun(set, c, r, out.Summary); err != nil {
+	if err := results.StageSummary(set, out.Summary); err != nil {
 		out.Err = err
 		return finish(out)
 	}
 	if opt.Report {
-		out.Err = report.StageReport(set, c, r, out.Summary)
+		full := *r
+		full.Snapshots = kept
+		out.Err = report.StageReport(set, c, &full, out.Summary)
 	}
 	return finish(out)
+}
+
+// copySnapshot returns s with slices of its own.
+func copySnapshot(s *solver.Snapshot) solver.Snapshot {
+	c := *s
+	c.T, c.Cure, c.Rate, c.Tg = slices.Clone(s.T), slices.Clone(s.Cure), slices.Clone(s.Rate), slices.Clone(s.Tg)
+	c.ProbeT, c.ProbeCure, c.ProbeViscosity = slices.Clone(s.ProbeT), slices.Clone(s.ProbeCure), slices.Clone(s.ProbeViscosity)
+	c.Power, c.Viscosity = slices.Clone(s.Power), slices.Clone(s.Viscosity)
+	return c
 }
 
 // verify returns the estimated error of run r of c from a second run at

@@ -3,6 +3,7 @@ package simulate
 import (
 	"context"
 	"cureslab/cases"
+	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/testkit"
 	"cureslab/cases/results"
 	"errors"
@@ -10,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"reflect"
+	"runtime"
 	"strconv"
 	"testing"
 )
@@ -68,14 +70,33 @@ func TestCompareOvenMicrowave(t *testing.T) {
 	if k < 0 {
 		t.Fatal("no probe at the sensor")
 	}
+	// The run streamed its snapshots to its files: read them back from
+	// probes.csv (°C rounded to 1e-6).
+	pr := testkit.ReadCSV(t, filepath.Join(dir, rows[1].Name, results.ProbesFile))
+	pcol := func(name string) int {
+		for i, h := range pr[0] {
+			if h == name {
+				return i
+			}
+		}
+		t.Fatalf("probes.csv has no column %s", name)
+		return -1
+	}
+	iT, iU := pcol("T_"+num.FormatDepth(micro.Problem.Probes[k])+"mm_C"), pcol("power_fraction")
 	worst := 0.0
-	for _, s := range rows[1].Result.Snapshots {
-		if !(s.PowerFraction >= 0 && s.PowerFraction <= 1) {
-			t.Errorf("t = %g s: power fraction %g outside [0, 1]", s.Time, s.PowerFraction)
+	for _, row := range pr[1:] {
+		tm, _ := strconv.ParseFloat(row[0], 64)
+		T, _ := strconv.ParseFloat(row[iT], 64)
+		u, _ := strconv.ParseFloat(row[iU], 64)
+		if !(u >= 0 && u <= 1) {
+			t.Errorf("t = %g s: power fraction %g outside [0, 1]", tm, u)
 		}
-		if s.Time >= 600 {
-			worst = max(worst, math.Abs(s.ProbeT[k]-ctl.Program.At(s.Time)))
+		if tm >= 600 {
+			worst = max(worst, math.Abs(T+273.15-ctl.Program.At(tm)))
 		}
+	}
+	if len(pr) < 50 {
+		t.Fatalf("probes.csv has %d rows", len(pr))
 	}
 	t.Logf("microwave sensor: worst deviation after 10 min %.3f K", worst)
 	if worst > 1 {
@@ -161,4 +182,43 @@ func exampleCase(t *testing.T, name string) *cases.Case {
 		t.Fatalf("example %s does not load:\n%v", name, err)
 	}
 	return c
+}
+
+// allocatedByRun returns the bytes a run of the oven potting example with
+// the given number of output times allocates (runtime.MemStats.TotalAlloc,
+// a count, not a timing), with or without its report.
+func allocatedByRun(t *testing.T, outputs int, report bool) uint64 {
+	t.Helper()
+	c := exampleCase(t, "thick-potting-oven")
+	p := c.Problem
+	p.OutputTimes = make([]float64, outputs)
+	for k := range p.OutputTimes {
+		p.OutputTimes[k] = p.End * float64(k+1) / float64(outputs)
+	}
+	dir := t.TempDir()
+	var a, b runtime.MemStats
+	runtime.GC()
+	runtime.ReadMemStats(&a)
+	out := Case(context.Background(), c, dir, Options{Report: report})
+	runtime.ReadMemStats(&b)
+	if out.Err != nil || out.Summary.Status != results.StatusOK {
+		t.Fatalf("%d output times: %v, status %s", outputs, out.Err, out.Summary.Status)
+	}
+	return b.TotalAlloc - a.TotalAlloc
+}
+
+// The memory of a run is proportional to its cells, not to cells × output
+// times: its snapshots go to fields.csv and probes.csv as they come. The
+// same case with 100 times as many output times allocates in all (a bound
+// on its peak) less than twice as much; keeping the snapshots would take
+// 5,000 × cells × five values of 8 B more. Source: the design of the output
+// path (no outside reference; a count of bytes, not a timing).
+func TestRunMemoryProportionalToCells(t *testing.T) {
+	cells := exampleCase(t, "thick-potting-oven").Problem.Mesh.Cells()
+	few, many := allocatedByRun(t, 50, false), allocatedByRun(t, 5000, false)
+	kept := uint64(5000 * cells * 5 * 8)
+	t.Logf("%d cells: 50 output times allocate %d kB, 5000 allocate %d kB (keeping 5000 snapshots: %d kB)", cells, few>>10, many>>10, kept>>10)
+	if many > 2*few {
+		t.Errorf("%d cells: 5000 output times allocate %d kB, 50 allocate %d kB: want less than twice as much", cells, many>>10, few>>10)
+	}
 }

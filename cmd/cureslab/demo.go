@@ -77,7 +77,7 @@ marked interrupted; the ones after it are not run).`,
 				}
 				// A failed status without a message: the run never started.
 				started := s.Status != results.StatusFailed || s.Message != ""
-				ran[ex.Name] = results.Compared{Name: ex.Name, Case: c, Ran: started, Summary: s, Result: r}
+				ran[ex.Name] = results.Compared{Name: ex.Name, Case: c, Ran: started, Summary: s, Result: r, Dir: dir}
 			}
 			for _, dc := range demoComparisons {
 				worst = max(worst, demoCompare(e, ran, dc.names, filepath.Join(*out, dc.dir), opt))
