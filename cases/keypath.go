@@ -8,6 +8,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -237,7 +238,7 @@ func ResolveKey(doc map[string]any, key string) (path []string, exists bool, err
 func missingKey(m map[string]any, parts []string, i int) error {
 	p := parts[i]
 	if i == 0 {
-		if Contains(topKeys, p) {
+		if slices.Contains(topKeys, p) {
 			return fmt.Errorf("the case has no [%s]: add it to the case to vary its keys", p)
 		}
 		if g := Suggest(p, topKeys); g != "" {

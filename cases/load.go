@@ -50,8 +50,8 @@ func LoadContext(ctx context.Context, path string) (*Case, error) {
 // and returned together as an ErrorList of *Error, each with the file, line,
 // column and key path; no partial Case is returned. [sweep] is validated
 // (NewSweep reads it) but does not change the case; so is [uncertainty]
-// (uncertaintySection; Uncertain and Tune read it). [volumetric] becomes
-// Problem.Volumetric (see validate_volumetric.go) and
+// (uncertaintySection; uncertain.Propagate and tune.Tune read it).
+// [volumetric] becomes Problem.Volumetric (see validate_volumetric.go) and
 // [materials.X.dielectric] physics.Dielectric.
 //
 // Defaults: time.end is the end of the longest program the case uses (a

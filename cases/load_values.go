@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -90,7 +91,7 @@ func (l *loader) open(path string, v any, valid []string, note func(key string) 
 	}
 	t := &table{path: path, m: m}
 	for _, k := range sortedKeys(m) {
-		if Contains(valid, k) {
+		if slices.Contains(valid, k) {
 			continue
 		}
 		kp := t.keyPath(k)
@@ -339,15 +340,6 @@ func sortedKeys(m map[string]any) []string {
 	}
 	sort.Strings(keys)
 	return keys
-}
-
-func Contains(list []string, s string) bool {
-	for _, x := range list {
-		if x == s {
-			return true
-		}
-	}
-	return false
 }
 
 func lastKey(path string) string {

@@ -161,7 +161,7 @@ func (l *loader) uncertaintyEntry(lp string, x map[string]any) (spread, dist, at
 	}
 	dist = DistUniform
 	if d, ok := l.str(t, "distribution"); ok {
-		if !Contains(distributions, d) {
+		if !slices.Contains(distributions, d) {
 			e := l.rangeErr(t.keyPath("distribution"), d, "distribution must be %q or %q", DistUniform, DistNormal)
 			if g := Suggest(d, distributions); g != "" {
 				e.Hint = fmt.Sprintf("did you mean distribution = %q?", g)

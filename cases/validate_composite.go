@@ -3,9 +3,11 @@ package cases
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 
+	"cureslab/cases/internal/num"
 	"cureslab/cases/units"
 	"cureslab/physics"
 )
@@ -32,7 +34,7 @@ func isComposite(v any) bool {
 func (l *loader) composite(name, path string, v any, defs map[string]*physics.Material, isComp map[string]bool) *physics.Material {
 	before := len(l.errs)
 	note := func(k string) string {
-		if Contains(materialKeys, k) {
+		if slices.Contains(materialKeys, k) {
 			return fmt.Sprintf("a composite (fibre and resin) takes %s from its constituents: set it on the resin's or the fibre's [materials] section, or describe the ply as a plain material without fibre and resin", k)
 		}
 		return ""
@@ -228,7 +230,7 @@ func (l *loader) leeLoosSpringer(t *table, before int) physics.Kinetics {
 	}
 	if b, ok := l.number(t, "B"); ok {
 		if !(b > m.Switch) {
-			l.rangeErr(t.keyPath("B"), b, "B must exceed switch (%s): at a = B the first regime's rate falls to zero and the cure would stop there", chkG(m.Switch))
+			l.rangeErr(t.keyPath("B"), b, "B must exceed switch (%s): at a = B the first regime's rate falls to zero and the cure would stop there", num.G(m.Switch))
 		}
 		m.B = b
 	}
@@ -251,7 +253,7 @@ func (l *loader) isoTable(t *table) *physics.Isoconversional {
 			case !(a > 0 && a <= 1):
 				l.rangeErr(el, v, "alpha must be in (0, 1]")
 			case i > 0 && !(a > alpha[i-1]):
-				l.rangeErr(el, v, "alpha must increase strictly (after %s)", chkG(alpha[i-1]))
+				l.rangeErr(el, v, "alpha must increase strictly (after %s)", num.G(alpha[i-1]))
 			}
 			alpha = append(alpha, a)
 		}
@@ -331,7 +333,7 @@ func (l *loader) viscosity(mt *table, cures bool) *physics.CastroMacosko {
 		l.rangeErr(t.keyPath("a"), v.A, "a must not be negative")
 	}
 	if v.B, ok = l.number(t, "b"); ok && !(v.A+v.B >= 0) {
-		l.rangeErr(t.keyPath("b"), v.B, "a + b must not be negative: the exponent a + b*alpha must stay at or above zero (a = %s)", chkG(v.A))
+		l.rangeErr(t.keyPath("b"), v.B, "a + b must not be negative: the exponent a + b*alpha must stay at or above zero (a = %s)", num.G(v.A))
 	}
 	if len(l.errs) > before {
 		return nil

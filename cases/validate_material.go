@@ -37,7 +37,7 @@ var (
 		out := append([]string{}, cureCommonKeys...)
 		for _, m := range cureModels {
 			for _, k := range cureModelKeys[m] {
-				if !Contains(out, k) {
+				if !slices.Contains(out, k) {
 					out = append(out, k)
 				}
 			}
@@ -233,7 +233,7 @@ func (l *loader) cure(mt *table) *physics.Cure {
 	}
 	before := len(l.errs)
 	l.require(t, "model")
-	if s, ok := l.str(t, "model"); ok && !Contains(cureModels, s) {
+	if s, ok := l.str(t, "model"); ok && !slices.Contains(cureModels, s) {
 		msg := fmt.Sprintf("unknown cure model %q", s)
 		if g := Suggest(s, cureModels); g != "" {
 			msg += fmt.Sprintf("; did you mean %q?", g)
@@ -290,7 +290,7 @@ func cureKeyNote(model string) func(string) string {
 	keys := cureModelKeys[model]
 	return func(k string) string {
 		for _, other := range cureModels {
-			if other != model && Contains(cureModelKeys[other], k) {
+			if other != model && slices.Contains(cureModelKeys[other], k) {
 				return fmt.Sprintf("%s belongs to the %q model; model %q (%s) uses %s", k, other, model, cureModelForms[model], quoteKeys(keys))
 			}
 		}

@@ -10,6 +10,7 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -398,11 +399,11 @@ func (l *loader) face(root *table, which string, scheds map[string]*physics.Sche
 func faceKeyNote(kind string) func(string) string {
 	keys := faceKeys[kind]
 	return func(k string) string {
-		if !Contains(allFaceKeys, k) {
+		if !slices.Contains(allFaceKeys, k) {
 			return ""
 		}
 		for _, other := range faceKinds {
-			if Contains(faceKeys[other], k) {
+			if slices.Contains(faceKeys[other], k) {
 				a := "a"
 				if kind == "insulated" {
 					a = "an"

@@ -446,6 +446,3 @@ func SensorProbe(probes []float64, z float64) int {
 	}
 	return -1
 }
-
-// chkG formats v with up to 6 significant digits (num.G), as check does.
-var chkG = num.G

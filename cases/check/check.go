@@ -10,6 +10,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -88,7 +89,7 @@ const MaxNeighbourRatio = 5
 //
 // The only error it returns is a write error of w.
 func Check(w io.Writer, c *cases.Case) error {
-	p := &textout.Printer{W: w}
+	p := textout.NewPrinter(w)
 	chkHeader(p, c)
 	chkStack(p, c)
 	chkMaterials(p, c)
@@ -112,7 +113,7 @@ func Check(w io.Writer, c *cases.Case) error {
 	for _, s := range Cautions(ScopeOf(c)) {
 		p.Printf("  - %s\n", s)
 	}
-	return p.Err
+	return p.Err()
 }
 
 func chkHeader(p *textout.Printer, c *cases.Case) {
@@ -136,7 +137,7 @@ func chkStack(p *textout.Printer, c *cases.Case) {
 		from := "case file"
 		if info.Builtin {
 			from = "built-in"
-		} else if chkContains(c.Replaced, info.Material) {
+		} else if slices.Contains(c.Replaced, info.Material) {
 			from = "case file, replaces built-in"
 		}
 		if mat := chkMaterial(c, j); mat != nil && mat.Cure != nil {
@@ -181,15 +182,6 @@ func chkMaterial(c *cases.Case, j int) *physics.Material {
 	return nil
 }
 
-func chkContains(list []string, s string) bool {
-	for _, x := range list {
-		if x == s {
-			return true
-		}
-	}
-	return false
-}
-
 func chkMaterials(p *textout.Printer, c *cases.Case) {
 	p.Printf("\nMaterials\n")
 	seen := map[*physics.Material]bool{}
@@ -219,23 +211,23 @@ func DescribeMaterial(m *physics.Material) []string {
 	if c := m.Composition; c != nil {
 		lines = append(lines,
 			fmt.Sprintf("composite: %s fibre in %s resin, fibre volume fraction %s (mass fraction %s); no voids",
-				c.Fibre, c.Resin, chkG(c.FibreVolumeFraction), chkF(c.FibreMassFraction, 4)),
+				c.Fibre, c.Resin, num.G(c.FibreVolumeFraction), chkF(c.FibreMassFraction, 4)),
 			fmt.Sprintf("mixed: density by volume, specific heat by mass, through-thickness conductivity by the %s model; cure heat per kg of ply = resin mass fraction %s x the resin's",
 				c.Model, chkF(1-c.FibreMassFraction, 4)))
 	}
 	lines = append(lines,
-		"density "+chkG(m.Density)+" kg/m^3",
+		"density "+num.G(m.Density)+" kg/m^3",
 		"specific heat "+chkBlend(&m.SpecificHeat, "J/kg/K"),
 		"conductivity "+chkBlend(&m.Conductivity, "W/m/K"),
 	)
 	if cu := m.Cure; cu != nil {
 		lines = append(lines, "cures: "+chkKinetics(cu.Model))
-		gel := chkG(cu.GelPoint)
+		gel := num.G(cu.GelPoint)
 		if cu.GelPoint == 0 || cu.GelPointDefaulted {
 			gel = GelPointDefaultWords
 		}
 		lines = append(lines, fmt.Sprintf("total heat %s J/g, resin fraction %s, gel point %s",
-			chkG(cu.TotalHeat/1e3), chkG(cu.ResinFraction), gel))
+			num.G(cu.TotalHeat/1e3), num.G(cu.ResinFraction), gel))
 		if d := cu.Diffusion; d != nil {
 			lines = append(lines, fmt.Sprintf("diffusion: C %s, alpha_c = %s + %s 1/K * T (%s at 23 C, %s at 100 C)",
 				num.G(d.C), num.G(d.Alpha0), num.G(d.AlphaT),
@@ -249,7 +241,7 @@ func DescribeMaterial(m *physics.Material) []string {
 	if v := m.Viscosity; v != nil && m.Cure != nil {
 		gel := m.Cure.GelPoint
 		lines = append(lines, fmt.Sprintf("viscosity: castro-macosko, eta0 %s Pa*s, E %s kJ/mol, a %s, b %s (uncured: %s Pa*s at 23 C, %s Pa*s at 120 C; no flow from gel at %s)",
-			chkG(v.Eta0), chkG(v.E/1e3), chkG(v.A), chkG(v.B), chkG(v.At(296.15, 0, gel)), chkG(v.At(393.15, 0, gel)), chkG(gel)))
+			num.G(v.Eta0), num.G(v.E/1e3), num.G(v.A), num.G(v.B), num.G(v.At(296.15, 0, gel)), num.G(v.At(393.15, 0, gel)), num.G(gel)))
 	}
 	if d := m.Dielectric; d != nil {
 		if d.Shield {
@@ -303,7 +295,7 @@ func chkKinetics(k physics.Kinetics) string {
 		return chkKinetics(*m)
 	case physics.LeeLoosSpringer:
 		return fmt.Sprintf("lee-loos-springer, A1 %s 1/s, E1 %s kJ/mol, A2 %s 1/s, E2 %s kJ/mol, A3 %s 1/s, E3 %s kJ/mol, B %s, switch %s",
-			chkG(m.A1), chkG(m.E1/1e3), chkG(m.A2), chkG(m.E2/1e3), chkG(m.A3), chkG(m.E3/1e3), chkG(m.B), chkG(m.Switch))
+			num.G(m.A1), num.G(m.E1/1e3), num.G(m.A2), num.G(m.E2/1e3), num.G(m.A3), num.G(m.E3/1e3), num.G(m.B), num.G(m.Switch))
 	case *physics.Isoconversional:
 		a, E, _ := m.Table()
 		lo, hi := E[0], E[0]
@@ -311,7 +303,7 @@ func chkKinetics(k physics.Kinetics) string {
 			lo, hi = min(lo, e), max(hi, e)
 		}
 		return fmt.Sprintf("isoconversional table, %d rows from alpha %s to %s (the cure stops there), E %s to %s kJ/mol",
-			len(a), chkG(a[0]), chkG(a[len(a)-1]), chkG(lo/1e3), chkG(hi/1e3))
+			len(a), num.G(a[0]), num.G(a[len(a)-1]), num.G(lo/1e3), num.G(hi/1e3))
 	case nil:
 		return "no kinetic model"
 	}
@@ -351,18 +343,18 @@ func chkFace(f *physics.Face, driver string) string {
 		t, v := f.Flux.Points()
 		var s string
 		if len(v) == 1 {
-			s = "flux " + chkG(v[0]) + " W/m^2 into the part"
+			s = "flux " + num.G(v[0]) + " W/m^2 into the part"
 		} else {
 			lo, hi := v[0], v[0]
 			for _, x := range v {
 				lo, hi = min(lo, x), max(hi, x)
 			}
-			s = fmt.Sprintf("flux %s to %s W/m^2 into the part, %d points over %s", chkG(lo), chkG(hi), len(v), num.HumanTime(t[len(t)-1]))
+			s = fmt.Sprintf("flux %s to %s W/m^2 into the part, %d points over %s", num.G(lo), num.G(hi), len(v), num.HumanTime(t[len(t)-1]))
 		}
 		if f.HasAir() {
-			s += "; also exchanges heat with air " + q(driver) + ": h " + chkG(f.H) + " W/m^2/K"
+			s += "; also exchanges heat with air " + q(driver) + ": h " + num.G(f.H) + " W/m^2/K"
 			if f.Emissivity > 0 {
-				s += ", emissivity " + chkG(f.Emissivity)
+				s += ", emissivity " + num.G(f.Emissivity)
 			}
 		}
 		return s
@@ -470,7 +462,7 @@ func chkTime(p *textout.Printer, c *cases.Case) {
 			flow = solver.DefaultFlowViscosity
 		}
 		fmt.Fprintf(tw, "  flow window\ttime below %s Pa*s before gel (criteria.flow_viscosity%s), the shortest over the cells with a viscosity law\n",
-			chkG(flow), map[bool]string{true: "", false: ", default"}[c.Criteria.FlowViscosity > 0])
+			num.G(flow), map[bool]string{true: "", false: ", default"}[c.Criteria.FlowViscosity > 0])
 	}
 	p.Flush(tw)
 }
@@ -517,11 +509,11 @@ func looseWarnings(c *cases.Case) []string {
 	var warn []string
 	if tt := pr.TemperatureTolerance; tt >= LooseTolerance*solver.DefaultTemperatureTolerance {
 		warn = append(warn, fmt.Sprintf("[time] temperature_tolerance %s K is %s times the default %s K: each step may be that far off; run with --verify to see what it costs the results.",
-			chkG(tt), chkG3(tt/solver.DefaultTemperatureTolerance), chkG(solver.DefaultTemperatureTolerance)))
+			num.G(tt), chkG3(tt/solver.DefaultTemperatureTolerance), num.G(solver.DefaultTemperatureTolerance)))
 	}
 	if ct := pr.CureTolerance; ct >= LooseTolerance*solver.DefaultCureTolerance {
 		warn = append(warn, fmt.Sprintf("[time] cure_tolerance %s is %s times the default %s: each step may be that far off; run with --verify to see what it costs the results.",
-			chkG(ct), chkG3(ct/solver.DefaultCureTolerance), chkG(solver.DefaultCureTolerance)))
+			num.G(ct), chkG3(ct/solver.DefaultCureTolerance), num.G(solver.DefaultCureTolerance)))
 	}
 	m := pr.Mesh
 	for j, l := range m.Layers {
@@ -536,7 +528,7 @@ func looseWarnings(c *cases.Case) []string {
 		}
 		if k < LooseConductivity && wide >= LooseCell*mesh.DefaultMaxCell*(1-1e-9) {
 			warn = append(warn, fmt.Sprintf("layer %s: cells up to %s mm, %s times the default %s mm: peaks and cure fronts in it are under-resolved (the spatial error grows with the square of the cell size, and --verify does not refine the mesh); use the default [mesh] max_cell or more cells.",
-				l.Name, chkG3(wide*1e3), chkG3(wide/mesh.DefaultMaxCell), chkG(mesh.DefaultMaxCell*1e3)))
+				l.Name, chkG3(wide*1e3), chkG3(wide/mesh.DefaultMaxCell), num.G(mesh.DefaultMaxCell*1e3)))
 		}
 	}
 	return warn
@@ -582,6 +574,3 @@ func chkF(v float64, decimals int) string {
 	}
 	return s
 }
-
-// chkG formats v with up to 6 significant digits (num.G).
-var chkG = num.G

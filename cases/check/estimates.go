@@ -258,7 +258,7 @@ func chkLayerEstimate(p *textout.Printer, c *cases.Case, e Estimate, abort float
 			ttm = num.HumanTime(e.TimeToMinCure)
 		}
 		fmt.Fprintf(tw, "    time to min_cure %s\t%s\tisothermal at %s C from cure %s; the case runs %s\n",
-			chkG(mc), ttm, chkF(e.T-273.15, 1), chkG(pr.InitialCure), num.HumanTime(pr.End))
+			num.G(mc), ttm, chkF(e.T-273.15, 1), num.G(pr.InitialCure), num.HumanTime(pr.End))
 	}
 	if e.PeakRate > 0 {
 		fmt.Fprintf(tw, "    peak reaction rate\t%s 1/s\tisothermal, at cure %s; apparent activation energy %s kJ/mol\n",
@@ -268,7 +268,7 @@ func chkLayerEstimate(p *textout.Printer, c *cases.Case, e Estimate, abort float
 	warn = append(warn, chkRunaway(p, c, e)...)
 	if mc := c.Criteria.MinCure; e.TimeToMinCure > pr.End {
 		warn = append(warn, fmt.Sprintf("layer %s: even held at %s C from the start, the resin needs %s (isothermal) to reach min_cure %s, longer than the case's %s: it gets there only with help from its own exotherm, if at all.",
-			e.Layer, chkF(e.T-273.15, 1), chkTimeOrNever(e.TimeToMinCure), chkG(mc), num.HumanTime(pr.End)))
+			e.Layer, chkF(e.T-273.15, 1), chkTimeOrNever(e.TimeToMinCure), num.G(mc), num.HumanTime(pr.End)))
 	}
 	if e.HalfLife > 0 && e.ConductionTime > e.HalfLife {
 		warn = append(warn, fmt.Sprintf("layer %s: the conduction time (%s) is longer than the reaction half-life at %s C (%s): the exotherm can run ahead of conduction: expect the core to overshoot the program.",

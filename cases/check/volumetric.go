@@ -9,6 +9,7 @@ import (
 	"cureslab/solver"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 )
@@ -235,7 +236,7 @@ func chkAbsorbers(p *textout.Printer, c *cases.Case, sw *chkWave) (fastest float
 func chkControl(p *textout.Printer, pr *solver.Problem, v *physics.Volumetric, info *cases.VolumetricInfo, fastest float64) []string {
 	ctl := v.Control
 	def := func(key string) string {
-		if chkContains(info.Defaults, key) {
+		if slices.Contains(info.Defaults, key) {
 			return " (default)"
 		}
 		return ""

@@ -21,7 +21,7 @@ import (
 // the ready-to-paste [materials.NAME.cure] block (CureBlock). Numbers are
 // rounded for reading; the block keeps four significant digits.
 func PrintFit(w io.Writer, an *dsc.Analysis, name string) error {
-	p := &textout.Printer{W: w}
+	p := textout.NewPrinter(w)
 	p.Printf("DSC scans\n")
 	tw := p.Table()
 	fmt.Fprintf(tw, "  scan\tprogram\twindow\tpeak\theat\n")
@@ -100,7 +100,7 @@ func PrintFit(w io.Writer, an *dsc.Analysis, name string) error {
 	if b := CureBlock(an, name); b != "" {
 		p.Printf("\nReady to paste into a case file (-o writes it to a file):\n\n%s", b)
 	}
-	return p.Err
+	return p.Err()
 }
 
 // printFitParams writes the fitted parameters and the fit quality.

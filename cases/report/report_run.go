@@ -138,7 +138,7 @@ func runAlerts(d *runData) []string {
 // criterionText returns what a criterion requires, the value reached and
 // the limit, with units.
 func criterionText(v results.Verdict, s results.Summary) (req, value string) {
-	val, lim := results.OutPair(v.Value, v.Limit)
+	val, lim := results.FormatValueLimit(v.Value, v.Limit)
 	switch v.Name {
 	case results.CriterionMinCure:
 		req = "final cure ≥ " + lim + " in every curing cell"

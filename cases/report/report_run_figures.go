@@ -59,7 +59,7 @@ func mapFigure(d *runData, ts timeScale, cure bool) (string, error) {
 			if err := addGelFronts(p, d, ts, x0, x1); err != nil {
 				return err
 			}
-		} else if pt, pz := float64(d.Summary.PeakTimeS)/ts.div, float64(d.Summary.PeakDepthMM); results.OutOK(d.Summary.PeakTimeS) && results.OutOK(d.Summary.PeakDepthMM) {
+		} else if pt, pz := float64(d.Summary.PeakTimeS)/ts.div, float64(d.Summary.PeakDepthMM); d.Summary.PeakTimeS.Known() && d.Summary.PeakDepthMM.Known() {
 			p.Add(&marker{X: pt, Y: pz})
 			tg := &tag{X: pt, Y: pz, Text: "peak " + fmtC(float64(d.Summary.PeakTemperatureC)),
 				XAlign: draw.XLeft, YAlign: draw.YCenter, DX: vg.Points(7)}
@@ -511,7 +511,7 @@ var programBand = color.RGBA{0xc8, 0xc4, 0xba, 0xff}
 func driverCaption(dv seriesData, s results.Summary) string {
 	switch dv.Column {
 	case results.ProgramColumn:
-		if z := s.ControlSensorDepthMM; z != nil && results.OutOK(*z) {
+		if z := s.ControlSensorDepthMM; z != nil && z.Known() {
 			return "the control program that the sensor at " + fmtMM(float64(*z)) + " follows"
 		}
 		return "the control program"
@@ -564,10 +564,10 @@ func viscosityFigure(d *runData, ts timeScale) (string, string, error) {
 			" Pa·s); the flow window is the time a cell spends below it before gel"
 	}
 	var gels []string
-	if results.OutOK(s.GelTimeFirstS) {
+	if s.GelTimeFirstS.Known() {
 		gels = append(gels, "the first gel time")
 	}
-	if results.OutOK(s.GelTimeLastS) && s.GelTimeLastS != s.GelTimeFirstS {
+	if s.GelTimeLastS.Known() && s.GelTimeLastS != s.GelTimeFirstS {
 		gels = append(gels, "the last gel time")
 	}
 	if len(gels) > 0 {
@@ -612,7 +612,7 @@ func viscosityFigure(d *runData, ts timeScale) (string, string, error) {
 			at   results.Float
 			text string
 		}{{s.GelTimeFirstS, "first gel"}, {s.GelTimeLastS, "last gel"}} {
-			if !results.OutOK(g.at) || (g.text == "last gel" && s.GelTimeLastS == s.GelTimeFirstS) {
+			if !g.at.Known() || (g.text == "last gel" && s.GelTimeLastS == s.GelTimeFirstS) {
 				continue
 			}
 			x := ts.of([]float64{float64(g.at)})[0]

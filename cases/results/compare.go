@@ -165,9 +165,9 @@ func ComparisonRows(rows []Compared) [][]string {
 	quantity("mean_final_cure", num.TextCure)
 	line(Label("time_to_min_cure_s"), func(r Compared) string {
 		switch {
-		case OutOK(r.Summary.TimeToMinCureS):
+		case r.Summary.TimeToMinCureS.Known():
 			return num.TextTime(float64(r.Summary.TimeToMinCureS))
-		case minCureSet(r.Summary) && OutOK(r.Summary.MinFinalCure):
+		case minCureSet(r.Summary) && r.Summary.MinFinalCure.Known():
 			return "never"
 		}
 		return "n/a"

@@ -12,6 +12,7 @@ import (
 	"os"
 	"path/filepath"
 	"reflect"
+	"slices"
 	"testing"
 )
 
@@ -43,7 +44,7 @@ func TestGoodVolumetricOpenLoop(t *testing.T) {
 	if c.Volumetric == nil || c.Volumetric.Program != "" || c.Volumetric.FieldUnused {
 		t.Errorf("Case.Volumetric = %+v", c.Volumetric)
 	}
-	if h := probesHeader(c); cases.Contains(h, "power_fraction") {
+	if h := probesHeader(c); slices.Contains(h, "power_fraction") {
 		t.Errorf("probes.csv header %v has power_fraction without control", h)
 	}
 }

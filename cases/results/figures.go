@@ -120,10 +120,10 @@ func (e *EstimatedError) Words() (line string, warnings []string) {
 		return e.Note, []string{e.Note}
 	}
 	parts := []string{fmt.Sprintf("peak temperature %+.2g K", float64(e.PeakTemperatureK))}
-	if OutOK(e.MinFinalCure) {
+	if e.MinFinalCure.Known() {
 		parts = append(parts, fmt.Sprintf("least final cure %+.2g", float64(e.MinFinalCure)))
 	}
-	if OutOK(e.TimeToMinCureS) {
+	if e.TimeToMinCureS.Known() {
 		parts = append(parts, "time to min_cure "+signedTime(float64(e.TimeToMinCureS)))
 	}
 	line = fmt.Sprintf("%s (this run minus a run at tolerances %d times tighter: %s K, cure %s; the mesh is not refined)",
@@ -170,7 +170,7 @@ func overshootNote(c *cases.Case) string {
 func OvershootWords(s Summary) string {
 	ov := float64(s.OvershootK)
 	switch {
-	case !OutOK(s.OvershootK):
+	case !s.OvershootK.Known():
 		if s.OvershootNote != "" {
 			return "n/a: " + s.OvershootNote
 		}
@@ -189,14 +189,14 @@ func OvershootWords(s Summary) string {
 // below the hottest driving temperature while it rises or holds; false: the
 // hottest cell above it while it falls), "" when there is none.
 func LagWords(heating bool, k, t, depth Float) string {
-	if !OutOK(k) {
+	if !k.Known() {
 		return ""
 	}
 	what := "the hottest cell above the hottest driving temperature while it falls"
 	if heating {
 		what = "the coldest cell below the hottest driving temperature while it rises or holds"
 	}
-	return fmt.Sprintf("%.1f K at %s mm, t = %s (%s)", float64(k), outDepth(depth), outTime(t), what)
+	return fmt.Sprintf("%.1f K at %s mm, t = %s (%s)", float64(k), depthText(depth), timeText(t), what)
 }
 
 // LayerSpreadWords says the spread inside every layer.

@@ -124,6 +124,10 @@ func (f Float) MarshalJSON() ([]byte, error) {
 	return json.Marshal(v)
 }
 
+// Known reports whether f holds a value: neither NaN nor infinite (JSON
+// null: not applicable, never happened).
+func (f Float) Known() bool { return !math.IsNaN(float64(f)) && !math.IsInf(float64(f), 0) }
+
 // UnmarshalJSON implements json.Unmarshaler.
 func (f *Float) UnmarshalJSON(b []byte) error {
 	if string(bytes.TrimSpace(b)) == "null" {
@@ -364,42 +368,42 @@ func SummaryRows(s Summary) []SummaryRow {
 	if w := LagWords(false, s.CoolingLagK, s.CoolingLagTimeS, s.CoolingLagDepthMM); w != "" {
 		add("cooling_lag_K", w)
 	}
-	if OutOK(s.MaxSpreadK) {
+	if s.MaxSpreadK.Known() {
 		add("max_spread_K", num.TextK(float64(s.MaxSpreadK))+" across the curing layers")
 	}
 	if len(s.LayerSpreadK) > 0 {
 		add("layer_spread_K", LayerSpreadWords(s.LayerSpreadK))
 	}
-	if OutOK(s.MinFinalCure) {
+	if s.MinFinalCure.Known() {
 		add("min_final_cure", num.TextCure(float64(s.MinFinalCure))+" at "+num.TextMM(float64(s.MinFinalCureDepthMM)))
 		add("mean_final_cure", num.TextCure(float64(s.MeanFinalCure)))
-		if OutOK(s.TimeToMinCureS) {
+		if s.TimeToMinCureS.Known() {
 			add("time_to_min_cure_s", num.TextTime(float64(s.TimeToMinCureS)))
 		} else if minCureSet(s) {
 			add("time_to_min_cure_s", "never")
 		}
 		first, last := "never", "never"
-		if OutOK(s.GelTimeFirstS) {
+		if s.GelTimeFirstS.Known() {
 			first = num.TextTime(float64(s.GelTimeFirstS))
 			last = "some cells never gel"
 		}
-		if OutOK(s.GelTimeLastS) {
+		if s.GelTimeLastS.Known() {
 			last = num.TextTime(float64(s.GelTimeLastS))
 		}
 		add("gel_time_first_s", first)
 		add("gel_time_last_s", last)
-		if OutOK(s.MinFinalGlassTransitionC) {
+		if s.MinFinalGlassTransitionC.Known() {
 			add("min_final_glass_transition_C", num.TextC(float64(s.MinFinalGlassTransitionC)))
 		}
 	}
-	if s.ControlMaxErrorK != nil && OutOK(*s.ControlMaxErrorK) {
+	if s.ControlMaxErrorK != nil && s.ControlMaxErrorK.Known() {
 		add("control_max_error_K", fmt.Sprintf("%.2f K at most", float64(*s.ControlMaxErrorK)))
 	}
-	if s.MinViscosityPaS != nil && OutOK(*s.MinViscosityPaS) {
+	if s.MinViscosityPaS != nil && s.MinViscosityPaS.Known() {
 		add("min_viscosity_Pa_s", fmt.Sprintf("%s Pa·s at %s, t = %s", strconv.FormatFloat(float64(*s.MinViscosityPaS), 'g', 3, 64),
 			num.TextMM(optional(s.MinViscosityDepthMM)), num.TextTime(optional(s.MinViscosityTimeS))))
 	}
-	if s.FlowWindowS != nil && OutOK(*s.FlowWindowS) {
+	if s.FlowWindowS != nil && s.FlowWindowS.Known() {
 		add("flow_window_s", fmt.Sprintf("%s below %s Pa·s before gel (the shortest over the resin's cells)",
 			num.TextTime(float64(*s.FlowWindowS)), strconv.FormatFloat(optional(s.FlowViscosityPaS), 'g', 4, 64)))
 	}
@@ -453,7 +457,7 @@ func PrintSummary(w io.Writer, s Summary) error {
 		if op == "" {
 			op = "<="
 		}
-		val, lim := OutPair(v.Value, v.Limit)
+		val, lim := FormatValueLimit(v.Value, v.Limit)
 		u := criterionUnit(v.Name)
 		if u != "" {
 			u = " " + u
@@ -468,18 +472,18 @@ func PrintSummary(w io.Writer, s Summary) error {
 		if v.Pass || v.Unjudged {
 			continue
 		}
-		val, lim := OutPair(v.Value, v.Limit)
+		val, lim := FormatValueLimit(v.Value, v.Limit)
 		u := criterionUnit(v.Name)
 		if u != "" {
 			u = " " + u
 		}
 		switch v.Name {
 		case CriterionMinCure:
-			fmt.Fprintf(&b, "FAILED %s: %s at %s mm < %s\n", v.Name, val, outDepth(s.MinFinalCureDepthMM), lim)
+			fmt.Fprintf(&b, "FAILED %s: %s at %s mm < %s\n", v.Name, val, depthText(s.MinFinalCureDepthMM), lim)
 		case CriterionShareMet:
 			fmt.Fprintf(&b, "FAILED %s: every criterion met in %.1f %% of the samples < %.1f %% required\n", v.Name, 100*v.Value, 100*v.Limit)
 		case CriterionMaxTemperature:
-			fmt.Fprintf(&b, "FAILED %s: %s%s at %s mm, t = %s > %s%s\n", v.Name, val, u, outDepth(s.PeakDepthMM), outTime(s.PeakTimeS), lim, u)
+			fmt.Fprintf(&b, "FAILED %s: %s%s at %s mm, t = %s > %s%s\n", v.Name, val, u, depthText(s.PeakDepthMM), timeText(s.PeakTimeS), lim, u)
 		case CriterionMinFlowWindow:
 			fmt.Fprintf(&b, "FAILED %s: %s%s < %s%s\n", v.Name, val, u, lim, u)
 		default:
@@ -510,11 +514,10 @@ func criterionUnit(name string) string {
 	return ""
 }
 
-func OutOK(f Float) bool { return !math.IsNaN(float64(f)) && !math.IsInf(float64(f), 0) }
-
-// dispPair formats a criterion's value and limit with 4 significant digits,
-// or with every digit needed when that would make them look equal.
-func OutPair(v, l float64) (string, string) {
+// FormatValueLimit formats a criterion's value v and limit l with 4
+// significant digits, or with every digit needed when that would make them
+// look equal; a NaN value reads "n/a".
+func FormatValueLimit(v, l float64) (string, string) {
 	if math.IsNaN(v) {
 		return "n/a", strconv.FormatFloat(l, 'g', 4, 64)
 	}
@@ -525,17 +528,19 @@ func OutPair(v, l float64) (string, string) {
 	return a, b
 }
 
-func outDepth(f Float) string {
-	if !OutOK(f) {
+// depthText formats a depth in mm with 4 significant digits, "n/a" when
+// unknown.
+func depthText(f Float) string {
+	if !f.Known() {
 		return "n/a"
 	}
 	return strconv.FormatFloat(float64(f), 'g', 4, 64)
 }
 
-// dispTime formats a time in s for reading: seconds below 2 min, minutes
+// timeText formats a time in s for reading: seconds below 2 min, minutes
 // below 2 h, hours above.
-func outTime(f Float) string {
-	if !OutOK(f) {
+func timeText(f Float) string {
+	if !f.Known() {
 		return "n/a"
 	}
 	return num.HumanTime(float64(f))

@@ -213,14 +213,14 @@ func TestPrintSummaryGolden(t *testing.T) {
 	testkit.Golden(t, "summary_print.golden", b.Bytes())
 }
 
-func TestOutPair(t *testing.T) {
+func TestFormatValueLimit(t *testing.T) {
 	// Values that look equal at 4 digits are shown in full.
-	a, b := OutPair(0.89999, 0.9)
+	a, b := FormatValueLimit(0.89999, 0.9)
 	if a == b {
-		t.Errorf("outPair(0.89999, 0.9) = %q, %q: must differ", a, b)
+		t.Errorf("FormatValueLimit(0.89999, 0.9) = %q, %q: must differ", a, b)
 	}
-	if a, b := OutPair(0.82, 0.9); a != "0.82" || b != "0.9" {
-		t.Errorf("outPair(0.82, 0.9) = %q, %q", a, b)
+	if a, b := FormatValueLimit(0.82, 0.9); a != "0.82" || b != "0.9" {
+		t.Errorf("FormatValueLimit(0.82, 0.9) = %q, %q", a, b)
 	}
 }
 

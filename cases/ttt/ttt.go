@@ -215,7 +215,7 @@ func WriteTTTCSV(w io.Writer, t *TTTTable) error {
 // PrintTTT writes t as a table for reading: times in s, min, h, days or
 // years, "never" for a state not reached and "-" where it does not apply.
 func PrintTTT(w io.Writer, t *TTTTable) error {
-	p := &textout.Printer{W: w}
+	p := textout.NewPrinter(w)
 	p.Printf("Isothermal cure of %s from an initial cure of %g (gel point %.3g", t.Material, t.InitialCure, t.GelPoint)
 	if t.Glass != nil {
 		p.Printf("; Tg from %s to %s", cases.Celsius(t.Glass.Tg0), cases.Celsius(t.Glass.TgFull))
@@ -241,7 +241,7 @@ func PrintTTT(w io.Writer, t *TTTTable) error {
 	if t.Glass != nil {
 		p.Printf("  Once vitrified the resin is glassy and cures only as fast as its diffusion factor allows.\n")
 	}
-	return p.Err
+	return p.Err()
 }
 
 // TttTime formats a time in s for reading: s below 2 min, min below 2 h, h

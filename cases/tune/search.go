@@ -17,7 +17,7 @@ import (
 // run carries out the method of Tune.
 func (t *tuner) run(ctx context.Context) (*TuneResult, error) {
 	t.ctx = ctx
-	t.progress = &uncertain.UncProgress{W: t.opt.Progress, What: "candidates"}
+	t.progress = &uncertain.Progress{W: t.opt.Progress, What: "candidates"}
 	defer t.progress.Finish()
 	k := len(t.vars)
 	res := t.res

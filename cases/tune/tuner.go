@@ -40,7 +40,7 @@ type tuner struct {
 	cache    map[string]*tuneEntry
 	cyc      map[string]float64 // program end by written values, for the polish
 	runs     int
-	progress *uncertain.UncProgress
+	progress *uncertain.Progress
 	best     float64
 }
 

@@ -31,12 +31,12 @@ func offset(in *cases.UncertainInput, u, w float64) float64 {
 	return w * (2*u - 1)
 }
 
-// Perturb returns the value cur (as found in a decoded case) moved by the
+// perturb returns the value cur (as found in a decoded case) moved by the
 // sample u, as shown in uncertainty.csv and as it goes into the case. A
 // quantity keeps the unit it is written in (the change is made in SI and
 // converted back exactly, also for the affine temperature scales); a plain
 // number stays a number. A zero half-width returns cur unchanged.
-func Perturb(in *cases.UncertainInput, cur any, u float64) (shown string, value any, err error) {
+func perturb(in *cases.UncertainInput, cur any, u float64) (shown string, value any, err error) {
 	switch x := cur.(type) {
 	case string:
 		d := cases.DimOf(x)
@@ -79,7 +79,7 @@ func Sample(u *cases.Uncertainty, t map[string]any, us []float64) ([]string, err
 	shown := make([]string, len(u.Inputs))
 	for k := range u.Inputs {
 		in := &u.Inputs[k]
-		s, val, err := Perturb(in, cases.Leaf(t, in.Path), us[k])
+		s, val, err := perturb(in, cases.Leaf(t, in.Path), us[k])
 		if err != nil {
 			return nil, err
 		}

@@ -31,19 +31,19 @@ import (
 	"gonum.org/v1/gonum/stat/samplemv"
 )
 
-// UncertaintyFile is the table of the samples of `run --uncertain`.
-const UncertaintyFile = "uncertainty.csv"
+// uncertaintyFile is the table of the samples of `run --uncertain`.
+const uncertaintyFile = "uncertainty.csv"
 
-// ErrNoUncertainty is wrapped by the error of Uncertain or Tune with
+// ErrNoUncertainty is wrapped by the error of Propagate or Tune with
 // Robust > 0 on a case without [uncertainty].
 var ErrNoUncertainty = errors.New("the case declares no [uncertainty]")
 
 // Limits on the number of samples, so that a typo cannot ask for hours.
 const maxUncertainSamples = 100_000
 
-// UncertainOptions say how to run Uncertain. Samples is required; the zero
+// Options say how to run Propagate. Samples is required; the zero
 // value of the other fields is the default.
-type UncertainOptions struct {
+type Options struct {
 	Samples int    // N ≥ 1 Latin-hypercube samples of the declared spreads
 	Seed    uint64 // seed of the sampler; 0 means 1
 	// Jobs is the number of runs at a time; 0 means runtime.NumCPU().
@@ -53,8 +53,8 @@ type UncertainOptions struct {
 	Progress io.Writer
 }
 
-// UncertainSample is one run of Uncertain.
-type UncertainSample struct {
+// Run is one run of Propagate.
+type Run struct {
 	Values  []string        // the uncertain values of this sample as they went into the case
 	Summary results.Summary // its summary; Status is StatusFailed with Message when the case was invalid
 	Err     string          // why the run failed or stopped early, "" when it ran to the end
@@ -80,17 +80,17 @@ type CriterionShare struct {
 	Share float64 // in [0, 1]
 }
 
-// UncertainReport is the outcome of Uncertain: every sample, and the
+// Report is the outcome of Propagate: every sample, and the
 // spread of each summary field and the share of samples meeting each
 // criterion (README, Case file reference).
-type UncertainReport struct {
+type Report struct {
 	Samples  int
 	Seed     uint64
 	Share    float64 // required share, from [uncertainty] share
 	Inputs   []cases.UncertainInput
-	Runs     []UncertainSample // in sample order
-	Fields   []FieldSpread     // in the order of summary.csv (sweepColumns)
-	Criteria []CriterionShare  // in the order of the case's criteria
+	Runs     []Run            // in sample order
+	Fields   []FieldSpread    // in the order of summary.csv (sweepColumns)
+	Criteria []CriterionShare // in the order of the case's criteria
 	// AllMet is the share of samples that met every criterion (1 when the
 	// case has none and every run ran to the end).
 	AllMet float64
@@ -100,16 +100,16 @@ type UncertainReport struct {
 }
 
 // Pass reports whether the required share of samples met every criterion.
-func (r *UncertainReport) Pass() bool { return r.AllMet >= r.Share-1e-12 }
+func (r *Report) Pass() bool { return r.AllMet >= r.Share-1e-12 }
 
-// WithUncertainty returns the nominal summary s judged with the samples of
+// Judge returns the nominal summary s judged with the samples of
 // rep as well: one more verdict, uncertainty_share (value: the share of
 // samples that met every criterion; limit: the required share), and the
 // status "criteria-failed" when that verdict fails and the nominal run was
 // "ok". summary.json, the terminal, the report and the exit status then
 // agree: a run whose samples fall short of the share has failed a
 // criterion, however its nominal values look.
-func WithUncertainty(s results.Summary, rep *UncertainReport) results.Summary {
+func Judge(s results.Summary, rep *Report) results.Summary {
 	v := results.Verdict{Name: results.CriterionShareMet, Value: num.RoundSig(rep.AllMet), Limit: rep.Share, Pass: rep.Pass()}
 	out := s
 	out.Criteria = append(append(results.Verdicts{}, s.Criteria...), v)
@@ -132,7 +132,7 @@ func LhsPoints(n, k int, seed uint64) *mat.Dense {
 	return u
 }
 
-// Uncertain runs N Latin-hypercube samples of the spreads declared in the
+// Propagate runs N Latin-hypercube samples of the spreads declared in the
 // [uncertainty] section of the case c, whose file text is data (c is
 // Parse(c.File, data, c.Dir)); the program and everything else stay as
 // written.
@@ -151,14 +151,14 @@ func LhsPoints(n, k int, seed uint64) *mat.Dense {
 // Errors: a case without [uncertainty] (ErrNoUncertainty), N < 1 or too
 // large. Cancelling ctx stops the runs and returns ctx's error. Cost: N
 // solver runs.
-func Uncertain(ctx context.Context, c *cases.Case, data []byte, opt UncertainOptions) (*UncertainReport, error) {
+func Propagate(ctx context.Context, c *cases.Case, data []byte, opt Options) (*Report, error) {
 	return uncertain(ctx, c, data, opt)
 }
 
-// CheckUncertain returns the error Uncertain would return for c (loaded from
+// Check returns the error Propagate would return for c (loaded from
 // data) before running anything: no [uncertainty], or a bad one. Commands
 // call it before they write outputs.
-func CheckUncertain(c *cases.Case, data []byte) error {
+func Check(c *cases.Case, data []byte) error {
 	_, _, err := uncertainOf(c, data)
 	return err
 }
@@ -179,7 +179,7 @@ func uncertainOf(c *cases.Case, data []byte) (*cases.CaseVariant, *cases.Uncerta
 	return v, unc, nil
 }
 
-func uncertain(ctx context.Context, c *cases.Case, data []byte, opt UncertainOptions) (*UncertainReport, error) {
+func uncertain(ctx context.Context, c *cases.Case, data []byte, opt Options) (*Report, error) {
 	if opt.Samples < 1 || opt.Samples > maxUncertainSamples {
 		return nil, fmt.Errorf("--uncertain wants between 1 and %d samples, got %d", maxUncertainSamples, opt.Samples)
 	}
@@ -195,10 +195,10 @@ func uncertain(ctx context.Context, c *cases.Case, data []byte, opt UncertainOpt
 		seed = 1
 	}
 	n := opt.Samples
-	rep := &UncertainReport{Samples: n, Seed: seed, Share: unc.Share, Inputs: unc.Inputs, Runs: make([]UncertainSample, n)}
+	rep := &Report{Samples: n, Seed: seed, Share: unc.Share, Inputs: unc.Inputs, Runs: make([]Run, n)}
 	pts := LhsPoints(n, len(unc.Inputs), seed)
-	prog := &UncProgress{W: opt.Progress, What: "samples", total: n}
-	err = uncForEach(ctx, n, opt.Jobs, func(i int) {
+	prog := &Progress{W: opt.Progress, What: "samples", total: n}
+	err = forEach(ctx, n, opt.Jobs, func(i int) {
 		rep.Runs[i] = runSample(ctx, v, unc, pts.RawRowView(i)[:len(unc.Inputs)])
 		prog.add(1)
 	})
@@ -211,33 +211,33 @@ func uncertain(ctx context.Context, c *cases.Case, data []byte, opt UncertainOpt
 }
 
 // runSample runs one sample of a study.
-func runSample(ctx context.Context, v *cases.CaseVariant, unc *cases.Uncertainty, us []float64) UncertainSample {
+func runSample(ctx context.Context, v *cases.CaseVariant, unc *cases.Uncertainty, us []float64) Run {
 	t := v.Tree(nil)
 	shown, err := Sample(unc, t, us)
 	if err != nil {
-		return UncertainSample{Values: make([]string, len(us)), Summary: results.Summary{Status: results.StatusFailed, Message: err.Error()}, Err: err.Error()}
+		return Run{Values: make([]string, len(us)), Summary: results.Summary{Status: results.StatusFailed, Message: err.Error()}, Err: err.Error()}
 	}
 	c, err := v.Parse(t)
 	if err != nil {
 		msg := cases.FlattenErrors(err)
-		return UncertainSample{Values: shown, Summary: results.Summary{Status: results.StatusFailed, Message: msg}, Err: msg}
+		return Run{Values: shown, Summary: results.Summary{Status: results.StatusFailed, Message: msg}, Err: msg}
 	}
 	c.Problem.NoFields = true // the sample needs its summary only
 	r, err := solver.Run(ctx, c.Problem)
 	if err != nil {
-		return UncertainSample{Values: shown, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed, Message: err.Error()}, Err: err.Error()}
+		return Run{Values: shown, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed, Message: err.Error()}, Err: err.Error()}
 	}
 	s := results.Summarize(c, r)
 	msg := ""
 	if r.Status != solver.OK {
 		msg = s.Message
 	}
-	return UncertainSample{Values: shown, Summary: s, Err: msg, Note: strings.Join(c.Notes, "; "), ran: true}
+	return Run{Values: shown, Summary: s, Err: msg, Note: strings.Join(c.Notes, "; "), ran: true}
 }
 
-// uncForEach calls f(i) for i in [0, n) on jobs goroutines (0: all cores) and
+// forEach calls f(i) for i in [0, n) on jobs goroutines (0: all cores) and
 // returns ctx's error if it was cancelled before every call was made.
-func uncForEach(ctx context.Context, n, jobs int, f func(i int)) error {
+func forEach(ctx context.Context, n, jobs int, f func(i int)) error {
 	if jobs == 0 {
 		jobs = runtime.NumCPU()
 	}
@@ -271,7 +271,7 @@ feed:
 }
 
 // summarize fills the field spreads and the criterion shares.
-func (r *UncertainReport) summarize(c *cases.Case) {
+func (r *Report) summarize(c *cases.Case) {
 	for _, s := range r.Runs {
 		switch s.Summary.Status {
 		case results.StatusRunaway:
@@ -294,7 +294,7 @@ func (r *UncertainReport) summarize(c *cases.Case) {
 		f := FieldSpread{Name: col.Name, N: len(xs), P5: math.NaN(), P50: math.NaN(), P95: math.NaN(), Min: math.NaN(), Max: math.NaN()}
 		if len(xs) > 0 {
 			slices.Sort(xs)
-			f.P5, f.P50, f.P95 = uncRound(Quantile(0.05, xs)), uncRound(Quantile(0.5, xs)), uncRound(Quantile(0.95, xs))
+			f.P5, f.P50, f.P95 = round12(Quantile(0.05, xs)), round12(Quantile(0.5, xs)), round12(Quantile(0.95, xs))
 			f.Min, f.Max = xs[0], xs[len(xs)-1]
 		}
 		r.Fields = append(r.Fields, f)
@@ -324,8 +324,8 @@ func (r *UncertainReport) summarize(c *cases.Case) {
 	r.AllMet = float64(all) / float64(r.Samples)
 }
 
-// uncRound rounds x to 12 significant digits.
-func uncRound(x float64) float64 {
+// round12 rounds x to 12 significant digits.
+func round12(x float64) float64 {
 	y, err := strconv.ParseFloat(strconv.FormatFloat(x, 'g', 12, 64), 64)
 	if err != nil {
 		return x
@@ -371,16 +371,16 @@ func Quantile(p float64, x []float64) float64 {
 
 // uncertaintyJSON is the "uncertainty" object of summary.json.
 type uncertaintyJSON struct {
-	Samples       int                      `json:"samples"`
-	Seed          uint64                   `json:"seed"`
-	ShareRequired float64                  `json:"share_required"`
-	Inputs        []uncertainInputJSON     `json:"inputs"`
-	Fields        uncObject[fieldJSON]     `json:"fields"`
-	Criteria      uncObject[criterionJSON] `json:"criteria"`
-	AllCriteria   results.Float            `json:"all_criteria_share"`
-	Pass          bool                     `json:"pass"`
-	Runaway       int                      `json:"runaway_samples"`
-	Failed        int                      `json:"failed_samples"`
+	Samples       int                   `json:"samples"`
+	Seed          uint64                `json:"seed"`
+	ShareRequired float64               `json:"share_required"`
+	Inputs        []uncertainInputJSON  `json:"inputs"`
+	Fields        object[fieldJSON]     `json:"fields"`
+	Criteria      object[criterionJSON] `json:"criteria"`
+	AllCriteria   results.Float         `json:"all_criteria_share"`
+	Pass          bool                  `json:"pass"`
+	Runaway       int                   `json:"runaway_samples"`
+	Failed        int                   `json:"failed_samples"`
 }
 
 type uncertainInputJSON struct {
@@ -401,13 +401,13 @@ type criterionJSON struct {
 	Share results.Float `json:"share"`
 }
 
-// uncObject is a JSON object whose keys keep the order of the slice.
-type uncObject[T any] []struct {
+// object is a JSON object whose keys keep the order of the slice.
+type object[T any] []struct {
 	key string
 	val T
 }
 
-func (o uncObject[T]) MarshalJSON() ([]byte, error) {
+func (o object[T]) MarshalJSON() ([]byte, error) {
 	var b strings.Builder
 	b.WriteByte('{')
 	for i, e := range o {
@@ -430,7 +430,7 @@ func (o uncObject[T]) MarshalJSON() ([]byte, error) {
 	return []byte(b.String()), nil
 }
 
-func (r *UncertainReport) jsonObject() uncertaintyJSON {
+func (r *Report) jsonObject() uncertaintyJSON {
 	u := uncertaintyJSON{Samples: r.Samples, Seed: r.Seed, ShareRequired: r.Share, AllCriteria: results.Float(r.AllMet),
 		Pass: r.Pass(), Runaway: r.Runaway, Failed: r.Failed, Inputs: []uncertainInputJSON{}}
 	for _, in := range r.Inputs {
@@ -451,7 +451,7 @@ func (r *UncertainReport) jsonObject() uncertaintyJSON {
 	return u
 }
 
-// WriteUncertainty writes the results of Uncertain into the output
+// Write writes the results of Propagate into the output
 // directory dir of the nominal run (README, Case file reference): uncertainty.csv, one row per
 // sample (the sample index, the uncertain values as they went into the
 // case, then the columns of a sweep's summary.csv: the summary fields,
@@ -462,13 +462,13 @@ func (r *UncertainReport) jsonObject() uncertaintyJSON {
 // it, all_criteria_share, share_required, pass, and the numbers of runaway
 // and failed samples. The summary.json that the nominal run wrote in dir is
 // kept key for key, its "status" and "criteria" replaced by nominal's (pass
-// WithUncertainty's summary, so that they count the uncertainty_share
+// Judge's summary, so that they count the uncertainty_share
 // verdict) and "uncertainty" added at the end; without one, nominal is
 // written. Both files are written atomically
 // (WriteFileAtomic); dir must exist.
-func WriteUncertainty(dir string, nominal results.Summary, rep *UncertainReport) error {
-	if err := textout.WriteFileAtomic(dir, UncertaintyFile, func(w io.Writer) error { return writeUncertaintyCSV(w, rep) }); err != nil {
-		return fmt.Errorf("writing %s: %w", UncertaintyFile, err)
+func Write(dir string, nominal results.Summary, rep *Report) error {
+	if err := textout.WriteFileAtomic(dir, uncertaintyFile, func(w io.Writer) error { return writeUncertaintyCSV(w, rep) }); err != nil {
+		return fmt.Errorf("writing %s: %w", uncertaintyFile, err)
 	}
 	b, err := summaryWithUncertainty(filepath.Join(dir, results.SummaryFile), nominal, rep.jsonObject())
 	if err == nil {
@@ -547,7 +547,7 @@ func summaryWithUncertainty(path string, nominal results.Summary, u uncertaintyJ
 }
 
 // writeUncertaintyCSV writes uncertainty.csv.
-func writeUncertaintyCSV(w io.Writer, rep *UncertainReport) error {
+func writeUncertaintyCSV(w io.Writer, rep *Report) error {
 	keys := make([]string, len(rep.Inputs))
 	for i, in := range rep.Inputs {
 		keys[i] = in.Key
@@ -583,10 +583,10 @@ func writeUncertaintyCSV(w io.Writer, rep *UncertainReport) error {
 	return cw.Error()
 }
 
-// PrintUncertainty writes a short table of rep for a terminal: the inputs,
+// Print writes a short table of rep for a terminal: the inputs,
 // the 5 %, 50 % and 95 % values of the headline summary fields, and the
 // share of samples meeting each criterion against the required share.
-func PrintUncertainty(w io.Writer, rep *UncertainReport) error {
+func Print(w io.Writer, rep *Report) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintf(tw, "uncertainty: %d Latin-hypercube samples (seed %d) of\n", rep.Samples, rep.Seed)
 	for _, in := range rep.Inputs {
@@ -612,14 +612,14 @@ func PrintUncertainty(w io.Writer, rep *UncertainReport) error {
 	}
 	fmt.Fprintf(tw, "  every criterion\tmet in %.1f %% of samples (required %.1f %%)  %s\n", 100*rep.AllMet, 100*rep.Share, verdict)
 	if rep.Runaway+rep.Failed > 0 {
-		fmt.Fprintf(tw, "  %d samples ran away, %d failed (see %s)\n", rep.Runaway, rep.Failed, UncertaintyFile)
+		fmt.Fprintf(tw, "  %d samples ran away, %d failed (see %s)\n", rep.Runaway, rep.Failed, uncertaintyFile)
 	}
 	return tw.Flush()
 }
 
-// UncProgress draws "k/n what" on one line updated in place; nil w draws
+// Progress draws "k/n what" on one line updated in place; nil w draws
 // nothing.
-type UncProgress struct {
+type Progress struct {
 	mu    sync.Mutex
 	W     io.Writer
 	What  string
@@ -629,10 +629,10 @@ type UncProgress struct {
 	last  time.Time
 }
 
-func (p *UncProgress) add(k int) { p.AddWith(k, "") }
+func (p *Progress) add(k int) { p.AddWith(k, "") }
 
 // AddWith counts k more done and shows extra after the count.
-func (p *UncProgress) AddWith(k int, extra string) {
+func (p *Progress) AddWith(k int, extra string) {
 	if p == nil || p.W == nil {
 		return
 	}
@@ -646,7 +646,7 @@ func (p *UncProgress) AddWith(k int, extra string) {
 	}
 }
 
-func (p *UncProgress) draw() {
+func (p *Progress) draw() {
 	if p.total > 0 {
 		fmt.Fprintf(p.W, "\r%d/%d %s%s   ", p.done, p.total, p.What, p.extra)
 	} else {
@@ -654,7 +654,7 @@ func (p *UncProgress) draw() {
 	}
 }
 
-func (p *UncProgress) Finish() {
+func (p *Progress) Finish() {
 	if p == nil || p.W == nil {
 		return
 	}

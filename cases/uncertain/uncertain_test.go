@@ -176,7 +176,7 @@ func TestPerturb(t *testing.T) {
 		{cases.UncertainInput{Key: "x.n", Rel: 0.1, Distribution: cases.DistUniform}, int64(2), 0, "1.8"},
 		{cases.UncertainInput{Key: "x.n", Abs: 0, Distribution: cases.DistUniform}, "7 mm", 0.9, "7 mm"},
 	} {
-		got, val, err := Perturb(&tc.in, tc.cur, tc.u)
+		got, val, err := perturb(&tc.in, tc.cur, tc.u)
 		if err != nil {
 			t.Errorf("perturb(%v, %v): %v", tc.cur, tc.u, err)
 			continue
@@ -206,15 +206,15 @@ func TestQuantile(t *testing.T) {
 	}
 }
 
-// uncRun runs Uncertain on testdata/tune/NAME.toml with the section.
-func uncRun(t *testing.T, name, section string, opt UncertainOptions) (*cases.Case, *UncertainReport) {
+// uncRun runs Propagate on testdata/tune/NAME.toml with the section.
+func uncRun(t *testing.T, name, section string, opt Options) (*cases.Case, *Report) {
 	t.Helper()
 	text := testkit.TuneCase(t, name, section)
 	c, err := cases.Parse(name+".toml", text, testkit.TuneDir)
 	if err != nil {
 		t.Fatal(err)
 	}
-	rep, err := Uncertain(context.Background(), c, text, opt)
+	rep, err := Propagate(context.Background(), c, text, opt)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -224,7 +224,7 @@ func uncRun(t *testing.T, name, section string, opt UncertainOptions) (*cases.Ca
 func TestUncertainLatinHypercube(t *testing.T) {
 	const n = 8
 	_, rep := uncRun(t, "hold", "[uncertainty]\n\"top.h\" = \"±20 %\"\n\"materials.tune-resin.cure.E1\" = { spread = \"±1 kJ/mol\", distribution = \"normal\" }\n",
-		UncertainOptions{Samples: n, Seed: 3, Jobs: 2})
+		Options{Samples: n, Seed: 3, Jobs: 2})
 	if len(rep.Runs) != n {
 		t.Fatalf("%d samples, want %d", len(rep.Runs), n)
 	}
@@ -265,7 +265,7 @@ func TestUncertainLatinHypercube(t *testing.T) {
 	}
 	// The same seed gives the same samples whatever the number of jobs.
 	_, again := uncRun(t, "hold", "[uncertainty]\n\"top.h\" = \"±20 %\"\n\"materials.tune-resin.cure.E1\" = { spread = \"±1 kJ/mol\", distribution = \"normal\" }\n",
-		UncertainOptions{Samples: n, Seed: 3, Jobs: 1})
+		Options{Samples: n, Seed: 3, Jobs: 1})
 	for i := range rep.Runs {
 		a, b := rep.Runs[i], again.Runs[i]
 		if strings.Join(a.Values, ",") != strings.Join(b.Values, ",") || a.Summary.MinFinalCure != b.Summary.MinFinalCure {
@@ -275,7 +275,7 @@ func TestUncertainLatinHypercube(t *testing.T) {
 }
 
 func TestUncertainZeroSpread(t *testing.T) {
-	c, rep := uncRun(t, "hold", "[uncertainty]\n\"top.h\" = \"±0 %\"\n", UncertainOptions{Samples: 4, Jobs: 2})
+	c, rep := uncRun(t, "hold", "[uncertainty]\n\"top.h\" = \"±0 %\"\n", Options{Samples: 4, Jobs: 2})
 	r, err := solverRunForTest(c)
 	if err != nil {
 		t.Fatal(err)
@@ -311,10 +311,10 @@ func TestUncertainNeedsSection(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if _, err := Uncertain(context.Background(), c, text, UncertainOptions{Samples: 3}); !errors.Is(err, ErrNoUncertainty) {
+	if _, err := Propagate(context.Background(), c, text, Options{Samples: 3}); !errors.Is(err, ErrNoUncertainty) {
 		t.Errorf("got %v, want ErrNoUncertainty", err)
 	}
-	if _, err := Uncertain(context.Background(), c, text, UncertainOptions{Samples: 0}); err == nil {
+	if _, err := Propagate(context.Background(), c, text, Options{Samples: 0}); err == nil {
 		t.Errorf("0 samples: no error")
 	}
 }
@@ -322,7 +322,7 @@ func TestUncertainNeedsSection(t *testing.T) {
 func TestUncertainFailedSample(t *testing.T) {
 	// A thickness of 3 mm ± 4 mm goes negative in some samples: those fail
 	// with the loader's message and count as meeting no criterion.
-	_, rep := uncRun(t, "hold", "[uncertainty]\n\"layer.resin.thickness\" = \"±4 mm\"\n", UncertainOptions{Samples: 8, Jobs: 2})
+	_, rep := uncRun(t, "hold", "[uncertainty]\n\"layer.resin.thickness\" = \"±4 mm\"\n", Options{Samples: 8, Jobs: 2})
 	failed := 0
 	for _, s := range rep.Runs {
 		if s.Summary.Status == results.StatusFailed {
@@ -343,7 +343,7 @@ func TestUncertainFailedSample(t *testing.T) {
 }
 
 func TestWriteUncertainty(t *testing.T) {
-	c, rep := uncRun(t, "hold", "[uncertainty]\n\"top.h\" = \"±20 %\"\n", UncertainOptions{Samples: 3, Jobs: 2})
+	c, rep := uncRun(t, "hold", "[uncertainty]\n\"top.h\" = \"±20 %\"\n", Options{Samples: 3, Jobs: 2})
 	r, err := solverRunForTest(c)
 	if err != nil {
 		t.Fatal(err)
@@ -356,11 +356,11 @@ func TestWriteUncertainty(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := WriteUncertainty(dir, results.Summarize(c, r), rep); err != nil {
+	if err := Write(dir, results.Summarize(c, r), rep); err != nil {
 		t.Fatal(err)
 	}
 	once, _ := os.ReadFile(filepath.Join(dir, results.SummaryFile))
-	if err := WriteUncertainty(dir, results.Summarize(c, r), rep); err != nil {
+	if err := Write(dir, results.Summarize(c, r), rep); err != nil {
 		t.Fatal(err)
 	}
 	twice, _ := os.ReadFile(filepath.Join(dir, results.SummaryFile))
@@ -379,7 +379,7 @@ func TestWriteUncertainty(t *testing.T) {
 	if ja, jb := mustJSON(t, a), mustJSON(t, b0); ja != jb {
 		t.Errorf("summary.json changed beyond the uncertainty:\n%s\n%s", ja, jb)
 	}
-	rows := testkit.ReadCSV(t, filepath.Join(dir, UncertaintyFile))
+	rows := testkit.ReadCSV(t, filepath.Join(dir, uncertaintyFile))
 	if len(rows) != 4 || rows[0][0] != "sample" || rows[0][1] != "top.h" || rows[0][2] != "peak_temperature_C" ||
 		rows[0][len(rows[0])-3] != "status" || rows[0][len(rows[0])-1] != "note" || rows[3][0] != "2" {
 		t.Errorf("uncertainty.csv: %d rows, header %v", len(rows), rows[0])

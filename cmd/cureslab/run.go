@@ -82,7 +82,7 @@ cureslab run potting.toml -o potting-out`,
 			var text []byte
 			if *samples > 0 {
 				if text, err = limits.ReadFile(e.ctx, args[0], limits.MaxFileSize); err == nil {
-					err = uncertain.CheckUncertain(c, text)
+					err = uncertain.Check(c, text)
 				}
 				if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab run: --uncertain: %v\n", err)
@@ -112,7 +112,7 @@ cureslab run potting.toml -o potting-out`,
 				return code
 			}
 			// With --uncertain the samples take part in the verdict
-			// (uncertain.WithUncertainty): the summary, summary.json and
+			// (uncertain.Judge): the summary, summary.json and
 			// the report are written once they are in, so that all three
 			// and the exit status agree.
 			o, code := runCase(e, "run", c, dir, simulate.Options{Report: false, Verify: *verify})
@@ -120,14 +120,14 @@ cureslab run potting.toml -o potting-out`,
 				return code
 			}
 			s := o.Summary
-			opt := uncertain.UncertainOptions{Samples: *samples, Seed: *seed, Jobs: *jobs}
+			opt := uncertain.Options{Samples: *samples, Seed: *seed, Jobs: *jobs}
 			if isTerminal(e.stderr) {
 				opt.Progress = e.stderr
 			}
-			rep, err := uncertain.Uncertain(e.ctx, c, text, opt)
+			rep, err := uncertain.Propagate(e.ctx, c, text, opt)
 			if err == nil {
-				s = uncertain.WithUncertainty(s, rep)
-				err = uncertain.WriteUncertainty(dir, s, rep)
+				s = uncertain.Judge(s, rep)
+				err = uncertain.Write(dir, s, rep)
 			}
 			if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab run: --uncertain: %v\n", err)
@@ -141,7 +141,7 @@ cureslab run potting.toml -o potting-out`,
 			}
 			results.PrintSummary(e.stdout, s)
 			fmt.Fprintln(e.stdout)
-			uncertain.PrintUncertainty(e.stdout, rep)
+			uncertain.Print(e.stdout, rep)
 			if !rep.Pass() {
 				code = max(code, exitCriteria)
 			}

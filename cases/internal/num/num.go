@@ -71,7 +71,7 @@ func Fixed(v float64, decimals int) string {
 	return strconv.FormatFloat(Round(v, decimals), 'f', -1, 64)
 }
 
-// fmtSig writes v with 9 significant digits, trailing zeros dropped; NaN
+// Sig writes v with 9 significant digits, trailing zeros dropped; NaN
 // gives "" and −0 gives "0".
 func Sig(v float64) string {
 	if math.IsNaN(v) {

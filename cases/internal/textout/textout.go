@@ -56,36 +56,47 @@ func WriteSynced(f *os.File, write func(io.Writer) error) error {
 	return f.Close()
 }
 
-// Printer writes formatted text and keeps the first error.
+// Printer writes formatted text and keeps the first error: once a write
+// has failed, it writes nothing more.
 type Printer struct {
-	W   io.Writer
-	Err error
+	w   io.Writer
+	err error
 }
 
+// NewPrinter returns a Printer on w.
+func NewPrinter(w io.Writer) *Printer { return &Printer{w: w} }
+
+// Err returns the first error of a write, nil if none failed.
+func (p *Printer) Err() error { return p.err }
+
+// Printf writes fmt.Sprintf(format, a...).
 func (p *Printer) Printf(format string, a ...any) {
-	if p.Err == nil {
-		_, p.Err = fmt.Fprintf(p.W, format, a...)
+	if p.err == nil {
+		_, p.err = fmt.Fprintf(p.w, format, a...)
 	}
 }
 
-// Table returns a tabwriter on p's writer; flush it with p.flush.
+// Table returns a tabwriter on p's writer (cells padded by 2 spaces);
+// flush it with p.Flush.
 func (p *Printer) Table() *tabwriter.Writer {
-	return tabwriter.NewWriter(Writer{p}, 0, 0, 2, ' ', 0)
+	return tabwriter.NewWriter(printerWriter{p}, 0, 0, 2, ' ', 0)
 }
 
+// Flush flushes tw, keeping its error.
 func (p *Printer) Flush(tw *tabwriter.Writer) {
-	if err := tw.Flush(); err != nil && p.Err == nil {
-		p.Err = err
+	if err := tw.Flush(); err != nil && p.err == nil {
+		p.err = err
 	}
 }
 
-type Writer struct{ p *Printer }
+// printerWriter writes to the writer of p unless a write has failed.
+type printerWriter struct{ p *Printer }
 
-func (cw Writer) Write(b []byte) (int, error) {
-	if cw.p.Err != nil {
-		return 0, cw.p.Err
+func (cw printerWriter) Write(b []byte) (int, error) {
+	if cw.p.err != nil {
+		return 0, cw.p.err
 	}
-	n, err := cw.p.W.Write(b)
-	cw.p.Err = err
+	n, err := cw.p.w.Write(b)
+	cw.p.err = err
 	return n, err
 }
