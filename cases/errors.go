@@ -143,17 +143,24 @@ func (l ErrorList) sortFor(file string) ErrorList {
 	return out
 }
 
-// Detail is the Err of an Error: a message that wraps a sentinel kind and,
-// optionally, the error that caused it (a *units.Error, an *os.PathError).
-type Detail struct {
+// Reason returns the Err of an Error: the message msg, wrapping kind (one
+// of the sentinel errors, or a sentinel of the caller's own) and, when not
+// nil, cause, the error that caused it (a *units.Error, an
+// *os.PathError). Its text is msg alone.
+func Reason(kind, cause error, msg string) error {
+	return &detail{Kind: kind, Cause: cause, Msg: msg}
+}
+
+// detail is the error that Reason returns.
+type detail struct {
 	Kind  error
 	Cause error
 	Msg   string
 }
 
-func (d *Detail) Error() string { return d.Msg }
+func (d *detail) Error() string { return d.Msg }
 
-func (d *Detail) Unwrap() []error {
+func (d *detail) Unwrap() []error {
 	if d.Cause == nil {
 		return []error{d.Kind}
 	}

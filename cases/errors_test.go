@@ -34,8 +34,8 @@ func TestErrorListErr(t *testing.T) {
 	}
 	cause := &fs.PathError{Op: "open", Path: "x", Err: fs.ErrNotExist}
 	list := ErrorList{
-		{File: "a", Line: 2, Err: &Detail{Kind: ErrRange, Msg: "too big"}},
-		{File: "a", Line: 1, Err: &Detail{Kind: ErrFile, Cause: cause, Msg: "cannot read"}},
+		{File: "a", Line: 2, Err: &detail{Kind: ErrRange, Msg: "too big"}},
+		{File: "a", Line: 1, Err: &detail{Kind: ErrFile, Cause: cause, Msg: "cannot read"}},
 	}
 	err := list.Err()
 	if err == nil {
@@ -60,7 +60,7 @@ func TestErrorListErr(t *testing.T) {
 
 func TestErrorListSort(t *testing.T) {
 	mk := func(file string, line, col int, msg string) *Error {
-		return &Error{File: file, Line: line, Col: col, Err: &Detail{Kind: ErrRange, Msg: msg}}
+		return &Error{File: file, Line: line, Col: col, Err: &detail{Kind: ErrRange, Msg: msg}}
 	}
 	list := ErrorList{
 		mk("c.toml", 0, 0, "no position"),

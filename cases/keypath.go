@@ -613,7 +613,7 @@ func (v *CaseVariant) SweepSection() *SweepSpec {
 // key path key in the case file.
 func (v *CaseVariant) ErrorAt(key string, kind error, msg string) error {
 	p := newLocator(v.Text).value(key)
-	return ErrorList{{File: v.Name, Line: p.Line, Col: p.Col, Key: key, Err: &Detail{Kind: kind, Msg: msg}}}
+	return ErrorList{{File: v.Name, Line: p.Line, Col: p.Col, Key: key, Err: &detail{Kind: kind, Msg: msg}}}
 }
 
 // Validate checks the tree t (from tree) like a case file.

@@ -34,7 +34,7 @@ func Load(path string) (*Case, error) { return LoadContext(context.Background(),
 func LoadContext(ctx context.Context, path string) (*Case, error) {
 	data, err := limits.ReadFile(ctx, path, limits.MaxFileSize)
 	if err != nil {
-		return nil, ErrorList{{File: path, Err: &Detail{Kind: ErrFile, Cause: err, Msg: fmt.Sprintf("cannot read the case file: %v", err)}}}
+		return nil, ErrorList{{File: path, Err: &detail{Kind: ErrFile, Cause: err, Msg: fmt.Sprintf("cannot read the case file: %v", err)}}}
 	}
 	return parse(ctx, path, data, filepath.Dir(path))
 }
@@ -259,7 +259,7 @@ func preScan(name string, data []byte) (tomltext.Scan, error) {
 	scan := tomltext.Check(data, limits.MaxNesting)
 	if scan.Depth > limits.MaxNesting {
 		return scan, ErrorList{{File: name, Line: scan.Deepest.Line, Col: scan.Deepest.Col,
-			Err:  &Detail{Kind: ErrSyntax, Msg: fmt.Sprintf("tables, arrays and dotted keys nest deeper than %d levels here; a case file needs about 6", limits.MaxNesting)},
+			Err:  &detail{Kind: ErrSyntax, Msg: fmt.Sprintf("tables, arrays and dotted keys nest deeper than %d levels here; a case file needs about 6", limits.MaxNesting)},
 			Hint: caret(string(data), scan.Deepest.Line, scan.Deepest.Col, 1)}}
 	}
 	return scan, nil
@@ -286,11 +286,11 @@ var unclosedWhat = map[string]string{
 func syntaxError(name, text string, err error, scan tomltext.Scan) *Error {
 	var pe toml.ParseError
 	if !errors.As(err, &pe) {
-		return &Error{File: name, Err: &Detail{Kind: ErrSyntax, Cause: err, Msg: err.Error()}}
+		return &Error{File: name, Err: &detail{Kind: ErrSyntax, Cause: err, Msg: err.Error()}}
 	}
 	if msg, ok := unclosedWhat[scan.Unclosed]; ok && (pe.Position.Line < 1 || scan.Open.Line <= pe.Position.Line+1) {
 		return &Error{File: name, Line: scan.Open.Line, Col: scan.Open.Col, Key: lastKeyBefore(text, scan.Open.Line, scan.Open.Col),
-			Err:  &Detail{Kind: ErrSyntax, Cause: err, Msg: msg},
+			Err:  &detail{Kind: ErrSyntax, Cause: err, Msg: msg},
 			Hint: caret(text, scan.Open.Line, scan.Open.Col, 1)}
 	}
 	if pe.Position.Line < 1 {
@@ -302,7 +302,7 @@ func syntaxError(name, text string, err error, scan tomltext.Scan) *Error {
 		pe.Position.Col = 1 + off - (strings.LastIndexByte(text[:off], '\n') + 1)
 	}
 	e := &Error{File: name, Line: pe.Position.Line, Col: pe.Position.Col, Key: lastKeyBefore(text, pe.Position.Line, pe.Position.Col),
-		Err: &Detail{Kind: ErrSyntax, Cause: err, Msg: pe.Message}}
+		Err: &detail{Kind: ErrSyntax, Cause: err, Msg: pe.Message}}
 	if e.Key == "" {
 		e.Key = pe.LastKey
 	}

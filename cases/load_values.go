@@ -32,7 +32,7 @@ type loader struct {
 
 // add records an error at p for key path key.
 func (l *loader) add(p pos, key string, kind, cause error, msg string) *Error {
-	e := &Error{File: l.file, Line: p.Line, Col: p.Col, Key: key, Err: &Detail{Kind: kind, Cause: cause, Msg: msg}}
+	e := &Error{File: l.file, Line: p.Line, Col: p.Col, Key: key, Err: &detail{Kind: kind, Cause: cause, Msg: msg}}
 	l.errs = append(l.errs, e)
 	return e
 }

@@ -253,7 +253,7 @@ func (l *loader) scheduleFile(key, name string) (physics.Schedule, bool) {
 	fail := func(line, col int, cause error, format string, args ...any) {
 		if n < MaxFileErrors {
 			l.errs = append(l.errs, &Error{File: full, Line: line, Col: col, Key: key,
-				Err: &Detail{Kind: ErrFile, Cause: cause, Msg: fmt.Sprintf(format, args...)}})
+				Err: &detail{Kind: ErrFile, Cause: cause, Msg: fmt.Sprintf(format, args...)}})
 		}
 		n++
 	}
@@ -317,7 +317,7 @@ func (l *loader) scheduleFile(key, name string) (physics.Schedule, bool) {
 	}
 	if n > MaxFileErrors {
 		l.errs = append(l.errs, &Error{File: full, Key: key,
-			Err: &Detail{Kind: ErrFile, Msg: fmt.Sprintf("%d more errors in this file not shown", n-MaxFileErrors)}})
+			Err: &detail{Kind: ErrFile, Msg: fmt.Sprintf("%d more errors in this file not shown", n-MaxFileErrors)}})
 	}
 	if n > 0 {
 		return physics.Schedule{}, false
@@ -345,7 +345,7 @@ type faceDef struct {
 func (l *loader) face(root *table, which string, scheds map[string]*physics.Schedule) *faceDef {
 	if !root.has(which) {
 		l.errs = append(l.errs, &Error{File: l.file, Key: which,
-			Err:  &Detail{Kind: ErrMissing, Msg: fmt.Sprintf("missing section [%s]: every face must be described, even an insulated one", which)},
+			Err:  &detail{Kind: ErrMissing, Msg: fmt.Sprintf("missing section [%s]: every face must be described, even an insulated one", which)},
 			Hint: fmt.Sprintf("add, for example:\n[%s]\nkind = \"insulated\"", which)})
 		return nil
 	}

@@ -39,7 +39,7 @@ type layerDef struct {
 func (l *loader) layers(root *table, defs map[string]*physics.Material) ([]layerDef, bool) {
 	if !root.has("layer") {
 		l.errs = append(l.errs, &Error{File: l.file, Key: "layer",
-			Err:  &Detail{Kind: ErrMissing, Msg: "the case has no [[layer]]: list the stack top to bottom"},
+			Err:  &detail{Kind: ErrMissing, Msg: "the case has no [[layer]]: list the stack top to bottom"},
 			Hint: "add, for example:\n[[layer]]\nname = \"potting\"\nmaterial = \"demo-epoxy\"\nthickness = \"10 mm\""})
 		return nil, false
 	}
@@ -193,7 +193,7 @@ func (l *loader) checkCells(layers []layerDef, opt mesh.Options) bool {
 func (l *loader) initial(root *table) (T, cure float64, ok bool) {
 	if !root.has("initial") {
 		l.errs = append(l.errs, &Error{File: l.file, Key: "initial",
-			Err:  &Detail{Kind: ErrMissing, Msg: "missing section [initial] with the initial temperature"},
+			Err:  &detail{Kind: ErrMissing, Msg: "missing section [initial] with the initial temperature"},
 			Hint: "add, for example:\n[initial]\ntemperature = \"23 C\""})
 		return 0, 0, false
 	}

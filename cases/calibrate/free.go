@@ -15,12 +15,10 @@ import (
 // ErrFree is wrapped by the errors of a --free option that cannot be used.
 var ErrFree = errors.New("bad free value")
 
-type freeError struct{ msg string }
-
-func (e *freeError) Error() string { return e.msg }
-func (e *freeError) Unwrap() error { return ErrFree }
-
-func freeFail(format string, a ...any) error { return &freeError{msg: fmt.Sprintf(format, a...)} }
+// freeFail returns an error about a --free option, wrapping ErrFree.
+func freeFail(format string, a ...any) error {
+	return cases.Reason(ErrFree, nil, fmt.Sprintf(format, a...))
+}
 
 // Free is one value to fit: a key path into the case, as in sweeps (top.h,
 // layer.NAME.contact_resistance, materials.NAME.cure.total_heat, ...), and

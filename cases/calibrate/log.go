@@ -17,12 +17,6 @@ import (
 // ErrLog is wrapped by every error about the measured log.
 var ErrLog = errors.New("bad measured log")
 
-// logDetail is the message of a log error; it unwraps to ErrLog.
-type logDetail struct{ msg string }
-
-func (d *logDetail) Error() string { return d.msg }
-func (d *logDetail) Unwrap() error { return ErrLog }
-
 // maxLogErrors bounds the errors reported for one log.
 const maxLogErrors = 20
 
@@ -80,12 +74,12 @@ func (e *logErrors) add(line, col int, column, format string, a ...any) {
 		return
 	}
 	e.list = append(e.list, &cases.Error{File: e.file, Line: line, Col: col, Key: column,
-		Err: &logDetail{msg: fmt.Sprintf(format, a...)}})
+		Err: cases.Reason(ErrLog, nil, fmt.Sprintf(format, a...))})
 }
 
 func (e *logErrors) err() error {
 	if e.more > 0 {
-		e.list = append(e.list, &cases.Error{File: e.file, Err: &logDetail{msg: fmt.Sprintf("and %d more errors", e.more)}})
+		e.list = append(e.list, &cases.Error{File: e.file, Err: cases.Reason(ErrLog, nil, fmt.Sprintf("and %d more errors", e.more))})
 	}
 	return e.list.Err()
 }

@@ -26,7 +26,7 @@ var ScanHeader = []string{"time_s", "temperature_C", "heat_flow_W_per_g"}
 func ReadScan(path string) (*dsc.Scan, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {
-		return nil, cases.ErrorList{{File: path, Err: &cases.Detail{Kind: ErrScan, Cause: err, Msg: fmt.Sprintf("cannot read the scan: %v", err)}}}
+		return nil, cases.ErrorList{{File: path, Err: cases.Reason(ErrScan, err, fmt.Sprintf("cannot read the scan: %v", err))}}
 	}
 	return ParseScan(path, data)
 }
@@ -52,7 +52,7 @@ func ParseScan(name string, data []byte) (*dsc.Scan, error) {
 	fail := func(line, col int, key string, cause error, format string, a ...any) {
 		if n < cases.MaxFileErrors {
 			errs = append(errs, &cases.Error{File: name, Line: line, Col: col, Key: key,
-				Err: &cases.Detail{Kind: ErrScan, Cause: cause, Msg: fmt.Sprintf(format, a...)}})
+				Err: cases.Reason(ErrScan, cause, fmt.Sprintf(format, a...))})
 		}
 		n++
 	}
@@ -122,7 +122,7 @@ func ParseScan(name string, data []byte) (*dsc.Scan, error) {
 		fail(lastLine, 0, "", nil, "the scan has %d data rows; at least %d are needed", len(s.Time), dsc.MinPoints)
 	}
 	if n > cases.MaxFileErrors {
-		errs = append(errs, &cases.Error{File: name, Err: &cases.Detail{Kind: ErrScan, Msg: fmt.Sprintf("%d more errors in this file not shown", n-cases.MaxFileErrors)}})
+		errs = append(errs, &cases.Error{File: name, Err: cases.Reason(ErrScan, nil, fmt.Sprintf("%d more errors in this file not shown", n-cases.MaxFileErrors))})
 	}
 	if n > 0 {
 		return nil, errs

@@ -26,7 +26,7 @@ var ErrOutputFile = errors.New("malformed output file")
 // outputError returns a positioned *Error about an output file.
 func outputError(file string, line, col int, key, format string, a ...any) *cases.Error {
 	return &cases.Error{File: file, Line: line, Col: col, Key: key,
-		Err: &cases.Detail{Kind: ErrOutputFile, Msg: fmt.Sprintf(format, a...)}}
+		Err: cases.Reason(ErrOutputFile, nil, fmt.Sprintf(format, a...))}
 }
 
 // readRunData reads the output files of a run in dir into report data.
@@ -44,7 +44,7 @@ func readRunData(dir string) (*runData, error) {
 	}
 	d, err := newRunData(tb, "")
 	if err != nil {
-		return nil, &cases.Error{File: fields, Err: &cases.Detail{Kind: ErrOutputFile, Msg: err.Error()}}
+		return nil, &cases.Error{File: fields, Err: cases.Reason(ErrOutputFile, nil, err.Error())}
 	}
 	return d, nil
 }
@@ -58,7 +58,7 @@ func openOutput(path string) (*os.File, error) {
 		if errors.Is(err, os.ErrNotExist) {
 			msg = "missing: the directory does not hold the outputs of a run"
 		}
-		return nil, &cases.Error{File: path, Err: &cases.Detail{Kind: cases.ErrFile, Cause: err, Msg: msg},
+		return nil, &cases.Error{File: path, Err: cases.Reason(cases.ErrFile, err, msg),
 			Hint: "give the output directory of 'cureslab run' (it holds fields.csv, probes.csv and summary.json)"}
 	}
 	return f, nil
@@ -88,7 +88,7 @@ func (t *csvTable) next() ([]string, error) {
 		if errors.As(err, &pe) {
 			return nil, outputError(t.path, pe.Line, pe.Column, "", "%v", pe.Err)
 		}
-		return nil, &cases.Error{File: t.path, Err: &cases.Detail{Kind: cases.ErrFile, Cause: err, Msg: err.Error()}}
+		return nil, &cases.Error{File: t.path, Err: cases.Reason(cases.ErrFile, err, err.Error())}
 	}
 	t.line, _ = t.r.FieldPos(0)
 	return rec, nil
@@ -366,7 +366,7 @@ func readSummaryJSON(path string, tb *runTable) error {
 	data, err := io.ReadAll(f)
 	f.Close()
 	if err != nil {
-		return &cases.Error{File: path, Err: &cases.Detail{Kind: cases.ErrFile, Cause: err, Msg: err.Error()}}
+		return &cases.Error{File: path, Err: cases.Reason(cases.ErrFile, err, err.Error())}
 	}
 	fail := func(off int64, err error) error {
 		line, col := offsetPosition(data, off)

@@ -35,7 +35,7 @@ import (
 //
 // Preconditions: t from TTT with at least one row. The file is written with
 // WriteFileAtomic; its directory must exist. Cost: linear in the rows.
-func WriteTTTPlot(path string, t *ttt.TTTTable) error {
+func WriteTTTPlot(path string, t *ttt.Table) error {
 	if t == nil || len(t.Rows) == 0 {
 		return errors.New("report.WriteTTTPlot: a TTT table with at least one row is required")
 	}
@@ -61,7 +61,7 @@ type tttCurve struct {
 
 // tttCurves returns the curves of t on the time scale ts: gel, then
 // vitrification when t has a glass transition, then the target cure.
-func tttCurves(t *ttt.TTTTable, ts timeScale) []tttCurve {
+func tttCurves(t *ttt.Table, ts timeScale) []tttCurve {
 	x := func(v float64) float64 {
 		if math.IsNaN(v) || math.IsInf(v, 0) || !(v > 0) {
 			return math.NaN()
@@ -85,7 +85,7 @@ func tttCurves(t *ttt.TTTTable, ts timeScale) []tttCurve {
 
 // tttTimeScale returns minutes when the longest finite positive time of t
 // is below 10 h (or there is none), hours otherwise.
-func tttTimeScale(t *ttt.TTTTable) timeScale {
+func tttTimeScale(t *ttt.Table) timeScale {
 	longest := 0.0
 	for _, r := range t.Rows {
 		for _, v := range []float64{r.Gel, r.Vitrify, r.Target} {
@@ -100,7 +100,7 @@ func tttTimeScale(t *ttt.TTTTable) timeScale {
 	return timeScale{60, "min"}
 }
 
-func renderTTTPage(w io.Writer, t *ttt.TTTTable, now time.Time) error {
+func renderTTTPage(w io.Writer, t *ttt.Table, now time.Time) error {
 	pg := &page{Title: "TTT diagram: " + t.Material, Kind: "TTT diagram", Drawn: stamp(now), Scope: check.CautionScope{Curing: true}}
 	ts := tttTimeScale(t)
 	curves := tttCurves(t, ts)
@@ -136,7 +136,7 @@ func renderTTTPage(w io.Writer, t *ttt.TTTTable, now time.Time) error {
 		case math.IsInf(v, 1):
 			return "never"
 		}
-		return ttt.TttTime(v)
+		return ttt.FormatTime(v)
 	}
 	var rows [][]string
 	for _, r := range t.Rows {
@@ -149,7 +149,7 @@ func renderTTTPage(w io.Writer, t *ttt.TTTTable, now time.Time) error {
 }
 
 // tttFigure draws the TTT diagram: temperature against log time.
-func tttFigure(t *ttt.TTTTable, ts timeScale, curves []tttCurve) (string, error) {
+func tttFigure(t *ttt.Table, ts timeScale, curves []tttCurve) (string, error) {
 	return svgFigure(figWidth, profileHeight+40, "isothermal time-temperature-transformation diagram", func(dc draw.Canvas) error {
 		p := newPlot("time at the cure temperature, log scale ("+ts.unit+")", "cure temperature (°C)")
 		addGrid(p)

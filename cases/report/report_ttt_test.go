@@ -13,7 +13,7 @@ import (
 
 // tttTable returns the TTT table of resin-T in tttCase (ttt_test.go), with
 // or without its glass transition.
-func tttTable(t *testing.T, glass bool) *ttt.TTTTable {
+func tttTable(t *testing.T, glass bool) *ttt.Table {
 	t.Helper()
 	text := testkit.TTTCase
 	if !glass {
@@ -26,14 +26,14 @@ func tttTable(t *testing.T, glass bool) *ttt.TTTTable {
 	if err != nil {
 		t.Fatal(err)
 	}
-	tt, err := ttt.TTT(c, "resin-T", ttt.TTTOptions{})
+	tt, err := ttt.Tabulate(c, "resin-T", ttt.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
 	return tt
 }
 
-func tttPage(t *testing.T, tt *ttt.TTTTable) string {
+func tttPage(t *testing.T, tt *ttt.Table) string {
 	t.Helper()
 	fixedClock(t)
 	path := filepath.Join(t.TempDir(), "ttt.html")
@@ -177,7 +177,7 @@ func TestLogTicks(t *testing.T) {
 }
 
 func TestTTTTimeScale(t *testing.T) {
-	tab := &ttt.TTTTable{Rows: []ttt.TTTRow{{Temp: 400, Gel: 600, Vitrify: math.NaN(), Target: math.Inf(1)}}}
+	tab := &ttt.Table{Rows: []ttt.Row{{Temp: 400, Gel: 600, Vitrify: math.NaN(), Target: math.Inf(1)}}}
 	if u := tttTimeScale(tab).unit; u != "min" {
 		t.Errorf("10 min: unit %s, want min", u)
 	}
@@ -188,7 +188,7 @@ func TestTTTTimeScale(t *testing.T) {
 }
 
 func TestWriteTTTPlotErrors(t *testing.T) {
-	if err := WriteTTTPlot(filepath.Join(t.TempDir(), "ttt.html"), &ttt.TTTTable{}); err == nil {
+	if err := WriteTTTPlot(filepath.Join(t.TempDir(), "ttt.html"), &ttt.Table{}); err == nil {
 		t.Error("an empty table gave no error")
 	}
 	if err := WriteTTTPlot(filepath.Join(t.TempDir(), "ttt.html"), nil); err == nil {
@@ -199,8 +199,8 @@ func TestWriteTTTPlotErrors(t *testing.T) {
 		t.Error("a missing directory gave no error")
 	}
 	// Nothing reached anywhere: the page is written with an alert.
-	empty := &ttt.TTTTable{Material: "x", Target: 0.9, GelPoint: 0.5,
-		Rows: []ttt.TTTRow{{Temp: 300, Gel: math.Inf(1), Vitrify: math.NaN(), Target: math.Inf(1)}}}
+	empty := &ttt.Table{Material: "x", Target: 0.9, GelPoint: 0.5,
+		Rows: []ttt.Row{{Temp: 300, Gel: math.Inf(1), Vitrify: math.NaN(), Target: math.Inf(1)}}}
 	page := tttPage(t, empty)
 	if !strings.Contains(page, `role="alert"`) {
 		t.Error("an empty diagram carries no alert")

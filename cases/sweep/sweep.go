@@ -102,7 +102,7 @@ type axis struct {
 func LoadSweep(path string, set SweepSettings) (*Sweep, error) {
 	data, err := limits.ReadFile(context.Background(), path, limits.MaxFileSize)
 	if err != nil {
-		return nil, cases.ErrorList{{File: path, Err: &cases.Detail{Kind: cases.ErrFile, Cause: err, Msg: fmt.Sprintf("cannot read the case file: %v", err)}}}
+		return nil, cases.ErrorList{{File: path, Err: cases.Reason(cases.ErrFile, err, fmt.Sprintf("cannot read the case file: %v", err))}}
 	}
 	return NewSweep(filepath.Base(path), data, filepath.Dir(path), set)
 }

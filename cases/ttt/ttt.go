@@ -15,37 +15,37 @@ import (
 	"strings"
 )
 
-// TTTOptions are the choices of TTT. A zero field takes its default.
-type TTTOptions struct {
+// Options are the choices of Tabulate. A zero field takes its default.
+type Options struct {
 	// From, To and Step give the cure temperatures, K (Step a difference,
-	// K). Defaults: DefaultTTTRange.
+	// K). Defaults: defaultRange.
 	From, To, Step float64
 	// Target is the degree of cure of the third column, in (0, 1];
 	// default criteria.min_cure of the case, else 0.95.
 	Target float64
 }
 
-// TTTRow is one cure temperature of a TTT table. A time is +Inf when the
+// Row is one cure temperature of a TTT table. A time is +Inf when the
 // state is never reached (MaxIsothermalTime), NaN when it does not apply
 // (vitrification without a glass transition).
-type TTTRow struct {
+type Row struct {
 	Temp    float64 // K
 	Gel     float64 // s, to the gel point
 	Vitrify float64 // s, until Tg(α) reaches Temp
-	Target  float64 // s, to TTTTable.Target
+	Target  float64 // s, to Table.Target
 }
 
-// TTTTable is an isothermal time–temperature–transformation table.
-type TTTTable struct {
+// Table is an isothermal time–temperature–transformation table.
+type Table struct {
 	Material    string
 	InitialCure float64 // the case's [initial] cure, the start of every time
 	GelPoint    float64
 	Target      float64
 	Glass       *physics.DiBenedetto // nil: no vitrification column
-	Rows        []TTTRow
+	Rows        []Row
 }
 
-// TTT returns the isothermal TTT table of the curing material named
+// Tabulate returns the isothermal TTT table of the curing material named
 // material in case c: for each cure temperature T from opt.From to opt.To
 // in steps of opt.Step, the times, from the case's initial cure α0, to
 //
@@ -64,7 +64,7 @@ type TTTTable struct {
 // Errors (*Error): a material that is not in the case's stack or does not
 // cure, a range or target out of bounds, more than 1000 rows.
 // Cost: three quadratures per row (about 0.1 ms each).
-func TTT(c *cases.Case, material string, opt TTTOptions) (*TTTTable, error) {
+func Tabulate(c *cases.Case, material string, opt Options) (*Table, error) {
 	m, ok := c.Materials[material]
 	if !ok {
 		var names []string
@@ -82,14 +82,14 @@ func TTT(c *cases.Case, material string, opt TTTOptions) (*TTTTable, error) {
 		if len(names) == 0 {
 			hint = "no layer of this case cures"
 		}
-		return nil, &cases.Error{File: c.File, Key: "materials", Err: &cases.Detail{Kind: cases.ErrReference, Msg: msg}, Hint: hint}
+		return nil, &cases.Error{File: c.File, Key: "materials", Err: cases.Reason(cases.ErrReference, nil, msg), Hint: hint}
 	}
 	if m.Cure == nil {
-		return nil, &cases.Error{File: c.File, Key: "materials." + material, Err: &cases.Detail{Kind: cases.ErrRange,
-			Msg: fmt.Sprintf("material %q does not cure (it has no [materials.%s.cure])", material, material)}}
+		return nil, &cases.Error{File: c.File, Key: "materials." + material, Err: cases.Reason(cases.ErrRange, nil,
+			fmt.Sprintf("material %q does not cure (it has no [materials.%s.cure])", material, material))}
 	}
 	cure := m.Cure
-	from, to, step := DefaultTTTRange(c, cure)
+	from, to, step := defaultRange(c, cure)
 	if opt.From != 0 {
 		from = opt.From
 	}
@@ -100,7 +100,7 @@ func TTT(c *cases.Case, material string, opt TTTOptions) (*TTTTable, error) {
 		step = opt.Step
 	}
 	bad := func(format string, a ...any) error {
-		return &cases.Error{File: c.File, Err: &cases.Detail{Kind: cases.ErrRange, Msg: fmt.Sprintf(format, a...)}}
+		return &cases.Error{File: c.File, Err: cases.Reason(cases.ErrRange, nil, fmt.Sprintf(format, a...))}
 	}
 	switch {
 	case !(from > 0) || !(to > 0):
@@ -126,13 +126,13 @@ func TTT(c *cases.Case, material string, opt TTTOptions) (*TTTTable, error) {
 	if c.Problem != nil {
 		a0 = c.Problem.InitialCure
 	}
-	t := &TTTTable{Material: material, InitialCure: a0, GelPoint: cure.GelPoint, Target: target, Glass: cure.Glass}
+	t := &Table{Material: material, InitialCure: a0, GelPoint: cure.GelPoint, Target: target, Glass: cure.Glass}
 	for i := 0; ; i++ {
 		T := from + float64(i)*step
 		if T > to+1e-9*step {
 			break
 		}
-		row := TTTRow{Temp: T, Vitrify: math.NaN()}
+		row := Row{Temp: T, Vitrify: math.NaN()}
 		row.Gel = cure.IsothermalTime(T, a0, cure.GelPoint)
 		row.Target = cure.IsothermalTime(T, a0, target)
 		if g := cure.Glass; g != nil {
@@ -150,14 +150,14 @@ func TTT(c *cases.Case, material string, opt TTTOptions) (*TTTTable, error) {
 	return t, nil
 }
 
-// DefaultTTTRange returns the default cure temperatures of a TTT table, K:
+// defaultRange returns the default cure temperatures of a TTT table, K:
 // with a glass transition, from max(Tg0, 20 °C) to Tg_full + 20 K, the
 // range where vitrification competes with cure; otherwise from 60 K below
 // to 20 K above the hottest temperature of the case's schedules (of the
 // initial temperature if there are none), not below 0 °C. The ends are
 // rounded outwards to multiples of 5 K (in °C) and the step is 1, 2, 5, 10
 // or 20 K, giving about 10 to 25 rows.
-func DefaultTTTRange(c *cases.Case, cure *physics.Cure) (from, to, step float64) {
+func defaultRange(c *cases.Case, cure *physics.Cure) (from, to, step float64) {
 	const zeroC = 273.15
 	if g := cure.Glass; g != nil {
 		from, to = max(g.Tg0, zeroC+20), g.TgFull+20
@@ -186,19 +186,19 @@ func DefaultTTTRange(c *cases.Case, cure *physics.Cure) (from, to, step float64)
 	return from, to, step
 }
 
-// TTTHeader returns the CSV header of t:
+// header returns the CSV header of t:
 // temperature_C,gel_time_s,vitrification_time_s,time_to_<target>_s.
-func TTTHeader(t *TTTTable) []string {
+func header(t *Table) []string {
 	return []string{"temperature_C", "gel_time_s", "vitrification_time_s",
 		"time_to_" + strconv.FormatFloat(t.Target, 'f', -1, 64) + "_s"}
 }
 
-// WriteTTTCSV writes t as CSV (TTTHeader): temperatures in °C and times in
+// writeCSV writes t as CSV (header): temperatures in °C and times in
 // s rounded to 1e-6 and written as the shortest decimal; a time that is
 // never reached, or does not apply, is an empty field.
-func WriteTTTCSV(w io.Writer, t *TTTTable) error {
+func writeCSV(w io.Writer, t *Table) error {
 	cw := csv.NewWriter(w)
-	cw.Write(TTTHeader(t))
+	cw.Write(header(t))
 	f := func(v float64) string {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return ""
@@ -212,9 +212,9 @@ func WriteTTTCSV(w io.Writer, t *TTTTable) error {
 	return cw.Error()
 }
 
-// PrintTTT writes t as a table for reading: times in s, min, h, days or
+// Print writes t as a table for reading: times in s, min, h, days or
 // years, "never" for a state not reached and "-" where it does not apply.
-func PrintTTT(w io.Writer, t *TTTTable) error {
+func Print(w io.Writer, t *Table) error {
 	p := textout.NewPrinter(w)
 	p.Printf("Isothermal cure of %s from an initial cure of %g (gel point %.3g", t.Material, t.InitialCure, t.GelPoint)
 	if t.Glass != nil {
@@ -232,7 +232,7 @@ func PrintTTT(w io.Writer, t *TTTTable) error {
 		case math.IsInf(v, 1):
 			return "never"
 		}
-		return TttTime(v)
+		return FormatTime(v)
 	}
 	for _, r := range t.Rows {
 		fmt.Fprintf(tw, "  %s C\t%s\t%s\t%s\n", strconv.FormatFloat(num.Round(num.Celsius(r.Temp), 3), 'f', -1, 64), h(r.Gel), h(r.Vitrify), h(r.Target))
@@ -244,9 +244,9 @@ func PrintTTT(w io.Writer, t *TTTTable) error {
 	return p.Err()
 }
 
-// TttTime formats a time in s for reading: s below 2 min, min below 2 h, h
+// FormatTime formats a time in s for reading: s below 2 min, min below 2 h, h
 // below 2 days, days below 2 years, years beyond.
-func TttTime(t float64) string {
+func FormatTime(t float64) string {
 	const day, year = 86400, 365.25 * 86400
 	switch {
 	case t < 2*day:
@@ -257,10 +257,10 @@ func TttTime(t float64) string {
 	return strconv.FormatFloat(t/year, 'g', 3, 64) + " years"
 }
 
-// WriteTTTFile writes the table t as CSV (WriteTTTCSV) to the file path,
+// WriteFile writes the table t as CSV (writeCSV) to the file path,
 // atomically (a temporary file renamed into place).
-func WriteTTTFile(path string, t *TTTTable) error {
+func WriteFile(path string, t *Table) error {
 	return textout.WriteFileAtomic(filepath.Dir(path), filepath.Base(path), func(w io.Writer) error {
-		return WriteTTTCSV(w, t)
+		return writeCSV(w, t)
 	})
 }

@@ -33,7 +33,7 @@ func TestTTT(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	tab, err := TTT(c, "resin-T", TTTOptions{})
+	tab, err := Tabulate(c, "resin-T", Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -95,7 +95,7 @@ func TestTTT(t *testing.T) {
 	}
 
 	var csvOut, txt bytes.Buffer
-	if err := WriteTTTCSV(&csvOut, tab); err != nil {
+	if err := writeCSV(&csvOut, tab); err != nil {
 		t.Fatal(err)
 	}
 	lines := strings.Split(strings.TrimSpace(csvOut.String()), "\n")
@@ -105,7 +105,7 @@ func TestTTT(t *testing.T) {
 	if !strings.HasPrefix(lines[14], "150,") || !strings.Contains(lines[14], ",,") || !strings.HasPrefix(lines[1], "20,") {
 		t.Errorf("CSV rows: %q ... %q", lines[1], lines[14])
 	}
-	if err := PrintTTT(&txt, tab); err != nil {
+	if err := Print(&txt, tab); err != nil {
 		t.Fatal(err)
 	}
 	if !strings.Contains(txt.String(), "never") || !strings.Contains(txt.String(), "to cure 0.85") {
@@ -118,7 +118,7 @@ func TestTTTBelowTg0AndOptions(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	tab, err := TTT(c, "resin-T", TTTOptions{From: 273.15 - 40, To: 273.15 - 30, Step: 5, Target: 0.5})
+	tab, err := Tabulate(c, "resin-T", Options{From: 273.15 - 40, To: 273.15 - 30, Step: 5, Target: 0.5})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -128,16 +128,16 @@ func TestTTTBelowTg0AndOptions(t *testing.T) {
 	}
 	for _, tc := range []struct {
 		material string
-		opt      TTTOptions
+		opt      Options
 		want     string
 	}{
-		{"resin-t", TTTOptions{}, `did you mean "resin-T"?`},
-		{"aluminium", TTTOptions{}, `material "aluminium" does not cure`},
-		{"resin-T", TTTOptions{From: 400, To: 300}, "is below --from"},
-		{"resin-T", TTTOptions{Target: 1.5}, "the target cure must be in (0, 1]"},
-		{"resin-T", TTTOptions{From: 300, To: 400, Step: 0.01}, "more than 1000 rows"},
+		{"resin-t", Options{}, `did you mean "resin-T"?`},
+		{"aluminium", Options{}, `material "aluminium" does not cure`},
+		{"resin-T", Options{From: 400, To: 300}, "is below --from"},
+		{"resin-T", Options{Target: 1.5}, "the target cure must be in (0, 1]"},
+		{"resin-T", Options{From: 300, To: 400, Step: 0.01}, "more than 1000 rows"},
 	} {
-		if _, err := TTT(c, tc.material, tc.opt); err == nil || !strings.Contains(err.Error(), tc.want) {
+		if _, err := Tabulate(c, tc.material, tc.opt); err == nil || !strings.Contains(err.Error(), tc.want) {
 			t.Errorf("%s %+v: %v, want %q", tc.material, tc.opt, err, tc.want)
 		}
 	}
@@ -150,11 +150,11 @@ func TestDefaultTTTRangeWithoutGlass(t *testing.T) {
 		t.Fatal(err)
 	}
 	// The oven reaches 80 C: 20 C to 100 C in steps of 5 K.
-	from, to, step := DefaultTTTRange(c, c.Materials["resin-T"].Cure)
+	from, to, step := defaultRange(c, c.Materials["resin-T"].Cure)
 	if math.Abs(from-293.15) > 1e-9 || math.Abs(to-373.15) > 1e-9 || step != 5 {
 		t.Errorf("range %g to %g step %g", from, to, step)
 	}
-	tab, err := TTT(c, "resin-T", TTTOptions{})
+	tab, err := Tabulate(c, "resin-T", Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -164,7 +164,7 @@ func TestDefaultTTTRangeWithoutGlass(t *testing.T) {
 		}
 	}
 	var csvOut bytes.Buffer
-	WriteTTTCSV(&csvOut, tab)
+	writeCSV(&csvOut, tab)
 	if !strings.Contains(strings.Split(csvOut.String(), "\n")[1], ",,") {
 		t.Errorf("no empty vitrification field: %q", strings.Split(csvOut.String(), "\n")[1])
 	}

@@ -15,7 +15,7 @@ import (
 )
 
 // run carries out the method of Tune.
-func (t *tuner) run(ctx context.Context) (*TuneResult, error) {
+func (t *tuner) run(ctx context.Context) (*Result, error) {
 	t.ctx = ctx
 	t.progress = &uncertain.Progress{W: t.opt.Progress, What: "candidates"}
 	defer t.progress.Finish()
@@ -23,7 +23,7 @@ func (t *tuner) run(ctx context.Context) (*TuneResult, error) {
 	res := t.res
 
 	// The case's own program.
-	res.Own = t.evaluate(nil, PhaseCase, [3]int{0, 0, 0})
+	res.Own = t.evaluate(nil, phaseCase, [3]int{0, 0, 0})
 
 	// 1. Starts.
 	own := make([]float64, k)
@@ -43,7 +43,7 @@ func (t *tuner) run(ctx context.Context) (*TuneResult, error) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			cands[i] = t.evaluate(x, PhaseStart, [3]int{1, 0, i})
+			cands[i] = t.evaluate(x, phaseStart, [3]int{1, 0, i})
 		}()
 	}
 	wg.Wait()
@@ -109,7 +109,7 @@ func (t *tuner) search(start *Candidate, s int) {
 			x[j] = (1 - math.Cos(y[j])) / 2
 		}
 		seq++
-		return t.evaluate(x, PhaseSearch, [3]int{2, s, seq}).f
+		return t.evaluate(x, phaseSearch, [3]int{2, s, seq}).f
 	}}
 	set := &optimize.Settings{
 		FuncEvaluations: t.opt.Budget,
@@ -161,7 +161,7 @@ func (t *tuner) polish(b *Candidate) {
 	seq := 0
 	eval := func(x []float64) *Candidate {
 		seq++
-		return t.evaluate(x, PhasePolish, [3]int{3, 0, seq})
+		return t.evaluate(x, phasePolish, [3]int{3, 0, seq})
 	}
 	for pass := 0; pass < 3 && t.ctx.Err() == nil; pass++ {
 		gained := false
@@ -214,7 +214,7 @@ func (t *tuner) polish(b *Candidate) {
 }
 
 // finish fills the result from the candidates evaluated.
-func (t *tuner) finish() *TuneResult {
+func (t *tuner) finish() *Result {
 	res := t.res
 	res.Candidates = t.sorted()
 	for i, c := range res.Candidates {

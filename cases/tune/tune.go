@@ -14,20 +14,18 @@ import (
 // asked: an unknown program, a bad --free, a case without criteria.
 var ErrTune = errors.New("cannot tune")
 
-// tuneError is an error of the tuning set-up; its message is complete.
-type tuneError struct{ msg string }
-
-func (e *tuneError) Error() string { return e.msg }
-func (e *tuneError) Unwrap() error { return ErrTune }
-
-func tuneFail(format string, a ...any) error { return &tuneError{msg: fmt.Sprintf(format, a...)} }
+// tuneFail returns an error of the tuning set-up, wrapping ErrTune; its
+// message is complete.
+func tuneFail(format string, a ...any) error {
+	return cases.Reason(ErrTune, nil, fmt.Sprintf(format, a...))
+}
 
 // The phases of a tuning, as written in tune.csv.
 const (
-	PhaseCase   = "case"   // the case's own program
-	PhaseStart  = "start"  // a starting point (Latin hypercube over the box)
-	PhaseSearch = "search" // Nelder–Mead on the penalised cycle time
-	PhasePolish = "polish" // bisection along one free value toward a shorter cycle
+	phaseCase   = "case"   // the case's own program
+	phaseStart  = "start"  // a starting point (Latin hypercube over the box)
+	phaseSearch = "search" // Nelder–Mead on the penalised cycle time
+	phasePolish = "polish" // bisection along one free value toward a shorter cycle
 )
 
 // Free is one free value of a tuned program: the value at Key (a key path
@@ -65,9 +63,9 @@ func ParseFree(spec string) (Free, error) {
 	return f, nil
 }
 
-// TuneOptions say what to tune and how. Program is required; the zero value
+// Options say what to tune and how. Program is required; the zero value
 // of every other field is its default.
-type TuneOptions struct {
+type Options struct {
 	Program string // the [schedules.NAME] to tune
 	// Free, when not empty, are the only free values; otherwise every ramp
 	// rate, hold temperature (the to of a ramp followed by a hold) and hold
@@ -113,8 +111,8 @@ type Margin struct {
 // Candidate is one evaluated program.
 type Candidate struct {
 	Index  int      // 0-based, the row of tune.csv
-	Phase  string   // PhaseCase, PhaseStart, PhaseSearch or PhasePolish
-	Values []string // the free values as they went into the case (the case's own for PhaseCase)
+	Phase  string   // phaseCase, phaseStart, phaseSearch or phasePolish
+	Values []string // the free values as they went into the case (the case's own for phaseCase)
 	Cycle  float64  // the program's end, s; NaN when the candidate is invalid
 	End    float64  // the time the runs end (time.end), s
 	// Criteria are in the order min_cure, max_temperature, max_spread
@@ -136,8 +134,8 @@ type Candidate struct {
 	f     float64   // penalised objective
 }
 
-// TuneResult is the outcome of Tune.
-type TuneResult struct {
+// Result is the outcome of Tune.
+type Result struct {
 	// Interrupted marks the result of a search stopped by Ctrl-C or
 	// SIGTERM (set by the caller): Best is then the best program found so
 	// far, and tuned.toml says so.
@@ -244,7 +242,7 @@ const (
 //
 // Cost: (9 + 4k + Starts·Budget + polish) candidates, each max(1, Robust)
 // solver runs; with the defaults and k = 4 about 500 candidates.
-func Tune(ctx context.Context, name string, data []byte, dir string, opt TuneOptions) (*TuneResult, error) {
+func Tune(ctx context.Context, name string, data []byte, dir string, opt Options) (*Result, error) {
 	tu, err := newTuner(name, data, dir, opt)
 	if err != nil {
 		return nil, err

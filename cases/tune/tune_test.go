@@ -25,7 +25,7 @@ func solverRunForTest(c *cases.Case) (*solver.Result, error) {
 }
 
 // tuneRun tunes testdata/tune/NAME.toml (with extra appended).
-func tuneRun(t *testing.T, name, extra string, opt TuneOptions) *TuneResult {
+func tuneRun(t *testing.T, name, extra string, opt Options) *Result {
 	t.Helper()
 	res, err := Tune(context.Background(), name+".toml", testkit.TuneCase(t, name, extra), testkit.TuneDir, opt)
 	if err != nil {
@@ -61,7 +61,7 @@ func holdOf(t *testing.T, c *Candidate) float64 {
 // only min_cure, the shortest program ends when the coldest cell reaches
 // the target.
 func TestTuneOneHold(t *testing.T) {
-	res := tuneRun(t, "hold", "", TuneOptions{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=5min:120min"), Jobs: 2})
+	res := tuneRun(t, "hold", "", Options{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=5min:120min"), Jobs: 2})
 	if res.Best == nil {
 		t.Fatal("no feasible program")
 	}
@@ -180,12 +180,12 @@ func TestTuneRecommendationMeetsCriteria(t *testing.T) {
 			"schedules.oven.segments.0.ramp=5C/min:15C/min")},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			res := tuneRun(t, "three", "", TuneOptions{Program: "oven", Free: tc.free, Jobs: 2, Seed: 2})
+			res := tuneRun(t, "three", "", Options{Program: "oven", Free: tc.free, Jobs: 2, Seed: 2})
 			if res.Best == nil {
 				t.Fatal("no feasible program")
 			}
 			dir := t.TempDir()
-			if err := WriteTune(dir, res); err != nil {
+			if err := Write(dir, res); err != nil {
 				t.Fatal(err)
 			}
 			tuned, err := os.ReadFile(filepath.Join(dir, TunedFile))
@@ -217,9 +217,9 @@ func TestTuneRecommendationMeetsCriteria(t *testing.T) {
 // with spreads its cycle is no shorter and meets the required share.
 func TestTuneRobust(t *testing.T) {
 	free := mustFree(t, "schedules.oven.segments.1.hold=5min:120min")
-	plain := tuneRun(t, "hold", "", TuneOptions{Program: "oven", Free: free, Jobs: 2})
+	plain := tuneRun(t, "hold", "", Options{Program: "oven", Free: free, Jobs: 2})
 	zero := tuneRun(t, "hold", "[uncertainty]\n\"top.h\" = \"±0 %\"\n\"materials.tune-resin.cure.E1\" = \"±0 kJ/mol\"\n",
-		TuneOptions{Program: "oven", Free: free, Jobs: 2, Robust: 3})
+		Options{Program: "oven", Free: free, Jobs: 2, Robust: 3})
 	if plain.Best == nil || zero.Best == nil {
 		t.Fatal("no feasible program")
 	}
@@ -227,7 +227,7 @@ func TestTuneRobust(t *testing.T) {
 		t.Errorf("zero spreads: robust %v (%v s), plain %v (%v s)", zero.Best.Values, zero.Best.Cycle, plain.Best.Values, plain.Best.Cycle)
 	}
 	spread := tuneRun(t, "hold", "[uncertainty]\n\"top.h\" = \"±30 %\"\n\"materials.tune-resin.cure.E1\" = { spread = \"±1 kJ/mol\", distribution = \"normal\" }\nshare = 0.9\n",
-		TuneOptions{Program: "oven", Free: free, Jobs: 2, Robust: 10})
+		Options{Program: "oven", Free: free, Jobs: 2, Robust: 10})
 	if spread.Best == nil {
 		t.Fatal("robust: no feasible program")
 	}
@@ -241,7 +241,7 @@ func TestTuneRobust(t *testing.T) {
 	}
 	// The criterion values under --robust say which sample they are.
 	var out strings.Builder
-	if err := PrintTune(&out, spread); err != nil {
+	if err := Print(&out, spread); err != nil {
 		t.Fatal(err)
 	}
 	if !strings.Contains(out.String(), "each criterion's value is the one that 9 of the 10 samples meet or better") {
@@ -254,9 +254,9 @@ func TestTuneRobust(t *testing.T) {
 func TestTuneDeterministic(t *testing.T) {
 	var outs [2][2][]byte
 	for i, jobs := range []int{1, 3} {
-		res := tuneRun(t, "three", "", TuneOptions{Program: "oven", Jobs: jobs, Seed: 7})
+		res := tuneRun(t, "three", "", Options{Program: "oven", Jobs: jobs, Seed: 7})
 		dir := t.TempDir()
-		if err := WriteTune(dir, res); err != nil {
+		if err := Write(dir, res); err != nil {
 			t.Fatal(err)
 		}
 		for k, f := range []string{TuneFile, TunedFile} {
@@ -279,7 +279,7 @@ func TestTuneExplicitEnd(t *testing.T) {
 	// those 10 min.
 	text := strings.Replace(string(testkit.TuneCase(t, "hold", "")), "[time]\n", "[time]\nend = \"107.7 min\"\n", 1)
 	res, err := Tune(context.Background(), "hold.toml", []byte(text), testkit.TuneDir,
-		TuneOptions{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=5min:120min"), Jobs: 2})
+		Options{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=5min:120min"), Jobs: 2})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -288,7 +288,7 @@ func TestTuneExplicitEnd(t *testing.T) {
 		t.Errorf("end offset %v, best %+v", res.EndOffset, res.Best)
 	}
 	var b bytes.Buffer
-	PrintTune(&b, res)
+	Print(&b, res)
 	if !strings.Contains(b.String(), "set it to") {
 		t.Errorf("the printout does not say how to set time.end:\n%s", b.String())
 	}
@@ -297,18 +297,18 @@ func TestTuneExplicitEnd(t *testing.T) {
 func TestTuneErrors(t *testing.T) {
 	for _, tc := range []struct {
 		name, extra string
-		opt         TuneOptions
+		opt         Options
 		want        string
 		is          error
 	}{
-		{"no program", "", TuneOptions{}, "--program NAME", ErrTune},
-		{"unknown program", "", TuneOptions{Program: "ovne"}, `did you mean "oven"?`, ErrTune},
-		{"drives nothing", "[schedules.spare]\nstart = \"23 C\"\nsegments = [{ hold = \"1 h\" }]\n", TuneOptions{Program: "spare"}, "drives nothing", ErrTune},
-		{"free outside", "", TuneOptions{Program: "oven", Free: []Free{{Key: "top.h", From: "10 W/m^2/K", To: "20 W/m^2/K"}}}, "only values of the tuned program", ErrTune},
-		{"free unknown", "", TuneOptions{Program: "oven", Free: []Free{{Key: "schedules.oven.segments.5.hold", From: "1 h", To: "2 h"}}}, "no element", ErrTune},
-		{"free dimension", "", TuneOptions{Program: "oven", Free: []Free{{Key: "schedules.oven.segments.1.hold", From: "1 C", To: "2 C"}}}, "is a time", ErrTune},
-		{"free twice", "", TuneOptions{Program: "oven", Free: []Free{{Key: "schedules.oven.segments.1.hold", From: "1 h", To: "2 h"}, {Key: "schedules.oven.segments.1.hold", From: "1 h", To: "3 h"}}}, "the same value", ErrTune},
-		{"robust without uncertainty", "", TuneOptions{Program: "oven", Robust: 3}, "[uncertainty]", uncertain.ErrNoUncertainty},
+		{"no program", "", Options{}, "--program NAME", ErrTune},
+		{"unknown program", "", Options{Program: "ovne"}, `did you mean "oven"?`, ErrTune},
+		{"drives nothing", "[schedules.spare]\nstart = \"23 C\"\nsegments = [{ hold = \"1 h\" }]\n", Options{Program: "spare"}, "drives nothing", ErrTune},
+		{"free outside", "", Options{Program: "oven", Free: []Free{{Key: "top.h", From: "10 W/m^2/K", To: "20 W/m^2/K"}}}, "only values of the tuned program", ErrTune},
+		{"free unknown", "", Options{Program: "oven", Free: []Free{{Key: "schedules.oven.segments.5.hold", From: "1 h", To: "2 h"}}}, "no element", ErrTune},
+		{"free dimension", "", Options{Program: "oven", Free: []Free{{Key: "schedules.oven.segments.1.hold", From: "1 C", To: "2 C"}}}, "is a time", ErrTune},
+		{"free twice", "", Options{Program: "oven", Free: []Free{{Key: "schedules.oven.segments.1.hold", From: "1 h", To: "2 h"}, {Key: "schedules.oven.segments.1.hold", From: "1 h", To: "3 h"}}}, "the same value", ErrTune},
+		{"robust without uncertainty", "", Options{Program: "oven", Robust: 3}, "[uncertainty]", uncertain.ErrNoUncertainty},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := Tune(context.Background(), "hold.toml", testkit.TuneCase(t, "hold", tc.extra), testkit.TuneDir, tc.opt)
@@ -318,22 +318,22 @@ func TestTuneErrors(t *testing.T) {
 		})
 	}
 	noCrit := strings.Replace(string(testkit.TuneCase(t, "hold", "")), "[criteria]\nmin_cure = 0.9", "", 1)
-	if _, err := Tune(context.Background(), "hold.toml", []byte(noCrit), testkit.TuneDir, TuneOptions{Program: "oven"}); err == nil || !strings.Contains(err.Error(), "no [criteria]") {
+	if _, err := Tune(context.Background(), "hold.toml", []byte(noCrit), testkit.TuneDir, Options{Program: "oven"}); err == nil || !strings.Contains(err.Error(), "no [criteria]") {
 		t.Errorf("no criteria: got %v", err)
 	}
 	early := strings.Replace(string(testkit.TuneCase(t, "hold", "")), "[time]\n", "[time]\nend = \"30 min\"\n", 1)
-	if _, err := Tune(context.Background(), "hold.toml", []byte(early), testkit.TuneDir, TuneOptions{Program: "oven"}); err == nil || !strings.Contains(err.Error(), "ends before program") {
+	if _, err := Tune(context.Background(), "hold.toml", []byte(early), testkit.TuneDir, Options{Program: "oven"}); err == nil || !strings.Contains(err.Error(), "ends before program") {
 		t.Errorf("time.end before the program's end: got %v", err)
 	}
 	points := strings.Replace(string(testkit.TuneCase(t, "hold", "")), "start = \"23 C\"\nsegments = [\n  { ramp = \"10 C/min\", to = \"100 C\" },\n  { hold = \"90 min\" },\n]",
 		"points = [[\"0 min\", \"23 C\"], [\"10 min\", \"100 C\"], [\"90 min\", \"100 C\"]]", 1)
-	if _, err := Tune(context.Background(), "hold.toml", []byte(points), testkit.TuneDir, TuneOptions{Program: "oven"}); err == nil || !strings.Contains(err.Error(), "--free schedules.oven.points") {
+	if _, err := Tune(context.Background(), "hold.toml", []byte(points), testkit.TuneDir, Options{Program: "oven"}); err == nil || !strings.Contains(err.Error(), "--free schedules.oven.points") {
 		t.Errorf("points without --free: got %v", err)
 	}
 	// With --free, a program given by points can be tuned: its last time is
 	// the cycle.
 	res, err := Tune(context.Background(), "hold.toml", []byte(points), testkit.TuneDir,
-		TuneOptions{Program: "oven", Free: mustFree(t, "schedules.oven.points.2.0=20min:120min")})
+		Options{Program: "oven", Free: mustFree(t, "schedules.oven.points.2.0=20min:120min")})
 	if err != nil || res.Best == nil {
 		t.Fatalf("points with --free: %v", err)
 	}
@@ -385,9 +385,9 @@ func TestTuneDefaultRanges(t *testing.T) {
 }
 
 func TestTunePrint(t *testing.T) {
-	res := tuneRun(t, "hold", "", TuneOptions{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=5min:120min"), Jobs: 2})
+	res := tuneRun(t, "hold", "", Options{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=5min:120min"), Jobs: 2})
 	var b bytes.Buffer
-	if err := PrintTune(&b, res); err != nil {
+	if err := Print(&b, res); err != nil {
 		t.Fatal(err)
 	}
 	for _, s := range []string{"cycle time", "saving", "criterion min_cure", "limiting criterion: min_cure"} {
@@ -396,7 +396,7 @@ func TestTunePrint(t *testing.T) {
 		}
 	}
 	dir := t.TempDir()
-	if err := WriteTune(dir, res); err != nil {
+	if err := Write(dir, res); err != nil {
 		t.Fatal(err)
 	}
 	csvb, _ := os.ReadFile(filepath.Join(dir, TuneFile))
@@ -406,19 +406,19 @@ func TestTunePrint(t *testing.T) {
 		t.Errorf("tune.csv:\n%s", strings.Join(lines[:min(3, len(lines))], "\n"))
 	}
 	// No feasible program in the range: no tuned.toml, and the printout says so.
-	res = tuneRun(t, "hold", "", TuneOptions{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=1min:10min"), Jobs: 2})
+	res = tuneRun(t, "hold", "", Options{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=1min:10min"), Jobs: 2})
 	if res.Best != nil || res.Closest == nil {
 		t.Fatalf("1 to 10 min: best %+v, closest %+v", res.Best, res.Closest)
 	}
 	dir = t.TempDir()
-	if err := WriteTune(dir, res); err != nil {
+	if err := Write(dir, res); err != nil {
 		t.Fatal(err)
 	}
 	if _, err := os.Stat(filepath.Join(dir, TunedFile)); err == nil {
 		t.Errorf("tuned.toml written without a feasible program")
 	}
 	b.Reset()
-	PrintTune(&b, res)
+	Print(&b, res)
 	if !strings.Contains(b.String(), "NO PROGRAM") {
 		t.Errorf("printout:\n%s", b.String())
 	}

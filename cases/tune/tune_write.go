@@ -96,7 +96,7 @@ func tomlValue(v any) string {
 	return strconv.Quote(fmt.Sprint(v))
 }
 
-// WriteTune writes the outcome of Tune into dir, creating it if needed:
+// Write writes the outcome of Tune into dir, creating it if needed:
 // tune.csv, one row per evaluated candidate (candidate, phase, the free
 // values as they went into the case, cycle_time_s, time_end_s, for each
 // criterion of the case its value and margin — min_cure, min_cure_margin,
@@ -106,7 +106,7 @@ func tomlValue(v any) string {
 // ready to paste, headed by comments with its cycle time and margins. With
 // --robust the values and margins are those met by the required share of
 // samples. Each file is written atomically.
-func WriteTune(dir string, r *TuneResult) error {
+func Write(dir string, r *Result) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
 	}
@@ -126,7 +126,7 @@ func WriteTune(dir string, r *TuneResult) error {
 }
 
 // tunedText is the content of tuned.toml.
-func tunedText(r *TuneResult) string {
+func tunedText(r *Result) string {
 	var b strings.Builder
 	if r.Interrupted {
 		b.WriteString("# INTERRUPTED: the search was stopped (Ctrl-C or SIGTERM) before it finished.\n")
@@ -199,7 +199,7 @@ var tuneCSVNames = map[string][2]string{
 	results.CriterionMaxSpread:      {"max_spread_K", "max_spread_margin_K"},
 }
 
-func writeTuneCSV(w io.Writer, r *TuneResult) error {
+func writeTuneCSV(w io.Writer, r *Result) error {
 	h := []string{"candidate", "phase"}
 	for _, fv := range r.Free {
 		h = append(h, fv.Key)
@@ -244,12 +244,12 @@ func writeTuneCSV(w io.Writer, r *TuneResult) error {
 	return cw.Error()
 }
 
-// PrintTune writes the outcome of Tune for a terminal: the free values (the
+// Print writes the outcome of Tune for a terminal: the free values (the
 // case's and the tuned), the cycle time and the saving against the case's
 // own program, each criterion's value and margin, and the limiting
 // criterion; or, when nothing met the criteria, the candidate that came
 // closest.
-func PrintTune(w io.Writer, r *TuneResult) error {
+func Print(w io.Writer, r *Result) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	mode := "nominal case"
 	if r.Robust > 0 {
@@ -345,7 +345,7 @@ func PrintTune(w io.Writer, r *TuneResult) error {
 // robustValuesText says what a criterion's value means under --robust:
 // each criterion on its own, the value that the required number of samples
 // meet or better (the aggregate in evaluate).
-func robustValuesText(r *TuneResult) string {
+func robustValuesText(r *Result) string {
 	need := int(math.Ceil(r.Share*float64(r.Robust) - 1e-9))
 	return fmt.Sprintf("each criterion's value is the one that %d of the %d samples meet or better (taken criterion by criterion)", need, r.Robust)
 }

@@ -22,7 +22,7 @@ type tuner struct {
 	v       *cases.CaseVariant
 	prog    string
 	vars    []FreeValue
-	res     *TuneResult
+	res     *Result
 	crit    []Margin // names and limits in summary units, in order
 	limitSI []float64
 	endSet  bool
@@ -32,7 +32,7 @@ type tuner struct {
 	pts     [][]float64 // robust samples, nil without Robust
 	share   float64
 	need    int // samples that must meet the criteria
-	opt     TuneOptions
+	opt     Options
 	sem     chan struct{}
 	ctx     context.Context
 
@@ -49,7 +49,7 @@ type tuneEntry struct {
 	c    *Candidate
 }
 
-func newTuner(name string, data []byte, dir string, opt TuneOptions) (*tuner, error) {
+func newTuner(name string, data []byte, dir string, opt Options) (*tuner, error) {
 	v, c, err := cases.NewCaseVariant(name, data, dir)
 	if err != nil {
 		return nil, err
@@ -104,7 +104,7 @@ func newTuner(name string, data []byte, dir string, opt TuneOptions) (*tuner, er
 		return nil, err
 	}
 	t.sem = make(chan struct{}, t.opt.Jobs)
-	t.res = &TuneResult{Program: opt.Program, File: name, Free: t.vars, Robust: opt.Robust, Share: t.share,
+	t.res = &Result{Program: opt.Program, File: name, Free: t.vars, Robust: opt.Robust, Share: t.share,
 		Seed: t.opt.Seed, EndOffset: math.NaN()}
 	if t.endSet {
 		t.res.EndOffset = t.offset
@@ -138,7 +138,7 @@ func (t *tuner) criteria(c *cases.Case) error {
 }
 
 // options checks the counts of opt and fills in their defaults.
-func (t *tuner) options(opt TuneOptions) error {
+func (t *tuner) options(opt Options) error {
 	if opt.Jobs < 0 {
 		return tuneFail("-j %d: want at least 1 job", opt.Jobs)
 	}
@@ -162,7 +162,7 @@ func (t *tuner) options(opt TuneOptions) error {
 
 // robust draws the sample points of --robust from [uncertainty] and sets how
 // many runs of a candidate must meet the criteria.
-func (t *tuner) robust(name string, opt TuneOptions) error {
+func (t *tuner) robust(name string, opt Options) error {
 	t.share = 1
 	if opt.Robust > 0 {
 		unc, err := cases.ReadUncertainty(t.v.Name, t.v.Text, t.v.Doc)

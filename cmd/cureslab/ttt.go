@@ -52,7 +52,7 @@ cureslab ttt potting.toml --material potting-resin-A --plot ttt.html`,
 			if *material == "" {
 				return e.usageError("--material NAME is required")
 			}
-			var opt ttt.TTTOptions
+			var opt ttt.Options
 			var err error
 			if opt.From, err = flagTemperature("from", *from); err != nil {
 				return e.usageError("%v", err)
@@ -89,16 +89,16 @@ cureslab ttt potting.toml --material potting-resin-A --plot ttt.html`,
 			if err != nil {
 				return e.loadError(err)
 			}
-			t, err := ttt.TTT(c, *material, opt)
+			t, err := ttt.Tabulate(c, *material, opt)
 			if err != nil {
 				fmt.Fprintln(e.stderr, err)
 				return exitUsage
 			}
-			if err := ttt.WriteTTTFile(path, t); err != nil {
+			if err := ttt.WriteFile(path, t); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab ttt: %v\n", err)
 				return exitUsage
 			}
-			if err := ttt.PrintTTT(e.stdout, t); err != nil {
+			if err := ttt.Print(e.stdout, t); err != nil {
 				fmt.Fprintf(e.stderr, "cureslab ttt: %v\n", err)
 				return exitUsage
 			}

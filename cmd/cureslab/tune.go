@@ -74,7 +74,7 @@ cureslab tune potting.toml --program oven --robust 20 --seed 7`,
 			if *seed == 0 {
 				return e.usageError("--seed wants a number of at least 1")
 			}
-			opt := tune.TuneOptions{Program: *program, Robust: *robust, Seed: *seed, Jobs: *jobs}
+			opt := tune.Options{Program: *program, Robust: *robust, Seed: *seed, Jobs: *jobs}
 			for _, spec := range *free {
 				f, err := tune.ParseFree(spec)
 				if err != nil {
@@ -112,7 +112,7 @@ cureslab tune potting.toml --program oven --robust 20 --seed 7`,
 				return exitFailure
 			}
 			res.Interrupted = err != nil
-			if werr := tune.WriteTune(dir, res); werr != nil {
+			if werr := tune.Write(dir, res); werr != nil {
 				fmt.Fprintf(e.stderr, "cureslab tune: %v\n", werr)
 				return exitUsage
 			}
@@ -127,7 +127,7 @@ cureslab tune potting.toml --program oven --robust 20 --seed 7`,
 				fmt.Fprintf(e.stderr, "cureslab tune: interrupted\n")
 				return exitInterrupted
 			}
-			tune.PrintTune(e.stdout, res)
+			tune.Print(e.stdout, res)
 			if res.Best == nil {
 				fmt.Fprintf(e.stdout, "candidates in %s\n", filepath.Join(dir, tune.TuneFile))
 				return exitCriteria
