@@ -6,7 +6,7 @@ package cases_test
 //	FuzzParseResolved   case file (TOML + units + validation) end to end
 //	FuzzUnitsRoundTrip  units.Parse against formatting in SI and other units
 //	FuzzScheduleCSV     the schedule-log CSV reader, through cases.Parse
-//	FuzzScanCSV         the DSC scan reader (ParseScan), with a WriteScan round trip
+//	FuzzScanCSV         the DSC scan reader of package dscfile, with a write round trip
 //	FuzzCaseValues      the values of a valid case: ranges, and the solver behind them
 //
 // `go test` runs the seeds (the files below testdata/good, testdata/bad,

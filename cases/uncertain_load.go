@@ -19,9 +19,9 @@ const (
 	DistNormal  = "normal"  // Gaussian, the spread is 2σ
 )
 
-// DefaultShare is the share of samples that must meet the criteria when
+// defaultShare is the share of samples that must meet the criteria when
 // [uncertainty] gives no share.
-const DefaultShare = 0.95
+const defaultShare = 0.95
 
 var (
 	uncertaintyEntryKeys = []string{"spread", "distribution"}
@@ -33,7 +33,7 @@ var (
 // meet the criteria.
 type Uncertainty struct {
 	Inputs []UncertainInput // in the order of the case file
-	Share  float64          // in (0, 1]; DefaultShare when not given
+	Share  float64          // in (0, 1]; defaultShare when not given
 }
 
 // UncertainInput is one uncertain value of a case: the value at Key (a key
@@ -73,7 +73,7 @@ func (l *loader) uncertaintySection(root *table) *Uncertainty {
 		return nil
 	}
 	before := len(l.errs)
-	u := &Uncertainty{Share: DefaultShare}
+	u := &Uncertainty{Share: defaultShare}
 	type placed struct {
 		in UncertainInput
 		at pos

@@ -290,7 +290,7 @@ func outputTimes(end, every float64) []float64 {
 	return append(times, end)
 }
 
-// probes reads [output] probes: depths in [0, total], at most MaxProbes;
+// probes reads [output] probes: depths in [0, total], at most maxProbes;
 // it returns the key path of each depth returned too.
 func (l *loader) probes(root *table, total float64) ([]float64, []string) {
 	t := l.sub(root, "output", outputKeys, nil)
@@ -301,8 +301,8 @@ func (l *loader) probes(root *table, total float64) ([]float64, []string) {
 	if !ok {
 		return nil, nil
 	}
-	if len(arr) > MaxProbes {
-		l.atValue("output.probes", ErrRange, "%d probes: at most %d are allowed (each adds two columns to probes.csv and a curve to the report)", len(arr), MaxProbes).Hint =
+	if len(arr) > maxProbes {
+		l.atValue("output.probes", ErrRange, "%d probes: at most %d are allowed (each adds two columns to probes.csv and a curve to the report)", len(arr), maxProbes).Hint =
 			"keep the depths you will read; fields.csv holds every cell at every output time"
 		return nil, nil
 	}

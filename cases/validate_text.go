@@ -7,9 +7,9 @@ import (
 	"cureslab/cases/limits"
 )
 
-// MaxProbes is the most probes a case may list in [output] probes: each
+// maxProbes is the most probes a case may list in [output] probes: each
 // adds two columns to probes.csv and a curve to the report.
-const MaxProbes = 1000
+const maxProbes = 1000
 
 // checkTexts refuses, anywhere in the document v at key path path, a
 // string value, or the name of a material or a schedule (the keys the user

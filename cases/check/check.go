@@ -70,13 +70,13 @@ func ScopeOf(c *cases.Case) CautionScope {
 	return sc
 }
 
-// GelPointDefaultWords is how check and the materials list show a gel point
+// gelPointDefaultWords is how check and the materials list show a gel point
 // that the case did not give.
-const GelPointDefaultWords = "0.577 (default: Flory–Stockmayer, difunctional epoxy + tetrafunctional amine; set gel_point for other chemistries)"
+const gelPointDefaultWords = "0.577 (default: Flory–Stockmayer, difunctional epoxy + tetrafunctional amine; set gel_point for other chemistries)"
 
-// MaxNeighbourRatio is the size ratio of neighbouring cells above which
+// maxNeighbourRatio is the size ratio of neighbouring cells above which
 // Check suggests grading the mesh with [mesh] growth.
-const MaxNeighbourRatio = 5
+const maxNeighbourRatio = 5
 
 // Check writes a plain-text account of c for a reader checking a case before
 // a run: the resolved stack (materials and where they come from, cells and
@@ -224,7 +224,7 @@ func DescribeMaterial(m *physics.Material) []string {
 		lines = append(lines, "cures: "+chkKinetics(cu.Model))
 		gel := num.G(cu.GelPoint)
 		if cu.GelPoint == 0 || cu.GelPointDefaulted {
-			gel = GelPointDefaultWords
+			gel = gelPointDefaultWords
 		}
 		lines = append(lines, fmt.Sprintf("total heat %s J/g, resin fraction %s, gel point %s",
 			num.G(cu.TotalHeat/1e3), num.G(cu.ResinFraction), gel))
@@ -491,15 +491,15 @@ func chkCuring(c *cases.Case) bool {
 	return false
 }
 
-// Far looser than the defaults: step tolerances LooseTolerance times the
-// defaults or more, cells LooseCell times DefaultMaxCell or wider in a layer
-// that conducts poorly (below LooseConductivity; heat crosses a metal layer
+// Far looser than the defaults: step tolerances looseTolerance times the
+// defaults or more, cells looseCell times DefaultMaxCell or wider in a layer
+// that conducts poorly (below looseConductivity; heat crosses a metal layer
 // so fast that coarse cells there cost little). The scheme's spatial error
-// grows as the square of the cell size, so LooseCell is a sixteenfold error.
+// grows as the square of the cell size, so looseCell is a sixteenfold error.
 const (
-	LooseTolerance    = 10
-	LooseCell         = 4
-	LooseConductivity = 5.0 // W/(m·K)
+	looseTolerance    = 10
+	looseCell         = 4
+	looseConductivity = 5.0 // W/(m·K)
 )
 
 // looseWarnings warns of step tolerances and cells far looser than the
@@ -507,11 +507,11 @@ const (
 func looseWarnings(c *cases.Case) []string {
 	pr := c.Problem
 	var warn []string
-	if tt := pr.TemperatureTolerance; tt >= LooseTolerance*solver.DefaultTemperatureTolerance {
+	if tt := pr.TemperatureTolerance; tt >= looseTolerance*solver.DefaultTemperatureTolerance {
 		warn = append(warn, fmt.Sprintf("[time] temperature_tolerance %s K is %s times the default %s K: each step may be that far off; run with --verify to see what it costs the results.",
 			num.G(tt), chkG3(tt/solver.DefaultTemperatureTolerance), num.G(solver.DefaultTemperatureTolerance)))
 	}
-	if ct := pr.CureTolerance; ct >= LooseTolerance*solver.DefaultCureTolerance {
+	if ct := pr.CureTolerance; ct >= looseTolerance*solver.DefaultCureTolerance {
 		warn = append(warn, fmt.Sprintf("[time] cure_tolerance %s is %s times the default %s: each step may be that far off; run with --verify to see what it costs the results.",
 			num.G(ct), chkG3(ct/solver.DefaultCureTolerance), num.G(solver.DefaultCureTolerance)))
 	}
@@ -526,7 +526,7 @@ func looseWarnings(c *cases.Case) []string {
 		for i := m.First[j]; i < m.First[j+1]; i++ {
 			wide = max(wide, m.Widths[i])
 		}
-		if k < LooseConductivity && wide >= LooseCell*mesh.DefaultMaxCell*(1-1e-9) {
+		if k < looseConductivity && wide >= looseCell*mesh.DefaultMaxCell*(1-1e-9) {
 			warn = append(warn, fmt.Sprintf("layer %s: cells up to %s mm, %s times the default %s mm: peaks and cure fronts in it are under-resolved (the spatial error grows with the square of the cell size, and --verify does not refine the mesh); use the default [mesh] max_cell or more cells.",
 				l.Name, chkG3(wide*1e3), chkG3(wide/mesh.DefaultMaxCell), num.G(mesh.DefaultMaxCell*1e3)))
 		}
@@ -535,14 +535,14 @@ func looseWarnings(c *cases.Case) []string {
 }
 
 // meshWarnings returns a warning when neighbouring cells differ in size by
-// more than MaxNeighbourRatio.
+// more than maxNeighbourRatio.
 func meshWarnings(c *cases.Case) []string {
 	m := c.Problem.Mesh
 	worst, at, count := 0.0, 0, 0
 	for i := 0; i+1 < m.Cells(); i++ {
 		a, b := m.Widths[i], m.Widths[i+1]
 		r := max(a, b) / min(a, b)
-		if r > MaxNeighbourRatio {
+		if r > maxNeighbourRatio {
 			count++
 			if r > worst {
 				worst, at = r, i

@@ -377,9 +377,9 @@ func chkRunaway(p *textout.Printer, c *cases.Case, e Estimate) []string {
 	case ratio >= 1:
 		return []string{fmt.Sprintf("layer %s: the Frank-Kamenetskii delta %s at the %s C hold exceeds its critical %s for these faces (%.0f %%): no steady state exists while the resin reacts at that rate: expect a runaway exotherm unless the resin runs out first%s%s. Lower the hold, cure thinner, or cool the faces better, and keep within the supplier's limits.",
 			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), chkG3(rs.Critical), 100*ratio, left, caveat)}
-	case ratio >= RunawayCaution:
+	case ratio >= runawayCaution:
 		return []string{fmt.Sprintf("layer %s: the Frank-Kamenetskii delta %s at the %s C hold is %.0f %% of its critical %s for these faces (caution from %.0f %%): close to thermal runaway%s%s; a thicker layer, a hotter hold or weaker cooling would tip it over.",
-			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), 100*ratio, chkG3(rs.Critical), 100*RunawayCaution, left, caveat)}
+			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), 100*ratio, chkG3(rs.Critical), 100*runawayCaution, left, caveat)}
 	}
 	return nil
 }

@@ -46,8 +46,8 @@ type Runaway struct {
 	ConductionTime            float64 // ℓ²/a with a = k/(ρ c_p) at T0 and Cure, s
 }
 
-// RunawayCaution is the fraction of δ_c from which check warns.
-const RunawayCaution = 0.8
+// runawayCaution is the fraction of δ_c from which check warns.
+const runawayCaution = 0.8
 
 // hottestProgram returns the driving program that reaches the highest
 // temperature (a convective face's air, a fixed face's set temperature, the

@@ -18,23 +18,23 @@ import (
 // ErrScan is the sentinel of every problem in a DSC scan file.
 var ErrScan = errors.New("bad DSC scan")
 
-// ScanHeader is the header row of a DSC scan file (README, Case file reference): time in s,
+// scanColumns is the header row of a DSC scan file (README, Case file reference): time in s,
 // sample temperature in °C, heat flow in W/g, exothermic positive.
-var ScanHeader = []string{"time_s", "temperature_C", "heat_flow_W_per_g"}
+var scanColumns = []string{"time_s", "temperature_C", "heat_flow_W_per_g"}
 
-// ReadScan reads the DSC scan file at path (see ParseScan).
+// ReadScan reads the DSC scan file at path (see parseScan).
 func ReadScan(path string) (*dsc.Scan, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {
 		return nil, cases.ErrorList{{File: path, Err: cases.Reason(ErrScan, err, fmt.Sprintf("cannot read the scan: %v", err))}}
 	}
-	return ParseScan(path, data)
+	return parseScan(path, data)
 }
 
-// ParseScan reads a DSC scan given as CSV text; name is the file name used
+// parseScan reads a DSC scan given as CSV text; name is the file name used
 // in messages and as the scan's name.
 //
-// Format: a header row naming the three columns of ScanHeader, in any
+// Format: a header row naming the three columns of scanColumns, in any
 // order and nothing else, then one row per sample; lines starting with #
 // are comments; a UTF-8 byte-order mark is skipped. Values are converted to
 // SI: °C + 273.15 → K, W/g × 1000 → W/kg.
@@ -45,7 +45,7 @@ func ReadScan(path string) (*dsc.Scan, error) {
 // increase, a temperature below absolute zero, fewer than dsc.MinPoints
 // rows. The error is an ErrorList of *Error wrapping ErrScan.
 // Cost: linear in the size of the file.
-func ParseScan(name string, data []byte) (*dsc.Scan, error) {
+func parseScan(name string, data []byte) (*dsc.Scan, error) {
 	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
 	var errs cases.ErrorList
 	n := 0
@@ -82,13 +82,13 @@ func ParseScan(name string, data []byte) (*dsc.Scan, error) {
 			}
 			continue
 		}
-		if len(rec) != len(ScanHeader) {
-			fail(line, 1, "", nil, "a row has %d fields (%s), this one has %d", len(ScanHeader), strings.Join(headerOrder(col), ","), len(rec))
+		if len(rec) != len(scanColumns) {
+			fail(line, 1, "", nil, "a row has %d fields (%s), this one has %d", len(scanColumns), strings.Join(headerOrder(col), ","), len(rec))
 			continue
 		}
 		var v [3]float64
 		good := true
-		for k, key := range ScanHeader {
+		for k, key := range scanColumns {
 			i := col[key]
 			x, err := strconv.ParseFloat(strings.TrimSpace(rec[i]), 64)
 			if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
@@ -116,7 +116,7 @@ func ParseScan(name string, data []byte) (*dsc.Scan, error) {
 		}
 	}
 	if n == 0 && len(col) == 0 {
-		fail(0, 0, "", nil, "the file is empty: a scan starts with the header %s", strings.Join(ScanHeader, ","))
+		fail(0, 0, "", nil, "the file is empty: a scan starts with the header %s", strings.Join(scanColumns, ","))
 	}
 	if n == 0 && len(col) > 0 && len(s.Time) < dsc.MinPoints {
 		fail(lastLine, 0, "", nil, "the scan has %d data rows; at least %d are needed", len(s.Time), dsc.MinPoints)
@@ -133,7 +133,7 @@ func ParseScan(name string, data []byte) (*dsc.Scan, error) {
 // scanHeader reads the header row rec into col, reporting problems through
 // fail (with the column of the field); false if the header is unusable.
 func scanHeader(rec []string, col map[string]int, fail func(c int, format string, a ...any)) bool {
-	want := strings.Join(ScanHeader, ",")
+	want := strings.Join(scanColumns, ",")
 	if len(rec) > 0 {
 		if _, err := strconv.ParseFloat(strings.TrimSpace(rec[0]), 64); err == nil {
 			fail(1, "the first line must be the header %s, not data", want)
@@ -144,7 +144,7 @@ func scanHeader(rec []string, col map[string]int, fail func(c int, format string
 	for i, f := range rec {
 		f = strings.TrimSpace(f)
 		known := false
-		for _, h := range ScanHeader {
+		for _, h := range scanColumns {
 			if f == h {
 				known = true
 			}
@@ -152,7 +152,7 @@ func scanHeader(rec []string, col map[string]int, fail func(c int, format string
 		switch _, dup := col[f]; {
 		case !known:
 			msg := fmt.Sprintf("unknown column %q", f)
-			if g := cases.Suggest(f, ScanHeader); g != "" {
+			if g := cases.Suggest(f, scanColumns); g != "" {
 				msg += fmt.Sprintf("; did you mean %q?", g)
 			}
 			fail(i+1, "%s (the columns are %s)", msg, want)
@@ -168,7 +168,7 @@ func scanHeader(rec []string, col map[string]int, fail func(c int, format string
 		return false
 	}
 	var missing []string
-	for _, h := range ScanHeader {
+	for _, h := range scanColumns {
 		if _, ok := col[h]; !ok {
 			missing = append(missing, h)
 		}
@@ -191,18 +191,18 @@ func headerOrder(col map[string]int) []string {
 	return out
 }
 
-// WriteScan writes s as a DSC scan file (the format ParseScan reads):
+// writeScan writes s as a DSC scan file (the format parseScan reads):
 // comment lines first (each line of comment prefixed with "# "), then the
 // header and the rows, time in s to 1e-3, temperature in °C to 1e-4 and
 // heat flow in W/g to 1e-6.
-func WriteScan(w io.Writer, s *dsc.Scan, comment string) error {
+func writeScan(w io.Writer, s *dsc.Scan, comment string) error {
 	var b strings.Builder
 	for _, line := range strings.Split(strings.TrimRight(comment, "\n"), "\n") {
 		if comment != "" {
 			b.WriteString("# " + line + "\n")
 		}
 	}
-	b.WriteString(strings.Join(ScanHeader, ",") + "\n")
+	b.WriteString(strings.Join(scanColumns, ",") + "\n")
 	for i := range s.Time {
 		b.WriteString(strconv.FormatFloat(num.Round(s.Time[i], 3), 'f', -1, 64))
 		b.WriteByte(',')

@@ -18,7 +18,7 @@ import (
 // Ozawa–Flynn–Wall activation energies with their standard errors, the
 // Friedman table (with the Ozawa–Flynn–Wall value at the same α), the fitted
 // parameters with standard errors and the fit quality, the warnings, and
-// the ready-to-paste [materials.NAME.cure] block (CureBlock). Numbers are
+// the ready-to-paste [materials.NAME.cure] block (cureBlock). Numbers are
 // rounded for reading; the block keeps four significant digits.
 func PrintFit(w io.Writer, an *dsc.Analysis, name string) error {
 	p := textout.NewPrinter(w)
@@ -97,7 +97,7 @@ func PrintFit(w io.Writer, an *dsc.Analysis, name string) error {
 			p.Printf("  - %s\n", wn)
 		}
 	}
-	if b := CureBlock(an, name); b != "" {
+	if b := cureBlock(an, name); b != "" {
 		p.Printf("\nReady to paste into a case file (-o writes it to a file):\n\n%s", b)
 	}
 	return p.Err()
@@ -174,12 +174,12 @@ func perCurveRMS(an *dsc.Analysis) string {
 	return strings.Join(per, ", ")
 }
 
-// CureBlock returns the fitted [materials.NAME.cure] block (with its
+// cureBlock returns the fitted [materials.NAME.cure] block (with its
 // [materials.NAME.cure.diffusion] section when the diffusion factor was
 // fitted) in the units a case file accepts, with four significant digits
 // and comments that say where it comes from and what DSC does not measure;
 // "" when no model was fitted.
-func CureBlock(an *dsc.Analysis, name string) string {
+func cureBlock(an *dsc.Analysis, name string) string {
 	if an.Fit == nil {
 		return ""
 	}
@@ -349,10 +349,10 @@ func HeatLabel(c *dsc.Curve) string {
 	return s
 }
 
-// WriteCureBlock writes CureBlock(an, name) to the file path, atomically
+// WriteCureBlock writes cureBlock(an, name) to the file path, atomically
 // (a temporary file renamed into place).
 func WriteCureBlock(path string, an *dsc.Analysis, name string) error {
-	block := CureBlock(an, name)
+	block := cureBlock(an, name)
 	return textout.WriteFileAtomic(filepath.Dir(path), filepath.Base(path), func(w io.Writer) error {
 		_, err := io.WriteString(w, block)
 		return err

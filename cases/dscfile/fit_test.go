@@ -39,7 +39,7 @@ func TestDSCTestdata(t *testing.T) {
 			t.Fatal(err)
 		}
 		var buf bytes.Buffer
-		if err := WriteScan(&buf, s, demoComment(spec)); err != nil {
+		if err := writeScan(&buf, s, demoComment(spec)); err != nil {
 			t.Fatal(err)
 		}
 		path := filepath.Join(dscDir, spec.Name)
@@ -53,7 +53,7 @@ func TestDSCTestdata(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%v (go test ./cases -run TestDSCTestdata -update re-creates it)", err)
 		}
-		want, err := ParseScan(path, buf.Bytes())
+		want, err := parseScan(path, buf.Bytes())
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -91,7 +91,7 @@ func TestParseScanErrors(t *testing.T) {
 	if _, err := ReadScan(filepath.Join(bad, "absent.csv")); err == nil || !strings.Contains(err.Error(), "cannot read the scan") {
 		t.Errorf("absent file: %v", err)
 	}
-	if _, err := ParseScan("empty.csv", nil); err == nil || !strings.Contains(err.Error(), "the file is empty") {
+	if _, err := parseScan("empty.csv", nil); err == nil || !strings.Contains(err.Error(), "the file is empty") {
 		t.Errorf("empty file: %v", err)
 	}
 	// Columns in another order, a BOM and blank-padded fields are fine.
@@ -100,7 +100,7 @@ func TestParseScanErrors(t *testing.T) {
 	for i := range 30 {
 		b.WriteString(strconv.Itoa(i) + "e-3, " + strconv.Itoa(i) + ", " + strconv.Itoa(20+i) + "\n")
 	}
-	s, err := ParseScan("reordered.csv", []byte(b.String()))
+	s, err := parseScan("reordered.csv", []byte(b.String()))
 	if err != nil || len(s.Time) != 30 || s.Time[5] != 5 || math.Abs(s.Temp[5]-298.15) > 1e-12 || math.Abs(s.HeatFlow[5]-5) > 1e-12 {
 		t.Errorf("reordered columns: %v, %+v", err, s)
 	}
@@ -113,13 +113,13 @@ func TestWriteScanRoundTrip(t *testing.T) {
 		t.Fatal(err)
 	}
 	var buf bytes.Buffer
-	if err := WriteScan(&buf, s, "line one\nline two"); err != nil {
+	if err := writeScan(&buf, s, "line one\nline two"); err != nil {
 		t.Fatal(err)
 	}
 	if !strings.HasPrefix(buf.String(), "# line one\n# line two\ntime_s,temperature_C,heat_flow_W_per_g\n") {
 		t.Errorf("header:\n%.200s", buf.String())
 	}
-	back, err := ParseScan("x.csv", buf.Bytes())
+	back, err := parseScan("x.csv", buf.Bytes())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -153,7 +153,7 @@ func TestCureBlockLoads(t *testing.T) {
 	if err != nil || an.Fit == nil {
 		t.Fatalf("%v %s", err, an.FitRefused)
 	}
-	block := CureBlock(an, "dsc-demo-resin")
+	block := cureBlock(an, "dsc-demo-resin")
 	c, err := cases.Parse("block.toml", []byte(blockCase("dsc-demo-resin", block)), "")
 	if err != nil {
 		t.Fatalf("the fitted block does not load: %v\n%s", err, block)
@@ -217,7 +217,7 @@ func FuzzParseScan(f *testing.F) {
 	}
 	f.Add([]byte(small.String()))
 	f.Fuzz(func(t *testing.T, data []byte) {
-		s, err := ParseScan("fuzz.csv", data)
+		s, err := parseScan("fuzz.csv", data)
 		if err != nil {
 			return
 		}
@@ -236,7 +236,7 @@ func TestIsoconversionalBlockLoads(t *testing.T) {
 	if err != nil || an.Fit == nil {
 		t.Fatalf("%v %s", err, an.FitRefused)
 	}
-	block := CureBlock(an, "iso-resin")
+	block := cureBlock(an, "iso-resin")
 	c, err := cases.Parse("block.toml", []byte(blockCase("iso-resin", block)), "")
 	if err != nil {
 		t.Fatalf("the printed table does not load: %v\n%s", err, block)

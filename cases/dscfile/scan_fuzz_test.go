@@ -46,7 +46,7 @@ func fzScanOracle(data []byte) (tm, temp, flow []float64, badLine int, simple bo
 				f = strings.TrimSpace(f)
 				_, dup := col[f]
 				known := false
-				for _, h := range ScanHeader {
+				for _, h := range scanColumns {
 					known = known || f == h
 				}
 				if !known || dup {
@@ -54,17 +54,17 @@ func fzScanOracle(data []byte) (tm, temp, flow []float64, badLine int, simple bo
 				}
 				col[f] = k
 			}
-			if len(col) != len(ScanHeader) {
+			if len(col) != len(scanColumns) {
 				return nil, nil, nil, i + 1, true
 			}
 			header = false
 			continue
 		}
-		if len(fields) != len(ScanHeader) {
+		if len(fields) != len(scanColumns) {
 			return nil, nil, nil, i + 1, true
 		}
 		var v [3]float64
-		for k, h := range ScanHeader {
+		for k, h := range scanColumns {
 			x, err := strconv.ParseFloat(strings.TrimSpace(fields[col[h]]), 64)
 			if err != nil || math.IsNaN(x) || math.IsInf(x, 0) {
 				return nil, nil, nil, i + 1, true
@@ -87,7 +87,7 @@ func fzScanOracle(data []byte) (tm, temp, flow []float64, badLine int, simple bo
 	return tm, temp, flow, 0, true
 }
 
-// FuzzScanCSV feeds any bytes to ParseScan as a DSC scan file.
+// FuzzScanCSV feeds any bytes to parseScan as a DSC scan file.
 // Properties: no panic; a rejection is an ErrorList of *Error wrapping
 // ErrScan in the scan's file, each on a line of it (≥ 1) except the error
 // of an empty file and the "more errors" line; an accepted scan has at
@@ -95,8 +95,8 @@ func fzScanOracle(data []byte) (tm, temp, flow []float64, badLine int, simple bo
 // and positive temperatures; for the texts fzScanOracle understands, the
 // reader accepts exactly when the oracle does, reports its first problem
 // on the same line and returns the same samples; and an accepted scan
-// written back by WriteScan reads back to the same samples within
-// WriteScan's rounding (when its times are more than 1 ms apart, so that
+// written back by writeScan reads back to the same samples within
+// writeScan's rounding (when its times are more than 1 ms apart, so that
 // rounding keeps them increasing, and its temperatures above 1 K).
 func FuzzScanCSV(f *testing.F) {
 	var b strings.Builder
@@ -127,7 +127,7 @@ func FuzzScanCSV(f *testing.F) {
 	fzSeedFiles(f, "../../testdata/*/*.csv")
 	f.Fuzz(func(t *testing.T, data []byte) {
 		defer fzWatchdog(fzHangLimit, data)()
-		s, err := ParseScan("scan.csv", data)
+		s, err := parseScan("scan.csv", data)
 		tm, temp, flow, bad, simple := fzScanOracle(data)
 		if err != nil {
 			var list cases.ErrorList
@@ -175,7 +175,7 @@ func FuzzScanCSV(f *testing.F) {
 				t.Fatalf("samples differ from the oracle's")
 			}
 		}
-		// Round trip through WriteScan.
+		// Round trip through writeScan.
 		minT := math.Inf(1)
 		for _, T := range s.Temp {
 			minT = min(minT, T)
@@ -184,19 +184,19 @@ func FuzzScanCSV(f *testing.F) {
 			return
 		}
 		var buf bytes.Buffer
-		if err := WriteScan(&buf, s, "round trip\nof a fuzzed scan"); err != nil {
+		if err := writeScan(&buf, s, "round trip\nof a fuzzed scan"); err != nil {
 			t.Fatal(err)
 		}
-		s2, err := ParseScan("scan2.csv", buf.Bytes())
+		s2, err := parseScan("scan2.csv", buf.Bytes())
 		if err != nil {
-			t.Fatalf("WriteScan output does not read back: %v\n%s", err, buf.String())
+			t.Fatalf("writeScan output does not read back: %v\n%s", err, buf.String())
 		}
 		if len(s2.Time) != n {
 			t.Fatalf("%d samples read back, %d written", len(s2.Time), n)
 		}
 		ulps := func(x float64) float64 { return 8 * math.Abs(x) * 0x1p-52 }
 		for i := range n {
-			// WriteScan rounds time to 1e-3 s, temperature to 1e-4 °C and heat
+			// writeScan rounds time to 1e-3 s, temperature to 1e-4 °C and heat
 			// flow to 1e-6 W/g (its doc comment): half of each, plus round-off.
 			if math.Abs(s2.Time[i]-s.Time[i]) > 5e-4+ulps(s.Time[i]) ||
 				math.Abs(s2.Temp[i]-s.Temp[i]) > 5e-5+ulps(max(s.Temp[i], 273.15)) ||

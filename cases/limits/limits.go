@@ -90,9 +90,9 @@ func ReadFile(ctx context.Context, path string, max int64) ([]byte, error) {
 	}
 }
 
-// CheckFile returns why the file at path cannot be read as an input of at
+// checkFile returns why the file at path cannot be read as an input of at
 // most max bytes (see ReadFile), or nil; it does not open the file.
-func CheckFile(path string, max int64) error {
+func checkFile(path string, max int64) error {
 	fi, err := os.Stat(path)
 	if err != nil {
 		return err

@@ -14,7 +14,7 @@
 // or is stopped before Commit calls Abort, which removes what it staged;
 // the previous set stays as it was.
 //
-// The manifest (ManifestFile, a small JSON file) names the kind and the
+// The manifest (manifestFile, a small JSON file) names the kind and the
 // files of the set. Its presence in place marks a commit as done. Open
 // finishes a commit that was cut short (the process killed between two
 // renames): if the new manifest is in place the new set is kept and the
@@ -25,9 +25,9 @@
 // A directory holding another kind of output (a sweep's summary.csv and
 // sweep.json where a run's files would go, or the reverse) is refused with
 // a *KindError that names what is there. Directories written before the
-// manifest existed are recognised by their files (see Kinds).
+// manifest existed are recognised by their files (see Register).
 //
-// One writer at a time: Open takes a lock file (LockFile) holding the
+// One writer at a time: Open takes a lock file (lockFile) holding the
 // process id and refuses (*BusyError) while another live process holds it;
 // a lock left by a process that no longer runs is taken over.
 //
@@ -57,8 +57,8 @@ import (
 
 // File names this package uses inside an output directory.
 const (
-	ManifestFile = ".cureslab-set.json"
-	LockFile     = ".cureslab.lock"
+	manifestFile = ".cureslab-set.json"
+	lockFile     = ".cureslab.lock"
 	stagingExt   = ".staging"
 	asideExt     = ".previous"
 )
@@ -73,15 +73,15 @@ type Kind struct {
 	Names []string // every name the tool writes for this kind
 }
 
-// Kinds are the kinds of output set the tool writes; Open recognises an
+// registered holds the kinds of output set the tool writes; Open recognises an
 // older directory without a manifest by the first kind whose Marks are all
 // present.
-var Kinds []Kind
+var registered []Kind
 
-// Register adds k to Kinds (at package initialisation of the writers) and
+// Register adds k to registered (at package initialisation of the writers) and
 // returns it.
 func Register(k Kind) Kind {
-	Kinds = append(Kinds, k)
+	registered = append(registered, k)
 	return k
 }
 
@@ -106,10 +106,10 @@ type BusyError struct {
 
 func (e *BusyError) Error() string {
 	return fmt.Sprintf("the output directory %s is being written by another cureslab (process %d, lock file %s): wait for it to finish, or give another directory",
-		e.Dir, e.PID, LockFile)
+		e.Dir, e.PID, lockFile)
 }
 
-// manifest is the content of ManifestFile.
+// manifest is the content of manifestFile.
 type manifest struct {
 	Kind  string   `json:"kind"`
 	Files []string `json:"files"`
@@ -161,7 +161,7 @@ func (s *Set) prepare() error {
 	if m != nil {
 		if m.Kind != s.kind.Name {
 			names := m.Files
-			for _, k := range Kinds {
+			for _, k := range registered {
 				if k.Name == m.Kind {
 					names = union(k.Marks, m.Files)
 				}
@@ -172,7 +172,7 @@ func (s *Set) prepare() error {
 		return nil
 	}
 	// No manifest: an older directory, recognised by its files.
-	for _, k := range Kinds {
+	for _, k := range registered {
 		if k.Name == s.kind.Name || len(k.Marks) == 0 {
 			continue
 		}
@@ -208,7 +208,7 @@ func present(dir string, names []string) []string {
 }
 
 func readManifest(dir string) (*manifest, error) {
-	b, err := os.ReadFile(filepath.Join(dir, ManifestFile))
+	b, err := os.ReadFile(filepath.Join(dir, manifestFile))
 	if errors.Is(err, os.ErrNotExist) {
 		return nil, nil
 	}
@@ -217,11 +217,11 @@ func readManifest(dir string) (*manifest, error) {
 	}
 	var m manifest
 	if err := json.Unmarshal(b, &m); err != nil || m.Kind == "" {
-		return nil, fmt.Errorf("%s: the record of the files in this directory is damaged: remove it and the files it named, or give another directory", filepath.Join(dir, ManifestFile))
+		return nil, fmt.Errorf("%s: the record of the files in this directory is damaged: remove it and the files it named, or give another directory", filepath.Join(dir, manifestFile))
 	}
 	for _, f := range m.Files {
 		if !localName(f) {
-			return nil, fmt.Errorf("%s names %q, which is not a file of this directory: remove the record, or give another directory", filepath.Join(dir, ManifestFile), f)
+			return nil, fmt.Errorf("%s names %q, which is not a file of this directory: remove the record, or give another directory", filepath.Join(dir, manifestFile), f)
 		}
 	}
 	return &m, nil
@@ -372,7 +372,7 @@ func (s *Set) Abort() {
 	for _, n := range s.staged {
 		os.RemoveAll(filepath.Join(s.Dir, n+stagingExt))
 	}
-	os.Remove(filepath.Join(s.Dir, ManifestFile+stagingExt))
+	os.Remove(filepath.Join(s.Dir, manifestFile+stagingExt))
 	s.unlock()
 }
 
@@ -393,14 +393,14 @@ func (s *Set) Commit() error {
 	s.done = true
 	m := manifest{Kind: s.kind.Name, Files: union(s.staged, s.kept)}
 	b, _ := json.MarshalIndent(m, "", "  ")
-	if err := writeSynced(filepath.Join(s.Dir, ManifestFile+stagingExt), append(b, '\n')); err != nil {
+	if err := writeSynced(filepath.Join(s.Dir, manifestFile+stagingExt), append(b, '\n')); err != nil {
 		s.removeStaged()
 		return err
 	}
 	// Everything of the previous set, of this kind, and the manifest goes
 	// aside.
 	var aside []string
-	for _, n := range union(s.old, s.kind.Names, s.staged, []string{ManifestFile}) {
+	for _, n := range union(s.old, s.kind.Names, s.staged, []string{manifestFile}) {
 		if slices.Contains(s.kept, n) && !slices.Contains(s.staged, n) {
 			continue
 		}
@@ -416,7 +416,7 @@ func (s *Set) Commit() error {
 		aside = append(aside, n)
 	}
 	var placed []string
-	for _, n := range append(slices.Clone(s.staged), ManifestFile) {
+	for _, n := range append(slices.Clone(s.staged), manifestFile) {
 		p := filepath.Join(s.Dir, n)
 		if err := rename(p+stagingExt, p); err != nil {
 			s.rollback(aside, placed)
@@ -448,7 +448,7 @@ func (s *Set) removeStaged() {
 	for _, n := range s.staged {
 		os.RemoveAll(filepath.Join(s.Dir, n+stagingExt))
 	}
-	os.Remove(filepath.Join(s.Dir, ManifestFile+stagingExt))
+	os.Remove(filepath.Join(s.Dir, manifestFile+stagingExt))
 }
 
 // recoverCommit finishes a commit that was cut short in dir (see the
@@ -460,11 +460,11 @@ func recoverCommit(dir string) error {
 	}
 	// Only names this tool writes are considered: a user's own file that
 	// happens to end in .staging or .previous is left alone.
-	ours := []string{ManifestFile}
-	for _, k := range Kinds {
+	ours := []string{manifestFile}
+	for _, k := range registered {
 		ours = append(ours, k.Names...)
 	}
-	for _, f := range []string{ManifestFile, ManifestFile + stagingExt} {
+	for _, f := range []string{manifestFile, manifestFile + stagingExt} {
 		if b, err := os.ReadFile(filepath.Join(dir, f)); err == nil {
 			var m manifest
 			if json.Unmarshal(b, &m) == nil {
@@ -487,12 +487,12 @@ func recoverCommit(dir string) error {
 	}
 	// The commit was done when the new manifest is in place: it is renamed
 	// last, and its staging file exists until then.
-	_, errM := os.Stat(filepath.Join(dir, ManifestFile))
-	done := errM == nil && !slices.Contains(staged, ManifestFile)
+	_, errM := os.Stat(filepath.Join(dir, manifestFile))
+	done := errM == nil && !slices.Contains(staged, manifestFile)
 	if !done {
 		// Roll back: the new files already in place are those named by
 		// the staged manifest without a staging file left.
-		if b, err := os.ReadFile(filepath.Join(dir, ManifestFile+stagingExt)); err == nil {
+		if b, err := os.ReadFile(filepath.Join(dir, manifestFile+stagingExt)); err == nil {
 			var m manifest
 			if json.Unmarshal(b, &m) == nil {
 				for _, n := range m.Files {
@@ -558,7 +558,7 @@ func syncDir(dir string) {
 // lock takes dir's lock file: created exclusively with this process's id;
 // a lock whose process no longer runs is replaced.
 func (s *Set) lock() error {
-	path := filepath.Join(s.Dir, LockFile)
+	path := filepath.Join(s.Dir, lockFile)
 	for range 3 {
 		f, err := os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
 		if err == nil {
@@ -590,7 +590,7 @@ func (s *Set) lock() error {
 
 func (s *Set) unlock() {
 	if s.locked {
-		os.Remove(filepath.Join(s.Dir, LockFile))
+		os.Remove(filepath.Join(s.Dir, lockFile))
 		s.locked = false
 	}
 }

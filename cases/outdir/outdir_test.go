@@ -16,7 +16,7 @@ var (
 	sweepKind = Kind{Name: "sweep", Marks: []string{"sweep.json"}, Names: []string{"summary.csv", "sweep.json", "report.html"}}
 )
 
-func init() { Kinds = []Kind{runKind, sweepKind} }
+func init() { registered = []Kind{runKind, sweepKind} }
 
 // write stages each name with content "tag name" (a folder for "runs").
 func write(t *testing.T, dir string, k Kind, tag string, names ...string) {
@@ -64,7 +64,7 @@ func listing(t *testing.T, dir string) string {
 			fmt.Fprintf(&b, "%s/\n", rel)
 			return nil
 		}
-		if rel == ManifestFile {
+		if rel == manifestFile {
 			fmt.Fprintf(&b, "%s\n", rel)
 			return nil
 		}
@@ -250,11 +250,11 @@ func TestLock(t *testing.T) {
 		t.Errorf("second writer: %v, want a BusyError", err)
 	}
 	s.Abort()
-	if _, err := os.Stat(filepath.Join(dir, LockFile)); !errors.Is(err, os.ErrNotExist) {
+	if _, err := os.Stat(filepath.Join(dir, lockFile)); !errors.Is(err, os.ErrNotExist) {
 		t.Errorf("the lock is still there after Abort: %v", err)
 	}
 	// A process id above any the system hands out: no such process.
-	os.WriteFile(filepath.Join(dir, LockFile), []byte("2147483646\n"), 0o644)
+	os.WriteFile(filepath.Join(dir, lockFile), []byte("2147483646\n"), 0o644)
 	s, err = Open(dir, sweepKind)
 	if err != nil {
 		t.Fatalf("a stale lock: %v", err)

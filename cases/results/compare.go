@@ -211,9 +211,9 @@ func PrintComparison(w io.Writer, rows []Compared) error {
 	return err
 }
 
-// ComparisonMarkdown writes the table of ComparisonRows as a Markdown
+// comparisonMarkdown writes the table of ComparisonRows as a Markdown
 // table (the README shows the demo's).
-func ComparisonMarkdown(w io.Writer, rows []Compared) error {
+func comparisonMarkdown(w io.Writer, rows []Compared) error {
 	var b strings.Builder
 	for i, row := range ComparisonRows(rows) {
 		cells := make([]string, len(row))

@@ -17,23 +17,23 @@ import (
 // and of the accuracy figures: the terminal (PrintSummary) and the report
 // print the same sentences from these functions.
 
-// LayerValue is one layer's entry of a per-layer summary object.
-type LayerValue struct {
+// layerValue is one layer's entry of a per-layer summary object.
+type layerValue struct {
 	Layer string
 	Value float64
 }
 
-// LayerValues is a per-layer summary value: in JSON an object keyed by
+// layerValues is a per-layer summary value: in JSON an object keyed by
 // layer name in the stack's order (top first), null values for NaN.
-type LayerValues []LayerValue
+type layerValues []layerValue
 
 // MarshalJSON implements json.Marshaler.
-func (lv LayerValues) MarshalJSON() ([]byte, error) {
+func (lv layerValues) MarshalJSON() ([]byte, error) {
 	return marshalOrdered(len(lv), func(i int) (string, any) { return lv[i].Layer, Float(lv[i].Value) })
 }
 
 // Max returns the largest value, NaN without any.
-func (lv LayerValues) Max() float64 {
+func (lv layerValues) Max() float64 {
 	m := math.NaN()
 	for _, v := range lv {
 		if !math.IsNaN(v.Value) && !(v.Value <= m) {
@@ -44,14 +44,14 @@ func (lv LayerValues) Max() float64 {
 }
 
 // UnmarshalJSON implements json.Unmarshaler, keeping the order of the keys.
-func (lv *LayerValues) UnmarshalJSON(b []byte) error {
-	var out LayerValues
+func (lv *layerValues) UnmarshalJSON(b []byte) error {
+	var out layerValues
 	isNull, err := unmarshalOrdered(b, "layer values", func(name string, dec *json.Decoder) error {
 		var f Float
 		if err := dec.Decode(&f); err != nil {
 			return err
 		}
-		out = append(out, LayerValue{name, float64(f)})
+		out = append(out, layerValue{name, float64(f)})
 		return nil
 	})
 	if err != nil || isNull {
@@ -81,7 +81,7 @@ type EstimatedError struct {
 // step tolerances.
 const (
 	VerifyPeakLimit = 0.5   // K
-	VerifyCureLimit = 0.005 // degree of cure
+	verifyCureLimit = 0.005 // degree of cure
 )
 
 // NewEstimatedError returns the estimated_error of a run of c (summary run)
@@ -132,9 +132,9 @@ func (e *EstimatedError) Words() (line string, warnings []string) {
 		warnings = append(warnings, fmt.Sprintf("the peak temperature moved %.2g K (more than %g K) at tolerances %d times tighter: tighten [time] temperature_tolerance and cure_tolerance and run again.",
 			math.Abs(v), VerifyPeakLimit, solver.VerifyFactor))
 	}
-	if v := float64(e.MinFinalCure); math.Abs(v) > VerifyCureLimit {
+	if v := float64(e.MinFinalCure); math.Abs(v) > verifyCureLimit {
 		warnings = append(warnings, fmt.Sprintf("the least final cure moved %.2g (more than %g) at tolerances %d times tighter: tighten [time] cure_tolerance and temperature_tolerance and run again.",
-			math.Abs(v), VerifyCureLimit, solver.VerifyFactor))
+			math.Abs(v), verifyCureLimit, solver.VerifyFactor))
 	}
 	return line, warnings
 }
@@ -148,8 +148,8 @@ func signedTime(t float64) string {
 
 // Why overshoot_K is null (overshoot_note in summary.json).
 const (
-	NoteUncontrolled = "volumetric heating without control: no program sets the part's temperature (the air only takes heat away), so there is nothing to overshoot"
-	NoteNoDriver     = "nothing drives the case: no convective face, held face or control program (an imposed flux sets no temperature, and its air only takes heat away)"
+	noteUncontrolled = "volumetric heating without control: no program sets the part's temperature (the air only takes heat away), so there is nothing to overshoot"
+	noteNoDriver     = "nothing drives the case: no convective face, held face or control program (an imposed flux sets no temperature, and its air only takes heat away)"
 )
 
 // overshootNote returns why the overshoot of a run of c is null, "" when
@@ -159,15 +159,15 @@ func overshootNote(c *cases.Case) string {
 		return ""
 	}
 	if c.Problem.Volumetric != nil {
-		return NoteUncontrolled
+		return noteUncontrolled
 	}
-	return NoteNoDriver
+	return noteNoDriver
 }
 
-// OvershootWords says the overshoot of s: "+41.5 K above the hottest
+// overshootWords says the overshoot of s: "+41.5 K above the hottest
 // driving temperature so far", "none: peak 2.4 K below the hottest driving
 // temperature", or why there is none to say.
-func OvershootWords(s Summary) string {
+func overshootWords(s Summary) string {
 	ov := float64(s.OvershootK)
 	switch {
 	case !s.OvershootK.Known():
@@ -185,10 +185,10 @@ func OvershootWords(s Summary) string {
 	return fmt.Sprintf("none: peak %.1f K below the hottest driving temperature", below)
 }
 
-// LagWords says a heating or cooling lag (heating true: the coldest cell
+// lagWords says a heating or cooling lag (heating true: the coldest cell
 // below the hottest driving temperature while it rises or holds; false: the
 // hottest cell above it while it falls), "" when there is none.
-func LagWords(heating bool, k, t, depth Float) string {
+func lagWords(heating bool, k, t, depth Float) string {
 	if !k.Known() {
 		return ""
 	}
@@ -199,8 +199,8 @@ func LagWords(heating bool, k, t, depth Float) string {
 	return fmt.Sprintf("%.1f K at %s mm, t = %s (%s)", float64(k), depthText(depth), timeText(t), what)
 }
 
-// LayerSpreadWords says the spread inside every layer.
-func LayerSpreadWords(lv LayerValues) string {
+// layerSpreadWords says the spread inside every layer.
+func layerSpreadWords(lv layerValues) string {
 	parts := make([]string, 0, len(lv))
 	for _, v := range lv {
 		parts = append(parts, v.Layer+" "+strconv.FormatFloat(v.Value, 'f', 1, 64)+" K")
@@ -208,9 +208,9 @@ func LayerSpreadWords(lv LayerValues) string {
 	return strings.Join(parts, ", ") + " (hottest minus coldest inside each layer, largest over the run)"
 }
 
-// ResidualWords says the conservation residual and, once, what it proves;
+// residualWords says the conservation residual and, once, what it proves;
 // verified says whether an estimated error follows it.
-func ResidualWords(r Float, verified bool) string {
+func residualWords(r Float, verified bool) string {
 	hint := "; run --verify for an error estimate"
 	if verified {
 		hint = ""

@@ -117,7 +117,7 @@ func ExamplePrintSummary() {
 		PeakTemperatureC: 131.5, PeakTimeS: 5400, PeakDepthMM: 0.2, OvershootK: 11.5, HottestDrivingC: 120,
 		HeatingLagK: 8.3, HeatingLagTimeS: 1500, HeatingLagDepthMM: 0.45,
 		CoolingLagK: nan, CoolingLagTimeS: nan, CoolingLagDepthMM: nan,
-		MaxSpreadK: 0.8, LayerSpreadK: LayerValues{{"adherend", 0.3}, {"bond", 0.8}},
+		MaxSpreadK: 0.8, LayerSpreadK: layerValues{{"adherend", 0.3}, {"bond", 0.8}},
 		MinFinalCure: 0.86, MinFinalCureDepthMM: 0.45, MeanFinalCure: 0.91,
 		TimeToMinCureS: nan, GelTimeFirstS: 2400, GelTimeLastS: 2460, MinFinalGlassTransitionC: 95,
 		ConservationResidual: 3e-15, Steps: 210, EndTimeS: 9000,
@@ -216,7 +216,7 @@ func TestExampleThickLaminate(t *testing.T) {
 	if err := WriteRun(dir, c, r, s); err != nil {
 		t.Fatal(err)
 	}
-	for file, col := range map[string]string{FieldsFile: ViscosityColumn, ProbesFile: ProbeViscosityColumn("15.5")} {
+	for file, col := range map[string]string{FieldsFile: viscosityColumn, ProbesFile: probeViscosityColumn("15.5")} {
 		b, err := os.ReadFile(dir + "/" + file)
 		if err != nil {
 			t.Fatal(err)

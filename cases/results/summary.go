@@ -214,7 +214,7 @@ type Summary struct {
 	CoolingLagTimeS          Float       `json:"cooling_lag_time_s"`
 	CoolingLagDepthMM        Float       `json:"cooling_lag_depth_mm"`
 	MaxSpreadK               Float       `json:"max_spread_K"`
-	LayerSpreadK             LayerValues `json:"layer_spread_K"`
+	LayerSpreadK             layerValues `json:"layer_spread_K"`
 	MinFinalCure             Float       `json:"min_final_cure"`
 	MinFinalCureDepthMM      Float       `json:"min_final_cure_depth_mm"`
 	MeanFinalCure            Float       `json:"mean_final_cure"`
@@ -293,10 +293,10 @@ func summarize(c *cases.Case, r *solver.Result, controlError float64) Summary {
 	if out.Criteria == nil {
 		out.Criteria = Verdicts{}
 	}
-	out.LayerSpreadK = LayerValues{}
+	out.LayerSpreadK = layerValues{}
 	for j, l := range c.Problem.Mesh.Layers {
 		if j < len(s.LayerSpread) {
-			out.LayerSpreadK = append(out.LayerSpreadK, LayerValue{l.Name, num.Round6(s.LayerSpread[j])})
+			out.LayerSpreadK = append(out.LayerSpreadK, layerValue{l.Name, num.Round6(s.LayerSpread[j])})
 		}
 	}
 	if !math.IsNaN(c.Criteria.MinCure) {
@@ -361,18 +361,18 @@ func SummaryRows(s Summary) []SummaryRow {
 	add := func(key, v string) { rows = append(rows, SummaryRow{Label(key), v}) }
 	rows = append(rows, SummaryRow{"status", s.Status})
 	add("peak_temperature_C", fmt.Sprintf("%s at %s, t = %s", num.TextC(float64(s.PeakTemperatureC)), num.TextMM(float64(s.PeakDepthMM)), num.TextTime(float64(s.PeakTimeS))))
-	add("overshoot_K", OvershootWords(s))
-	if w := LagWords(true, s.HeatingLagK, s.HeatingLagTimeS, s.HeatingLagDepthMM); w != "" {
+	add("overshoot_K", overshootWords(s))
+	if w := lagWords(true, s.HeatingLagK, s.HeatingLagTimeS, s.HeatingLagDepthMM); w != "" {
 		add("heating_lag_K", w)
 	}
-	if w := LagWords(false, s.CoolingLagK, s.CoolingLagTimeS, s.CoolingLagDepthMM); w != "" {
+	if w := lagWords(false, s.CoolingLagK, s.CoolingLagTimeS, s.CoolingLagDepthMM); w != "" {
 		add("cooling_lag_K", w)
 	}
 	if s.MaxSpreadK.Known() {
 		add("max_spread_K", num.TextK(float64(s.MaxSpreadK))+" across the curing layers")
 	}
 	if len(s.LayerSpreadK) > 0 {
-		add("layer_spread_K", LayerSpreadWords(s.LayerSpreadK))
+		add("layer_spread_K", layerSpreadWords(s.LayerSpreadK))
 	}
 	if s.MinFinalCure.Known() {
 		add("min_final_cure", num.TextCure(float64(s.MinFinalCure))+" at "+num.TextMM(float64(s.MinFinalCureDepthMM)))
@@ -407,7 +407,7 @@ func SummaryRows(s Summary) []SummaryRow {
 		add("flow_window_s", fmt.Sprintf("%s below %s Pa·s before gel (the shortest over the resin's cells)",
 			num.TextTime(float64(*s.FlowWindowS)), strconv.FormatFloat(optional(s.FlowViscosityPaS), 'g', 4, 64)))
 	}
-	add("conservation_residual", ResidualWords(s.ConservationResidual, s.EstimatedError != nil))
+	add("conservation_residual", residualWords(s.ConservationResidual, s.EstimatedError != nil))
 	if e := s.EstimatedError; e != nil {
 		line, warn := e.Words()
 		add("estimated_error", line)

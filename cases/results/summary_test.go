@@ -236,9 +236,9 @@ func TestOvershootWords(t *testing.T) {
 		{Summary{OvershootK: 0, HottestDrivingC: 120, PeakTemperatureC: 117.6}, "none: peak 2.4 K below the hottest driving temperature"},
 		{Summary{OvershootK: -3.2, HottestDrivingC: 120, PeakTemperatureC: 116.8}, "none: peak 3.2 K below the hottest driving temperature"},
 		{Summary{OvershootK: 0.01, HottestDrivingC: 120, PeakTemperatureC: 120.01}, "none: the peak reaches the hottest driving temperature but never passes it"},
-		{Summary{OvershootK: nan, HottestDrivingC: nan, OvershootNote: NoteUncontrolled}, "n/a: " + NoteUncontrolled},
+		{Summary{OvershootK: nan, HottestDrivingC: nan, OvershootNote: noteUncontrolled}, "n/a: " + noteUncontrolled},
 	} {
-		if got := OvershootWords(tc.s); got != tc.want {
+		if got := overshootWords(tc.s); got != tc.want {
 			t.Errorf("overshoot %v: %q, want %q", tc.s.OvershootK, got, tc.want)
 		}
 	}

@@ -77,10 +77,10 @@ var FieldsHeader = []string{"time_s", "depth_mm", "layer", "temperature_C", "cur
 // controller's power fraction held from that time on.
 const PowerColumn = "power_W_per_m3"
 
-// ViscosityColumn is the last column of fields.csv when a layer has a
+// viscosityColumn is the last column of fields.csv when a layer has a
 // viscosity law: the resin's viscosity in the cell (Pa·s), empty at and past
 // gel and in layers without a viscosity law.
-const ViscosityColumn = "viscosity_Pa_s"
+const viscosityColumn = "viscosity_Pa_s"
 
 // csvChunk is the size at which the CSV writers hand their buffer to the
 // writer: rows are formatted in place (num.AppendFixed, num.AppendSig) and
@@ -135,7 +135,7 @@ func newFieldRows(c *cases.Case) (*fieldRows, []string) {
 		head = append(head, PowerColumn)
 	}
 	if f.viscous {
-		head = append(head, ViscosityColumn)
+		head = append(head, viscosityColumn)
 	}
 	m := c.Problem.Mesh
 	n := m.Cells()
@@ -230,7 +230,7 @@ func probesHeader(c *cases.Case) []string {
 	h = append(h, "heat_in_J_per_m2")
 	if cases.Viscous(p) {
 		for _, d := range p.Probes {
-			h = append(h, ProbeViscosityColumn(num.FormatDepth(d)))
+			h = append(h, probeViscosityColumn(num.FormatDepth(d)))
 		}
 	}
 	return h
@@ -241,11 +241,11 @@ func probesHeader(c *cases.Case) []string {
 // sensor at each output time, in °C.
 const ProgramColumn = "program_C"
 
-// ProbeViscosityColumn returns the name of the probes.csv column of the
+// probeViscosityColumn returns the name of the probes.csv column of the
 // viscosity at the probe whose depth label (mm) is label:
 // viscosity_<label>mm_Pa_s, empty at and past gel and in layers without a
 // viscosity law.
-func ProbeViscosityColumn(label string) string { return "viscosity_" + label + "mm_Pa_s" }
+func probeViscosityColumn(label string) string { return "viscosity_" + label + "mm_Pa_s" }
 
 // appendProbeRow appends the row of probes.csv of snapshot s of a run of
 // c to b, formatted like fieldRows, and hands b to w once it reaches

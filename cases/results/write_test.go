@@ -203,7 +203,7 @@ func TestWriteRunCreatesDirAndReplaces(t *testing.T) {
 	if len(rows) != 2 {
 		t.Errorf("probes.csv after the second run has %d rows, want 2", len(rows))
 	}
-	// The three files and the record of the set (outdir.ManifestFile):
+	// The three files and the record of the set (the manifest of package outdir):
 	// no temporary, staging or set-aside file is left.
 	entries, _ := os.ReadDir(dir)
 	if len(entries) != 4 {
