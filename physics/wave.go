@@ -97,15 +97,18 @@ type Wave struct {
 	cells int
 	seg   []segment
 	// Per segment and frequency (segment-major): the closed-form integral
-	// of |E|² per unit |A|² (lossy segments), |A|² into the segment over
-	// |A|² at the top of the segment above (from the air for the first),
-	// and the factor that carries |A|² from the top of the segment to the
-	// top of the next (or into the air below, for the last).
-	in, into, on []float64
-	run          []complex128 // per frequency: Γ, carried up the stack
-	aa           []float64    // per frequency: |A|², carried down
-	rev          []Slab       // the stack reversed, for incidence from the bottom
-	second       []float64    // the bottom source's absorption under IncidentBoth
+	// of |E|² per unit |A|² (lossy segments), and the factor that carries
+	// |A|² from the top of the segment to the top of the next (or into the
+	// air below, for the last).
+	in, on []float64
+	// Per frequency, carried up the stack: Γ at the bottom of the current
+	// segment (real and imaginary parts) and the factor that carries |A|²
+	// into the segment below it. Then, coming down, |A|².
+	gr, gi, into []float64
+	aa           []float64
+	rev          []Slab    // the stack reversed, for incidence from the bottom
+	second       []float64 // the bottom source's absorption under IncidentBoth
+	lanes        lanes     // the vector kernels' constants and state
 }
 
 // segment is a run of slabs that the wave crosses as one uniform medium:
@@ -119,30 +122,45 @@ type segment struct {
 	rho, tau complex128 // reflection and transmission at its lower face, from inside
 }
 
+// reseed is the number of frequencies after which the recurrences in
+// frequency restart from exact exponentials (a multiple of 4).
+const reseed = 256
+
+// simd selects the vector kernels (lossy4, lossless4), set at start-up
+// where the processor has them (wave_amd64.go).
+var simd bool
+
+// padded returns the number of frequencies rounded up to a multiple of 4:
+// the per-frequency arrays hold that many, so that the vector kernels run
+// whole groups of four (the extra frequencies continue the band beyond Hi
+// and are computed but never read).
+func padded(nf int) int { return (nf + 3) &^ 3 }
+
 // NewWave returns the workspace for stacks of up to cells slabs over band.
 // It panics on an invalid band (Lo ≤ 0, Hi < Lo, Points < 1, or
 // Points = 1 with Hi ≠ Lo): package cases validates user input first.
-// Cost: about 24·cells·Points bytes.
+// Cost: about 16·cells·Points bytes.
 func NewWave(cells int, band Band) *Wave {
 	if !band.valid() || cells < 1 {
 		panic(fmt.Sprintf("physics: NewWave with %d cells, band %+v", cells, band))
 	}
-	nf := band.Points
+	nf := padded(band.Points)
 	w := &Wave{
 		band:   band,
 		kLo:    2 * math.Pi * band.Lo / SpeedOfLight,
 		cells:  cells,
 		seg:    make([]segment, 0, cells),
 		in:     make([]float64, cells*nf),
-		into:   make([]float64, cells*nf),
 		on:     make([]float64, cells*nf),
-		run:    make([]complex128, nf),
+		gr:     make([]float64, nf),
+		gi:     make([]float64, nf),
+		into:   make([]float64, nf),
 		aa:     make([]float64, nf),
 		rev:    make([]Slab, cells),
 		second: make([]float64, cells),
 	}
-	if nf > 1 {
-		w.dk = 2 * math.Pi * (band.Hi - band.Lo) / SpeedOfLight / float64(nf-1)
+	if band.Points > 1 {
+		w.dk = 2 * math.Pi * (band.Hi - band.Lo) / SpeedOfLight / float64(band.Points-1)
 	}
 	return w
 }
@@ -169,21 +187,26 @@ func (w *Wave) Band() Band { return w.band }
 // One pass up the stack carries the reflection coefficient from the bottom
 // (air below, or Γ = −1 on a conductor's face) by the impedance recursion
 //
-//	Γ_top = Γ_bot z²,  z = e^{−jkw},  Γ_bot(above) = (ρ + Γ_top)/(1 + ρ Γ_top),  ρ = (n_a − n_b)/(n_a + n_b),
+//	Γ_top = Γ_bot y,  y = z² = e^{−2jkw},  Γ_bot(above) = (ρ + Γ_top)/(1 + ρ Γ_top),  ρ = (n_a − n_b)/(n_a + n_b),
 //
 // and one pass down carries |A|², since A_b = A_a z_a (1 + ρ)/(1 + ρ Γ_top,b)
 // gives |A_b|² = |A_a|² |z_a|² |1 + ρ|²/|1 + ρ Γ_top,b|², which never divides
 // by a field node. The integral of |E|² over a slab is taken in closed form;
-// with Γ_bot = Γ_top/z² and q = 1 − e^{−2αw} = 1 − |z|²,
+// with e = |z|² = e^{−2αw} and q = 1 − e (k0/(2α) = 1/(2n″), k0/β = 1/n′),
 //
-//	k0 ∫₀ʷ |E|² dζ = |A|² [ q/(2n″) (1 + |Γ_bot|² (1 − q)) − (2/n′) Re(Γ_bot z) Im(z) ]
+//	k0 ∫₀ʷ |E|² dζ = |A|² [ q/(2n″) (1 + |Γ_bot|² e) − (1/n′) (Im Γ_top − e Im Γ_bot) ]
 //
-// (k0/(2α) = 1/(2n″), k0/β = 1/n′), which holds no growing exponential, so
-// Σ w_i ε″_i K_i = 1 − |Γ|² − |T|² (Poynting's theorem) holds to round-off.
-// Over a band, each slab's phase factor z and q follow exact recurrences
-// in frequency (the frequencies are equally spaced), so the inner loops
-// over frequencies are multiplications only; their relative error grows by
-// about one rounding unit per frequency. Consecutive lossless slabs of equal
+// (the cross term 2 Re(Γ_bot z) Im z = Im(Γ_bot (z² − |z|²)) written with
+// Γ_top, so that z itself is never needed), which holds no growing
+// exponential, so Σ w_i ε″_i K_i = 1 − |Γ|² − |T|² (Poynting's theorem)
+// holds to round-off. Over a band the frequencies are equally spaced, so
+// each segment's y, e and q follow exact recurrences in frequency,
+// y_{f+1} = y_f y_Δ, e_{f+1} = e_f e_Δ, q_{f+1} = q_f + p (1 − q_f) with
+// p = 1 − e_Δ (no cancellation for thin slabs), restarted from exact
+// exponentials every 64 frequencies: the inner loops over frequencies, on
+// separate real and imaginary arrays, are multiplications and one real
+// division, and the recurrences' relative drift, about one rounding unit
+// per frequency, stays below 1e-14. Consecutive lossless slabs of equal
 // permittivity are crossed as one. Reference: Orfanidis, Electromagnetic
 // Waves and Antennas, multilayer structures chapter (the recursion); Born &
 // Wolf, Principles of Optics, §1.6 (stratified media).
@@ -191,10 +214,11 @@ func (w *Wave) Band() Band { return w.band }
 // Preconditions: len(dst) = len(slabs) ≤ the workspace's cells, every
 // width > 0, ε′ > 0, ε″ ≥ 0 (panics on a length mismatch).
 //
-// Cost: O(len(slabs) · Points): per slab and frequency about five complex
-// multiplications, one real division and some twenty real operations going
-// up, two multiplications coming down (twice that for IncidentBoth), plus
-// per slab a complex square root and a few exponentials; no allocation.
+// Cost: O(len(slabs) · Points): per slab and frequency some 45 real
+// multiplications and additions and one division going up, two
+// multiplications coming down (twice that for IncidentBoth), plus per slab
+// and 64 frequencies a complex square root and a few exponentials; no
+// allocation.
 func (w *Wave) Absorb(dst []float64, slabs []Slab, inc Incidence) WaveShares {
 	n := len(slabs)
 	if len(dst) != n || n > w.cells {
@@ -235,7 +259,7 @@ func (w *Wave) reversed(slabs []Slab) []Slab {
 // oneSided is Absorb for a wave from the air above slabs[0].
 func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 	clear(dst)
-	nf := w.band.Points
+	nf, np := w.band.Points, padded(w.band.Points)
 	// Segments down to the first conductor.
 	w.seg = w.seg[:0]
 	metal := false
@@ -270,88 +294,72 @@ func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 	if metal {
 		w.seg[m-1].rho, w.seg[m-1].tau = -1, 0
 	}
-	run := w.run[:nf]
 	// One pass up the stack: Γ at the bottom of each segment (air below, or
 	// −1 on a conductor), the factors that carry |A|² down, and the
-	// closed-form integral of each lossy segment, which needs Γ and the
-	// phase factor z = e^{−jkw} of the segment alone.
-	for f := range run {
-		run[f] = w.seg[m-1].rho
+	// closed-form integral of each lossy segment.
+	gr, gi, into := w.gr[:np], w.gi[:np], w.into[:np]
+	rho := w.seg[m-1].rho
+	// Into the air below: Γ = 0 there, so |A|² gains |τ|²; onto a
+	// conductor nothing passes.
+	last := 0.0
+	if !metal {
+		last = sq(w.seg[m-1].tau)
+	}
+	for f := range gr {
+		gr[f], gi[f], into[f] = real(rho), imag(rho), last
 	}
 	for c := m - 1; c >= 0; c-- {
 		sg := &w.seg[c]
-		z, zd := w.phase(sg)
-		in := w.in[c*nf : (c+1)*nf : (c+1)*nf]
-		into := w.into[c*nf : (c+1)*nf : (c+1)*nf]
-		on := w.on[c*nf : (c+1)*nf : (c+1)*nf]
-		in, into, on = in[:len(run)], into[:len(run)], on[:len(run)] // no bounds checks below
-		next := into                                                 // |A|² factor into the segment below (unused for the last)
-		if c+1 < m {
-			next = w.into[(c+1)*nf : (c+2)*nf]
-			next = next[:len(run)]
-		}
-		var rho, tau complex128 // of the interface above this segment
+		var up, tau complex128 // ρ and τ of the interface above this segment
 		if c > 0 {
-			rho, tau = w.seg[c-1].rho, w.seg[c-1].tau
+			up, tau = w.seg[c-1].rho, w.seg[c-1].tau
 		} else {
 			n0 := sg.n
-			rho, tau = (1-n0)/(1+n0), 2/(1+n0)
+			up, tau = (1-n0)/(1+n0), 2/(1+n0)
 		}
-		tt := real(tau)*real(tau) + imag(tau)*imag(tau)
-		// Into the air below: Γ = 0 there, so |A|² gains |τ|²; onto a
-		// conductor nothing passes.
-		last := 0.0
-		if c == m-1 && !metal {
-			last = real(sg.tau)*real(sg.tau) + imag(sg.tau)*imag(sg.tau)
-		}
-		// The lossy segment's closed form (see Absorb): q = 1 − |z|² by its
-		// own recurrence in frequency, q_{f+1} = q_f + p (1 − q_f), which
-		// has no cancellation for thin slabs.
+		k := &kernel{rr: real(up), ri: imag(up), tt: sq(tau)}
 		n1, n2 := real(sg.n), -imag(sg.n)
-		var q, p, c1, c2 float64
 		if sg.lossy {
-			q = -math.Expm1(-2 * w.kLo * n2 * sg.width)
-			p = -math.Expm1(-2 * w.dk * n2 * sg.width)
-			c1, c2 = 1/(2*n2), 2/n1
+			k.c1, k.c2 = 1/(2*n2), 1/n1
 		}
-		for f := range run {
-			gb := run[f] // Γ at the bottom of this segment
-			zz := real(z)*real(z) + imag(z)*imag(z)
-			if sg.lossy {
-				gg := real(gb)*real(gb) + imag(gb)*imag(gb)
-				gz := real(gb)*real(z) - imag(gb)*imag(z) // Re(Γ_bot z)
-				in[f] = q*c1*(1+gg*(1-q)) - c2*gz*imag(z)
-				q += p * (1 - q)
+		// The step factors between consecutive frequencies.
+		ph := 2 * w.dk * sg.width
+		k.yd, k.ed, k.p = exps(ph, n1, n2)
+		if simd {
+			w.lanes.constants(k)
+		}
+		for f0 := 0; f0 < np; f0 += reseed {
+			f1 := min(f0+reseed, np)
+			k.y, k.e, k.q = exps(2*(w.kLo+float64(f0)*w.dk)*sg.width, n1, n2)
+			gr, gi, into := gr[f0:f1], gi[f0:f1], into[f0:f1]
+			in, on := w.in[c*np+f0:c*np+f1], w.on[c*np+f0:c*np+f1]
+			switch {
+			case simd && sg.lossy:
+				w.lanes.start(k)
+				lossy4(&w.lanes, &gr[0], &gi[0], &into[0], &in[0], &on[0], len(gr))
+			case simd:
+				w.lanes.start(k)
+				lossless4(&w.lanes, &gr[0], &gi[0], &into[0], &on[0], len(gr))
+			case sg.lossy:
+				k.lossy(gr, gi, into, in, on)
+			default:
+				k.lossless(gr, gi, into, on)
 			}
-			if c+1 < m {
-				on[f] = zz * next[f]
-			} else {
-				on[f] = zz * last
-			}
-			g := gb * (z * z) // Γ at the top of this segment
-			// 1/(1 + ρ g) without the library's scaled complex division:
-			// |ρ| < 1 and |g| ≤ 1 keep the denominator away from zero.
-			d := 1 + rho*g
-			r := 1 / (real(d)*real(d) + imag(d)*imag(d))
-			run[f] = (rho + g) * complex(real(d)*r, -imag(d)*r) // Γ at the bottom of the segment above (or of the stack)
-			into[f] = tt * r                                    // |τ/(1 + ρ g)|²
-			z *= zd
 		}
 	}
-	// run holds Γ of the whole stack. Down the stack: |A|² at the top of
-	// each segment per unit incident |E|², the cells' integrals weighted by
-	// it, and what reaches the air below.
+	// gr, gi hold Γ of the whole stack, into |A|² at the top of the first
+	// segment per unit incident |E|². Down the stack: the cells' integrals
+	// weighted by |A|², and what reaches the air below.
 	var refl float64
 	aa := w.aa[:nf]
-	for f := range run {
-		g := run[f]
-		refl += real(g)*real(g) + imag(g)*imag(g)
-		aa[f] = w.into[f]
+	for f := range aa {
+		refl += gr[f]*gr[f] + gi[f]*gi[f]
+		aa[f] = into[f]
 	}
 	for c := range m {
 		sg := &w.seg[c]
-		in := w.in[c*nf : (c+1)*nf]
-		on := w.on[c*nf : (c+1)*nf]
+		in := w.in[c*np : c*np+nf]
+		on := w.on[c*np : c*np+nf]
 		in, on = in[:len(aa)], on[:len(aa)]
 		if sg.lossy {
 			sum := 0.0
@@ -381,14 +389,116 @@ func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 	return WaveShares{Reflected: refl * inv, Transmitted: trans * inv, Absorbed: abs}
 }
 
-// phase returns e^{−jkw} of the segment at the band's first frequency and
-// its ratio between consecutive frequencies.
-func (w *Wave) phase(sg *segment) (z, zd complex128) {
-	e := func(k float64) complex128 {
-		a := k * sg.width
-		s, c := math.Sincos(a * real(sg.n))
-		r := math.Exp(a * imag(sg.n)) // imag(n) = −n″ ≤ 0
-		return complex(r*c, -r*s)
+// sq returns |x|².
+func sq(x complex128) float64 { return real(x)*real(x) + imag(x)*imag(x) }
+
+// exps returns, for a phase a = 2 k0 w (1/m · m) and n = n′ − j n″,
+// y = e^{−j a n}, e = |y| = e^{−a n″} and q = 1 − e, each to a few
+// rounding units relative: one exponential gives e and q, the one of e and
+// q that is the smaller (below 1/2) from math.Exp or math.Expm1 and the
+// other by subtraction from 1, which then loses nothing.
+func exps(a, n1, n2 float64) (y complex128, e, q float64) {
+	s, c := math.Sincos(a * n1)
+	if x := a * n2; x < math.Ln2 {
+		q = -math.Expm1(-x)
+		e = 1 - q
+	} else {
+		e = math.Exp(-x)
+		q = 1 - e
 	}
-	return e(w.kLo), e(w.dk)
+	return complex(e*c, -e*s), e, q
+}
+
+// kernel holds one segment's constants for the pass up the stack over a
+// run of frequencies: ρ (rr, ri) and |τ|² (tt) of the interface above it,
+// the closed form's coefficients c1 = 1/(2n″) and c2 = 1/n′, and y, e, q
+// at the run's first frequency with their steps y_Δ, e_Δ and p.
+type kernel struct {
+	rr, ri, tt float64
+	c1, c2     float64
+	y, yd      complex128
+	e, ed      float64
+	q, p       float64
+}
+
+// lossy advances Γ (gr, gi) and the |A|² factor (into) from the bottom of
+// a lossy segment to the bottom of the segment above, and fills the
+// closed-form integral (in) and the factor from its top to the top of the
+// segment below (on), over a run of frequencies (see Absorb).
+func (k *kernel) lossy(gr, gi, into, in, on []float64) {
+	gi, into, in, on = gi[:len(gr)], into[:len(gr)], in[:len(gr)], on[:len(gr)] // no bounds checks below
+	rr, ri, tt, c1, c2 := k.rr, k.ri, k.tt, k.c1, k.c2
+	yr, yi, ydr, ydi := real(k.y), imag(k.y), real(k.yd), imag(k.yd)
+	e, ed, q, p := k.e, k.ed, k.q, k.p
+	for f, br := range gr {
+		bi := gi[f]
+		tr, ti := br*yr-bi*yi, br*yi+bi*yr // Γ_top = Γ_bot y
+		in[f] = q*c1*(1+(br*br+bi*bi)*e) - c2*(ti-bi*e)
+		on[f] = e * into[f]
+		// Γ_bot above = (ρ + Γ_top)/(1 + ρ Γ_top) = (ρ + Γ_top) conj(d)/|d|²:
+		// |ρ| < 1 and |Γ_top| ≤ 1 keep d away from zero.
+		dr, di := 1+rr*tr-ri*ti, rr*ti+ri*tr
+		r := 1 / (dr*dr + di*di)
+		nr, ni := rr+tr, ri+ti
+		gr[f], gi[f] = (nr*dr+ni*di)*r, (ni*dr-nr*di)*r
+		into[f] = tt * r // |τ/(1 + ρ Γ_top)|²
+		q += p * (1 - q)
+		e *= ed
+		yr, yi = yr*ydr-yi*ydi, yr*ydi+yi*ydr
+	}
+}
+
+// lossless is lossy for a segment without loss: e = 1, no integral.
+func (k *kernel) lossless(gr, gi, into, on []float64) {
+	gi, into, on = gi[:len(gr)], into[:len(gr)], on[:len(gr)]
+	rr, ri, tt := k.rr, k.ri, k.tt
+	yr, yi, ydr, ydi := real(k.y), imag(k.y), real(k.yd), imag(k.yd)
+	for f, br := range gr {
+		bi := gi[f]
+		tr, ti := br*yr-bi*yi, br*yi+bi*yr
+		on[f] = into[f]
+		dr, di := 1+rr*tr-ri*ti, rr*ti+ri*tr
+		r := 1 / (dr*dr + di*di)
+		nr, ni := rr+tr, ri+ti
+		gr[f], gi[f] = (nr*dr+ni*di)*r, (ni*dr-nr*di)*r
+		into[f] = tt * r
+		yr, yi = yr*ydr-yi*ydi, yr*ydi+yi*ydr
+	}
+}
+
+// lanes holds a segment's kernel for the vector kernels, each value four
+// times (one per lane): the state at four consecutive frequencies
+// f, f+1, f+2, f+3 and the steps that carry it four frequencies on. The
+// assembly reads it by offset: keep the field order.
+type lanes struct {
+	yr, yi, e, q       [4]float64 // y, e, q at the lanes' frequencies
+	ydr, ydi, ed, p    [4]float64 // y_Δ⁴, e_Δ⁴ and 1 − e_Δ⁴
+	rr, ri, tt, c1, c2 [4]float64 // as in kernel
+	one                [4]float64
+}
+
+// constants sets the lanes' steps and constants from k.
+func (l *lanes) constants(k *kernel) {
+	y2 := k.yd * k.yd
+	y4 := y2 * y2
+	e2 := k.ed * k.ed
+	p2 := k.p * (2 - k.p) // 1 − e_Δ², without cancellation
+	for j := range 4 {
+		l.ydr[j], l.ydi[j] = real(y4), imag(y4)
+		l.ed[j], l.p[j] = e2*e2, p2*(2-p2)
+		l.rr[j], l.ri[j], l.tt[j], l.c1[j], l.c2[j] = k.rr, k.ri, k.tt, k.c1, k.c2
+		l.one[j] = 1
+	}
+}
+
+// start sets the lanes' state at the first four frequencies of a run from
+// k's values at the first, by k's steps.
+func (l *lanes) start(k *kernel) {
+	y, e, q := k.y, k.e, k.q
+	for j := range 4 {
+		l.yr[j], l.yi[j], l.e[j], l.q[j] = real(y), imag(y), e, q
+		y *= k.yd
+		e *= k.ed
+		q += k.p * (1 - q)
+	}
 }

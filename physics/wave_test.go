@@ -4,6 +4,7 @@ import (
 	"math"
 	"math/cmplx"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"gonum.org/v1/gonum/integrate/quad"
@@ -372,5 +373,150 @@ func TestWaveVeryThickCell(t *testing.T) {
 	r := (1 - n) / (1 + n)
 	if want := real(r * cmplx.Conj(r)); math.Abs(sh.Reflected-want) > 1e-12 || math.IsNaN(K[0]) || math.IsInf(K[0], 0) {
 		t.Errorf("R = %.15g (want %.15g), K = %g", sh.Reflected, want, K[0])
+	}
+}
+
+// refWave is a straightforward evaluation of the stack's response to a
+// wave from the top, kept here to check Wave.Absorb against: every
+// frequency on its own with its own exponentials (cmplx.Exp), every slab
+// its own medium, the reflection coefficients by the impedance recursion
+// Γ_bot = (ρ + Γ_top)/(1 + ρ Γ_top) with complex division, the amplitudes
+// by continuity of the total field E at each face,
+// A_next (1 + Γ_top,next) = A z (1 + Γ_bot), from A_0 (1 + Γ_top,0) = 1 + Γ in
+// the air, and the integral of |E|² = |A|² |e^{−jkζ} + Γ_top e^{jkζ}|² term
+// by term,
+//
+//	∫₀ʷ |E|² dζ = |A|² [ (1 − e^{−2αw})/(2α) + |Γ_top|² (e^{2αw} − 1)/(2α) + 2 Re(Γ_top (e^{2jβw} − 1)/(2jβ)) ],
+//
+// growing exponential included (fine for the moderate slabs used here).
+// Orfanidis, Electromagnetic Waves and Antennas, multilayer structures
+// chapter (the recursion and the field in a layer, from memory); Born &
+// Wolf, Principles of Optics, §1.6 (from memory).
+func refWave(slabs []Slab, b Band) (K []float64, R, T float64) {
+	K = make([]float64, len(slabs))
+	m, metal := len(slabs), false
+	for i, s := range slabs {
+		if s.Conductor {
+			m, metal = i, true
+			break
+		}
+	}
+	np := float64(b.Points)
+	n := make([]complex128, m)
+	z := make([]complex128, m)
+	gb := make([]complex128, m)
+	gt := make([]complex128, m)
+	for kf := range b.Points {
+		k0 := 2 * math.Pi * b.Frequency(kf) / SpeedOfLight
+		if m == 0 {
+			R += 1 / np
+			continue
+		}
+		for i := range m {
+			n[i] = cmplx.Sqrt(complex(slabs[i].Permittivity, -slabs[i].Loss))
+			z[i] = cmplx.Exp(complex(0, -k0*slabs[i].Width) * n[i])
+		}
+		gb[m-1] = (n[m-1] - 1) / (n[m-1] + 1)
+		if metal {
+			gb[m-1] = -1
+		}
+		for i := m - 1; i >= 0; i-- {
+			gt[i] = gb[i] * z[i] * z[i]
+			if i > 0 {
+				rho := (n[i-1] - n[i]) / (n[i-1] + n[i])
+				gb[i-1] = (rho + gt[i]) / (1 + rho*gt[i])
+			}
+		}
+		rho0 := (1 - n[0]) / (1 + n[0])
+		g := (rho0 + gt[0]) / (1 + rho0*gt[0])
+		R += real(g*cmplx.Conj(g)) / np
+		A := (1 + g) / (1 + gt[0])
+		for i := range m {
+			w := slabs[i].Width
+			if slabs[i].Loss > 0 {
+				al, be := -k0*imag(n[i]), k0*real(n[i])
+				v := -math.Expm1(-2*al*w)/(2*al) + real(gt[i]*cmplx.Conj(gt[i]))*math.Expm1(2*al*w)/(2*al) +
+					2*real(gt[i]*(cmplx.Exp(complex(0, 2*be*w))-1)/complex(0, 2*be))
+				K[i] += k0 * real(A*cmplx.Conj(A)) * v / w / np
+			}
+			eb := A * z[i] * (1 + gb[i]) // E at the slab's bottom face
+			if i+1 < m {
+				A = eb / (1 + gt[i+1])
+			} else if !metal {
+				T += real(eb*cmplx.Conj(eb)) / np
+			}
+		}
+	}
+	return K, R, T
+}
+
+func TestWaveAgainstReference(t *testing.T) {
+	// Absorb (segments, recurrences in frequency restarted every few
+	// hundred points, the rearranged closed form, vector kernels where the
+	// processor has them) against refWave (each frequency and slab on its
+	// own) on random stacks of lossy, lossless and metal layers, from the
+	// top and from the bottom, over bands of 2 to 101 points and a few of
+	// 10001 (the largest band_points). Both kernels, where there are two.
+	// Fixed seed. Measured worst, relative per cell: 2.6e-12 (both
+	// kernels) up to 101 points, 3e-14 over 10001 points; the previous
+	// implementation, without vector kernels or restarts, stood at 2.3e-12
+	// and 5e-12 from the same reference (the reference rounds too: a
+	// resonant stack amplifies the rounding of its phases).
+	kernels := []bool{false}
+	if simd {
+		kernels = append(kernels, true)
+	}
+	defer func(s bool) { simd = s }(simd)
+	rng := rand.New(rand.NewPCG(11, 13))
+	for trial := range 160 {
+		n := 1 + rng.IntN(60)
+		st := make([]Slab, n)
+		for i := range st {
+			st[i] = Slab{Width: 1e-5 + 0.01*rng.Float64(), Permittivity: 1 + 80*rng.Float64()}
+			switch r := rng.Float64(); {
+			case r < 0.7:
+				st[i].Loss = math.Pow(10, -4+5*rng.Float64())
+			case r < 0.72:
+				st[i].Conductor = true
+			}
+		}
+		lo := 1e8 + 1e10*rng.Float64()
+		b := Band{Lo: lo, Hi: lo * (1 + 0.3*rng.Float64()), Points: 2 + rng.IntN(100)}
+		if trial%40 == 0 {
+			b.Points = 10001
+		}
+		const tol = 5e-12
+		for _, bottom := range []bool{false, true} {
+			inc, ref := IncidentTop, st
+			if bottom {
+				inc, ref = IncidentBottom, slices.Clone(st)
+				slices.Reverse(ref)
+			}
+			Kr, R, T := refWave(ref, b)
+			if bottom {
+				slices.Reverse(Kr)
+			}
+			peak := 0.0
+			for _, k := range Kr {
+				peak = max(peak, k)
+			}
+			for _, s := range kernels {
+				simd = s
+				K := make([]float64, n)
+				sh := NewWave(n, b).Absorb(K, st, inc)
+				if math.Abs(sh.Reflected-R) > tol || math.Abs(sh.Transmitted-T) > tol {
+					t.Errorf("trial %d, %v, %d points, vector kernel %v: R = %.15g, T = %.15g; reference %.15g, %.15g",
+						trial, inc, b.Points, s, sh.Reflected, sh.Transmitted, R, T)
+				}
+				for i := range K {
+					// Relative to the cell's own value; cells that hold less
+					// than 1e-3 of the peak against the peak's 1e-3.
+					if math.Abs(K[i]-Kr[i]) > tol*max(Kr[i], 1e-3*peak) {
+						t.Errorf("trial %d, %v, %d points, vector kernel %v, slab %d of %d: K = %.15g, reference %.15g (relative %.3g)",
+							trial, inc, b.Points, s, i, n, K[i], Kr[i], (K[i]-Kr[i])/Kr[i])
+					}
+				}
+			}
+		}
 	}
 }
