@@ -86,7 +86,7 @@ type HeaderError struct {
 }
 
 func (e *HeaderError) Error() string {
-	want := Line(e.Want)
+	want := csvLine(e.Want)
 	if e.Good > 0 {
 		return fmt.Sprintf("%s: the first line is damaged (%q), but %d records after it are sound: to keep them, "+
 			"replace the first line with the header of this sweep,\n  %s\nand run the same command again; "+
@@ -96,8 +96,8 @@ func (e *HeaderError) Error() string {
 		"the header should be\n  %s\nput it back if only that line was damaged, or remove %s to do every run again", e.Path, e.Got, want, e.Path)
 }
 
-// Line returns the CSV line (without its newline) of the fields.
-func Line(fields []string) string {
+// csvLine returns the CSV line (without its newline) of the fields.
+func csvLine(fields []string) string {
 	var b bytes.Buffer
 	w := csv.NewWriter(&b)
 	w.Write(fields)
@@ -105,8 +105,8 @@ func Line(fields []string) string {
 	return strings.TrimSuffix(b.String(), "\n")
 }
 
-// Header returns the journal's header for the row columns.
-func Header(columns []string) []string { return append(slices.Clip(columns), "crc32") }
+// headerFor returns the journal's header for the row columns.
+func headerFor(columns []string) []string { return append(slices.Clip(columns), "crc32") }
 
 // Record returns the journal record of a row: its fields and checksum.
 func Record(row []string) []string { return append(slices.Clip(row), Sum(row)) }
@@ -120,7 +120,7 @@ func Sum(row []string) string {
 // of the given columns and runs. A journal without any byte is an error
 // like a wrong header. Cost: linear in len(data).
 func Read(path string, data []byte, columns []string, runs int) (*Contents, error) {
-	header := Header(columns)
+	header := headerFor(columns)
 	first, n, ok := parseRecord(data)
 	if !ok || !slices.Equal(first, header) {
 		got := string(data[:min(len(data), n, 120)])

@@ -17,7 +17,7 @@ var columns = []string{"run", "layer.a.thickness", "peak_temperature_C", "status
 func sample(n int) []byte {
 	var b bytes.Buffer
 	w := csv.NewWriter(&b)
-	w.Write(Header(columns))
+	w.Write(headerFor(columns))
 	for r := range n {
 		errText := ""
 		if r == 5 {
@@ -75,7 +75,7 @@ func TestReadKeepsRecordsAfterDamage(t *testing.T) {
 // the damage good.
 func TestRunsRedoneAreMadeGood(t *testing.T) {
 	data := replaceLine(sample(10), 4, func(s string) string { return strings.Replace(s, "123.", "9", 1) })
-	data = append(data, []byte(Line(Record([]string{"2", "6 mm", "123.2", "ok", ""}))+"\n")...)
+	data = append(data, []byte(csvLine(Record([]string{"2", "6 mm", "123.2", "ok", ""}))+"\n")...)
 	c, err := Read("journal.csv", data, columns, 10)
 	if err != nil || len(c.Rows) != 10 || len(c.Damaged) != 1 || len(c.Runs()) != 0 {
 		t.Errorf("%v: %d rows, damage %v, runs to redo %v", err, len(c.Rows), c.Damaged, c.Runs())
