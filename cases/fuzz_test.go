@@ -26,7 +26,6 @@ import (
 	"os"
 	"path/filepath"
 	"reflect"
-	"runtime"
 	"sort"
 	"strconv"
 	"strings"
@@ -35,6 +34,7 @@ import (
 
 	"cureslab/cases"
 	"cureslab/cases/check"
+	"cureslab/cases/internal/testkit"
 	"cureslab/cases/units"
 	"cureslab/solver"
 )
@@ -47,22 +47,6 @@ const (
 // fzSentinels are the kinds every *Error wraps exactly one of.
 var fzSentinels = []error{cases.ErrSyntax, cases.ErrUnknownKey, cases.ErrType, cases.ErrUnit, cases.ErrRange, cases.ErrMissing,
 	cases.ErrDuplicate, cases.ErrReference, cases.ErrFile}
-
-// fzSeedFiles adds every file matching the globs to f.
-func fzSeedFiles(f *testing.F, globs ...string) {
-	for _, g := range globs {
-		files, _ := filepath.Glob(g)
-		for _, p := range files {
-			if data, err := os.ReadFile(p); err == nil {
-				f.Add(data)
-			}
-		}
-	}
-}
-
-// fzLineCount returns the number of lines of data (a last line without a
-// newline counts; an empty text has one line).
-func fzLineCount(data []byte) int { return bytes.Count(data, []byte("\n")) + 1 }
 
 // fzCheckErrors checks the contract of cases.Parse's errors: a non-empty
 // cases.ErrorList of *Error, each wrapping exactly one sentinel, with a file, a
@@ -93,7 +77,7 @@ func fzCheckErrors(t *testing.T, err error, name string, data []byte, other map[
 		if strings.TrimSpace(e.Err.Error()) == "" {
 			t.Errorf("error without a message: %#v", e)
 		}
-		lines := fzLineCount(data)
+		lines := testkit.LineCount(data)
 		if e.File != name {
 			n, ok := other[e.File]
 			if !ok {
@@ -356,24 +340,6 @@ func fzCheckSnapshots(t testing.TB, c *cases.Case, r *solver.Result) {
 	}
 }
 
-// fzHangLimit is the wall time one fuzz input may take before the fzWatchdog
-// declares a hang. Go's fuzzing engine has no limit of its own: a hung
-// worker just stops the count of inputs without a report.
-const fzHangLimit = 10 * time.Second
-
-// fzWatchdog crashes the test binary, with every goroutine's stack on stderr,
-// when the input has not been handled within limit; the fuzzing engine then
-// keeps the input in testdata/fuzz. Call the returned function when done.
-func fzWatchdog(limit time.Duration, input []byte) (stop func()) {
-	tm := time.AfterFunc(limit, func() {
-		buf := make([]byte, 1<<20)
-		buf = buf[:runtime.Stack(buf, true)]
-		os.Stderr.Write(buf)
-		panic(fmt.Sprintf("hang: input of %d bytes not handled within %v: %q", len(input), limit, input))
-	})
-	return func() { tm.Stop() }
-}
-
 // FuzzParseResolved feeds any bytes to cases.Parse as a case file. Properties:
 //   - no panic;
 //   - a rejection is an cases.ErrorList of positioned *Error (fzCheckErrors), and
@@ -385,15 +351,15 @@ func fzWatchdog(limit time.Duration, input []byte) (stop func()) {
 //   - the solver accepts the problem and a short run keeps every
 //     temperature finite and every cure in [0, 1].
 func FuzzParseResolved(f *testing.F) {
-	fzSeedFiles(f, filepath.Join(goodDir, "*.toml"), filepath.Join(badDir, "*.toml"), "examples/*.toml")
+	testkit.SeedFiles(f, filepath.Join(goodDir, "*.toml"), filepath.Join(badDir, "*.toml"), "examples/*.toml")
 	f.Fuzz(func(t *testing.T, data []byte) {
-		defer fzWatchdog(fzHangLimit, data)()
+		defer testkit.Watchdog(testkit.HangLimit, data)()
 		c, err := cases.Parse("fuzz.toml", data, goodDir)
 		if err != nil {
 			other := map[string]int{}
 			for _, name := range []string{"oven-log.csv", "bad-log.csv", "bad-header.csv"} {
 				if b, rerr := os.ReadFile(filepath.Join(goodDir, name)); rerr == nil {
-					other[filepath.Join(goodDir, name)] = fzLineCount(b)
+					other[filepath.Join(goodDir, name)] = testkit.LineCount(b)
 				}
 			}
 			list := fzCheckErrors(t, err, "fuzz.toml", data, other)
@@ -471,7 +437,7 @@ func FuzzUnitsRoundTrip(f *testing.F) {
 		f.Add(s, i)
 	}
 	f.Fuzz(func(t *testing.T, s string, di int) {
-		defer fzWatchdog(fzHangLimit, []byte(s))()
+		defer testkit.Watchdog(testkit.HangLimit, []byte(s))()
 		n := int(units.Viscosity)
 		d := units.Dim(1 + ((di%n)+n)%n)
 		x, err := units.Parse(s, d)
@@ -631,9 +597,9 @@ func FuzzScheduleCSV(f *testing.F) {
 	} {
 		f.Add([]byte(s))
 	}
-	fzSeedFiles(f, filepath.Join(goodDir, "*.csv"), filepath.Join(badDir, "*.csv"))
+	testkit.SeedFiles(f, filepath.Join(goodDir, "*.csv"), filepath.Join(badDir, "*.csv"))
 	f.Fuzz(func(t *testing.T, data []byte) {
-		defer fzWatchdog(fzHangLimit, data)()
+		defer testkit.Watchdog(testkit.HangLimit, data)()
 		dir := t.TempDir()
 		log := filepath.Join(dir, "log.csv")
 		if err := os.WriteFile(log, data, 0o644); err != nil {
@@ -642,7 +608,7 @@ func FuzzScheduleCSV(f *testing.F) {
 		c, err := cases.Parse("case.toml", []byte(fzScheduleCase), dir)
 		times, temps, bad, simple := fzLogOracle(data)
 		if err != nil {
-			list := fzCheckErrors(t, err, "case.toml", []byte(fzScheduleCase), map[string]int{log: fzLineCount(data)})
+			list := fzCheckErrors(t, err, "case.toml", []byte(fzScheduleCase), map[string]int{log: testkit.LineCount(data)})
 			first := 0
 			for _, e := range list {
 				if e.Key != "schedules.log.file" {
@@ -751,7 +717,7 @@ func FuzzCaseValues(f *testing.F) {
 	f.Add(126.85, 0.5, 360000.0, 10.0, 0.1, 0.0, 401.0, 0.0, 1e-30, 0.0, 3.0, 0.01, 1e-3, -273.0, 10.1)
 	f.Fuzz(func(t *testing.T, T0, cure, end, th1, th2, rc, k, heat, A1, E1, n, ramp, h, Tbot, probe float64) {
 		data := []byte(fmt.Sprintf(fzValuesCase, T0, cure, end, th1, th2, rc, k, heat, A1, E1, n, ramp, h, Tbot, probe))
-		defer fzWatchdog(fzHangLimit, data)()
+		defer testkit.Watchdog(testkit.HangLimit, data)()
 		c, err := cases.Parse("values.toml", data, "")
 		if err != nil {
 			list := fzCheckErrors(t, err, "values.toml", data, nil)

@@ -3,18 +3,15 @@ package dscfile
 import (
 	"bytes"
 	"cureslab/cases"
+	"cureslab/cases/internal/testkit"
 	"cureslab/physics/dsc"
 	"errors"
 	"fmt"
 	"math"
-	"os"
-	"path/filepath"
 	"reflect"
-	"runtime"
 	"strconv"
 	"strings"
 	"testing"
-	"time"
 )
 
 // fzScanOracle reads a DSC scan independently of encoding/csv, for the
@@ -124,9 +121,9 @@ func FuzzScanCSV(f *testing.F) {
 	} {
 		f.Add([]byte(s))
 	}
-	fzSeedFiles(f, "../../testdata/*/*.csv")
+	testkit.SeedFiles(f, "../../testdata/*/*.csv")
 	f.Fuzz(func(t *testing.T, data []byte) {
-		defer fzWatchdog(fzHangLimit, data)()
+		defer testkit.Watchdog(testkit.HangLimit, data)()
 		s, err := parseScan("scan.csv", data)
 		tm, temp, flow, bad, simple := fzScanOracle(data)
 		if err != nil {
@@ -134,7 +131,7 @@ func FuzzScanCSV(f *testing.F) {
 			if !errors.As(err, &list) || len(list) == 0 {
 				t.Fatalf("error %T is not a non-empty ErrorList: %v", err, err)
 			}
-			lines := fzLineCount(data)
+			lines := testkit.LineCount(data)
 			for i, e := range list {
 				if e == nil || e.File != "scan.csv" || !errors.Is(e, ErrScan) || strings.TrimSpace(e.Err.Error()) == "" {
 					t.Fatalf("error %d: %#v", i, e)
@@ -206,38 +203,4 @@ func FuzzScanCSV(f *testing.F) {
 			}
 		}
 	})
-}
-
-// fzSeedFiles adds every file matching the globs to f.
-func fzSeedFiles(f *testing.F, globs ...string) {
-	for _, g := range globs {
-		files, _ := filepath.Glob(g)
-		for _, p := range files {
-			if data, err := os.ReadFile(p); err == nil {
-				f.Add(data)
-			}
-		}
-	}
-}
-
-// fzLineCount returns the number of lines of data (a last line without a
-// newline counts; an empty text has one line).
-func fzLineCount(data []byte) int { return bytes.Count(data, []byte("\n")) + 1 }
-
-// fzHangLimit is the wall time one fuzz input may take before the fzWatchdog
-// declares a hang. Go's fuzzing engine has no limit of its own: a hung
-// worker just stops the count of inputs without a report.
-const fzHangLimit = 10 * time.Second
-
-// fzWatchdog crashes the test binary, with every goroutine's stack on stderr,
-// when the input has not been handled within limit; the fuzzing engine then
-// keeps the input in testdata/fuzz. Call the returned function when done.
-func fzWatchdog(limit time.Duration, input []byte) (stop func()) {
-	tm := time.AfterFunc(limit, func() {
-		buf := make([]byte, 1<<20)
-		buf = buf[:runtime.Stack(buf, true)]
-		os.Stderr.Write(buf)
-		panic(fmt.Sprintf("hang: input of %d bytes not handled within %v: %q", len(input), limit, input))
-	})
-	return func() { tm.Stop() }
 }
