@@ -13,6 +13,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"time"
 )
@@ -35,13 +36,17 @@ var reportClock = func() time.Time { return time.Now() }
 // page equals the one RedrawReport draws from those files, apart from the
 // time stamp. Plots are drawn with gonum.org/v1/plot into inline SVG; the
 // maps are raster images (PNG with a 256-colour palette, cividis) inside
-// the SVG, so a long run stays small. See reportMap for the resampling.
+// the SVG, so a long run stays small. See mapImage for the resampling. The
+// maps and profiles are drawn from the fields of at most FieldTimesKept
+// output times and three more (fieldColumns, the rule); the histories from
+// every output time.
 //
 // Preconditions: as for WriteRun (c validated, r from solver.Run on
 // c.Problem, possibly ended early). The file is written with
 // WriteFileAtomic; dir is created if missing. Cost: linear in the number of
-// snapshots × cells, the maps capped at 1600 × 1200 pixels; for the
-// examples about 0.05 s and 50–130 kB.
+// snapshots × cells, the maps capped at 1600 × 1200 pixels; memory
+// O(cells × FieldTimesKept) beyond r; for the examples about 0.05 s and
+// 50–130 kB.
 func WriteReport(dir string, c *cases.Case, r *solver.Result, s results.Summary) error {
 	if c == nil || c.Problem == nil || c.Problem.Mesh == nil || r == nil {
 		return errors.New("report.WriteReport: case, problem, mesh and result are required")
@@ -64,6 +69,10 @@ func WriteReport(dir string, c *cases.Case, r *solver.Result, s results.Summary)
 // (key "gel_point", an object keyed by layer name); otherwise the page says
 // that it is not drawn.
 //
+// fields.csv is read one output time after the other into the bounded set
+// the report draws (fieldColumns): memory O(cells × FieldTimesKept) plus
+// the probes' values at every output time, however long the file.
+//
 // Errors: a missing or unreadable file wraps ErrFile; a malformed one wraps
 // ErrOutputFile. Both are *Error with the file and, where there is one, the
 // line and column. Nothing is written then.
@@ -83,6 +92,10 @@ func StageReport(set *outdir.Set, c *cases.Case, r *solver.Result, s results.Sum
 	if err != nil {
 		return fmt.Errorf("report: %w", err)
 	}
+	return stageRunReport(set, d)
+}
+
+func stageRunReport(set *outdir.Set, d *runData) error {
 	var b bytes.Buffer
 	if err := renderRunReport(&b, d, reportClock()); err != nil {
 		return fmt.Errorf("drawing %s: %w", ReportFile, err)
@@ -123,16 +136,27 @@ type runData struct {
 	Centers []float64   // cell centres, mm, top to bottom
 	Faces   []float64   // cell faces, mm, len(Centers)+1, Faces[0] = 0
 	Layers  []layerData // top to bottom
-	T       [][]float64 // °C, [time][cell]
-	Cure    [][]float64 // [time][cell], NaN in cells that do not cure
 	GelTime []float64   // s per cell; NaN when the cell never gels or its gel point is unknown
+
+	// The fields of every cell at the output times kept (fieldColumns):
+	// column j is output time FieldAt[j], at FieldTimes[j] = Times[FieldAt[j]].
+	FieldAt    []int
+	FieldTimes []float64
+	T          [][]float64 // °C, [column][cell]
+	Cure       [][]float64 // [column][cell], NaN in cells that do not cure
+	// Absorbed is the volumetric power absorbed per cell, W/m³
+	// [column][cell] (fields.csv power_W_per_m3); nil without volumetric
+	// heating.
+	Absorbed [][]float64
+	// Over every output time: the range of the temperatures (°C), the
+	// hottest cell's temperature and the least cure (NaN without a curing
+	// cell) at each.
+	TLo, THi           float64
+	Hottest, LeastCure []float64
 
 	Probes  []probeData
 	Drivers []seriesData // driving temperatures (air), °C per time
 	Power   []float64    // power fraction per time; nil when not controlled
-	// Absorbed is the volumetric power absorbed per cell, W/m³ [time][cell]
-	// (fields.csv power_W_per_m3); nil without volumetric heating.
-	Absorbed [][]float64
 	// Volumetric reports that the run had volumetric heating (from the
 	// case, or from the output files: a power column).
 	Volumetric bool
@@ -174,92 +198,139 @@ type runTable struct {
 
 	Times   []float64
 	Centers []float64
-	LayerOf []string // layer name per cell
-	T, Cure [][]float64
+	LayerOf []string      // layer name per cell
+	Fields  *fieldColumns // nil before the first output time
 
 	Probes     []probeData
 	Drivers    []seriesData
 	Power      []float64
-	Absorbed   [][]float64 // nil without the power column
 	Volumetric bool
 }
 
-// runDataOf builds the report data of a run in memory, with every value
-// rounded as WriteRun writes it (so that the report does not depend on
-// whether it is drawn from memory or from the files).
+// newFields prepares tb.Fields for its cells (tb.Centers, tb.LayerOf), with
+// the gel point of each cell's layer where tb.GelPoint records it.
+func (tb *runTable) newFields(power bool) {
+	gel := make([]float64, len(tb.LayerOf))
+	for i, l := range tb.LayerOf {
+		gel[i] = math.NaN()
+		if g, ok := tb.GelPoint[l]; ok {
+			gel[i] = g
+		}
+	}
+	tb.Fields = newFieldColumns(len(tb.LayerOf), power, gel)
+}
+
+// runDataOf builds the report data of a run kept in memory (Collector).
 func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, error) {
+	k := NewCollector(c)
+	for i := range r.Snapshots {
+		if err := k.Add(&r.Snapshots[i]); err != nil {
+			return nil, err
+		}
+	}
+	return k.data(s)
+}
+
+// Collector gathers what the report of a run draws from its snapshots, one
+// at a time as the solver hands them over (Add is a solver.Sink), with
+// every value rounded as the output files hold it, so that the page does
+// not depend on whether it is drawn at the end of the run or from the
+// files (RedrawReport). It keeps the fields of a bounded set of output
+// times (fieldColumns, FieldTimesKept) and, of every output time, the
+// probes, the driving temperatures and the power fraction: memory
+// O(cells × FieldTimesKept + (probes + 1) × output times).
+type Collector struct {
+	c          *cases.Case
+	tb         *runTable
+	curing     []bool
+	air        []seriesData
+	prog       []float64
+	controlled bool // probes.csv has program_C and power_fraction
+	viscous    bool // probes.csv has a viscosity column per probe
+}
+
+// NewCollector prepares the report of a run of c. Preconditions: c
+// validated (cases.Load or cases.Parse).
+func NewCollector(c *cases.Case) *Collector {
 	p := c.Problem
 	m := p.Mesh
 	n := m.Cells()
-	tb := &runTable{Summary: s, GelPoint: map[string]float64{}, Volumetric: p.Volumetric != nil}
-	curing := make([]bool, n)
+	k := &Collector{c: c, curing: make([]bool, n),
+		tb:         &runTable{GelPoint: map[string]float64{}, Volumetric: p.Volumetric != nil},
+		controlled: p.Volumetric != nil && p.Volumetric.Control != nil, viscous: cases.Viscous(p)}
+	tb := k.tb
 	for i := range n {
 		j := m.Owner[i]
 		tb.Centers = append(tb.Centers, readBack(num.FormatDepth(m.Centers[i])))
 		tb.LayerOf = append(tb.LayerOf, m.Layers[j].Name)
 		if j < len(p.Materials) && p.Materials[j] != nil && p.Materials[j].Cure != nil {
-			curing[i] = true
+			k.curing[i] = true
 			tb.GelPoint[m.Layers[j].Name] = p.Materials[j].Cure.GelPoint
 		}
 	}
+	tb.newFields(p.Volumetric != nil)
 	for _, d := range p.Probes {
 		l := num.FormatDepth(d)
 		tb.Probes = append(tb.Probes, probeData{Label: l, Depth: readBack(l)})
 	}
-	var air []seriesData
 	if p.Top.HasAir() {
-		air = append(air, seriesData{Column: "air_top_C"})
+		k.air = append(k.air, seriesData{Column: "air_top_C"})
 	}
 	if p.Bottom.HasAir() {
-		air = append(air, seriesData{Column: "air_bottom_C"})
+		k.air = append(k.air, seriesData{Column: "air_bottom_C"})
 	}
-	controlled := p.Volumetric != nil && p.Volumetric.Control != nil // probes.csv has program_C and power_fraction
-	viscous := cases.Viscous(p)                                      // probes.csv has a viscosity column per probe
-	var prog []float64
-	for k := range r.Snapshots {
-		s := &r.Snapshots[k]
-		if len(s.T) != n {
-			return nil, fmt.Errorf("snapshot %d has %d temperatures for %d cells", k, len(s.T), n)
+	return k
+}
+
+// Add takes the next snapshot of the run (in time order). It keeps none of
+// s's slices. Errors: a snapshot without a temperature per cell.
+func (k *Collector) Add(s *solver.Snapshot) error {
+	p := k.c.Problem
+	tb := k.tb
+	n := len(tb.Centers)
+	if len(s.T) != n {
+		return fmt.Errorf("snapshot %d has %d temperatures for %d cells", len(tb.Times), len(s.T), n)
+	}
+	tb.Times = append(tb.Times, s.Time+0) // as written: exact (num.AppendTime)
+	col := tb.Fields.column()
+	for i := range n {
+		col.T[i] = num.Round(num.KtoC(s.T[i]), 6)
+		col.Cure[i] = math.NaN()
+		if k.curing[i] {
+			col.Cure[i] = num.RoundSig(num.At(s.Cure, i))
 		}
-		tb.Times = append(tb.Times, s.Time+0) // as written: exact (num.AppendTime)
-		T := make([]float64, n)
-		a := make([]float64, n)
-		for i := range n {
-			T[i] = num.Round(num.KtoC(s.T[i]), 6)
-			a[i] = math.NaN()
-			if curing[i] {
-				a[i] = num.RoundSig(num.At(s.Cure, i))
-			}
-		}
-		tb.T = append(tb.T, T)
-		tb.Cure = append(tb.Cure, a)
-		if p.Volumetric != nil {
-			P := make([]float64, n)
-			for i := range n {
-				P[i] = num.RoundSig(num.At(s.Power, i))
-			}
-			tb.Absorbed = append(tb.Absorbed, P)
-		}
-		for j := range tb.Probes {
-			pr := &tb.Probes[j]
-			pr.T = append(pr.T, num.Round(num.KtoC(num.At(s.ProbeT, j)), 6))
-			pr.Cure = append(pr.Cure, num.RoundSig(num.At(s.ProbeCure, j)))
-			if viscous {
-				pr.Viscosity = append(pr.Viscosity, num.RoundSig(num.At(s.ProbeViscosity, j)))
-			}
-		}
-		for j := range air {
-			v := s.AirTop
-			if air[j].Column == "air_bottom_C" {
-				v = s.AirBottom
-			}
-			air[j].Values = append(air[j].Values, num.Round(num.KtoC(v), 6))
-		}
-		if controlled {
-			prog = append(prog, num.Round(num.KtoC(p.Volumetric.Control.Program.At(s.Time)), 6))
-			tb.Power = append(tb.Power, num.RoundSig(s.PowerFraction))
+		if col.P != nil {
+			col.P[i] = num.RoundSig(num.At(s.Power, i))
 		}
 	}
+	tb.Fields.add(s.Time, col)
+	for j := range tb.Probes {
+		pr := &tb.Probes[j]
+		pr.T = append(pr.T, num.Round(num.KtoC(num.At(s.ProbeT, j)), 6))
+		pr.Cure = append(pr.Cure, num.RoundSig(num.At(s.ProbeCure, j)))
+		if k.viscous {
+			pr.Viscosity = append(pr.Viscosity, num.RoundSig(num.At(s.ProbeViscosity, j)))
+		}
+	}
+	for j := range k.air {
+		v := s.AirTop
+		if k.air[j].Column == "air_bottom_C" {
+			v = s.AirBottom
+		}
+		k.air[j].Values = append(k.air[j].Values, num.Round(num.KtoC(v), 6))
+	}
+	if k.controlled {
+		k.prog = append(k.prog, num.Round(num.KtoC(p.Volumetric.Control.Program.At(s.Time)), 6))
+		tb.Power = append(tb.Power, num.RoundSig(s.PowerFraction))
+	}
+	return nil
+}
+
+// data returns the report data of the snapshots added, with summary s.
+func (k *Collector) data(s results.Summary) (*runData, error) {
+	tb := *k.tb
+	tb.Summary = s
+	tb.Probes = slices.Clone(tb.Probes)
 	for j := range tb.Probes {
 		if allNaN(tb.Probes[j].Cure) {
 			tb.Probes[j].Cure = nil
@@ -268,13 +339,25 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 			tb.Probes[j].Viscosity = nil
 		}
 	}
-	for _, a := range air {
+	tb.Drivers = nil
+	for _, a := range k.air {
 		tb.Drivers = append(tb.Drivers, seriesData{Column: a.Column, Name: driverName(a.Column), Values: a.Values})
 	}
-	if controlled {
-		tb.Drivers = append(tb.Drivers, seriesData{Column: results.ProgramColumn, Name: driverName(results.ProgramColumn), Values: prog})
+	if k.controlled {
+		tb.Drivers = append(tb.Drivers, seriesData{Column: results.ProgramColumn, Name: driverName(results.ProgramColumn), Values: k.prog})
 	}
-	return newRunData(tb, "")
+	return newRunData(&tb, "")
+}
+
+// Stage draws report.html of the run whose snapshots were added, with
+// summary s, into the output set (package outdir): it goes in place with
+// the run's files at the set's Commit.
+func (k *Collector) Stage(set *outdir.Set, s results.Summary) error {
+	d, err := k.data(s)
+	if err != nil {
+		return fmt.Errorf("report: %w", err)
+	}
+	return stageRunReport(set, d)
 }
 
 // readBack parses a number that this package formatted itself.
@@ -317,8 +400,8 @@ func driverName(col string) string {
 }
 
 // newRunData derives what the report draws from the tables: the cell faces,
-// the layers and the gel time of every cell. file names the source of the
-// tables in messages ("" for memory).
+// the layers, the gel time of every cell and the kept fields. file names
+// the source of the tables in messages ("" for memory).
 //
 // Cell faces: f₀ = 0 and f_{i+1} = 2c_i − f_i, which recovers the faces of
 // any mesh from its centres; the rounding of the centres to 1e-9 mm moves a
@@ -326,26 +409,38 @@ func driverName(col string) string {
 //
 // Gel time of a cell: the first output time at which its cure reaches the
 // gel point of its layer, interpolated linearly in time between that output
-// and the one before; so it is as fine as the output interval.
+// and the one before (fieldColumns, over every output time); so it is as
+// fine as the output interval.
 func newRunData(tb *runTable, file string) (*runData, error) {
 	n := len(tb.Centers)
-	if n == 0 || len(tb.Times) == 0 {
+	if n == 0 || len(tb.Times) == 0 || tb.Fields == nil {
 		return nil, fmt.Errorf("%sno cells or no output times", prefix(file))
 	}
+	f := tb.Fields
 	d := &runData{
 		Title: tb.Summary.Title, Summary: tb.Summary,
-		Times: tb.Times, Centers: tb.Centers, T: tb.T, Cure: tb.Cure,
-		Probes: tb.Probes, Drivers: tb.Drivers, Power: tb.Power, Absorbed: tb.Absorbed,
-		Volumetric: tb.Volumetric || tb.Power != nil || tb.Absorbed != nil,
+		Times: tb.Times, Centers: tb.Centers,
+		Probes: tb.Probes, Drivers: tb.Drivers, Power: tb.Power,
+		Volumetric: tb.Volumetric || tb.Power != nil || f.power,
+		TLo:        f.tLo, THi: f.tHi, Hottest: f.hottest, LeastCure: f.least,
+	}
+	for _, c := range f.columns() {
+		d.FieldAt = append(d.FieldAt, c.k)
+		d.FieldTimes = append(d.FieldTimes, tb.Times[c.k])
+		d.T = append(d.T, c.T)
+		d.Cure = append(d.Cure, c.Cure)
+		if f.power {
+			d.Absorbed = append(d.Absorbed, c.P)
+		}
 	}
 	d.Faces = make([]float64, n+1)
 	for i, c := range tb.Centers {
-		f := 2*c - d.Faces[i]
-		if !(f > d.Faces[i]) {
+		fc := 2*c - d.Faces[i]
+		if !(fc > d.Faces[i]) {
 			return nil, fmt.Errorf("%sthe cell centres (depth_mm) do not fit a mesh that starts at depth 0: cell %d at %g mm leaves no room for its width",
 				prefix(file), i+1, c)
 		}
-		d.Faces[i+1] = f
+		d.Faces[i+1] = fc
 	}
 	for i := 0; i < n; {
 		j := i
@@ -353,13 +448,7 @@ func newRunData(tb *runTable, file string) (*runData, error) {
 			j++
 		}
 		l := layerData{Name: tb.LayerOf[i], Top: d.Faces[i], Bottom: d.Faces[j], First: i, End: j, GelPoint: math.NaN()}
-		for k := range tb.Cure {
-			for c := i; c < j; c++ {
-				if !math.IsNaN(tb.Cure[k][c]) {
-					l.Curing = true
-				}
-			}
-		}
+		l.Curing = slices.Contains(f.cured[i:j], true)
 		if g, ok := tb.GelPoint[l.Name]; ok && l.Curing {
 			l.GelPoint, l.GelPointKnown = g, true
 		}
@@ -370,23 +459,8 @@ func newRunData(tb *runTable, file string) (*runData, error) {
 	for _, l := range d.Layers {
 		for i := l.First; i < l.End; i++ {
 			d.GelTime[i] = math.NaN()
-			if !l.GelPointKnown {
-				continue
-			}
-			for k := range d.Times {
-				a := d.Cure[k][i]
-				if !(a >= l.GelPoint) {
-					continue
-				}
-				t := d.Times[k]
-				if k > 0 {
-					a0 := d.Cure[k-1][i]
-					if a0 < l.GelPoint && a > a0 {
-						t = d.Times[k-1] + (d.Times[k]-d.Times[k-1])*(l.GelPoint-a0)/(a-a0)
-					}
-				}
-				d.GelTime[i] = t
-				break
+			if l.GelPointKnown {
+				d.GelTime[i] = f.gelTime[i]
 			}
 		}
 	}

@@ -212,28 +212,6 @@ func compareTable(names []string, ds []*runData) template.HTML {
 	return tableHTML(head, rows, nil)
 }
 
-// hottest returns the largest temperature over cells at each output time;
-// leastCure the smallest cure over curing cells (NaN without any).
-func hottest(d *runData) []float64 {
-	out := make([]float64, len(d.Times))
-	for k := range d.Times {
-		_, out[k] = valueRange(d.T[k])
-	}
-	return out
-}
-
-func leastCure(d *runData) []float64 {
-	out := make([]float64, len(d.Times))
-	for k := range d.Times {
-		lo, _ := valueRange(d.Cure[k])
-		if math.IsInf(lo, 1) {
-			lo = math.NaN()
-		}
-		out[k] = lo
-	}
-	return out
-}
-
 // commonLimit returns the limit of criterion name when every case that ran
 // sets it to the same value.
 func commonLimit(ds []*runData, name string) (float64, bool) {
@@ -285,7 +263,7 @@ func compareHistoryFigure(names []string, ds []*runData, ts timeScale) (string, 
 			c, dash := lineColor(i)
 			t := ts.of(d.Times)
 			x1 = max(x1, t[len(t)-1])
-			hot := hottest(d)
+			hot := d.Hottest
 			l, err := addSeries(pT, series{X: t, Y: hot, Color: c, Dash: dash, Width: vg.Points(1.5)})
 			if err != nil {
 				return err
@@ -305,7 +283,7 @@ func compareHistoryFigure(names []string, ds []*runData, ts timeScale) (string, 
 				lines = append(lines, dv.Values)
 			}
 			if withCure {
-				if _, err := addSeries(pA, series{X: t, Y: leastCure(d), Color: c, Dash: dash, Width: vg.Points(1.5)}); err != nil {
+				if _, err := addSeries(pA, series{X: t, Y: d.LeastCure, Color: c, Dash: dash, Width: vg.Points(1.5)}); err != nil {
 					return err
 				}
 			}
@@ -364,7 +342,7 @@ func compareProfileFigure(names []string, ds []*runData) (string, error) {
 				continue
 			}
 			c, dash := lineColor(i)
-			k := len(d.Times) - 1
+			k := len(d.FieldTimes) - 1 // the last output time is always kept
 			l, err := addSeries(pT, series{X: d.T[k], Y: d.Centers, Color: c, Dash: dash, Width: vg.Points(1.5)})
 			if err != nil {
 				return err

@@ -9,8 +9,8 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 )
 
-// fullOutput returns the power absorbed per cell at output time k at full
-// output, W/m³: the absorbed power divided by the controller's power
+// fullOutput returns the power absorbed per cell at kept output time k
+// (column k of d.Absorbed) at full output, W/m³: the absorbed power divided by the controller's power
 // fraction, or as it is without control. ok is false when the output was
 // (nearly) off at that time, so that nothing can be said of full output.
 func fullOutput(d *runData, k int) ([]float64, bool) {
@@ -18,7 +18,7 @@ func fullOutput(d *runData, k int) ([]float64, bool) {
 	if d.Power == nil {
 		return P, true
 	}
-	u := d.Power[k]
+	u := d.Power[d.FieldAt[k]]
 	if !(u >= 1e-3) {
 		return nil, false
 	}
@@ -44,7 +44,7 @@ func powerScale(hi float64) (float64, string) {
 // times of profileTimes (at full output under control), the shape of the
 // field in the part. It returns "" when no chosen time has power.
 func absorbedFigure(d *runData, ts timeScale) (string, string, error) {
-	idx, pk := profileTimes(d.Times, float64(d.Summary.PeakTimeS))
+	idx, pk := profileTimes(d.FieldTimes, float64(d.Summary.PeakTimeS))
 	var ks []int
 	var profs [][]float64
 	hi := 0.0
@@ -57,10 +57,7 @@ func absorbedFigure(d *runData, ts timeScale) (string, string, error) {
 	}
 	// Start of heating: the first output time with power, where the
 	// profile shows the field in the uncured part.
-	for k := range d.Times {
-		if k >= len(d.Absorbed) {
-			break
-		}
+	for k := range d.Absorbed {
 		if P, ok := fullOutput(d, k); ok {
 			if _, h := valueRange(P); h > 0 {
 				if len(ks) == 0 || k < ks[0] {
@@ -102,7 +99,7 @@ func absorbedFigure(d *runData, ts timeScale) (string, string, error) {
 			}
 			c, dash := lineColor(j)
 			w := vg.Points(1.3)
-			name := "t = " + strconv.FormatFloat(d.Times[k]/ts.div, 'g', 3, 64) + " " + ts.unit
+			name := "t = " + strconv.FormatFloat(d.FieldTimes[k]/ts.div, 'g', 3, 64) + " " + ts.unit
 			if k == pk {
 				w = vg.Points(2.6)
 				name += " (peak)"
@@ -126,8 +123,8 @@ func absorbedFigure(d *runData, ts timeScale) (string, string, error) {
 	return svg, caption, err
 }
 
-// firstPowered returns the first output time of d with power and its
-// full-output profile (fullOutput), or −1.
+// firstPowered returns the first kept output time of d with power (a
+// column of d.Absorbed) and its full-output profile (fullOutput), or −1.
 func firstPowered(d *runData) (int, []float64) {
 	for k := range d.Absorbed {
 		if P, ok := fullOutput(d, k); ok {

@@ -33,13 +33,20 @@ func outputError(file string, line, col int, key, format string, a ...any) *case
 func readRunData(dir string) (*runData, error) {
 	tb := &runTable{}
 	fields := filepath.Join(dir, results.FieldsFile)
+	f, err := openOutput(fields) // a directory without it is said to be no run's first
+	if err != nil {
+		return nil, err
+	}
+	f.Close()
+	// The summary before the fields: the gel points it records give the
+	// gel times, followed as fields.csv is read.
+	if err := readSummaryJSON(filepath.Join(dir, results.SummaryFile), tb); err != nil {
+		return nil, err
+	}
 	if err := readFieldsCSV(fields, tb); err != nil {
 		return nil, err
 	}
 	if err := readProbesCSV(filepath.Join(dir, results.ProbesFile), tb); err != nil {
-		return nil, err
-	}
-	if err := readSummaryJSON(filepath.Join(dir, results.SummaryFile), tb); err != nil {
 		return nil, err
 	}
 	d, err := newRunData(tb, "")
@@ -118,7 +125,9 @@ func (t *csvTable) errAt(i int, col, format string, a ...any) *cases.Error {
 }
 
 // readFieldsCSV reads fields.csv (README, Case file reference): one block of rows per output
-// time, the same cells in the same order in every block.
+// time, the same cells in the same order in every block. The blocks go one
+// by one into tb.Fields (fieldColumns), which keeps a bounded set of them:
+// memory O(cells), however long the file.
 func readFieldsCSV(path string, tb *runTable) error {
 	f, err := openOutput(path)
 	if err != nil {
@@ -144,6 +153,24 @@ func readFieldsCSV(path string, tb *runTable) error {
 	}
 	iT, iZ, iL, iTC, iA := col["time_s"], col["depth_mm"], col["layer"], col["temperature_C"], col["cure"]
 	iP, withPower := col[results.PowerColumn]
+	// The cells of the first output time are gathered in first; every
+	// later output time fills a column of tb.Fields (fieldColumns), handed
+	// over once complete.
+	var first fieldCol
+	var cur *fieldCol
+	flush := func() {
+		if tb.Fields == nil {
+			tb.newFields(withPower)
+			c := tb.Fields.column()
+			copy(c.T, first.T)
+			copy(c.Cure, first.Cure)
+			copy(c.P, first.P)
+			first = fieldCol{}
+			tb.Fields.add(tb.Times[0], c)
+			return
+		}
+		tb.Fields.add(tb.Times[len(tb.Times)-1], cur)
+	}
 	cell := 0 // index of the cell in the current block
 	for {
 		rec, err := t.next()
@@ -178,12 +205,11 @@ func readFieldsCSV(path string, tb *runTable) error {
 				return t.errAt(iT, "time_s", "output time %s s starts after %d cells of time %s s, want %d (every output time lists the same cells)",
 					rec[iT], cell, fmtG(tb.Times[nt-1]), len(tb.Centers))
 			}
-			tb.Times = append(tb.Times, tm)
-			tb.T = append(tb.T, make([]float64, 0, len(tb.Centers)))
-			tb.Cure = append(tb.Cure, make([]float64, 0, len(tb.Centers)))
-			if withPower {
-				tb.Absorbed = append(tb.Absorbed, make([]float64, 0, len(tb.Centers)))
+			if nt > 0 {
+				flush()
+				cur = tb.Fields.column()
 			}
+			tb.Times = append(tb.Times, tm)
 			cell, nt = 0, nt+1
 		}
 		if nt == 1 {
@@ -207,14 +233,23 @@ func readFieldsCSV(path string, tb *runTable) error {
 					cell+1, rec[iZ], rec[iL], fmtG(tb.Centers[cell]), tb.LayerOf[cell])
 			}
 		}
-		tb.T[nt-1] = append(tb.T[nt-1], T)
-		tb.Cure[nt-1] = append(tb.Cure[nt-1], a)
+		P := 0.0
 		if withPower {
-			P, err := t.number(rec, iP, results.PowerColumn, false)
-			if err != nil {
+			if P, err = t.number(rec, iP, results.PowerColumn, false); err != nil {
 				return err
 			}
-			tb.Absorbed[nt-1] = append(tb.Absorbed[nt-1], P)
+		}
+		if nt == 1 {
+			first.T = append(first.T, T)
+			first.Cure = append(first.Cure, a)
+			if withPower {
+				first.P = append(first.P, P)
+			}
+		} else {
+			cur.T[cell], cur.Cure[cell] = T, a
+			if withPower {
+				cur.P[cell] = P
+			}
 		}
 		cell++
 	}
@@ -224,6 +259,7 @@ func readFieldsCSV(path string, tb *runTable) error {
 	if cell != len(tb.Centers) {
 		return outputError(path, t.line, 0, "", "the last output time has %d cells, want %d (the file is cut short)", cell, len(tb.Centers))
 	}
+	flush()
 	return nil
 }
 

@@ -24,14 +24,14 @@ func mapFigure(d *runData, ts timeScale, cure bool) (string, error) {
 		vals = d.Cure
 		label, title = "degree of cure (–)", "depth–time map of degree of cure"
 	} else {
-		lo, hi = valueRange(d.T...)
+		lo, hi = d.TLo, d.THi // over every output time, kept or not
 		if hi-lo < 1 {
 			lo, hi = (lo+hi)/2-0.5, (lo+hi)/2+0.5
 		}
 	}
-	img := mapImage(d.Times, d.Faces, vals, lo, hi)
+	img := mapImage(d.FieldTimes, d.Faces, vals, lo, hi)
 	L := thickness(d)
-	x0, x1 := d.Times[0]/ts.div, d.Times[len(d.Times)-1]/ts.div
+	x0, x1 := d.FieldTimes[0]/ts.div, d.FieldTimes[len(d.FieldTimes)-1]/ts.div
 	return svgFigure(figWidth, mapHeight, title, func(dc draw.Canvas) error {
 		p := newPlot("time ("+ts.unit+")", "depth (mm)")
 		invertDepth(p, L)
@@ -144,9 +144,10 @@ func mapCaption(d *runData, cure bool) string {
 	return b.String()
 }
 
-// profileTimes picks the output times of the profiles: the ones nearest to
-// 1/5, 2/5, …, 5/5 of the run, and the one nearest to the peak. It returns
-// indices into times, increasing, and the index of the peak's (or −1).
+// profileTimes picks the output times of the profiles among times (the
+// kept ones, runData.FieldTimes): the ones nearest to 1/5, 2/5, …, 5/5 of
+// the run, and the one nearest to the peak. It returns indices into times,
+// increasing, and the index of the peak's (or −1).
 func profileTimes(times []float64, peak float64) ([]int, int) {
 	nt := len(times)
 	near := func(t float64) int {
@@ -182,7 +183,7 @@ func profileTimes(times []float64, peak float64) ([]int, int) {
 // profileFigure draws temperature and degree of cure against depth at the
 // times of profileTimes, side by side, with one legend of the times.
 func profileFigure(d *runData, ts timeScale) (string, string, error) {
-	idx, pk := profileTimes(d.Times, float64(d.Summary.PeakTimeS))
+	idx, pk := profileTimes(d.FieldTimes, float64(d.Summary.PeakTimeS))
 	L := thickness(d)
 	withCure := curingLayers(d) > 0
 	caption := "Temperature"
@@ -213,7 +214,7 @@ func profileFigure(d *runData, ts timeScale) (string, string, error) {
 		for j, k := range idx {
 			c, dash := lineColor(j)
 			w := vg.Points(1.3)
-			name := "t = " + strconv.FormatFloat(d.Times[k]/ts.div, 'g', 3, 64) + " " + ts.unit
+			name := "t = " + strconv.FormatFloat(d.FieldTimes[k]/ts.div, 'g', 3, 64) + " " + ts.unit
 			if k == pk {
 				w = vg.Points(2.6)
 				name += " (peak)"

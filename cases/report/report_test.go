@@ -29,7 +29,16 @@ import (
 // per cell. maxT sets criteria.max_temperature.
 func reportCase(t *testing.T, maxT string) *cases.Case {
 	t.Helper()
-	text := `title = "Report test: slab <&> plate"
+	c, err := cases.Parse("report-test.toml", []byte(reportText(maxT)), "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return c
+}
+
+// reportText is the case file of reportCase.
+func reportText(maxT string) string {
+	return `title = "Report test: slab <&> plate"
 [initial]
 temperature = "23 C"
 [time]
@@ -70,11 +79,6 @@ probes = ["0 mm", "1.5 mm", "3.5 mm"]
 min_cure = 0.5
 max_temperature = "` + maxT + `"
 `
-	c, err := cases.Parse("report-test.toml", []byte(text), "")
-	if err != nil {
-		t.Fatal(err)
-	}
-	return c
 }
 
 func runReportCase(t *testing.T, maxT string) (*cases.Case, *solver.Result) {

@@ -2,7 +2,8 @@
 // output files: solve (solver.RunStream), handing each snapshot as it comes
 // to the rows of fields.csv and probes.csv (results.RunWriter, into the
 // run's output set) → summarise once at the end (results.RunWriter.Summarize)
-// → summary.json → report.html (report.StageReport). The commands run, demo
+// → summary.json → report.html, drawn from what report.Collector kept of the
+// snapshots as they passed (a bounded set of output times). The commands run, demo
 // and compare go through it; sweeps, tuning and uncertainty runs use the
 // same steps without the report.
 package simulate
@@ -12,7 +13,6 @@ import (
 	"errors"
 	"fmt"
 	"path/filepath"
-	"slices"
 
 	"cureslab/cases"
 	"cureslab/cases/outdir"
@@ -75,8 +75,11 @@ func Case(ctx context.Context, c *cases.Case, dir string, opt Options) results.C
 	// writer is made at the first one, once the solver has accepted the
 	// problem, so that a refused problem stages nothing.
 	var rw *results.RunWriter
-	var werr error             // the writer could not be made
-	var kept []solver.Snapshot // for the report, until it draws from a stream
+	var werr error // the writer could not be made
+	var col *report.Collector
+	if opt.Report {
+		col = report.NewCollector(c)
+	}
 	sink := func(s *solver.Snapshot) error {
 		if rw == nil {
 			var err error
@@ -85,10 +88,13 @@ func Case(ctx context.Context, c *cases.Case, dir string, opt Options) results.C
 				return err
 			}
 		}
-		if opt.Report {
-			kept = append(kept, copySnapshot(s))
+		if err := rw.Add(s); err != nil {
+			return err
 		}
-		return rw.Add(s)
+		if col != nil {
+			return col.Add(s)
+		}
+		return nil
 	}
 	r, err := solver.RunStream(ctx, c.Problem, sink)
 	if err != nil {
@@ -116,21 +122,10 @@ func Case(ctx context.Context, c *cases.Case, dir string, opt Options) results.C
 		out.Err = err
 		return finish(out)
 	}
-	if opt.Report {
-		full := *r
-		full.Snapshots = kept
-		out.Err = report.StageReport(set, c, &full, out.Summary)
+	if col != nil {
+		out.Err = col.Stage(set, out.Summary)
 	}
 	return finish(out)
-}
-
-// copySnapshot returns s with slices of its own.
-func copySnapshot(s *solver.Snapshot) solver.Snapshot {
-	c := *s
-	c.T, c.Cure, c.Rate, c.Tg = slices.Clone(s.T), slices.Clone(s.Cure), slices.Clone(s.Rate), slices.Clone(s.Tg)
-	c.ProbeT, c.ProbeCure, c.ProbeViscosity = slices.Clone(s.ProbeT), slices.Clone(s.ProbeCure), slices.Clone(s.ProbeViscosity)
-	c.Power, c.Viscosity = slices.Clone(s.Power), slices.Clone(s.Viscosity)
-	return c
 }
 
 // verify returns the estimated error of run r of c from a second run at
