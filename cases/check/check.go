@@ -81,7 +81,7 @@ const maxNeighbourRatio = 5
 // Check writes a plain-text account of c for a reader checking a case before
 // a run: the resolved stack (materials and where they come from, cells and
 // cell sizes, contact resistances), the materials, faces, volumetric heating
-// (chkVolumetric), schedules, time and output settings and criteria, then
+// (printVolumetric), schedules, time and output settings and criteria, then
 // pre-trial estimates (Biot numbers
 // of the faces, and for each curing layer the adiabatic temperature rise
 // and conduction time against reaction half-life, see Estimate), warnings,
@@ -90,14 +90,14 @@ const maxNeighbourRatio = 5
 // The only error it returns is a write error of w.
 func Check(w io.Writer, c *cases.Case) error {
 	p := textout.NewPrinter(w)
-	chkHeader(p, c)
-	chkStack(p, c)
-	chkMaterials(p, c)
-	chkFaces(p, c)
-	volWarnings := chkVolumetric(p, c)
-	chkSchedules(p, c)
-	chkTime(p, c)
-	warnings := chkEstimates(p, c)
+	printHeader(p, c)
+	printStack(p, c)
+	printMaterials(p, c)
+	printFaces(p, c)
+	volWarnings := printVolumetric(p, c)
+	printSchedules(p, c)
+	printTime(p, c)
+	warnings := printEstimates(p, c)
 	warnings = append(warnings, volWarnings...)
 	warnings = append(warnings, meshWarnings(c)...)
 	warnings = append(warnings, compositeWarnings(c)...)
@@ -116,7 +116,7 @@ func Check(w io.Writer, c *cases.Case) error {
 	return p.Err()
 }
 
-func chkHeader(p *textout.Printer, c *cases.Case) {
+func printHeader(p *textout.Printer, c *cases.Case) {
 	title := c.Title
 	if title == "" {
 		title = "(no title)"
@@ -127,29 +127,29 @@ func chkHeader(p *textout.Printer, c *cases.Case) {
 	}
 }
 
-func chkStack(p *textout.Printer, c *cases.Case) {
+func printStack(p *textout.Printer, c *cases.Case) {
 	m := c.Problem.Mesh
 	p.Printf("\nStack, top to bottom (depth 0 is the top face): %s mm in %d cells\n", num.FormatDepth(m.Thickness()), m.Cells())
 	tw := p.Table()
 	fmt.Fprintf(tw, "  layer\tmaterial\tfrom\tthickness\tdepth\tcells\tcell size\tcontact resistance\n")
 	for j, l := range m.Layers {
-		info := chkLayerInfo(c, j)
+		info := layerInfo(c, j)
 		from := "case file"
 		if info.Builtin {
 			from = "built-in"
 		} else if slices.Contains(c.Replaced, info.Material) {
 			from = "case file, replaces built-in"
 		}
-		if mat := chkMaterial(c, j); mat != nil && mat.Cure != nil {
+		if mat := materialOf(c, j); mat != nil && mat.Cure != nil {
 			from += ", cures"
 		}
 		lo, hi := math.Inf(1), 0.0
 		for i := m.First[j]; i < m.First[j+1]; i++ {
 			lo, hi = min(lo, m.Widths[i]), max(hi, m.Widths[i])
 		}
-		size := chkG4(lo*1e3) + " mm"
+		size := g4(lo*1e3) + " mm"
 		if hi > lo*(1+1e-9) {
-			size = chkG4(lo*1e3) + " to " + chkG4(hi*1e3) + " mm"
+			size = g4(lo*1e3) + " to " + g4(hi*1e3) + " mm"
 		}
 		rc := "-"
 		if l.ContactResistance > 0 {
@@ -162,38 +162,38 @@ func chkStack(p *textout.Printer, c *cases.Case) {
 	p.Flush(tw)
 }
 
-// chkLayerInfo returns the LayerInfo of layer j, or one built from the mesh
+// layerInfo returns the LayerInfo of layer j, or one built from the mesh
 // and the problem when the case carries none.
-func chkLayerInfo(c *cases.Case, j int) cases.LayerInfo {
+func layerInfo(c *cases.Case, j int) cases.LayerInfo {
 	if j < len(c.Layers) {
 		return c.Layers[j]
 	}
 	info := cases.LayerInfo{Name: c.Problem.Mesh.Layers[j].Name}
-	if mat := chkMaterial(c, j); mat != nil {
+	if mat := materialOf(c, j); mat != nil {
 		info.Material = mat.Name
 	}
 	return info
 }
 
-func chkMaterial(c *cases.Case, j int) *physics.Material {
+func materialOf(c *cases.Case, j int) *physics.Material {
 	if j >= 0 && j < len(c.Problem.Materials) {
 		return c.Problem.Materials[j]
 	}
 	return nil
 }
 
-func chkMaterials(p *textout.Printer, c *cases.Case) {
+func printMaterials(p *textout.Printer, c *cases.Case) {
 	p.Printf("\nMaterials\n")
 	seen := map[*physics.Material]bool{}
 	for j := range c.Problem.Mesh.Layers {
-		mat := chkMaterial(c, j)
+		mat := materialOf(c, j)
 		if mat == nil || seen[mat] {
 			continue
 		}
 		seen[mat] = true
 		name := mat.Name
 		if name == "" {
-			name = chkLayerInfo(c, j).Material
+			name = layerInfo(c, j).Material
 		}
 		p.Printf("  %s\n", name)
 		for _, line := range DescribeMaterial(mat) {
@@ -211,17 +211,17 @@ func DescribeMaterial(m *physics.Material) []string {
 	if c := m.Composition; c != nil {
 		lines = append(lines,
 			fmt.Sprintf("composite: %s fibre in %s resin, fibre volume fraction %s (mass fraction %s); no voids",
-				c.Fibre, c.Resin, num.G(c.FibreVolumeFraction), chkF(c.FibreMassFraction, 4)),
+				c.Fibre, c.Resin, num.G(c.FibreVolumeFraction), fixedText(c.FibreMassFraction, 4)),
 			fmt.Sprintf("mixed: density by volume, specific heat by mass, through-thickness conductivity by the %s model; cure heat per kg of ply = resin mass fraction %s x the resin's",
-				c.Model, chkF(1-c.FibreMassFraction, 4)))
+				c.Model, fixedText(1-c.FibreMassFraction, 4)))
 	}
 	lines = append(lines,
 		"density "+num.G(m.Density)+" kg/m^3",
-		"specific heat "+chkBlend(&m.SpecificHeat, "J/kg/K"),
-		"conductivity "+chkBlend(&m.Conductivity, "W/m/K"),
+		"specific heat "+blendText(&m.SpecificHeat, "J/kg/K"),
+		"conductivity "+blendText(&m.Conductivity, "W/m/K"),
 	)
 	if cu := m.Cure; cu != nil {
-		lines = append(lines, "cures: "+chkKinetics(cu.Model))
+		lines = append(lines, "cures: "+kineticsText(cu.Model))
 		gel := num.G(cu.GelPoint)
 		if cu.GelPoint == 0 || cu.GelPointDefaulted {
 			gel = gelPointDefaultWords
@@ -231,7 +231,7 @@ func DescribeMaterial(m *physics.Material) []string {
 		if d := cu.Diffusion; d != nil {
 			lines = append(lines, fmt.Sprintf("diffusion: C %s, alpha_c = %s + %s 1/K * T (%s at 23 C, %s at 100 C)",
 				num.G(d.C), num.G(d.Alpha0), num.G(d.AlphaT),
-				chkF(d.Alpha0+d.AlphaT*296.15, 3), chkF(d.Alpha0+d.AlphaT*373.15, 3)))
+				fixedText(d.Alpha0+d.AlphaT*296.15, 3), fixedText(d.Alpha0+d.AlphaT*373.15, 3)))
 		}
 		if g := cu.Glass; g != nil {
 			lines = append(lines, fmt.Sprintf("glass transition: Tg0 %s C, Tg_full %s C, lambda %s",
@@ -257,16 +257,16 @@ func DescribeMaterial(m *physics.Material) []string {
 	return lines
 }
 
-// chkBlend describes a property that may depend on temperature and cure.
-func chkBlend(b *physics.Blend, unit string) string {
-	s := chkProperty(b.Uncured, unit)
+// blendText describes a property that may depend on temperature and cure.
+func blendText(b *physics.Blend, unit string) string {
+	s := propertyText(b.Uncured, unit)
 	if b.HasCured {
-		return s + " uncured, " + chkProperty(b.Cured, unit) + " cured (linear in cure)"
+		return s + " uncured, " + propertyText(b.Cured, unit) + " cured (linear in cure)"
 	}
 	return s
 }
 
-func chkProperty(p physics.Property, unit string) string {
+func propertyText(p physics.Property, unit string) string {
 	t, v := p.Points()
 	if p.IsConstant() {
 		if len(v) == 0 {
@@ -282,17 +282,17 @@ func chkProperty(p physics.Property, unit string) string {
 		len(t), num.G(t[0]-273.15), num.G(t[len(t)-1]-273.15))
 }
 
-func chkKinetics(k physics.Kinetics) string {
+func kineticsText(k physics.Kinetics) string {
 	switch m := k.(type) {
 	case physics.NthOrder:
 		return fmt.Sprintf("nth-order, A %s 1/s, E %s kJ/mol, n %s", num.G(m.A), num.G(m.E/1e3), num.G(m.N))
 	case *physics.NthOrder:
-		return chkKinetics(*m)
+		return kineticsText(*m)
 	case physics.Autocatalytic:
 		return fmt.Sprintf("autocatalytic, A1 %s 1/s, E1 %s kJ/mol, A2 %s 1/s, E2 %s kJ/mol, m %s, n %s",
 			num.G(m.A1), num.G(m.E1/1e3), num.G(m.A2), num.G(m.E2/1e3), num.G(m.M), num.G(m.N))
 	case *physics.Autocatalytic:
-		return chkKinetics(*m)
+		return kineticsText(*m)
 	case physics.LeeLoosSpringer:
 		return fmt.Sprintf("lee-loos-springer, A1 %s 1/s, E1 %s kJ/mol, A2 %s 1/s, E2 %s kJ/mol, A3 %s 1/s, E3 %s kJ/mol, B %s, switch %s",
 			num.G(m.A1), num.G(m.E1/1e3), num.G(m.A2), num.G(m.E2/1e3), num.G(m.A3), num.G(m.E3/1e3), num.G(m.B), num.G(m.Switch))
@@ -310,7 +310,7 @@ func chkKinetics(k physics.Kinetics) string {
 	return k.Name()
 }
 
-func chkFaces(p *textout.Printer, c *cases.Case) {
+func printFaces(p *textout.Printer, c *cases.Case) {
 	p.Printf("\nFaces\n")
 	tw := p.Table()
 	for _, f := range []struct {
@@ -318,12 +318,12 @@ func chkFaces(p *textout.Printer, c *cases.Case) {
 		face   *physics.Face
 		driver string
 	}{{"top", &c.Problem.Top, c.TopAir}, {"bottom", &c.Problem.Bottom, c.BottomAir}} {
-		fmt.Fprintf(tw, "  %s\t%s\t%s\n", f.name, f.face.Kind, chkFace(f.face, f.driver))
+		fmt.Fprintf(tw, "  %s\t%s\t%s\n", f.name, f.face.Kind, faceText(f.face, f.driver))
 	}
 	p.Flush(tw)
 }
 
-func chkFace(f *physics.Face, driver string) string {
+func faceText(f *physics.Face, driver string) string {
 	q := func(s string) string {
 		if s == "" {
 			return "(as loaded)"
@@ -362,7 +362,7 @@ func chkFace(f *physics.Face, driver string) string {
 	return "no heat through this face"
 }
 
-func chkSchedules(p *textout.Printer, c *cases.Case) {
+func printSchedules(p *textout.Printer, c *cases.Case) {
 	if len(c.Schedules) == 0 {
 		return
 	}
@@ -376,7 +376,7 @@ func chkSchedules(p *textout.Printer, c *cases.Case) {
 		s := c.Schedules[n]
 		t, v := s.Points()
 		p.Printf("  %s: %d points, starts at %s C, highest %s C, ends at %s with %s C\n", n, len(t),
-			chkC(v[0]), chkC(s.Max()), num.HumanTime(s.End()), chkC(v[len(v)-1]))
+			celsius(v[0]), celsius(s.Max()), num.HumanTime(s.End()), celsius(v[len(v)-1]))
 		pts := make([]string, 0, len(t))
 		for i := range t {
 			if len(t) > 12 && i == 5 {
@@ -385,18 +385,18 @@ func chkSchedules(p *textout.Printer, c *cases.Case) {
 			if len(t) > 12 && i >= 5 && i < len(t)-5 {
 				continue
 			}
-			pts = append(pts, num.HumanTime(t[i])+" "+chkC(v[i])+" C")
+			pts = append(pts, num.HumanTime(t[i])+" "+celsius(v[i])+" C")
 		}
 		p.Printf("    %s\n", strings.Join(pts, ", "))
 	}
 }
 
-func chkTime(p *textout.Printer, c *cases.Case) {
+func printTime(p *textout.Printer, c *cases.Case) {
 	pr := c.Problem
 	p.Printf("\nTime and output\n")
 	tw := p.Table()
-	init := chkC(pr.InitialTemperature) + " C"
-	if chkCuring(c) {
+	init := celsius(pr.InitialTemperature) + " C"
+	if hasCuring(c) {
 		init += ", cure " + num.G(pr.InitialCure) + " in curing layers"
 	}
 	fmt.Fprintf(tw, "  initial\t%s\n", init)
@@ -431,7 +431,7 @@ func chkTime(p *textout.Printer, c *cases.Case) {
 	probes := make([]string, len(pr.Probes))
 	for i, d := range pr.Probes {
 		probes[i] = num.FormatDepth(d) + " mm"
-		if j := chkLayerAt(pr, d); j >= 0 {
+		if j := layerAt(pr, d); j >= 0 {
 			probes[i] += " (" + pr.Mesh.Layers[j].Name + ")"
 		}
 	}
@@ -467,9 +467,9 @@ func chkTime(p *textout.Printer, c *cases.Case) {
 	p.Flush(tw)
 }
 
-// chkLayerAt returns the layer a probe at depth z reads (the upper layer on
+// layerAt returns the layer a probe at depth z reads (the upper layer on
 // a layer face), or −1 outside the stack.
-func chkLayerAt(pr *solver.Problem, z float64) int {
+func layerAt(pr *solver.Problem, z float64) int {
 	m := pr.Mesh
 	for j := range m.Layers {
 		if z <= m.Faces[m.First[j+1]] {
@@ -482,7 +482,7 @@ func chkLayerAt(pr *solver.Problem, z float64) int {
 	return -1
 }
 
-func chkCuring(c *cases.Case) bool {
+func hasCuring(c *cases.Case) bool {
 	for _, m := range c.Problem.Materials {
 		if m != nil && m.Cure != nil {
 			return true
@@ -509,15 +509,15 @@ func looseWarnings(c *cases.Case) []string {
 	var warn []string
 	if tt := pr.TemperatureTolerance; tt >= looseTolerance*solver.DefaultTemperatureTolerance {
 		warn = append(warn, fmt.Sprintf("[time] temperature_tolerance %s K is %s times the default %s K: each step may be that far off; run with --verify to see what it costs the results.",
-			num.G(tt), chkG3(tt/solver.DefaultTemperatureTolerance), num.G(solver.DefaultTemperatureTolerance)))
+			num.G(tt), g3(tt/solver.DefaultTemperatureTolerance), num.G(solver.DefaultTemperatureTolerance)))
 	}
 	if ct := pr.CureTolerance; ct >= looseTolerance*solver.DefaultCureTolerance {
 		warn = append(warn, fmt.Sprintf("[time] cure_tolerance %s is %s times the default %s: each step may be that far off; run with --verify to see what it costs the results.",
-			num.G(ct), chkG3(ct/solver.DefaultCureTolerance), num.G(solver.DefaultCureTolerance)))
+			num.G(ct), g3(ct/solver.DefaultCureTolerance), num.G(solver.DefaultCureTolerance)))
 	}
 	m := pr.Mesh
 	for j, l := range m.Layers {
-		mat := chkMaterial(c, j)
+		mat := materialOf(c, j)
 		if mat == nil {
 			continue
 		}
@@ -528,7 +528,7 @@ func looseWarnings(c *cases.Case) []string {
 		}
 		if k < looseConductivity && wide >= looseCell*mesh.DefaultMaxCell*(1-1e-9) {
 			warn = append(warn, fmt.Sprintf("layer %s: cells up to %s mm, %s times the default %s mm: peaks and cure fronts in it are under-resolved (the spatial error grows with the square of the cell size, and --verify does not refine the mesh); use the default [mesh] max_cell or more cells.",
-				l.Name, chkG3(wide*1e3), chkG3(wide/mesh.DefaultMaxCell), num.G(mesh.DefaultMaxCell*1e3)))
+				l.Name, g3(wide*1e3), g3(wide/mesh.DefaultMaxCell), num.G(mesh.DefaultMaxCell*1e3)))
 		}
 	}
 	return warn
@@ -553,21 +553,21 @@ func meshWarnings(c *cases.Case) []string {
 		return nil
 	}
 	return []string{fmt.Sprintf("neighbouring cells at %s mm differ in size by %sx (%s mm and %s mm; %d such place(s)): set [mesh] growth = 1.2 to grade the cells.",
-		num.FormatDepth(m.Faces[at+1]), chkG3(worst), chkG3(m.Widths[at]*1e3), chkG3(m.Widths[at+1]*1e3), count)}
+		num.FormatDepth(m.Faces[at+1]), g3(worst), g3(m.Widths[at]*1e3), g3(m.Widths[at+1]*1e3), count)}
 }
 
-// chkC formats an absolute temperature T (K) in °C with up to 6
+// celsius formats an absolute temperature T (K) in °C with up to 6
 // significant digits.
-func chkC(T float64) string { return num.G(num.Celsius(T)) }
+func celsius(T float64) string { return num.G(num.Celsius(T)) }
 
-// chkG4 formats v with 4 significant digits.
-func chkG4(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
+// g4 formats v with 4 significant digits.
+func g4(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
 
-// chkG3 formats v with 3 significant digits.
-func chkG3(v float64) string { return strconv.FormatFloat(v, 'g', 3, 64) }
+// g3 formats v with 3 significant digits.
+func g3(v float64) string { return strconv.FormatFloat(v, 'g', 3, 64) }
 
-// chkF formats v with the given decimals (no "-0").
-func chkF(v float64, decimals int) string {
+// fixedText formats v with the given decimals (no "-0").
+func fixedText(v float64, decimals int) string {
 	s := strconv.FormatFloat(v, 'f', decimals, 64)
 	if strings.Trim(s, "-0.") == "" {
 		s = strings.TrimPrefix(s, "-")

@@ -51,9 +51,9 @@ func TestAdiabaticRise(t *testing.T) {
 	}
 }
 
-// chkSlab builds a case of the given layers (materials per layer) with both
+// slabCase builds a case of the given layers (materials per layer) with both
 // faces convective at h to a constant air temperature Tair.
-func chkSlab(t *testing.T, layers []mesh.Layer, mats []*physics.Material, h, Tair float64) *cases.Case {
+func slabCase(t *testing.T, layers []mesh.Layer, mats []*physics.Material, h, Tair float64) *cases.Case {
 	t.Helper()
 	m, err := mesh.Build(layers, mesh.Options{})
 	if err != nil {
@@ -76,12 +76,12 @@ func chkSlab(t *testing.T, layers []mesh.Layer, mats []*physics.Material, h, Tai
 	return c
 }
 
-func chkInert(name string, rho, cp, k float64) *physics.Material {
+func inertMaterial(name string, rho, cp, k float64) *physics.Material {
 	return &physics.Material{Name: name, Density: rho,
 		SpecificHeat: physics.Inert(physics.Constant(cp)), Conductivity: physics.Inert(physics.Constant(k))}
 }
 
-func chkOutput(t *testing.T, c *cases.Case) string {
+func checkText(t *testing.T, c *cases.Case) string {
 	t.Helper()
 	var b bytes.Buffer
 	if err := Check(&b, c); err != nil {
@@ -93,15 +93,15 @@ func chkOutput(t *testing.T, c *cases.Case) string {
 func TestCheckBiot(t *testing.T) {
 	// Source: definition Bi = h·L/k (Incropera §5.1, from memory);
 	// 10 W/m²K × 0.01 m / 0.2 W/m/K = 0.5 (analytic).
-	one := chkSlab(t, []mesh.Layer{{Name: "a", Thickness: 0.01}}, []*physics.Material{chkInert("m", 1000, 1000, 0.2)}, 10, 300)
-	if out := chkOutput(t, one); !strings.Contains(out, "top     Bi = 0.5 ") || !strings.Contains(out, "bottom  Bi = 0.5 ") {
+	one := slabCase(t, []mesh.Layer{{Name: "a", Thickness: 0.01}}, []*physics.Material{inertMaterial("m", 1000, 1000, 0.2)}, 10, 300)
+	if out := checkText(t, one); !strings.Contains(out, "top     Bi = 0.5 ") || !strings.Contains(out, "bottom  Bi = 0.5 ") {
 		t.Errorf("single layer: want Bi = 0.5 on both faces in\n%s", out)
 	}
 	// Series resistance (analytic): 0.01/0.2 + 0.002/0.4 + 0.005 = 0.06
 	// m²K/W, so Bi = 10 × 0.06 = 0.6.
-	two := chkSlab(t, []mesh.Layer{{Name: "a", Thickness: 0.01}, {Name: "b", Thickness: 0.002, ContactResistance: 0.005}},
-		[]*physics.Material{chkInert("m", 1000, 1000, 0.2), chkInert("n", 1000, 1000, 0.4)}, 10, 300)
-	if out := chkOutput(t, two); !strings.Contains(out, "top     Bi = 0.6 ") {
+	two := slabCase(t, []mesh.Layer{{Name: "a", Thickness: 0.01}, {Name: "b", Thickness: 0.002, ContactResistance: 0.005}},
+		[]*physics.Material{inertMaterial("m", 1000, 1000, 0.2), inertMaterial("n", 1000, 1000, 0.4)}, 10, 300)
+	if out := checkText(t, two); !strings.Contains(out, "top     Bi = 0.6 ") {
 		t.Errorf("two layers: want Bi = 0.6 in\n%s", out)
 	}
 }
@@ -126,9 +126,9 @@ func TestCheckWarnings(t *testing.T) {
 		SpecificHeat: physics.Inert(physics.Constant(1500)), Conductivity: physics.Inert(physics.Constant(0.2)),
 		Cure: &physics.Cure{Model: physics.NthOrder{A: 0.01 / math.Exp(-60e3/(physics.GasConstant*373.15)), E: 60e3, N: 1},
 			TotalHeat: 400e3, ResinFraction: 1, GelPoint: 0.6}}
-	c := chkSlab(t, []mesh.Layer{{Name: "thick", Thickness: 0.02}}, []*physics.Material{fast}, 10, 373.15)
+	c := slabCase(t, []mesh.Layer{{Name: "thick", Thickness: 0.02}}, []*physics.Material{fast}, 10, 373.15)
 	c.Criteria.MaxTemperature = 413.15
-	out := chkOutput(t, c)
+	out := checkText(t, c)
 	for _, want := range []string{
 		"the exotherm can run ahead of conduction: expect the core to overshoot the program",
 		"above max_temperature 140 C",
@@ -144,17 +144,17 @@ func TestCheckWarnings(t *testing.T) {
 	}
 
 	// Neighbouring cells of 1 mm and 0.05 mm (ratio 20 > 5).
-	inert := chkInert("m", 1000, 1000, 1)
-	c = chkSlab(t, []mesh.Layer{{Name: "a", Thickness: 5e-3, Cells: 5}, {Name: "b", Thickness: 0.1e-3, Cells: 2}},
+	inert := inertMaterial("m", 1000, 1000, 1)
+	c = slabCase(t, []mesh.Layer{{Name: "a", Thickness: 5e-3, Cells: 5}, {Name: "b", Thickness: 0.1e-3, Cells: 2}},
 		[]*physics.Material{inert, inert}, 10, 300)
-	out = chkOutput(t, c)
+	out = checkText(t, c)
 	if !strings.Contains(out, "differ in size by 20x") || !strings.Contains(out, "[mesh] growth") {
 		t.Errorf("no mesh-grading warning in\n%s", out)
 	}
 
 	// A benign case has none.
-	c = chkSlab(t, []mesh.Layer{{Name: "a", Thickness: 5e-3}}, []*physics.Material{inert}, 10, 300)
-	if out = chkOutput(t, c); !strings.Contains(out, "Warnings\n  none\n") {
+	c = slabCase(t, []mesh.Layer{{Name: "a", Thickness: 5e-3}}, []*physics.Material{inert}, 10, 300)
+	if out = checkText(t, c); !strings.Contains(out, "Warnings\n  none\n") {
 		t.Errorf("unexpected warnings in\n%s", out)
 	}
 }

@@ -62,7 +62,7 @@ func Estimates(c *cases.Case) []Estimate {
 	prog := hottestProgram(pr)
 	var out []Estimate
 	for j, l := range pr.Mesh.Layers {
-		mat := chkMaterial(c, j)
+		mat := materialOf(c, j)
 		if mat == nil || mat.Cure == nil {
 			continue
 		}
@@ -77,7 +77,7 @@ func Estimates(c *cases.Case) []Estimate {
 		diff := k / (mat.Density * cp)
 		e := Estimate{
 			Layer:         l.Name,
-			Material:      chkLayerInfo(c, j).Material,
+			Material:      layerInfo(c, j).Material,
 			Thickness:     l.Thickness,
 			T:             T,
 			AdiabaticRise: AdiabaticRise(mat.Cure.HeatPerMass(), cu, cc, a0),
@@ -144,11 +144,11 @@ func DrivingMax(pr *solver.Problem) (float64, bool) {
 	return T, true
 }
 
-// chkEstimates prints the Biot numbers (chkBiot) and the curing-layer
-// estimates (chkLayerEstimate) and returns the warnings they raise.
-func chkEstimates(p *textout.Printer, c *cases.Case) []string {
+// printEstimates prints the Biot numbers (printBiot) and the curing-layer
+// estimates (printLayerEstimate) and returns the warnings they raise.
+func printEstimates(p *textout.Printer, c *cases.Case) []string {
 	p.Printf("\nPre-trial estimates (rough guides, not results)\n")
-	chkBiot(p, c)
+	printBiot(p, c)
 	est := Estimates(c)
 	if len(est) == 0 {
 		p.Printf("  No layer cures: the case is pure heat conduction.\n")
@@ -160,12 +160,12 @@ func chkEstimates(p *textout.Printer, c *cases.Case) []string {
 	}
 	var warn []string
 	for _, e := range est {
-		warn = append(warn, chkLayerEstimate(p, c, e, abort)...)
+		warn = append(warn, printLayerEstimate(p, c, e, abort)...)
 	}
 	return warn
 }
 
-// chkBiot prints the Biot number of each face of c over the whole stack:
+// printBiot prints the Biot number of each face of c over the whole stack:
 //
 //	Bi = h L / k_eff,  k_eff = L / Σ (l_j / k_j + R_j)
 //
@@ -173,14 +173,14 @@ func chkEstimates(p *textout.Printer, c *cases.Case) []string {
 // conductivities at the initial temperature and cure, R_j their contact
 // resistances, and h the face's coefficient plus, with an emissivity ε, the
 // radiation linearised at the highest air temperature T_a: 4 ε σ T_a³.
-func chkBiot(p *textout.Printer, c *cases.Case) {
+func printBiot(p *textout.Printer, c *cases.Case) {
 	pr := c.Problem
 	m := pr.Mesh
 	T0 := pr.InitialTemperature
 	L, R := m.Thickness(), 0.0
 	for j, l := range m.Layers {
 		a := 0.0
-		mat := chkMaterial(c, j)
+		mat := materialOf(c, j)
 		if mat == nil {
 			continue
 		}
@@ -192,7 +192,7 @@ func chkBiot(p *textout.Printer, c *cases.Case) {
 	}
 	keff := L / R
 	p.Printf("  Biot numbers Bi = h*L/k_eff, L = the whole stack (%s mm), k_eff = L / (sum of layer thickness/k\n", num.FormatDepth(L))
-	p.Printf("  plus contact resistances) = %s W/m/K at the initial %s C:\n", chkG3(keff), chkF(T0-273.15, 1))
+	p.Printf("  plus contact resistances) = %s W/m/K at the initial %s C:\n", g3(keff), fixedText(T0-273.15, 1))
 	tw := p.Table()
 	for _, f := range []struct {
 		name string
@@ -206,10 +206,10 @@ func chkBiot(p *textout.Printer, c *cases.Case) {
 				ta := f.face.Air.Max()
 				hr := 4 * f.face.Emissivity * physics.StefanBoltzmann * ta * ta * ta
 				h += hr
-				note += fmt.Sprintf(" + radiation %s W/m^2/K (linearised at %s C)", chkG3(hr), chkF(ta-273.15, 0))
+				note += fmt.Sprintf(" + radiation %s W/m^2/K (linearised at %s C)", g3(hr), fixedText(ta-273.15, 0))
 			}
 			bi := h * R
-			fmt.Fprintf(tw, "    %s\tBi = %s\t%s: %s\n", f.name, chkG3(bi), note, biotWords(bi))
+			fmt.Fprintf(tw, "    %s\tBi = %s\t%s: %s\n", f.name, g3(bi), note, biotWords(bi))
 		case f.face.Kind == physics.Fixed:
 			fmt.Fprintf(tw, "    %s\tBi infinite\tthe face follows its set temperature; the stack lags it by conduction alone\n", f.name)
 		default:
@@ -219,27 +219,27 @@ func chkBiot(p *textout.Printer, c *cases.Case) {
 	p.Flush(tw)
 }
 
-// chkLayerEstimate prints the estimates of one curing layer (adiabatic
+// printLayerEstimate prints the estimates of one curing layer (adiabatic
 // rise, conduction time, reaction half-life, time to min_cure, peak
-// reaction rate) and its runaway screen (chkRunaway), and returns the
+// reaction rate) and its runaway screen (printRunaway), and returns the
 // warnings: min_cure out of reach in the case's time, conduction slower than
 // the reaction, and an adiabatic core above max_temperature or above abort,
 // the runaway limit (K).
-func chkLayerEstimate(p *textout.Printer, c *cases.Case, e Estimate, abort float64) []string {
+func printLayerEstimate(p *textout.Printer, c *cases.Case, e Estimate, abort float64) []string {
 	pr := c.Problem
 	var warn []string
-	p.Printf("  Layer %s (%s), at the highest driving temperature %s C:\n", e.Layer, e.Material, chkF(e.T-273.15, 1))
+	p.Printf("  Layer %s (%s), at the highest driving temperature %s C:\n", e.Layer, e.Material, fixedText(e.T-273.15, 1))
 	tw := p.Table()
 	peak := e.T + e.AdiabaticRise
 	fmt.Fprintf(tw, "    adiabatic temperature rise\t%s K\tif no reaction heat left the layer; an adiabatic core would reach %s C\n",
-		chkF(e.AdiabaticRise, 1), chkF(peak-273.15, 0))
+		fixedText(e.AdiabaticRise, 1), fixedText(peak-273.15, 0))
 	rs := e.Runaway
 	scale := "the layer (heat leaves through one face)"
 	if rs.Half {
 		scale = "half the layer (heat leaves through both faces)"
 	}
 	fmt.Fprintf(tw, "    conduction time l^2/a\t%s\tl = %s mm, %s; a = k/(rho*c_p) = %s m^2/s\n",
-		num.HumanTime(e.ConductionTime), num.FormatDepth(rs.Length), scale, chkG3(e.Diffusivity))
+		num.HumanTime(e.ConductionTime), num.FormatDepth(rs.Length), scale, g3(e.Diffusivity))
 	var half string
 	switch {
 	case e.HalfLife == 0:
@@ -258,42 +258,42 @@ func chkLayerEstimate(p *textout.Printer, c *cases.Case, e Estimate, abort float
 			ttm = num.HumanTime(e.TimeToMinCure)
 		}
 		fmt.Fprintf(tw, "    time to min_cure %s\t%s\tisothermal at %s C from cure %s; the case runs %s\n",
-			num.G(mc), ttm, chkF(e.T-273.15, 1), num.G(pr.InitialCure), num.HumanTime(pr.End))
+			num.G(mc), ttm, fixedText(e.T-273.15, 1), num.G(pr.InitialCure), num.HumanTime(pr.End))
 	}
 	if e.PeakRate > 0 {
 		fmt.Fprintf(tw, "    peak reaction rate\t%s 1/s\tisothermal, at cure %s; apparent activation energy %s kJ/mol\n",
-			chkG3(e.PeakRate), chkF(e.PeakCure, 2), chkF(e.ApparentE/1e3, 1))
+			g3(e.PeakRate), fixedText(e.PeakCure, 2), fixedText(e.ApparentE/1e3, 1))
 	}
 	p.Flush(tw)
-	warn = append(warn, chkRunaway(p, c, e)...)
+	warn = append(warn, printRunaway(p, c, e)...)
 	if mc := c.Criteria.MinCure; e.TimeToMinCure > pr.End {
 		warn = append(warn, fmt.Sprintf("layer %s: even held at %s C from the start, the resin needs %s (isothermal) to reach min_cure %s, longer than the case's %s: it gets there only with help from its own exotherm, if at all.",
-			e.Layer, chkF(e.T-273.15, 1), chkTimeOrNever(e.TimeToMinCure), num.G(mc), num.HumanTime(pr.End)))
+			e.Layer, fixedText(e.T-273.15, 1), timeOrNever(e.TimeToMinCure), num.G(mc), num.HumanTime(pr.End)))
 	}
 	if e.HalfLife > 0 && e.ConductionTime > e.HalfLife {
 		warn = append(warn, fmt.Sprintf("layer %s: the conduction time (%s) is longer than the reaction half-life at %s C (%s): the exotherm can run ahead of conduction: expect the core to overshoot the program.",
-			e.Layer, num.HumanTime(e.ConductionTime), chkF(e.T-273.15, 0), num.HumanTime(e.HalfLife)))
+			e.Layer, num.HumanTime(e.ConductionTime), fixedText(e.T-273.15, 0), num.HumanTime(e.HalfLife)))
 	}
 	if v := c.Criteria.MaxTemperature; !math.IsNaN(v) && peak > v {
 		warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above max_temperature %s C: the criterion holds only if enough heat leaves.",
-			e.Layer, chkF(peak-273.15, 0), num.G(num.Celsius(v))))
+			e.Layer, fixedText(peak-273.15, 0), num.G(num.Celsius(v))))
 	}
 	if peak > abort {
 		warn = append(warn, fmt.Sprintf("layer %s: an adiabatic core would reach %s C, above the runaway limit %s C.",
-			e.Layer, chkF(peak-273.15, 0), num.G(abort-273.15)))
+			e.Layer, fixedText(peak-273.15, 0), num.G(abort-273.15)))
 	}
 	return warn
 }
 
-func chkTimeOrNever(t float64) string {
+func timeOrNever(t float64) string {
 	if math.IsInf(t, 1) {
 		return "forever"
 	}
 	return num.HumanTime(t)
 }
 
-// chkLayerIndex returns the index of the layer named name, −1 if none.
-func chkLayerIndex(c *cases.Case, name string) int {
+// layerIndex returns the index of the layer named name, −1 if none.
+func layerIndex(c *cases.Case, name string) int {
 	for j, l := range c.Problem.Mesh.Layers {
 		if l.Name == name {
 			return j
@@ -302,19 +302,19 @@ func chkLayerIndex(c *cases.Case, name string) int {
 	return -1
 }
 
-// chkRunaway prints the Frank-Kamenetskii screen of one curing layer and
+// printRunaway prints the Frank-Kamenetskii screen of one curing layer and
 // returns its warning, if any.
-func chkRunaway(p *textout.Printer, c *cases.Case, e Estimate) []string {
+func printRunaway(p *textout.Printer, c *cases.Case, e Estimate) []string {
 	rs := e.Runaway
 	p.Printf("    Runaway screen (Frank-Kamenetskii, steady slab; a guide, not a prediction):\n")
 	tw := p.Table()
 	hold := "from the start"
-	cure := chkF(rs.Cure, 3) + " (the initial cure: the hold begins at the start)"
+	cure := fixedText(rs.Cure, 3) + " (the initial cure: the hold begins at the start)"
 	if !math.IsInf(rs.HoldFrom, -1) {
 		hold = "from " + num.HumanTime(rs.HoldFrom)
-		cure = chkF(rs.Cure, 3) + " (estimated: the initial cure followed along the program with isothermal kinetics, no lag, no exotherm)"
+		cure = fixedText(rs.Cure, 3) + " (estimated: the initial cure followed along the program with isothermal kinetics, no lag, no exotherm)"
 	}
-	fmt.Fprintf(tw, "      hottest hold\t%s C %s\n", chkF(rs.T-273.15, 1), hold)
+	fmt.Fprintf(tw, "      hottest hold\t%s C %s\n", fixedText(rs.T-273.15, 1), hold)
 	pr := c.Problem
 	caveat := "" // how the screen's assumptions differ from the case
 	if _, driven := DrivingMax(pr); !driven {
@@ -331,8 +331,8 @@ func chkRunaway(p *textout.Printer, c *cases.Case, e Estimate) []string {
 			}
 		}
 		if cool < rs.T-1 {
-			caveat = fmt.Sprintf("; the screen overstates the risk here: it takes the faces' surroundings at the hold, while the air or platen stays at %s C", chkF(cool-273.15, 0))
-			fmt.Fprintf(tw, "      note\tthe screen takes the faces' surroundings at the hold temperature; here one reaches only %s C, which takes more heat away than the screen assumes\n", chkF(cool-273.15, 1))
+			caveat = fmt.Sprintf("; the screen overstates the risk here: it takes the faces' surroundings at the hold, while the air or platen stays at %s C", fixedText(cool-273.15, 0))
+			fmt.Fprintf(tw, "      note\tthe screen takes the faces' surroundings at the hold temperature; here one reaches only %s C, which takes more heat away than the screen assumes\n", fixedText(cool-273.15, 1))
 		}
 	}
 	fmt.Fprintf(tw, "      cure when it begins\t%s\n", cure)
@@ -342,7 +342,7 @@ func chkRunaway(p *textout.Printer, c *cases.Case, e Estimate) []string {
 		return nil
 	}
 	fmt.Fprintf(tw, "      fastest rate in the hold\t%s 1/s\tat cure %s (isothermal, from the cure it begins with); apparent activation energy %s kJ/mol\n",
-		chkG3(rs.Rate), chkF(rs.RateCure, 2), chkF(rs.ApparentE/1e3, 1))
+		g3(rs.Rate), fixedText(rs.RateCure, 2), fixedText(rs.ApparentE/1e3, 1))
 	biot := func(b float64) string {
 		switch {
 		case math.IsInf(b, 1):
@@ -350,17 +350,17 @@ func chkRunaway(p *textout.Printer, c *cases.Case, e Estimate) []string {
 		case b == 0:
 			return "0 (no heat leaves)"
 		}
-		return chkG3(b)
+		return g3(b)
 	}
 	fmt.Fprintf(tw, "      Biot numbers h*l/k\ttop %s, bottom %s\tl = %s mm; each face's path to the air or platen through the layers beyond it, at %s C\n",
-		biot(rs.BiTop), biot(rs.BiBottom), num.FormatDepth(rs.Length), chkF(rs.T-273.15, 0))
-	fmt.Fprintf(tw, "      delta\t%s\tE/(R T^2) * heat release at the fastest rate * l^2 / k\n", chkG3(rs.Delta))
+		biot(rs.BiTop), biot(rs.BiBottom), num.FormatDepth(rs.Length), fixedText(rs.T-273.15, 0))
+	fmt.Fprintf(tw, "      delta\t%s\tE/(R T^2) * heat release at the fastest rate * l^2 / k\n", g3(rs.Delta))
 	fmt.Fprintf(tw, "      critical delta\t%s\tfor these Biot numbers: the largest delta with a steady state of theta'' + delta*exp(theta) = 0, from its closed-form solutions (Frank-Kamenetskii, Diffusion and Heat Transfer in Chemical Kinetics, 1969): 0.8785 for held faces, Semenov's Bi/e for small Bi\n",
-		chkG3(rs.Critical))
+		g3(rs.Critical))
 	p.Flush(tw)
 	ratio := rs.Delta / rs.Critical
 	// What is left to release from the cure the hold begins with.
-	mat := chkMaterial(c, chkLayerIndex(c, e.Layer))
+	mat := materialOf(c, layerIndex(c, e.Layer))
 	left := ""
 	if mat != nil && mat.Cure != nil {
 		cu, _ := mat.SpecificHeat.Uncured.At(rs.T)
@@ -369,17 +369,17 @@ func chkRunaway(p *textout.Printer, c *cases.Case, e Estimate) []string {
 			cc, _ = mat.SpecificHeat.Cured.At(rs.T)
 		}
 		left = fmt.Sprintf(" (what is left to react from cure %s can heat it by at most %s K, adiabatic)",
-			chkF(rs.Cure, 2), chkF(AdiabaticRise(mat.Cure.HeatPerMass(), cu, cc, rs.Cure), 0))
+			fixedText(rs.Cure, 2), fixedText(AdiabaticRise(mat.Cure.HeatPerMass(), cu, cc, rs.Cure), 0))
 	}
 	switch {
 	case rs.Critical == 0:
 		return []string{fmt.Sprintf("layer %s: no heat leaves it through either face: any reaction heat accumulates (adiabatic): expect its full adiabatic rise.", e.Layer)}
 	case ratio >= 1:
 		return []string{fmt.Sprintf("layer %s: the Frank-Kamenetskii delta %s at the %s C hold exceeds its critical %s for these faces (%.0f %%): no steady state exists while the resin reacts at that rate: expect a runaway exotherm unless the resin runs out first%s%s. Lower the hold, cure thinner, or cool the faces better, and keep within the supplier's limits.",
-			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), chkG3(rs.Critical), 100*ratio, left, caveat)}
+			e.Layer, g3(rs.Delta), fixedText(rs.T-273.15, 0), g3(rs.Critical), 100*ratio, left, caveat)}
 	case ratio >= runawayCaution:
 		return []string{fmt.Sprintf("layer %s: the Frank-Kamenetskii delta %s at the %s C hold is %.0f %% of its critical %s for these faces (caution from %.0f %%): close to thermal runaway%s%s; a thicker layer, a hotter hold or weaker cooling would tip it over.",
-			e.Layer, chkG3(rs.Delta), chkF(rs.T-273.15, 0), 100*ratio, chkG3(rs.Critical), 100*runawayCaution, left, caveat)}
+			e.Layer, g3(rs.Delta), fixedText(rs.T-273.15, 0), 100*ratio, g3(rs.Critical), 100*runawayCaution, left, caveat)}
 	}
 	return nil
 }

@@ -112,9 +112,9 @@ func TestRunawayScreenPaths(t *testing.T) {
 	resin := &physics.Material{Name: "r", Density: 1100,
 		SpecificHeat: physics.Inert(physics.Constant(1500)), Conductivity: physics.Inert(physics.Constant(0.2)),
 		Cure: &physics.Cure{Model: physics.NthOrder{A: 1e5, E: 60e3, N: 1}, TotalHeat: 400e3, ResinFraction: 1, GelPoint: 0.6}}
-	board := chkInert("board", 1850, 1100, 0.35)
+	board := inertMaterial("board", 1850, 1100, 0.35)
 	const h, L, L2, rc, k2 = 10.0, 8e-3, 1.6e-3, 2e-4, 0.35
-	c := chkSlab(t, []mesh.Layer{{Name: "resin", Thickness: L}, {Name: "board", Thickness: L2, ContactResistance: rc}},
+	c := slabCase(t, []mesh.Layer{{Name: "resin", Thickness: L}, {Name: "board", Thickness: L2, ContactResistance: rc}},
 		[]*physics.Material{resin, board}, h, 353.15)
 	s := screenRunaway(c, 0, 353.15, hottestProgram(c.Problem))
 	biTopL := h * L / 0.2

@@ -14,19 +14,19 @@ import (
 	"strings"
 )
 
-// chkVolumetric prints the volumetric heating of c, if any: frequency or
+// printVolumetric prints the volumetric heating of c, if any: frequency or
 // band, the field (or the standing wave's incidence and power) and the
-// attenuation (chkSource); for every absorbing layer ε′, ε″ uncured and
+// attenuation (printSource); for every absorbing layer ε′, ε″ uncured and
 // cured, the wavelength in the material, the power density, the heating
-// rate and the penetration depth (chkAbsorbers); the plane wave's
+// rate and the penetration depth (printAbsorbers); the plane wave's
 // reflected, transmitted and absorbed shares; the layers that absorb
 // nothing (a shield "reflects (metal)"); and the controller's settings with
-// their defaults marked (chkControl). It returns the warnings: a frequency
+// their defaults marked (printControl). It returns the warnings: a frequency
 // outside the ISM bands, a field that control does not use, an absorbing
 // layer thicker than λ/8 under an exponential model (which ignores standing
 // waves), a sensor near a node of the standing wave, and a program ramp
 // faster than the full power heats any absorbing layer.
-func chkVolumetric(p *textout.Printer, c *cases.Case) []string {
+func printVolumetric(p *textout.Printer, c *cases.Case) []string {
 	v := c.Problem.Volumetric
 	if v == nil {
 		return nil
@@ -38,28 +38,28 @@ func chkVolumetric(p *textout.Printer, c *cases.Case) []string {
 	pr := c.Problem
 	standing := v.Attenuation == physics.StandingWave
 	p.Printf("\nVolumetric heating\n")
-	warn := chkSource(p, v, info)
+	warn := printSource(p, v, info)
 
-	var sw *chkWave
+	var sw *waveSolution
 	if standing {
-		sw = chkStanding(pr, v, v.Frequencies(), v.Incident)
+		sw = standingWave(pr, v, v.Frequencies(), v.Incident)
 		p.Printf("  Plane wave at full power, uncured -> cured: reflected %s -> %s, transmitted %s -> %s, absorbed %s -> %s\n",
-			chkPct(sw.uncured.Reflected), chkPct(sw.cured.Reflected), chkPct(sw.uncured.Transmitted), chkPct(sw.cured.Transmitted),
-			chkPct(sw.uncured.Absorbed), chkPct(sw.cured.Absorbed))
+			pct(sw.uncured.Reflected), pct(sw.cured.Reflected), pct(sw.uncured.Transmitted), pct(sw.cured.Transmitted),
+			pct(sw.uncured.Absorbed), pct(sw.cured.Absorbed))
 		p.Printf("  Absorbing layers at full power (uncured -> cured; power density: the layer's mean, and its cells' range;\n  heating rate at the mean with no heat lost):\n")
 	} else {
 		p.Printf("  Absorbing layers, at the full field (uncured -> cured; heating rate with no heat lost):\n")
 	}
-	fastest, w := chkAbsorbers(p, c, sw)
+	fastest, w := printAbsorbers(p, c, sw)
 	warn = append(warn, w...)
 	if !standing && v.Attenuation != physics.Uniform {
 		inc := map[physics.Attenuation]physics.Incidence{physics.FromTop: physics.IncidentTop,
 			physics.FromBottom: physics.IncidentBottom, physics.FromBoth: physics.IncidentBoth}[v.Attenuation]
-		w := chkStanding(pr, v, physics.Band{Lo: v.Frequency, Hi: v.Frequency, Points: 1}, inc)
+		w := standingWave(pr, v, physics.Band{Lo: v.Frequency, Hi: v.Frequency, Points: 1}, inc)
 		p.Printf("  For comparison, a plane wave from the same face(s) (attenuation = \"standing-wave\"), uncured -> cured:\n"+
 			"    reflected %s -> %s, transmitted %s -> %s, absorbed %s -> %s\n",
-			chkPct(w.uncured.Reflected), chkPct(w.cured.Reflected), chkPct(w.uncured.Transmitted), chkPct(w.cured.Transmitted),
-			chkPct(w.uncured.Absorbed), chkPct(w.cured.Absorbed))
+			pct(w.uncured.Reflected), pct(w.cured.Reflected), pct(w.uncured.Transmitted), pct(w.cured.Transmitted),
+			pct(w.uncured.Absorbed), pct(w.cured.Absorbed))
 	}
 	if standing && v.Control != nil {
 		if i := pr.Mesh.Locate(v.Control.Sensor); i >= 0 {
@@ -68,22 +68,22 @@ func chkVolumetric(p *textout.Printer, c *cases.Case) []string {
 				warn = append(warn, fmt.Sprintf("the sensor at %s mm sits near a node of the standing wave: the power there is %s of its layer's mean (uncured). "+
 					"The controller will heat the rest of %q until this cell follows the program, so the layer runs hotter than the sensor; "+
 					"consider the sensor at the hottest depth, or a band.",
-					num.FormatDepth(v.Control.Sensor), chkPct(sw.pUncured[i]/mean), pr.Mesh.Layers[j].Name))
+					num.FormatDepth(v.Control.Sensor), pct(sw.pUncured[i]/mean), pr.Mesh.Layers[j].Name))
 			}
 		}
 	}
 	if v.Control == nil {
 		return warn
 	}
-	return append(warn, chkControl(p, pr, v, info, fastest)...)
+	return append(warn, printControl(p, pr, v, info, fastest)...)
 }
 
-// chkSource prints the table of the source of volumetric heating v: the
+// printSource prints the table of the source of volumetric heating v: the
 // frequency (or the band of a swept standing wave), the field or the
 // incident wave and its power, and the attenuation. It returns the warnings
 // of a frequency outside the ISM bands and of a field that control does not
 // use.
-func chkSource(p *textout.Printer, v *physics.Volumetric, info *cases.VolumetricInfo) []string {
+func printSource(p *textout.Printer, v *physics.Volumetric, info *cases.VolumetricInfo) []string {
 	var warn []string
 	standing := v.Attenuation == physics.StandingWave
 	tw := p.Table()
@@ -142,18 +142,18 @@ func chkSource(p *textout.Printer, v *physics.Volumetric, info *cases.Volumetric
 	return warn
 }
 
-// chkAbsorbers prints the table of the layers of c that absorb, then one
+// printAbsorbers prints the table of the layers of c that absorb, then one
 // line for each layer that absorbs nothing. Per absorbing layer: ε′, ε″
 // uncured and cured, the wavelength in the material (physics.Wavelength),
 // the power density (exponential modes: P = 2π f ε0 ε″ E² at the full
-// field; standing wave, where sw is the solution of chkStanding: the
+// field; standing wave, where sw is the solution of standingWave: the
 // layer's mean and its cells' range at full incident power, and its share
 // of the incident power), the heating rate P/(ρ c_p) it would give with no
 // heat lost (c_p at the initial temperature, uncured) and the penetration
 // depth (physics.PenetrationDepth). It returns the fastest such heating
 // rate, K/s, and the warnings of layers thicker than λ/8 under an
 // exponential model.
-func chkAbsorbers(p *textout.Printer, c *cases.Case, sw *chkWave) (fastest float64, warn []string) {
+func printAbsorbers(p *textout.Printer, c *cases.Case, sw *waveSolution) (fastest float64, warn []string) {
 	pr := c.Problem
 	v := pr.Volumetric
 	standing := sw != nil
@@ -166,8 +166,8 @@ func chkAbsorbers(p *textout.Printer, c *cases.Case, sw *chkWave) (fastest float
 	}
 	var others []string
 	for j, l := range pr.Mesh.Layers {
-		mat := chkMaterial(c, j)
-		info := chkLayerInfo(c, j)
+		mat := materialOf(c, j)
+		info := layerInfo(c, j)
 		if mat == nil {
 			continue
 		}
@@ -195,31 +195,31 @@ func chkAbsorbers(p *textout.Printer, c *cases.Case, sw *chkWave) (fastest float
 			mu, lo, hi, su := sw.layer(pr.Mesh, j, sw.pUncured)
 			mc, loC, hiC, sc := sw.layer(pr.Mesh, j, sw.pCured)
 			pu, pc = mu, mc
-			scale, unit := chkPowerUnit(max(hi, hiC))
-			power = fmt.Sprintf("%s (%s to %s) -> %s (%s to %s) %s", chkG3(mu/scale), chkG3(lo/scale), chkG3(hi/scale),
-				chkG3(mc/scale), chkG3(loC/scale), chkG3(hiC/scale), unit)
-			share = chkPct(su) + " -> " + chkPct(sc)
+			scale, unit := powerUnit(max(hi, hiC))
+			power = fmt.Sprintf("%s (%s to %s) -> %s (%s to %s) %s", g3(mu/scale), g3(lo/scale), g3(hi/scale),
+				g3(mc/scale), g3(loC/scale), g3(hiC/scale), unit)
+			share = pct(su) + " -> " + pct(sc)
 		} else {
 			pu = physics.PowerDensity(v.Frequency, d.LossFactor, v.Field)
 			pc = physics.PowerDensity(v.Frequency, d.LossFactorCured, v.Field)
-			scale, unit := chkPowerUnit(max(pu, pc))
-			power = fmt.Sprintf("%s -> %s %s", chkG3(pu/scale), chkG3(pc/scale), unit)
+			scale, unit := powerUnit(max(pu, pc))
+			power = fmt.Sprintf("%s -> %s %s", g3(pu/scale), g3(pc/scale), unit)
 			if v.Attenuation != physics.Uniform && l.Thickness > lambda/8 {
 				warn = append(warn, fmt.Sprintf("layer %q is %s mm thick, more than an eighth of the wavelength in it (%s mm at %s): "+
 					"the field forms standing waves there, which attenuation %q ignores; attenuation = \"standing-wave\" computes them.",
-					l.Name, num.FormatDepth(l.Thickness), chkG3(lambda*1e3), cases.FormatFrequency(f0), v.Attenuation.String()))
+					l.Name, num.FormatDepth(l.Thickness), g3(lambda*1e3), cases.FormatFrequency(f0), v.Attenuation.String()))
 			}
 		}
 		rate := pu / (mat.Density * cp)
 		fastest = max(fastest, rate)
 		cols := []string{l.Name, info.Material, num.G(d.Permittivity), num.G(d.LossFactor) + " -> " + num.G(d.LossFactorCured),
-			chkG3(lambda*1e3) + " mm"}
+			g3(lambda*1e3) + " mm"}
 		if standing {
 			cols = append(cols, share)
 		}
-		cols = append(cols, power, chkG3(rate*60)+" K/min",
-			chkDepth(physics.PenetrationDepth(f0, d.Permittivity, d.LossFactor))+" -> "+
-				chkDepth(physics.PenetrationDepth(f0, d.Permittivity, d.LossFactorCured))+" mm")
+		cols = append(cols, power, g3(rate*60)+" K/min",
+			depthMM(physics.PenetrationDepth(f0, d.Permittivity, d.LossFactor))+" -> "+
+				depthMM(physics.PenetrationDepth(f0, d.Permittivity, d.LossFactorCured))+" mm")
 		fmt.Fprintf(tw, "    %s\n", strings.Join(cols, "\t"))
 	}
 	p.Flush(tw)
@@ -229,11 +229,11 @@ func chkAbsorbers(p *textout.Printer, c *cases.Case, sw *chkWave) (fastest float
 	return fastest, warn
 }
 
-// chkControl prints the settings of the controller of v (sensor, program,
+// printControl prints the settings of the controller of v (sensor, program,
 // period, gain, integral time), the defaults marked, and returns the
 // warning of a program that ramps faster than fastest, the quickest
 // full-power heating rate of an absorbing layer (K/s).
-func chkControl(p *textout.Printer, pr *solver.Problem, v *physics.Volumetric, info *cases.VolumetricInfo, fastest float64) []string {
+func printControl(p *textout.Printer, pr *solver.Problem, v *physics.Volumetric, info *cases.VolumetricInfo, fastest float64) []string {
 	ctl := v.Control
 	def := func(key string) string {
 		if slices.Contains(info.Defaults, key) {
@@ -244,7 +244,7 @@ func chkControl(p *textout.Printer, pr *solver.Problem, v *physics.Volumetric, i
 	p.Printf("  Control (PI, sampled; the power fraction stays in [0, 1])\n")
 	tw := p.Table()
 	where := ""
-	if j := chkLayerAt(pr, ctl.Sensor); j >= 0 {
+	if j := layerAt(pr, ctl.Sensor); j >= 0 {
 		where = " (" + pr.Mesh.Layers[j].Name + ")"
 	}
 	fmt.Fprintf(tw, "    sensor\t%s mm%s\n", num.FormatDepth(ctl.Sensor), where)
@@ -252,38 +252,38 @@ func chkControl(p *textout.Printer, pr *solver.Problem, v *physics.Volumetric, i
 	if info.Program == "" {
 		prog = "(as loaded)"
 	}
-	fmt.Fprintf(tw, "    program\t%s, highest %s C\n", prog, chkC(ctl.Program.Max()))
+	fmt.Fprintf(tw, "    program\t%s, highest %s C\n", prog, celsius(ctl.Program.Max()))
 	fmt.Fprintf(tw, "    period\t%s s%s\n", num.G(ctl.Period), def("period"))
 	fmt.Fprintf(tw, "    gain\t%s 1/K%s\n", num.G(ctl.Gain), def("gain"))
 	fmt.Fprintf(tw, "    integral time\t%s s%s\n", num.G(ctl.IntegralTime), def("integral_time"))
 	p.Flush(tw)
-	if ramp := chkFastestRamp(ctl.Program); ramp > fastest {
+	if ramp := fastestRamp(ctl.Program); ramp > fastest {
 		raise := "max_field"
 		if v.Attenuation == physics.StandingWave {
 			raise = "incident_power"
 		}
 		return []string{fmt.Sprintf("the control program ramps at up to %s K/min, faster than the full power heats any absorbing layer (%s K/min with no heat lost): the sensor will lag the program; raise %s or slow the ramp.",
-			chkG3(ramp*60), chkG3(fastest*60), raise)}
+			g3(ramp*60), g3(fastest*60), raise)}
 	}
 	return nil
 }
 
-// chkWave is the standing-wave solution of a case's stack at the start
+// waveSolution is the standing-wave solution of a case's stack at the start
 // (every cell at the initial temperature and cure) and fully cured (at the
 // initial temperature): absorbed power per cell at full incident power,
 // W/m³, and the shares of the incident power.
-type chkWave struct {
+type waveSolution struct {
 	pUncured, pCured []float64
 	uncured, cured   physics.WaveShares
 	S                float64 // incident power density of each source, W/m²; 1 for an exponential mode
 	sources          float64 // 2 under IncidentBoth, else 1
 }
 
-// chkStanding solves the plane wave of the stack of pr over band from inc
+// standingWave solves the plane wave of the stack of pr over band from inc
 // (stackWave) at the start and fully cured, scaled by v's incident power
 // (per W/m² when there is none).
-func chkStanding(pr *solver.Problem, v *physics.Volumetric, band physics.Band, inc physics.Incidence) *chkWave {
-	w := &chkWave{S: v.IncidentPower, sources: 1}
+func standingWave(pr *solver.Problem, v *physics.Volumetric, band physics.Band, inc physics.Incidence) *waveSolution {
+	w := &waveSolution{S: v.IncidentPower, sources: 1}
 	if !(w.S > 0) {
 		w.S = 1
 	}
@@ -302,7 +302,7 @@ func chkStanding(pr *solver.Problem, v *physics.Volumetric, band physics.Band, i
 // layer returns the thickness-weighted mean, least and largest of P (per
 // cell) over layer j, and the layer's share of the incident power (of both
 // sources together under IncidentBoth).
-func (w *chkWave) layer(m *mesh.Mesh, j int, P []float64) (mean, lo, hi, share float64) {
+func (w *waveSolution) layer(m *mesh.Mesh, j int, P []float64) (mean, lo, hi, share float64) {
 	lo = math.Inf(1)
 	sum := 0.0
 	for i := m.First[j]; i < m.First[j+1]; i++ {
@@ -313,8 +313,8 @@ func (w *chkWave) layer(m *mesh.Mesh, j int, P []float64) (mean, lo, hi, share f
 	return sum / th, lo, hi, sum / (w.S * w.sources)
 }
 
-// chkPowerUnit returns the scale and unit for power densities up to m W/m³.
-func chkPowerUnit(m float64) (float64, string) {
+// powerUnit returns the scale and unit for power densities up to m W/m³.
+func powerUnit(m float64) (float64, string) {
 	switch {
 	case m >= 1e6:
 		return 1e6, "MW/m^3"
@@ -324,17 +324,17 @@ func chkPowerUnit(m float64) (float64, string) {
 	return 1, "W/m^3"
 }
 
-// chkPct formats a share (0..1) as a percentage with 3 significant digits.
-func chkPct(x float64) string {
+// pct formats a share (0..1) as a percentage with 3 significant digits.
+func pct(x float64) string {
 	if x < 5e-4 {
 		return "0 %"
 	}
-	return chkG3(100*x) + " %"
+	return g3(100*x) + " %"
 }
 
-// chkFastestRamp returns the steepest rise of s between its points, K/s
+// fastestRamp returns the steepest rise of s between its points, K/s
 // (0 when it never rises).
-func chkFastestRamp(s physics.Schedule) float64 {
+func fastestRamp(s physics.Schedule) float64 {
 	t, v := s.Points()
 	r := 0.0
 	for i := 1; i < len(t); i++ {
@@ -343,13 +343,13 @@ func chkFastestRamp(s physics.Schedule) float64 {
 	return r
 }
 
-// chkDepth formats a penetration depth (m) in mm, "infinite" for a lossless
+// depthMM formats a penetration depth (m) in mm, "infinite" for a lossless
 // material.
-func chkDepth(d float64) string {
+func depthMM(d float64) string {
 	if math.IsInf(d, 1) {
 		return "infinite"
 	}
-	return chkG3(d * 1e3)
+	return g3(d * 1e3)
 }
 
 // compositeWarnings warns where a composite ply absorbs volumetric heating:

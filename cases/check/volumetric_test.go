@@ -12,7 +12,7 @@ import (
 // published water figures.
 func TestCheckVolumetric(t *testing.T) {
 	c := testkit.VolumetricCase(t, "permittivity = 78\nloss_factor = 10", "[volumetric]\nfrequency = \"2.45 GHz\"\nfield = \"1 kV/m\"\nattenuation = \"top\"\n")
-	out := chkOutput(t, c)
+	out := checkText(t, c)
 	for _, want := range []string{
 		"frequency    2.45 GHz (an ISM band)",
 		"field        1 kV/m rms, on from start to end",
@@ -39,7 +39,7 @@ func TestCheckVolumetric(t *testing.T) {
 	// does not use; a 5 C/min ramp faster than the full field heats.
 	c = testkit.VolumetricCase(t, "permittivity = 78\nloss_factor = 10",
 		"[volumetric]\nfrequency = \"1 GHz\"\nfield = \"1 kV/m\"\n[volumetric.control]\nsensor = \"10 mm\"\nprogram = \"cure\"\nmax_field = \"0.5 kV/m\"\n")
-	out = chkOutput(t, c)
+	out = checkText(t, c)
 	for _, want := range []string{
 		"1 GHz (not an ISM band)",
 		"lies outside the ISM bands",
@@ -78,7 +78,7 @@ func TestStandingWaveCase(t *testing.T) {
 	if !c.Volumetric.BandPointsDefault {
 		t.Errorf("band_points default not recorded: %+v", c.Volumetric)
 	}
-	out := chkOutput(t, c)
+	out := checkText(t, c)
 	for _, want := range []string{
 		"band            2.4 GHz to 2.5 GHz (inside an ISM band), 101 equally spaced frequencies (default)",
 		"incident        both: one plane wave from each side",
@@ -137,7 +137,7 @@ kind = "insulated"
 		}
 		return c
 	}
-	out := chkOutput(t, stack("[volumetric]\nfrequency = \"2.45 GHz\"\nfield = \"1 kV/m\"\nattenuation = \"top\"\n"))
+	out := checkText(t, stack("[volumetric]\nfrequency = \"2.45 GHz\"\nfield = \"1 kV/m\"\nattenuation = \"top\"\n"))
 	for _, want := range []string{"more than an eighth of the wavelength in it (61.1 mm at 2.45 GHz)", "plate (aluminium): reflects (metal)",
 		"For comparison, a plane wave from the same face(s)"} {
 		if !strings.Contains(out, want) {
@@ -147,7 +147,7 @@ kind = "insulated"
 	if strings.Contains(out, "transparent") {
 		t.Errorf("exponential: the aluminium plate is called transparent:\n%s", out)
 	}
-	out = chkOutput(t, stack("[volumetric]\nattenuation = \"standing-wave\"\nincident = \"top\"\nincident_power = \"2 kW/m^2\"\nfrequency = \"2.45 GHz\"\n"+
+	out = checkText(t, stack("[volumetric]\nattenuation = \"standing-wave\"\nincident = \"top\"\nincident_power = \"2 kW/m^2\"\nfrequency = \"2.45 GHz\"\n"+
 		"[volumetric.control]\nsensor = \"10 mm\"\nprogram = \"60 C\"\n"))
 	if strings.Contains(out, "eighth of the wavelength") || !strings.Contains(out, "the sensor at 10 mm sits near a node of the standing wave") ||
 		!strings.Contains(out, "plate (aluminium): reflects (metal)") {
