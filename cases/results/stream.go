@@ -114,3 +114,47 @@ func StageSummary(set *outdir.Set, s Summary) error {
 	}
 	return nil
 }
+
+// StreamRun runs a case with its snapshots written into set as they come:
+// run is solver.RunStream, or a Workspace's, on c.Problem with the sink it
+// is handed; every snapshot goes to a RunWriter (made at the first one,
+// once the solver has accepted the problem) and then to also, when not
+// nil. summary.json is not staged: the caller may complete the summary
+// first (StageSummary).
+//
+// If the solver refuses the problem, r is nil and err says why; nothing is
+// staged. Otherwise r is the run, possibly stopped early, s its summary,
+// computed once (RunWriter.Summarize), and err is non-nil when an output
+// could not be written, or also failed (either stops the run where it
+// happened).
+func StreamRun(set *outdir.Set, c *cases.Case, run func(solver.Sink) (*solver.Result, error), also solver.Sink) (r *solver.Result, s Summary, err error) {
+	var w *RunWriter
+	var werr, aerr error // the writer could not be made; also failed
+	sink := func(snap *solver.Snapshot) error {
+		if w == nil {
+			if w, werr = NewRunWriter(set, c); werr != nil {
+				return werr
+			}
+		}
+		if err := w.Add(snap); err != nil {
+			return err
+		}
+		if also != nil {
+			aerr = also(snap)
+		}
+		return aerr
+	}
+	if r, err = run(sink); err != nil {
+		return nil, Summary{}, err
+	}
+	if w == nil { // the solver hands over the initial state, unless the writer failed
+		if werr == nil {
+			werr = fmt.Errorf("the run of %s produced no snapshot", c.File)
+		}
+		return r, Summarize(c, r), werr
+	}
+	if err = w.Close(); err == nil {
+		err = aerr
+	}
+	return r, w.Summarize(r), err
+}

@@ -71,48 +71,21 @@ func Case(ctx context.Context, c *cases.Case, dir string, opt Options) results.C
 		}
 		return out
 	}
-	// The snapshots go to the files as they come (results.RunWriter): the
-	// writer is made at the first one, once the solver has accepted the
-	// problem, so that a refused problem stages nothing.
-	var rw *results.RunWriter
-	var werr error // the writer could not be made
+	// The snapshots go to the files (and the report's collector) as they
+	// come.
+	var also solver.Sink
 	var col *report.Collector
 	if opt.Report {
 		col = report.NewCollector(c)
+		also = col.Add
 	}
-	sink := func(s *solver.Snapshot) error {
-		if rw == nil {
-			var err error
-			if rw, err = results.NewRunWriter(set, c); err != nil {
-				werr = err
-				return err
-			}
-		}
-		if err := rw.Add(s); err != nil {
-			return err
-		}
-		if col != nil {
-			return col.Add(s)
-		}
-		return nil
-	}
-	r, err := solver.RunStream(ctx, c.Problem, sink)
-	if err != nil {
+	run := func(sink solver.Sink) (*solver.Result, error) { return solver.RunStream(ctx, c.Problem, sink) }
+	r, sum, err := results.StreamRun(set, c, run, also)
+	if r == nil {
 		return finish(results.Compared{Case: c, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed}, Err: err})
 	}
-	out := results.Compared{Case: c, Ran: true, Result: r, Dir: dir}
-	if rw == nil { // the solver hands over the initial state, unless the writer failed
-		out.Summary = results.Summarize(c, r)
-		out.Err = werr
-		if werr == nil {
-			out.Err = fmt.Errorf("the run of %s produced no snapshot", c.File)
-		}
-		return finish(out)
-	}
-	werr = rw.Close()
-	out.Summary = rw.Summarize(r)
-	if werr != nil {
-		out.Err = werr
+	out := results.Compared{Case: c, Ran: true, Summary: sum, Result: r, Dir: dir, Err: err}
+	if err != nil {
 		return finish(out)
 	}
 	if opt.Verify && r.Status == solver.OK {

@@ -377,18 +377,38 @@ func (s *Sweep) runOne(ctx context.Context, ws *solver.Workspace, r int, dir str
 	if err != nil {
 		return failed(cases.FlattenErrors(err))
 	}
-	// Without kept fields the row needs only the summary.
-	c.Problem.NoFields = !keep
-	res, err := ws.Run(ctx, c.Problem)
-	if err != nil {
-		return failed(err.Error())
-	}
-	sum := results.Summarize(c, res)
+	var res *solver.Result
+	var sum results.Summary
 	if keep {
+		// Its files are written as the run goes (results.StreamRun).
 		out := filepath.Join(dir, results.SweepRunsDir, fmt.Sprintf("%0*d", width, r))
-		if err := results.WriteRun(out, c, res, sum); err != nil {
+		set, err := outdir.Open(out, results.RunKind)
+		if err == nil {
+			run := func(sink solver.Sink) (*solver.Result, error) { return ws.RunStream(ctx, c.Problem, sink) }
+			if res, sum, err = results.StreamRun(set, c, run, nil); res == nil {
+				set.Abort()
+				return failed(err.Error())
+			}
+			if err == nil {
+				err = results.StageSummary(set, sum)
+			}
+			if err != nil {
+				set.Abort()
+			} else {
+				err = set.Commit()
+			}
+		}
+		if err != nil {
 			return sweepResult{run: r, err: fmt.Errorf("run %d: writing its outputs to %s: %w", r, out, err)}
 		}
+	} else {
+		// Without kept fields the row needs only the summary.
+		c.Problem.NoFields = true
+		var err error
+		if res, err = ws.Run(ctx, c.Problem); err != nil {
+			return failed(err.Error())
+		}
+		sum = results.Summarize(c, res)
 	}
 	for _, col := range results.SweepColumns {
 		rec = append(rec, col.Get(&sum))
