@@ -87,3 +87,20 @@ func TestRunWriterError(t *testing.T) {
 		t.Errorf("Close after an error: %v", err)
 	}
 }
+
+// A problem the solver refuses stages nothing: StreamRun returns no result
+// and the solver's error, and the set's staged names stay empty.
+func TestStreamRunRefusedStagesNothing(t *testing.T) {
+	c, _ := runExample(t, "tile-on-spreader")
+	c.Problem.End = -1 // breaks the solver's contract
+	set, err := outdir.Open(t.TempDir(), RunKind)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer set.Abort()
+	run := func(sink solver.Sink) (*solver.Result, error) { return solver.RunStream(context.Background(), c.Problem, sink) }
+	r, _, err := StreamRun(set, c, run, nil)
+	if r != nil || !errors.Is(err, solver.ErrProblem) || len(set.Staged()) != 0 {
+		t.Errorf("result %v, error %v, staged %v: want none, solver.ErrProblem, nothing", r, err, set.Staged())
+	}
+}
