@@ -73,15 +73,7 @@ func TestCompareOvenMicrowave(t *testing.T) {
 	// The run streamed its snapshots to its files: read them back from
 	// probes.csv (°C rounded to 1e-6).
 	pr := testkit.ReadCSV(t, filepath.Join(dir, rows[1].Name, results.ProbesFile))
-	pcol := func(name string) int {
-		for i, h := range pr[0] {
-			if h == name {
-				return i
-			}
-		}
-		t.Fatalf("probes.csv has no column %s", name)
-		return -1
-	}
+	pcol := func(name string) int { return column(t, results.ProbesFile, pr[0], name) }
 	iT, iU := pcol("T_"+num.FormatDepth(micro.Problem.Probes[k])+"mm_C"), pcol("power_fraction")
 	worst := 0.0
 	for _, row := range pr[1:] {
@@ -108,15 +100,7 @@ func TestCompareOvenMicrowave(t *testing.T) {
 	if len(tab) != 3 || !reflect.DeepEqual(tab[0], results.CompareHeader) {
 		t.Fatalf("compare.csv:\n%v", tab)
 	}
-	col := func(name string) int {
-		for i, h := range tab[0] {
-			if h == name {
-				return i
-			}
-		}
-		t.Fatalf("no column %s", name)
-		return -1
-	}
+	col := func(name string) int { return column(t, results.CompareFile, tab[0], name) }
 	for i, r := range rows {
 		row := tab[i+1]
 		if row[col("case")] != r.Name || row[col("title")] != r.Case.Title || row[col("status")] != r.Summary.Status {
@@ -168,6 +152,18 @@ func TestCompareInterrupted(t *testing.T) {
 	if _, err := os.Stat(filepath.Join(dir, "tile-on-spreader")); !os.IsNotExist(err) {
 		t.Errorf("a case not run has an output directory: %v", err)
 	}
+}
+
+// column returns the index of the column name in the header head of file.
+func column(t *testing.T, file string, head []string, name string) int {
+	t.Helper()
+	for i, h := range head {
+		if h == name {
+			return i
+		}
+	}
+	t.Fatalf("%s has no column %s", file, name)
+	return -1
 }
 
 // exampleCase parses an embedded example.
