@@ -1,6 +1,7 @@
 package check
 
 import (
+	"context"
 	"cureslab/cases"
 	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/textout"
@@ -88,16 +89,31 @@ const maxNeighbourRatio = 5
 // and the cautions (check.Cautions).
 //
 // The only error it returns is a write error of w.
-func Check(w io.Writer, c *cases.Case) error {
+func Check(w io.Writer, c *cases.Case) error { return CheckContext(context.Background(), w, c) }
+
+// CheckContext is Check stopped by ctx: checked before the parts that
+// compute (the dielectric field, the estimates and screens, the warnings),
+// it returns ctx.Err() once ctx is done, the account written so far left
+// incomplete.
+func CheckContext(ctx context.Context, w io.Writer, c *cases.Case) error {
 	p := textout.NewPrinter(w)
 	printHeader(p, c)
 	printStack(p, c)
 	printMaterials(p, c)
 	printFaces(p, c)
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	volWarnings := printVolumetric(p, c)
 	printSchedules(p, c)
 	printTime(p, c)
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	warnings := printEstimates(p, c)
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	warnings = append(warnings, volWarnings...)
 	warnings = append(warnings, meshWarnings(c)...)
 	warnings = append(warnings, compositeWarnings(c)...)

@@ -2,15 +2,16 @@ package dscfile
 
 import (
 	"bytes"
+	"context"
 	"cureslab/cases"
 	"cureslab/cases/internal/num"
+	"cureslab/cases/limits"
 	"cureslab/physics/dsc"
 	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 )
@@ -22,14 +23,28 @@ var ErrScan = errors.New("bad DSC scan")
 // sample temperature in °C, heat flow in W/g, exothermic positive.
 var scanColumns = []string{"time_s", "temperature_C", "heat_flow_W_per_g"}
 
-// ReadScan reads the DSC scan file at path (see parseScan).
-func ReadScan(path string) (*dsc.Scan, error) {
-	data, err := os.ReadFile(path)
+// maxScanSize is the largest DSC scan file ReadScan reads, in bytes
+// (256 MB, some eight million rows of an instrument's export).
+const maxScanSize = 256 << 20
+
+// ReadScan reads the DSC scan file at path (see parseScan): a regular file
+// of at most 256 MB, read in chunks with ctx checked between them
+// (limits.ReadFile), and parsed with ctx checked every few thousand rows.
+// When ctx is done the error is ctx.Err(), unwrapped.
+func ReadScan(ctx context.Context, path string) (*dsc.Scan, error) {
+	data, err := limits.ReadFile(ctx, path, maxScanSize)
 	if err != nil {
+		if ctx.Err() != nil && errors.Is(err, ctx.Err()) {
+			return nil, ctx.Err()
+		}
 		return nil, cases.ErrorList{{File: path, Err: cases.Reason(ErrScan, err, fmt.Sprintf("cannot read the scan: %v", err))}}
 	}
-	return parseScan(path, data)
+	return parseScan(ctx, path, data)
 }
+
+// scanCheckRows is how many rows parseScan reads between two checks of
+// its context.
+const scanCheckRows = 4096
 
 // parseScan reads a DSC scan given as CSV text; name is the file name used
 // in messages and as the scan's name.
@@ -45,7 +60,10 @@ func ReadScan(path string) (*dsc.Scan, error) {
 // increase, a temperature below absolute zero, fewer than dsc.MinPoints
 // rows. The error is an ErrorList of *Error wrapping ErrScan.
 // Cost: linear in the size of the file.
-func parseScan(name string, data []byte) (*dsc.Scan, error) {
+//
+// Interruption: ctx is checked every scanCheckRows rows; once it is done
+// parseScan returns ctx.Err().
+func parseScan(ctx context.Context, name string, data []byte) (*dsc.Scan, error) {
 	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
 	var errs cases.ErrorList
 	n := 0
@@ -64,6 +82,11 @@ func parseScan(name string, data []byte) (*dsc.Scan, error) {
 	col := map[string]int{} // column name → field index
 	lastLine := 0
 	for row := 0; ; row++ {
+		if row%scanCheckRows == 0 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
 		rec, err := r.Read()
 		if err != nil {
 			var pe *csv.ParseError

@@ -2,6 +2,7 @@ package dscfile
 
 import (
 	"bytes"
+	"context"
 	"cureslab/cases"
 	"cureslab/cases/internal/testkit"
 	"cureslab/physics"
@@ -49,11 +50,11 @@ func TestDSCTestdata(t *testing.T) {
 			}
 			continue
 		}
-		got, err := ReadScan(path)
+		got, err := ReadScan(context.Background(), path)
 		if err != nil {
 			t.Fatalf("%v (go test ./cases -run TestDSCTestdata -update re-creates it)", err)
 		}
-		want, err := parseScan(path, buf.Bytes())
+		want, err := parseScan(context.Background(), path, buf.Bytes())
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -83,15 +84,15 @@ func TestParseScanErrors(t *testing.T) {
 		{"too-few-rows.csv", "too-few-rows.csv:11: the scan has 8 data rows; at least 20 are needed"},
 		{"no-header.csv", "no-header.csv:3:1: the first line must be the header time_s,temperature_C,heat_flow_W_per_g, not data"},
 	} {
-		_, err := ReadScan(filepath.Join(bad, tc.file))
+		_, err := ReadScan(context.Background(), filepath.Join(bad, tc.file))
 		if err == nil || !strings.Contains(err.Error(), tc.want) || !errors.Is(err, ErrScan) {
 			t.Errorf("%s: got %v\nwant it to contain %q and wrap ErrScan", tc.file, err, tc.want)
 		}
 	}
-	if _, err := ReadScan(filepath.Join(bad, "absent.csv")); err == nil || !strings.Contains(err.Error(), "cannot read the scan") {
+	if _, err := ReadScan(context.Background(), filepath.Join(bad, "absent.csv")); err == nil || !strings.Contains(err.Error(), "cannot read the scan") {
 		t.Errorf("absent file: %v", err)
 	}
-	if _, err := parseScan("empty.csv", nil); err == nil || !strings.Contains(err.Error(), "the file is empty") {
+	if _, err := parseScan(context.Background(), "empty.csv", nil); err == nil || !strings.Contains(err.Error(), "the file is empty") {
 		t.Errorf("empty file: %v", err)
 	}
 	// Columns in another order, a BOM and blank-padded fields are fine.
@@ -100,7 +101,7 @@ func TestParseScanErrors(t *testing.T) {
 	for i := range 30 {
 		b.WriteString(strconv.Itoa(i) + "e-3, " + strconv.Itoa(i) + ", " + strconv.Itoa(20+i) + "\n")
 	}
-	s, err := parseScan("reordered.csv", []byte(b.String()))
+	s, err := parseScan(context.Background(), "reordered.csv", []byte(b.String()))
 	if err != nil || len(s.Time) != 30 || s.Time[5] != 5 || math.Abs(s.Temp[5]-298.15) > 1e-12 || math.Abs(s.HeatFlow[5]-5) > 1e-12 {
 		t.Errorf("reordered columns: %v, %+v", err, s)
 	}
@@ -119,7 +120,7 @@ func TestWriteScanRoundTrip(t *testing.T) {
 	if !strings.HasPrefix(buf.String(), "# line one\n# line two\ntime_s,temperature_C,heat_flow_W_per_g\n") {
 		t.Errorf("header:\n%.200s", buf.String())
 	}
-	back, err := parseScan("x.csv", buf.Bytes())
+	back, err := parseScan(context.Background(), "x.csv", buf.Bytes())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -137,7 +138,7 @@ func readDemo(t *testing.T) []*dsc.Scan {
 	t.Helper()
 	var scans []*dsc.Scan
 	for _, spec := range dsc.DemoScans() {
-		s, err := ReadScan(filepath.Join(dscDir, spec.Name))
+		s, err := ReadScan(context.Background(), filepath.Join(dscDir, spec.Name))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -217,7 +218,7 @@ func FuzzParseScan(f *testing.F) {
 	}
 	f.Add([]byte(small.String()))
 	f.Fuzz(func(t *testing.T, data []byte) {
-		s, err := parseScan("fuzz.csv", data)
+		s, err := parseScan(context.Background(), "fuzz.csv", data)
 		if err != nil {
 			return
 		}
@@ -285,4 +286,29 @@ kind = "insulated"
 [time]
 end = "1 h"
 ` + block
+}
+
+// Ctrl-C stops the reading of a scan: before the file is read, and part-way
+// through the rows (the context is checked every scanCheckRows rows). The
+// error is the context's, not a complaint about the file.
+func TestReadScanInterrupted(t *testing.T) {
+	spec := dsc.DemoScans()[0]
+	path := filepath.Join(dscDir, spec.Name)
+	cancelled, cancel := context.WithCancel(context.Background())
+	cancel()
+	if s, err := ReadScan(cancelled, path); s != nil || !errors.Is(err, context.Canceled) {
+		t.Errorf("ReadScan after Ctrl-C: %v", err)
+	}
+	// A scan of more rows than one stretch between two checks, read with
+	// a context cancelled after its first check: the parse stops at the
+	// second one.
+	var b strings.Builder
+	b.WriteString("time_s,temperature_C,heat_flow_W_per_g\n")
+	for i := range 3 * scanCheckRows {
+		b.WriteString(strconv.Itoa(i) + ",25,0.001\n")
+	}
+	ctx := testkit.NewStopAfter(1)
+	if s, err := parseScan(ctx, "long.csv", []byte(b.String())); s != nil || !errors.Is(err, context.Canceled) || ctx.Checks() != 2 {
+		t.Errorf("parse cancelled part-way: %v after %d checks, want 2", err, ctx.Checks())
+	}
 }

@@ -2,6 +2,7 @@ package dscfile
 
 import (
 	"bytes"
+	"context"
 	"cureslab/cases"
 	"cureslab/cases/internal/testkit"
 	"cureslab/physics/dsc"
@@ -124,7 +125,7 @@ func FuzzScanCSV(f *testing.F) {
 	testkit.SeedFiles(f, "../../testdata/*/*.csv")
 	f.Fuzz(func(t *testing.T, data []byte) {
 		defer testkit.Watchdog(testkit.HangLimit, data)()
-		s, err := parseScan("scan.csv", data)
+		s, err := parseScan(context.Background(), "scan.csv", data)
 		tm, temp, flow, bad, simple := fzScanOracle(data)
 		if err != nil {
 			var list cases.ErrorList
@@ -184,7 +185,7 @@ func FuzzScanCSV(f *testing.F) {
 		if err := writeScan(&buf, s, "round trip\nof a fuzzed scan"); err != nil {
 			t.Fatal(err)
 		}
-		s2, err := parseScan("scan2.csv", buf.Bytes())
+		s2, err := parseScan(context.Background(), "scan2.csv", buf.Bytes())
 		if err != nil {
 			t.Fatalf("writeScan output does not read back: %v\n%s", err, buf.String())
 		}

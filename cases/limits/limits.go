@@ -197,3 +197,21 @@ func refused(r rune) string {
 	}
 	return ""
 }
+
+// Reader returns a reader of r that fails with ctx.Err() once ctx is done,
+// checked before each read. Under a buffered reader (bufio, encoding/csv)
+// it stops a long read within one buffer's worth of bytes, as ReadFile
+// does between its chunks, without holding the whole file in memory.
+func Reader(ctx context.Context, r io.Reader) io.Reader { return &ctxReader{ctx, r} }
+
+type ctxReader struct {
+	ctx context.Context
+	r   io.Reader
+}
+
+func (c *ctxReader) Read(p []byte) (int, error) {
+	if err := c.ctx.Err(); err != nil {
+		return 0, err
+	}
+	return c.r.Read(p)
+}

@@ -33,9 +33,10 @@
 //
 // # Invariants
 //
-//   - Only names the manifest lists, names a kind declares, and the staging,
-//     set-aside and lock names of this package are ever removed; other files
-//     in the directory are left alone.
+//   - Only names the manifest lists, names a kind declares, names its writer
+//     says the previous set holds (Previous), and the staging, set-aside
+//     and lock names of this package are ever removed; other files in the
+//     directory are left alone.
 //   - Staging and set-aside files live in the directory itself, so every
 //     rename stays on one file system.
 package outdir
@@ -154,34 +155,53 @@ func (s *Set) prepare() error {
 	if err := recoverCommit(s.Dir); err != nil {
 		return err
 	}
-	m, err := readManifest(s.Dir)
-	if err != nil {
-		return err
-	}
-	if m != nil {
-		if m.Kind != s.kind.Name {
-			names := m.Files
-			for _, k := range registered {
-				if k.Name == m.Kind {
-					names = union(k.Marks, m.Files)
-				}
-			}
-			return &KindError{Dir: s.Dir, Want: s.kind.Name, Found: m.Kind, Files: present(s.Dir, names)}
-		}
-		s.old = m.Files
+	old, err := previousSet(s.Dir, s.kind)
+	s.old = old
+	return err
+}
+
+// Check returns the *KindError that Open would return for dir and kind k,
+// without creating, locking or changing anything: for a command that
+// computes long before it writes, so that a directory of another kind is
+// refused before the work rather than after it. A directory that does not
+// exist passes. Other errors are those of reading the manifest.
+func Check(dir string, k Kind) error {
+	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
 		return nil
 	}
+	_, err := previousSet(dir, k)
+	return err
+}
+
+// previousSet returns the files of the set in dir that a new set of kind k
+// replaces, or a *KindError when dir holds another kind of output.
+func previousSet(dir string, k Kind) ([]string, error) {
+	m, err := readManifest(dir)
+	if err != nil {
+		return nil, err
+	}
+	if m != nil {
+		if m.Kind != k.Name {
+			names := m.Files
+			for _, o := range registered {
+				if o.Name == m.Kind {
+					names = union(o.Marks, m.Files)
+				}
+			}
+			return nil, &KindError{Dir: dir, Want: k.Name, Found: m.Kind, Files: present(dir, names)}
+		}
+		return m.Files, nil
+	}
 	// No manifest: an older directory, recognised by its files.
-	for _, k := range registered {
-		if k.Name == s.kind.Name || len(k.Marks) == 0 {
+	for _, o := range registered {
+		if o.Name == k.Name || len(o.Marks) == 0 {
 			continue
 		}
-		if p := present(s.Dir, k.Marks); len(p) == len(k.Marks) && !slices.Equal(k.Marks, commonMarks(k, s.kind)) {
-			return &KindError{Dir: s.Dir, Want: s.kind.Name, Found: k.Name, Files: p}
+		if p := present(dir, o.Marks); len(p) == len(o.Marks) && !slices.Equal(o.Marks, commonMarks(o, k)) {
+			return nil, &KindError{Dir: dir, Want: k.Name, Found: o.Name, Files: p}
 		}
 	}
-	s.old = present(s.Dir, s.kind.Names)
-	return nil
+	return present(dir, k.Names), nil
 }
 
 // commonMarks returns the marks of a that b declares as its own names too
@@ -355,6 +375,19 @@ func (s *Set) Keep(names ...string) {
 	for _, n := range names {
 		if _, err := os.Lstat(filepath.Join(s.Dir, n)); err == nil && localName(n) && !slices.Contains(s.kept, n) {
 			s.kept = append(s.kept, n)
+		}
+	}
+}
+
+// Previous adds names to the files of the previous set, for a writer that
+// knows from its own earlier files of names the manifest does not list (the
+// case folders of a comparison written before the manifest named them):
+// Commit removes them unless the new set stages or keeps them. Names that
+// are not one plain name in the directory, or do not exist, are ignored.
+func (s *Set) Previous(names ...string) {
+	for _, n := range names {
+		if _, err := os.Lstat(filepath.Join(s.Dir, n)); err == nil && localName(n) && n != manifestFile && n != lockFile {
+			s.old = union(s.old, []string{n})
 		}
 	}
 }

@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"context"
 	"image/color"
 	"math"
 	"regexp"
@@ -50,7 +51,7 @@ func hexColor(t *testing.T, s string) color.RGBA {
 func pageStyle(t *testing.T) (string, map[string]string) {
 	t.Helper()
 	var b bytes.Buffer
-	if err := renderPage(&b, &page{Title: "style", Kind: "test"}); err != nil {
+	if err := renderPage(context.Background(), &b, &page{Title: "style", Kind: "test"}); err != nil {
 		t.Fatal(err)
 	}
 	vars := map[string]string{}
@@ -309,7 +310,7 @@ func TestCautionsByPage(t *testing.T) {
 	}
 	// A page about conduction alone: no self-heating caution.
 	var b bytes.Buffer
-	if err := renderPage(&b, &page{Title: "conduction", Kind: "test"}); err != nil {
+	if err := renderPage(context.Background(), &b, &page{Title: "conduction", Kind: "test"}); err != nil {
 		t.Fatal(err)
 	}
 	if strings.Contains(b.String(), fire) || strings.Contains(b.String(), leak) {

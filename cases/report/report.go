@@ -1,7 +1,7 @@
 package report
 
 import (
-	"bytes"
+	"context"
 	"cureslab/cases"
 	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/textout"
@@ -47,15 +47,21 @@ var reportClock = func() time.Time { return time.Now() }
 // snapshots × cells, the maps capped at 1600 × 1200 pixels; memory
 // O(cells × FieldTimesKept) beyond r; for the examples about 0.05 s and
 // 50–130 kB.
-func WriteReport(dir string, c *cases.Case, r *solver.Result, s results.Summary) error {
+//
+// Interruption: ctx is checked before each figure; once it is done the
+// drawing stops, nothing is written and the error wraps ctx.Err().
+func WriteReport(ctx context.Context, dir string, c *cases.Case, r *solver.Result, s results.Summary) error {
 	if c == nil || c.Problem == nil || c.Problem.Mesh == nil || r == nil {
 		return errors.New("report.WriteReport: case, problem, mesh and result are required")
+	}
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("drawing %s: %w", ReportFile, err)
 	}
 	d, err := runDataOf(c, r, s)
 	if err != nil {
 		return fmt.Errorf("report: %w", err)
 	}
-	return writeRunReport(dir, d)
+	return writeRunReport(ctx, dir, d)
 }
 
 // RedrawReport reads the output files of a run in dir (fields.csv,
@@ -75,47 +81,54 @@ func WriteReport(dir string, c *cases.Case, r *solver.Result, s results.Summary)
 //
 // Errors: a missing or unreadable file wraps ErrFile; a malformed one wraps
 // ErrOutputFile. Both are *Error with the file and, where there is one, the
-// line and column. Nothing is written then.
-func RedrawReport(dir string) error {
-	d, err := readRunData(dir)
+// line and column. Nothing is written then. When ctx is done (checked
+// every 64 kB read and before each figure) the error wraps
+// ctx.Err() and nothing is written either.
+func RedrawReport(ctx context.Context, dir string) error {
+	d, err := readRunData(ctx, dir)
 	if err != nil {
 		return err
 	}
-	return writeRunReport(dir, d)
+	return writeRunReport(ctx, dir, d)
 }
 
 // StageReport draws report.html for a run, as WriteReport does, into the
 // output set (package outdir): it goes in place with the run's files at
-// the set's Commit.
-func StageReport(set *outdir.Set, c *cases.Case, r *solver.Result, s results.Summary) error {
+// the set's Commit. When ctx is done before the page is drawn, nothing is
+// staged and the error wraps ctx.Err() (errors.Is).
+func StageReport(ctx context.Context, set *outdir.Set, c *cases.Case, r *solver.Result, s results.Summary) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("drawing %s: %w", ReportFile, err)
+	}
 	d, err := runDataOf(c, r, s)
 	if err != nil {
 		return fmt.Errorf("report: %w", err)
 	}
-	return stageRunReport(set, d)
+	return stageRunReport(ctx, set, d)
 }
 
-func stageRunReport(set *outdir.Set, d *runData) error {
-	var b bytes.Buffer
-	if err := renderRunReport(&b, d, reportClock()); err != nil {
+// stageRunReport draws the page of d (drawPage) and stages it in set.
+func stageRunReport(ctx context.Context, set *outdir.Set, d *runData) error {
+	b, err := drawPage(ctx, func(w io.Writer) error { return renderRunReport(ctx, w, d, reportClock()) })
+	if err != nil {
 		return fmt.Errorf("drawing %s: %w", ReportFile, err)
 	}
-	if err := set.Stage(ReportFile, func(w io.Writer) error { _, err := w.Write(b.Bytes()); return err }); err != nil {
+	if err := set.Stage(ReportFile, func(w io.Writer) error { _, err := w.Write(b); return err }); err != nil {
 		return fmt.Errorf("writing %s: %w", ReportFile, err)
 	}
 	return nil
 }
 
-func writeRunReport(dir string, d *runData) error {
-	var b bytes.Buffer
-	if err := renderRunReport(&b, d, reportClock()); err != nil {
+func writeRunReport(ctx context.Context, dir string, d *runData) error {
+	b, err := drawPage(ctx, func(w io.Writer) error { return renderRunReport(ctx, w, d, reportClock()) })
+	if err != nil {
 		return fmt.Errorf("drawing %s: %w", ReportFile, err)
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
 	}
 	if err := textout.WriteFileAtomic(dir, ReportFile, func(w io.Writer) error {
-		_, err := w.Write(b.Bytes())
+		_, err := w.Write(b)
 		return err
 	}); err != nil {
 		return fmt.Errorf("writing %s: %w", ReportFile, err)
@@ -351,13 +364,17 @@ func (k *Collector) data(s results.Summary) (*runData, error) {
 
 // Stage draws report.html of the run whose snapshots were added, with
 // summary s, into the output set (package outdir): it goes in place with
-// the run's files at the set's Commit.
-func (k *Collector) Stage(set *outdir.Set, s results.Summary) error {
+// the run's files at the set's Commit. When ctx is done before the page is
+// drawn, nothing is staged and the error wraps ctx.Err() (errors.Is).
+func (k *Collector) Stage(ctx context.Context, set *outdir.Set, s results.Summary) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("drawing %s: %w", ReportFile, err)
+	}
 	d, err := k.data(s)
 	if err != nil {
 		return fmt.Errorf("report: %w", err)
 	}
-	return stageRunReport(set, d)
+	return stageRunReport(ctx, set, d)
 }
 
 // readBack parses a number that this package formatted itself.

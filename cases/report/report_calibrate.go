@@ -1,7 +1,7 @@
 package report
 
 import (
-	"bytes"
+	"context"
 	"fmt"
 	"html/template"
 	"image/color"
@@ -33,17 +33,19 @@ import (
 //   - the warnings and how the fit ended (an unconverged or interrupted
 //     fit is marked in the header).
 //
-// Cost: linear in the readings.
-func CalibrationReport(w io.Writer, r *calibrate.Result) error {
-	var b bytes.Buffer
-	if err := renderCalibrationPage(&b, r, reportClock()); err != nil {
+// The page is drawn in memory and written to w in one go; when ctx is done
+// (checked before each figure) nothing is written to w and the error wraps
+// ctx.Err(). Cost: linear in the readings.
+func CalibrationReport(ctx context.Context, w io.Writer, r *calibrate.Result) error {
+	b, err := drawPage(ctx, func(w io.Writer) error { return renderCalibrationPage(ctx, w, r, reportClock()) })
+	if err != nil {
 		return fmt.Errorf("drawing %s: %w", calibrate.ReportFile, err)
 	}
-	_, err := w.Write(b.Bytes())
+	_, err = w.Write(b)
 	return err
 }
 
-func renderCalibrationPage(w io.Writer, r *calibrate.Result, now time.Time) error {
+func renderCalibrationPage(ctx context.Context, w io.Writer, r *calibrate.Result, now time.Time) error {
 	title := r.Title
 	if title == "" {
 		title = r.CaseFile
@@ -73,12 +75,18 @@ func renderCalibrationPage(w io.Writer, r *calibrate.Result, now time.Time) erro
 		Intro: "RMS of simulated − measured over each thermocouple's readings, with the case's own values and with the fitted ones; the lag-1 autocorrelation of the fitted residuals (near 0 for independent scatter, near 1 for residuals that wander: a model that misses something there).",
 		Body:  tableHTML([]string{"depth", "readings", "RMS, case values", "RMS, fitted", "lag-1 autocorrelation"}, rows, map[int]bool{1: true, 2: true, 3: true, 4: true})})
 	ts := timeScaleFor(r.Log.Times[len(r.Log.Times)-1])
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	svg, err := calibrationTracesFigure(r, ts)
 	if err != nil {
 		return err
 	}
 	pg.Sections = append(pg.Sections, section{ID: "traces", Heading: "Measured and simulated temperatures",
 		Body: figureHTML(svg, "Each thermocouple depth in its own panel: the readings (grey dots), the simulation with the case's own values (vermillion, dashed 4 pt on 2.5 pt) and with the fitted values (blue, solid, drawn over the readings).")})
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	svg, err = calibrationResidualFigure(r, ts)
 	if err != nil {
 		return err
@@ -99,7 +107,7 @@ func renderCalibrationPage(w io.Writer, r *calibrate.Result, now time.Time) erro
 		b.WriteString("</ul>\n")
 		pg.Sections = append(pg.Sections, section{ID: "warnings", Heading: "Warnings", Body: template.HTML(b.String())})
 	}
-	return renderPage(w, pg)
+	return renderPage(ctx, w, pg)
 }
 
 func fmtG3(v float64) string {

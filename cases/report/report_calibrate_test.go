@@ -57,7 +57,7 @@ func TestCalibrationReport(t *testing.T) {
 	fixedClock(t)
 	r := calibrationResult(t, 0)
 	var b bytes.Buffer
-	if err := CalibrationReport(&b, r); err != nil {
+	if err := CalibrationReport(context.Background(), &b, r); err != nil {
 		t.Fatal(err)
 	}
 	page := b.String()
@@ -100,7 +100,7 @@ func TestCalibrationReport(t *testing.T) {
 
 	// One iteration: marked as not converged.
 	b.Reset()
-	if err := CalibrationReport(&b, calibrationResult(t, 1)); err != nil {
+	if err := CalibrationReport(context.Background(), &b, calibrationResult(t, 1)); err != nil {
 		t.Fatal(err)
 	}
 	if !strings.Contains(b.String(), "NOT CONVERGED") || !strings.Contains(b.String(), `class="alert"`) {

@@ -1,15 +1,13 @@
 package report
 
 import (
-	"bytes"
-	"cureslab/cases/internal/textout"
+	"context"
 	"cureslab/cases/results"
 	"errors"
 	"fmt"
 	"html/template"
 	"io"
 	"math"
-	"os"
 	"strings"
 	"time"
 
@@ -21,31 +19,36 @@ import (
 // CompareReportFile is the name of the HTML report of a comparison.
 const CompareReportFile = "report.html"
 
-// WriteCompareReport writes the report page of a comparison into dir: the
-// summaries and criteria of the cases side by side, their histories
+// CompareReport draws the report page of a comparison and writes it to w:
+// the summaries and criteria of the cases side by side, their histories
 // overlaid (the hottest cell and the least-cured cell over time, with the
 // air that drives each case), and their final profiles through the
-// thickness overlaid. Each row names its case and the subdirectory
-// dir/NAME that holds its own report.html; a row without a result is a case
-// that did not run (it is listed, not drawn). A row whose result keeps no
-// snapshots (streamed to its files, package simulate) is read back from its
-// directory (row.Dir), as RedrawReport reads it.
+// thickness overlaid. Each row names its case and the subdirectory NAME,
+// beside the page, that holds its own report.html; a row without a result
+// is a case that did not run (it is listed, not drawn). A row whose result
+// keeps no snapshots (streamed to its files, package simulate) is read back
+// from its directory (row.Dir), as RedrawReport reads it.
 //
 // Method: each case becomes the same report data as WriteReport uses, so
-// values are those of its output files. Cost: as WriteReport per case.
+// values are those of its output files. The page is drawn in memory and
+// written to w in one go. Cost: as WriteReport per case.
 //
 // Preconditions: at least one row; each case validated, each summary that
-// of its result (results.Summarize).
-// The file is written with WriteFileAtomic; dir is created if missing.
-func WriteCompareReport(dir string, rows []results.Compared) error {
+// of its result (results.Summarize). When ctx is done (checked before each
+// case and each figure) nothing is written to w and the error wraps
+// ctx.Err().
+func CompareReport(ctx context.Context, w io.Writer, rows []results.Compared) error {
 	if len(rows) == 0 {
-		return errors.New("report.WriteCompareReport: no case to compare")
+		return errors.New("report.CompareReport: no case to compare")
 	}
 	names := make([]string, len(rows))
 	ds := make([]*runData, len(rows))
 	for i, row := range rows {
 		names[i] = row.Name
 		c := row.Case
+		if err := ctx.Err(); err != nil {
+			return fmt.Errorf("drawing %s: %w", CompareReportFile, err)
+		}
 		var d *runData
 		var err error
 		switch {
@@ -53,7 +56,7 @@ func WriteCompareReport(dir string, rows []results.Compared) error {
 			continue
 		case len(row.Result.Snapshots) == 0 && row.Dir != "":
 			// A streamed run: its fields are read back from its files.
-			d, err = readRunData(row.Dir)
+			d, err = readRunData(ctx, row.Dir)
 		default:
 			d, err = runDataOf(c, row.Result, row.Summary)
 		}
@@ -62,22 +65,17 @@ func WriteCompareReport(dir string, rows []results.Compared) error {
 		}
 		ds[i] = d
 	}
-	var b bytes.Buffer
-	if err := renderCompareReport(&b, names, ds, reportClock()); err != nil {
+	b, err := drawPage(ctx, func(w io.Writer) error { return renderCompareReport(ctx, w, names, ds, reportClock()) })
+	if err != nil {
 		return fmt.Errorf("drawing %s: %w", CompareReportFile, err)
 	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return err
-	}
-	return textout.WriteFileAtomic(dir, CompareReportFile, func(w io.Writer) error {
-		_, err := w.Write(b.Bytes())
-		return err
-	})
+	_, err = w.Write(b)
+	return err
 }
 
 // renderCompareReport writes the comparison page; ds[i] is nil for a case
 // that did not run.
-func renderCompareReport(w io.Writer, names []string, ds []*runData, now time.Time) error {
+func renderCompareReport(ctx context.Context, w io.Writer, names []string, ds []*runData, now time.Time) error {
 	pg := &page{Title: "Comparison: " + strings.Join(names, " · "), Kind: "comparison", Drawn: stamp(now)}
 	for _, d := range ds {
 		if d != nil {
@@ -109,7 +107,7 @@ func renderCompareReport(w io.Writer, names []string, ds []*runData, now time.Ti
 		Intro: "Each case's own report, with its maps, is " + strings.Join(withSuffix(names, "/report.html"), ", ") + " beside this page.",
 		Body:  compareTable(names, ds)})
 	if ran == 0 {
-		return renderPage(w, pg)
+		return renderPage(ctx, w, pg)
 	}
 	end := 0.0
 	for _, d := range ds {
@@ -118,6 +116,9 @@ func renderCompareReport(w io.Writer, names []string, ds []*runData, now time.Ti
 		}
 	}
 	ts := timeScaleFor(end)
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	svg, err := compareHistoryFigure(names, ds, ts)
 	if err != nil {
 		return err
@@ -126,12 +127,18 @@ func renderCompareReport(w io.Writer, names []string, ds []*runData, now time.Ti
 		Body: figureHTML(svg, "Top: temperature of the hottest cell of each case over time (solid), with the air "+
 			"temperature at its top face where it has one (dashed, same colour). Bottom: degree of cure of the least-cured "+
 			"cell of each case's curing layers. Dash-dot lines: limits of the criteria where every case sets the same.")})
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	svg, err = compareProfileFigure(names, ds)
 	if err != nil {
 		return err
 	}
 	pg.Sections = append(pg.Sections, section{ID: "profiles", Heading: "Final profiles through the thickness",
 		Body: figureHTML(svg, "Temperature and degree of cure through the thickness at the last output time of each case. Depth 0 is the top face.")})
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	svg, err = compareAbsorbedFigure(names, ds)
 	if err != nil {
 		return err
@@ -142,7 +149,7 @@ func renderCompareReport(w io.Writer, names []string, ds []*runData, now time.Ti
 				"through the thickness of each case with volumetric heating, at its first output time with power: the field in the uncured part. "+
 				"One frequency against a swept band shows what the sweep fills in; a node on the face of a metal stays whatever the frequency. Depth 0 is the top face.")})
 	}
-	return renderPage(w, pg)
+	return renderPage(ctx, w, pg)
 }
 
 func withSuffix(names []string, suffix string) []string {

@@ -1,9 +1,9 @@
 package report
 
 import (
+	"bytes"
+	"context"
 	"cureslab/cases/results"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -12,21 +12,16 @@ func TestWriteCompareReport(t *testing.T) {
 	fixedClock(t)
 	c1, r1 := runReportCase(t, "150 C")
 	c2, r2 := runReportCase(t, "40 C")
-	dir := t.TempDir()
 	rows := []results.Compared{
 		{Name: "cool-limit", Case: c1, Ran: true, Result: r1, Summary: results.Summarize(c1, r1)},
 		{Name: "tight-limit", Case: c2, Ran: true, Result: r2, Summary: results.Summarize(c2, r2)},
 		{Name: "never-ran", Case: c2, Summary: results.Summary{Title: c2.Title, Status: results.StatusFailed}},
 	}
-	err := WriteCompareReport(dir, rows)
-	if err != nil {
+	var b bytes.Buffer
+	if err := CompareReport(context.Background(), &b, rows); err != nil {
 		t.Fatal(err)
 	}
-	b, err := os.ReadFile(filepath.Join(dir, CompareReportFile))
-	if err != nil {
-		t.Fatal(err)
-	}
-	page := string(b)
+	page := b.String()
 	figs := svgs(page)
 	if len(figs) != 2 {
 		t.Fatalf("%d figures, want 2 (histories, final profiles)", len(figs))
@@ -56,7 +51,7 @@ func TestWriteCompareReport(t *testing.T) {
 			t.Errorf("comparison page lacks %q", want)
 		}
 	}
-	if err := WriteCompareReport(dir, nil); err == nil {
+	if err := CompareReport(context.Background(), &b, nil); err == nil {
 		t.Error("an empty comparison accepted")
 	}
 }

@@ -137,7 +137,7 @@ func TestReportAboveTheCapFromFilesEqualsFromMemory(t *testing.T) {
 	if err := results.WriteRun(dir, c, r, s); err != nil {
 		t.Fatal(err)
 	}
-	if err := WriteReport(dir, c, r, s); err != nil {
+	if err := WriteReport(context.Background(), dir, c, r, s); err != nil {
 		t.Fatal(err)
 	}
 	mem, _ := os.ReadFile(filepath.Join(dir, ReportFile))
@@ -148,7 +148,7 @@ func TestReportAboveTheCapFromFilesEqualsFromMemory(t *testing.T) {
 	if len(d.FieldTimes) > FieldTimesKept+3 || len(d.Times) != len(r.Snapshots) {
 		t.Errorf("%d output times, %d kept: want all times for the histories and at most %d kept", len(d.Times), len(d.FieldTimes), FieldTimesKept+3)
 	}
-	if err := RedrawReport(dir); err != nil {
+	if err := RedrawReport(context.Background(), dir); err != nil {
 		t.Fatal(err)
 	}
 	files, _ := os.ReadFile(filepath.Join(dir, ReportFile))

@@ -1,7 +1,7 @@
 package report
 
 import (
-	"bytes"
+	"context"
 	"cureslab/cases/check"
 	"cureslab/cases/dscfile"
 	"cureslab/cases/internal/textout"
@@ -36,25 +36,27 @@ import (
 // belongs to an.Curves[i]. name is the material name of the page title.
 //
 // Preconditions: an from dsc.Analyze. The file is written with
-// WriteFileAtomic; its directory must exist. Cost: linear in the samples.
-func WriteFitPlot(path string, an *dsc.Analysis, name string) error {
+// WriteFileAtomic; its directory must exist. When ctx is done (checked
+// before each figure) nothing is written and the error wraps ctx.Err().
+// Cost: linear in the samples.
+func WriteFitPlot(ctx context.Context, path string, an *dsc.Analysis, name string) error {
 	if an == nil || len(an.Curves) == 0 {
 		return errors.New("report.WriteFitPlot: an analysis with at least one scan is required")
 	}
 	if fi, err := os.Stat(filepath.Dir(path)); err != nil || !fi.IsDir() {
 		return fmt.Errorf("cannot write %s: its directory does not exist", path)
 	}
-	var b bytes.Buffer
-	if err := renderFitPage(&b, an, name, reportClock()); err != nil {
+	b, err := drawPage(ctx, func(w io.Writer) error { return renderFitPage(ctx, w, an, name, reportClock()) })
+	if err != nil {
 		return fmt.Errorf("drawing %s: %w", path, err)
 	}
 	return textout.WriteFileAtomic(filepath.Dir(path), filepath.Base(path), func(w io.Writer) error {
-		_, err := w.Write(b.Bytes())
+		_, err := w.Write(b)
 		return err
 	})
 }
 
-func renderFitPage(w io.Writer, an *dsc.Analysis, name string, now time.Time) error {
+func renderFitPage(ctx context.Context, w io.Writer, an *dsc.Analysis, name string, now time.Time) error {
 	pg := &page{Title: "DSC fit: " + name, Kind: "DSC fit", Drawn: stamp(now), Scope: check.CautionScope{Curing: true}}
 	if an.Fit != nil {
 		pg.Status, pg.StatusOK = fmt.Sprintf("fitted: R² %.4f, RMS residual %.2g %% of the peak rates", an.Fit.R2, 100*an.Fit.RMS), true
@@ -71,6 +73,9 @@ func renderFitPage(w io.Writer, an *dsc.Analysis, name string, now time.Time) er
 	}
 	pg.Sections = append(pg.Sections, section{ID: "scans", Heading: "Scans",
 		Body: tableHTML([]string{"scan", "program", "window", "peak", "heat", "RMS residual of the fit"}, rows, nil)})
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	svg, err := fitRateFigure(an)
 	if err != nil {
 		return err
@@ -81,6 +86,9 @@ func renderFitPage(w io.Writer, an *dsc.Analysis, name string, now time.Time) er
 	}
 	pg.Sections = append(pg.Sections, section{ID: "rates", Heading: "Rate of cure, measured and fitted", Body: figureHTML(svg, caption)})
 	if len(an.Friedman) > 0 {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
 		svg, err := fitFriedmanFigure(an)
 		if err != nil {
 			return err
@@ -90,7 +98,7 @@ func renderFitPage(w io.Writer, an *dsc.Analysis, name string, now time.Time) er
 				"Ozawa–Flynn–Wall at the same degrees of cure, and Kissinger's single value (dashed). "+
 				"A single-step law has a flat E(α); a strong variation suggests several steps.")})
 	}
-	return renderPage(w, pg)
+	return renderPage(ctx, w, pg)
 }
 
 // fitRateFigure draws dα/dt per scan: a panel against temperature for the

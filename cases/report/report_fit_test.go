@@ -1,6 +1,7 @@
 package report
 
 import (
+	"context"
 	"os"
 	"path/filepath"
 	"strings"
@@ -18,7 +19,7 @@ func fitPage(t *testing.T, scans []*dsc.Scan, model string) string {
 		t.Fatal(err)
 	}
 	path := filepath.Join(t.TempDir(), "fit.html")
-	if err := WriteFitPlot(path, an, "demo <resin>"); err != nil {
+	if err := WriteFitPlot(context.Background(), path, an, "demo <resin>"); err != nil {
 		t.Fatal(err)
 	}
 	b, err := os.ReadFile(path)
@@ -77,14 +78,14 @@ func TestWriteFitPlotNoFit(t *testing.T) {
 }
 
 func TestWriteFitPlotErrors(t *testing.T) {
-	if err := WriteFitPlot(filepath.Join(t.TempDir(), "fit.html"), &dsc.Analysis{}, "x"); err == nil {
+	if err := WriteFitPlot(context.Background(), filepath.Join(t.TempDir(), "fit.html"), &dsc.Analysis{}, "x"); err == nil {
 		t.Error("an empty analysis gave no error")
 	}
 	an, err := dsc.Analyze(readDemo(t)[:2], dsc.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := WriteFitPlot(filepath.Join(t.TempDir(), "no", "fit.html"), an, "x"); err == nil || !strings.Contains(err.Error(), "does not exist") {
+	if err := WriteFitPlot(context.Background(), filepath.Join(t.TempDir(), "no", "fit.html"), an, "x"); err == nil || !strings.Contains(err.Error(), "does not exist") {
 		t.Errorf("missing directory: err %v", err)
 	}
 }
@@ -94,7 +95,7 @@ func readDemo(t *testing.T) []*dsc.Scan {
 	t.Helper()
 	var scans []*dsc.Scan
 	for _, spec := range dsc.DemoScans() {
-		s, err := dscfile.ReadScan(filepath.Join("../../testdata/dsc", spec.Name))
+		s, err := dscfile.ReadScan(context.Background(), filepath.Join("../../testdata/dsc", spec.Name))
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -1,8 +1,11 @@
 package report
 
 import (
+	"bytes"
+	"context"
 	"cureslab/cases/check"
 	"cureslab/cases/internal/num"
+	"fmt"
 	"html/template"
 	"io"
 	"strings"
@@ -37,10 +40,56 @@ type section struct {
 	Body    template.HTML
 }
 
-// renderPage writes p as one HTML document.
-func renderPage(w io.Writer, p *page) error {
+// renderPage writes p as one HTML document, unless ctx is done: then it
+// returns ctx.Err() and writes nothing.
+//
+// Every page is drawn this way: its figures are drawn one after the other,
+// ctx checked before each (each takes a fraction of a second: the maps are
+// capped in pixels), and the page is assembled in memory and written in
+// one go by the caller (staged in an output set, or a temporary file
+// renamed into place), so an interrupted drawing leaves no page at all.
+func renderPage(ctx context.Context, w io.Writer, p *page) error {
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	p.Cautions = check.Cautions(p.Scope)
 	return pageTemplate().Execute(w, p)
+}
+
+// drawPage runs render, which draws a page into the writer it is given,
+// and returns the page; or, as soon as ctx is done, returns ctx.Err()
+// without waiting for it.
+//
+// Method: render runs on its own goroutine into a buffer of its own. It
+// checks ctx before each figure (renderPage), but one figure of a large
+// run (a thousand probes over thousands of output times) can keep gonum
+// busy for seconds; so drawPage does not wait for it: the figure is left
+// to finish in the background and its page is thrown away (render stops
+// at its next check of ctx). Nothing reaches a file until the page is
+// whole, so an interrupted page leaves nothing behind, and the command
+// returns within moments of Ctrl-C. A panic in render becomes an error.
+func drawPage(ctx context.Context, render func(w io.Writer) error) ([]byte, error) {
+	type drawn struct {
+		b   []byte
+		err error
+	}
+	done := make(chan drawn, 1)
+	go func() {
+		var b bytes.Buffer
+		defer func() {
+			if r := recover(); r != nil {
+				done <- drawn{nil, fmt.Errorf("drawing the page: %v", r)}
+			}
+		}()
+		err := render(&b)
+		done <- drawn{b.Bytes(), err}
+	}()
+	select {
+	case d := <-done:
+		return d.b, d.err
+	case <-ctx.Done():
+		return nil, ctx.Err()
+	}
 }
 
 // stamp formats the time a report is drawn: UTC, to the minute.

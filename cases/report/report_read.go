@@ -3,7 +3,9 @@ package report
 import (
 	"bufio"
 	"bytes"
+	"context"
 	"cureslab/cases"
+	"cureslab/cases/limits"
 	"cureslab/cases/results"
 	"encoding/csv"
 	"encoding/json"
@@ -30,7 +32,9 @@ func outputError(file string, line, col int, key, format string, a ...any) *case
 }
 
 // readRunData reads the output files of a run in dir into report data.
-func readRunData(dir string) (*runData, error) {
+// Once ctx is done the reading stops (within 64 kB) and the error is
+// ctx.Err().
+func readRunData(ctx context.Context, dir string) (*runData, error) {
 	tb := &runTable{}
 	fields := filepath.Join(dir, results.FieldsFile)
 	f, err := openOutput(fields) // a directory without it is said to be no run's first
@@ -43,10 +47,10 @@ func readRunData(dir string) (*runData, error) {
 	if err := readSummaryJSON(filepath.Join(dir, results.SummaryFile), tb); err != nil {
 		return nil, err
 	}
-	if err := readFieldsCSV(fields, tb); err != nil {
+	if err := readFieldsCSV(ctx, fields, tb); err != nil {
 		return nil, err
 	}
-	if err := readProbesCSV(filepath.Join(dir, results.ProbesFile), tb); err != nil {
+	if err := readProbesCSV(ctx, filepath.Join(dir, results.ProbesFile), tb); err != nil {
 		return nil, err
 	}
 	d, err := newRunData(tb, "")
@@ -73,22 +77,28 @@ func openOutput(path string) (*os.File, error) {
 
 // csvTable reads a CSV output file record by record with positioned errors.
 type csvTable struct {
+	ctx  context.Context
 	path string
 	r    *csv.Reader
 	line int // line of the record last read
 }
 
-func newCSVTable(path string, f io.Reader) *csvTable {
-	r := csv.NewReader(bufio.NewReaderSize(f, 64<<10))
+// newCSVTable reads f in blocks of 64 kB, checking ctx before each.
+func newCSVTable(ctx context.Context, path string, f io.Reader) *csvTable {
+	r := csv.NewReader(bufio.NewReaderSize(limits.Reader(ctx, f), 64<<10))
 	r.ReuseRecord = true
-	return &csvTable{path: path, r: r}
+	return &csvTable{ctx: ctx, path: path, r: r}
 }
 
-// next returns the next record, io.EOF at the end, or a positioned error.
+// next returns the next record, io.EOF at the end, ctx.Err() once the
+// context is done, or a positioned error.
 func (t *csvTable) next() ([]string, error) {
 	rec, err := t.r.Read()
 	if err == io.EOF {
 		return nil, err
+	}
+	if err != nil && t.ctx.Err() != nil {
+		return nil, t.ctx.Err()
 	}
 	if err != nil {
 		var pe *csv.ParseError
@@ -128,13 +138,13 @@ func (t *csvTable) errAt(i int, col, format string, a ...any) *cases.Error {
 // time, the same cells in the same order in every block. The blocks go one
 // by one into tb.Fields (fieldColumns), which keeps a bounded set of them:
 // memory O(cells), however long the file.
-func readFieldsCSV(path string, tb *runTable) error {
+func readFieldsCSV(ctx context.Context, path string, tb *runTable) error {
 	f, err := openOutput(path)
 	if err != nil {
 		return err
 	}
 	defer f.Close()
-	t := newCSVTable(path, f)
+	t := newCSVTable(ctx, path, f)
 	head, err := t.next()
 	if err == io.EOF {
 		return outputError(path, 1, 0, "", "empty file, want the header %s", strings.Join(results.FieldsHeader, ","))
@@ -267,13 +277,13 @@ func readFieldsCSV(path string, tb *runTable) error {
 // each probe, the driving temperatures (*_C), power_fraction, the probes'
 // viscosities (viscosity_<d>mm_Pa_s) and
 // heat_in_J_per_m2. Its times must be those of fields.csv.
-func readProbesCSV(path string, tb *runTable) error {
+func readProbesCSV(ctx context.Context, path string, tb *runTable) error {
 	f, err := openOutput(path)
 	if err != nil {
 		return err
 	}
 	defer f.Close()
-	t := newCSVTable(path, f)
+	t := newCSVTable(ctx, path, f)
 	head, err := t.next()
 	if err == io.EOF {
 		return outputError(path, 1, 0, "", "empty file, want a header starting with time_s")

@@ -1,6 +1,7 @@
 package report
 
 import (
+	"context"
 	"cureslab/cases/check"
 	"cureslab/cases/results"
 	"fmt"
@@ -21,8 +22,10 @@ const (
 	legendWidth   = 118
 )
 
-// renderRunReport writes the report page of one run.
-func renderRunReport(w io.Writer, d *runData, now time.Time) error {
+// renderRunReport writes the report page of one run. It checks ctx before
+// each figure and returns ctx.Err() once ctx is done, having written
+// nothing to w.
+func renderRunReport(ctx context.Context, w io.Writer, d *runData, now time.Time) error {
 	s := d.Summary
 	pg := &page{Title: d.Title, Kind: "run report", Drawn: stamp(now),
 		Scope: check.CautionScope{Curing: curingLayers(d) > 0, Volumetric: d.Volumetric}}
@@ -34,7 +37,10 @@ func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 	if len(d.Times) < 2 {
 		pg.Sections = append(pg.Sections, section{Heading: "Plots",
 			Intro: "The run holds a single output time, so there is nothing to plot over time."})
-		return renderPage(w, pg)
+		return renderPage(ctx, w, pg)
+	}
+	if err := ctx.Err(); err != nil {
+		return err
 	}
 	svg, err := mapFigure(d, ts, false)
 	if err != nil {
@@ -42,6 +48,9 @@ func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 	}
 	pg.Sections = append(pg.Sections, section{ID: "temperature-map", Heading: "Temperature through the thickness",
 		Body: figureHTML(svg, mapCaption(d, false))})
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	if d.Absorbed != nil {
 		svg, caption, err := absorbedFigure(d, ts)
 		if err != nil {
@@ -52,6 +61,9 @@ func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 				Body: figureHTML(svg, caption)})
 		}
 	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	if curingLayers(d) > 0 {
 		svg, err := mapFigure(d, ts, true)
 		if err != nil {
@@ -60,12 +72,18 @@ func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 		pg.Sections = append(pg.Sections, section{ID: "cure-map", Heading: "Degree of cure through the thickness",
 			Body: figureHTML(svg, mapCaption(d, true))})
 	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	svg, caption, err := profileFigure(d, ts)
 	if err != nil {
 		return err
 	}
 	pg.Sections = append(pg.Sections, section{ID: "profiles", Heading: "Profiles through the thickness",
 		Body: figureHTML(svg, caption)})
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	if len(d.Probes) > 0 || len(d.Drivers) > 0 || d.Power != nil {
 		svg, caption, err := historyFigure(d, ts)
 		if err != nil {
@@ -74,6 +92,9 @@ func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 		pg.Sections = append(pg.Sections, section{ID: "histories", Heading: "Probe histories and the program",
 			Body: figureHTML(svg, caption)})
 	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	if svg, caption, err := viscosityFigure(d, ts); err != nil {
 		return err
 	} else if svg != "" {
@@ -81,7 +102,7 @@ func renderRunReport(w io.Writer, d *runData, now time.Time) error {
 			Body: figureHTML(svg, caption)})
 	}
 	pg.Sections = append(pg.Sections, section{ID: "stack", Heading: "Stack", Body: stackHTML(d)})
-	return renderPage(w, pg)
+	return renderPage(ctx, w, pg)
 }
 
 // statusBadge returns the word shown next to the title and whether it is

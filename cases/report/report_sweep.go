@@ -1,11 +1,12 @@
 package report
 
 import (
-	"bytes"
+	"context"
 	"cureslab/cases"
 	"cureslab/cases/check"
 	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/textout"
+	"cureslab/cases/limits"
 	"cureslab/cases/results"
 	"encoding/csv"
 	"encoding/json"
@@ -64,9 +65,11 @@ const SweepReportFile = "report.html"
 //
 // title heads the page ("" gives "Sweep in DIR"). Errors: a missing or
 // malformed summary.csv or sweep.json, with the file named; nothing is
-// written then. Cost: linear in the number of runs.
-func WriteSweepReport(dir, title string, c *cases.Case) error {
-	sd, err := readSweepData(dir)
+// written then. When ctx is done (checked while summary.csv is read and
+// before each figure) nothing is written and the error wraps ctx.Err().
+// Cost: linear in the number of runs.
+func WriteSweepReport(ctx context.Context, dir, title string, c *cases.Case) error {
+	sd, err := readSweepData(ctx, dir)
 	if err != nil {
 		return err
 	}
@@ -82,12 +85,14 @@ func WriteSweepReport(dir, title string, c *cases.Case) error {
 			crit = nil
 		}
 	}
-	var b bytes.Buffer
-	if err := renderSweepReport(&b, sd, title, crit, sweepScope(sd, c), reportClock()); err != nil {
+	b, err := drawPage(ctx, func(w io.Writer) error {
+		return renderSweepReport(ctx, w, sd, title, crit, sweepScope(sd, c), reportClock())
+	})
+	if err != nil {
 		return fmt.Errorf("drawing %s: %w", SweepReportFile, err)
 	}
 	if err := textout.WriteFileAtomic(dir, SweepReportFile, func(w io.Writer) error {
-		_, err := w.Write(b.Bytes())
+		_, err := w.Write(b)
 		return err
 	}); err != nil {
 		return fmt.Errorf("writing %s: %w", filepath.Join(dir, SweepReportFile), err)
@@ -137,7 +142,7 @@ func (r *sweepRow) num(col string) float64 {
 	return math.NaN()
 }
 
-func readSweepData(dir string) (*sweepData, error) {
+func readSweepData(ctx context.Context, dir string) (*sweepData, error) {
 	defPath := filepath.Join(dir, results.SweepDefinitionFile)
 	b, err := os.ReadFile(defPath)
 	if err != nil {
@@ -162,7 +167,10 @@ func readSweepData(dir string) (*sweepData, error) {
 		return nil, fmt.Errorf("sweep report: cannot read %s: %w", sumPath, err)
 	}
 	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
+	recs, err := csv.NewReader(limits.Reader(ctx, f)).ReadAll()
+	if err != nil && ctx.Err() != nil {
+		return nil, ctx.Err()
+	}
 	if err != nil {
 		return nil, fmt.Errorf("sweep report: %s: %v", sumPath, err)
 	}
@@ -287,7 +295,7 @@ func sweepScope(sd *sweepData, c *cases.Case) check.CautionScope {
 	return sc
 }
 
-func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Criteria, scope check.CautionScope, now time.Time) error {
+func renderSweepReport(ctx context.Context, w io.Writer, sd *sweepData, title string, crit *cases.Criteria, scope check.CautionScope, now time.Time) error {
 	pg := &page{Title: title, Kind: "sweep", Drawn: stamp(now), Scope: scope}
 	bad := 0
 	for i := range sd.Rows {
@@ -311,6 +319,9 @@ func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Cri
 	case len(sd.Rows) == 0:
 	case len(sd.Keys) == 2 && sd.Mode == cases.ModeGrid:
 		for _, c := range sweepColumns(sd) {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
 			svg, _, err := sweepMapFigure(sd, c)
 			if err != nil {
 				return err
@@ -320,6 +331,9 @@ func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Cri
 					"runs that did not pass (a criterion failed, or the run failed or ran away). White, hatched: no value.")})
 		}
 	case len(sd.Keys) == 1:
+		if err := ctx.Err(); err != nil {
+			return err
+		}
 		cols := sweepColumns(sd)
 		svg, err := sweepLineFigure(sd, cols)
 		if err != nil {
@@ -331,7 +345,7 @@ func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Cri
 	default:
 		pg.Sections = append(pg.Sections, section{ID: "runs", Heading: "Every run, the worst first",
 			Intro: sweepOrderText(crit), Body: sweepTable(sd, order, crit)})
-		return renderPage(w, pg)
+		return renderPage(ctx, w, pg)
 	}
 	var failing []int
 	for _, i := range order {
@@ -343,7 +357,7 @@ func renderSweepReport(w io.Writer, sd *sweepData, title string, crit *cases.Cri
 		pg.Sections = append(pg.Sections, section{ID: "not-passed", Heading: "Runs that did not pass",
 			Intro: sweepOrderText(crit), Body: sweepTable(sd, failing, crit)})
 	}
-	return renderPage(w, pg)
+	return renderPage(ctx, w, pg)
 }
 
 func sweepFacts(sd *sweepData) [][]string {

@@ -32,7 +32,7 @@ func sweepPage(t *testing.T, set sweep.SweepSettings, crit *cases.Criteria) (str
 		}
 		c.Criteria = *crit
 	}
-	if err := WriteSweepReport(dir, "tiny sweep", c); err != nil {
+	if err := WriteSweepReport(context.Background(), dir, "tiny sweep", c); err != nil {
 		t.Fatal(err)
 	}
 	b, err := os.ReadFile(filepath.Join(dir, SweepReportFile))
@@ -86,7 +86,7 @@ func TestSweepReportGrid(t *testing.T) {
 			t.Errorf("map %d lacks the colour bar label %q", i, bar)
 		}
 	}
-	sd, err := readSweepData(dir)
+	sd, err := readSweepData(context.Background(), dir)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -154,7 +154,7 @@ func TestSweepReportFlowWindow(t *testing.T) {
 	}
 	// A flow window longer than any run's: every run fails min_flow_window.
 	c.Criteria = cases.Criteria{MinCure: math.NaN(), MaxTemperature: math.NaN(), MaxSpread: math.NaN(), FlowViscosity: 100, MinFlowWindow: 1e6}
-	if err := WriteSweepReport(dir, "tiny sweep", c); err != nil {
+	if err := WriteSweepReport(context.Background(), dir, "tiny sweep", c); err != nil {
 		t.Fatal(err)
 	}
 	b, err := os.ReadFile(filepath.Join(dir, SweepReportFile))
@@ -256,7 +256,7 @@ func TestSweepMarginOrder(t *testing.T) {
 
 func TestSweepReportErrors(t *testing.T) {
 	dir := t.TempDir()
-	if err := WriteSweepReport(dir, "", nil); err == nil || !strings.Contains(err.Error(), results.SweepDefinitionFile) {
+	if err := WriteSweepReport(context.Background(), dir, "", nil); err == nil || !strings.Contains(err.Error(), results.SweepDefinitionFile) {
 		t.Errorf("empty directory: err %v, want one naming %s", err, results.SweepDefinitionFile)
 	}
 	s := newTinySweep(t, "", sweep.SweepSettings{Vary: mustVary(t, "layer.resin.thickness=1mm,2mm")})
@@ -264,7 +264,7 @@ func TestSweepReportErrors(t *testing.T) {
 	if err := os.WriteFile(filepath.Join(dir, results.SweepSummaryFile), []byte("run,status\n0,ok\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	err := WriteSweepReport(dir, "", nil)
+	err := WriteSweepReport(context.Background(), dir, "", nil)
 	if err == nil || !strings.Contains(err.Error(), `no column "layer.resin.thickness"`) {
 		t.Errorf("summary without the key column: err %v", err)
 	}

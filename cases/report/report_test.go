@@ -105,7 +105,7 @@ func renderFromMemory(t *testing.T, c *cases.Case, r *solver.Result) string {
 		t.Fatal(err)
 	}
 	var b bytes.Buffer
-	if err := renderRunReport(&b, d, reportClock()); err != nil {
+	if err := renderRunReport(context.Background(), &b, d, reportClock()); err != nil {
 		t.Fatal(err)
 	}
 	return b.String()
@@ -383,7 +383,7 @@ func TestReportFromFilesEqualsFromMemory(t *testing.T) {
 	fixedClock(t)
 	for _, maxT := range []string{"40 C", "150 C"} {
 		dir, c, r := writeRunFiles(t, maxT, true)
-		if err := WriteReport(dir, c, r, results.Summarize(c, r)); err != nil {
+		if err := WriteReport(context.Background(), dir, c, r, results.Summarize(c, r)); err != nil {
 			t.Fatal(err)
 		}
 		mem, err := os.ReadFile(filepath.Join(dir, ReportFile))
@@ -393,7 +393,7 @@ func TestReportFromFilesEqualsFromMemory(t *testing.T) {
 		if err := os.Remove(filepath.Join(dir, ReportFile)); err != nil {
 			t.Fatal(err)
 		}
-		if err := RedrawReport(dir); err != nil {
+		if err := RedrawReport(context.Background(), dir); err != nil {
 			t.Fatal(err)
 		}
 		files, err := os.ReadFile(filepath.Join(dir, ReportFile))
@@ -418,7 +418,7 @@ func TestReportFromFilesEqualsFromMemory(t *testing.T) {
 func TestRedrawReportWithoutGelPoint(t *testing.T) {
 	fixedClock(t)
 	dir, _, _ := writeRunFiles(t, "150 C", false)
-	if err := RedrawReport(dir); err != nil {
+	if err := RedrawReport(context.Background(), dir); err != nil {
 		t.Fatal(err)
 	}
 	page, err := os.ReadFile(filepath.Join(dir, ReportFile))
@@ -477,7 +477,7 @@ func TestRedrawReportErrors(t *testing.T) {
 					t.Fatal(err)
 				}
 			}
-			err := RedrawReport(dir)
+			err := RedrawReport(context.Background(), dir)
 			if err == nil {
 				t.Fatal("no error")
 			}

@@ -1,7 +1,7 @@
 package report
 
 import (
-	"bytes"
+	"context"
 	"cureslab/cases/check"
 	"cureslab/cases/internal/textout"
 	"cureslab/cases/ttt"
@@ -34,20 +34,21 @@ import (
 // otherwise (tttTimeScale).
 //
 // Preconditions: t from TTT with at least one row. The file is written with
-// WriteFileAtomic; its directory must exist. Cost: linear in the rows.
-func WriteTTTPlot(path string, t *ttt.Table) error {
+// WriteFileAtomic; its directory must exist. When ctx is done nothing is
+// written and the error wraps ctx.Err(). Cost: linear in the rows.
+func WriteTTTPlot(ctx context.Context, path string, t *ttt.Table) error {
 	if t == nil || len(t.Rows) == 0 {
 		return errors.New("report.WriteTTTPlot: a TTT table with at least one row is required")
 	}
 	if fi, err := os.Stat(filepath.Dir(path)); err != nil || !fi.IsDir() {
 		return fmt.Errorf("cannot write %s: its directory does not exist", path)
 	}
-	var b bytes.Buffer
-	if err := renderTTTPage(&b, t, reportClock()); err != nil {
+	b, err := drawPage(ctx, func(w io.Writer) error { return renderTTTPage(ctx, w, t, reportClock()) })
+	if err != nil {
 		return fmt.Errorf("drawing %s: %w", path, err)
 	}
 	return textout.WriteFileAtomic(filepath.Dir(path), filepath.Base(path), func(w io.Writer) error {
-		_, err := w.Write(b.Bytes())
+		_, err := w.Write(b)
 		return err
 	})
 }
@@ -100,7 +101,7 @@ func tttTimeScale(t *ttt.Table) timeScale {
 	return timeScale{60, "min"}
 }
 
-func renderTTTPage(w io.Writer, t *ttt.Table, now time.Time) error {
+func renderTTTPage(ctx context.Context, w io.Writer, t *ttt.Table, now time.Time) error {
 	pg := &page{Title: "TTT diagram: " + t.Material, Kind: "TTT diagram", Drawn: stamp(now), Scope: check.CautionScope{Curing: true}}
 	ts := tttTimeScale(t)
 	curves := tttCurves(t, ts)
@@ -114,6 +115,9 @@ func renderTTTPage(w io.Writer, t *ttt.Table, now time.Time) error {
 	}
 	if plotted == 0 {
 		pg.Alerts = append(pg.Alerts, "No state is reached in a finite time at any of these cure temperatures: the diagram is empty.")
+	}
+	if err := ctx.Err(); err != nil {
+		return err
 	}
 	svg, err := tttFigure(t, ts, curves)
 	if err != nil {
@@ -145,7 +149,7 @@ func renderTTTPage(w io.Writer, t *ttt.Table, now time.Time) error {
 	pg.Sections = append(pg.Sections, section{ID: "table", Heading: "Times",
 		Body: tableHTML([]string{"cure temperature", "to gel", "to vitrify", "to cure " + strconv.FormatFloat(t.Target, 'g', -1, 64)},
 			rows, map[int]bool{0: true, 1: true, 2: true, 3: true})})
-	return renderPage(w, pg)
+	return renderPage(ctx, w, pg)
 }
 
 // tttFigure draws the TTT diagram: temperature against log time.

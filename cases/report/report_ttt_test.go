@@ -1,6 +1,7 @@
 package report
 
 import (
+	"context"
 	"cureslab/cases"
 	"cureslab/cases/internal/testkit"
 	"cureslab/cases/ttt"
@@ -26,7 +27,7 @@ func tttTable(t *testing.T, glass bool) *ttt.Table {
 	if err != nil {
 		t.Fatal(err)
 	}
-	tt, err := ttt.Tabulate(c, "resin-T", ttt.Options{})
+	tt, err := ttt.Tabulate(context.Background(), c, "resin-T", ttt.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -37,7 +38,7 @@ func tttPage(t *testing.T, tt *ttt.Table) string {
 	t.Helper()
 	fixedClock(t)
 	path := filepath.Join(t.TempDir(), "ttt.html")
-	if err := WriteTTTPlot(path, tt); err != nil {
+	if err := WriteTTTPlot(context.Background(), path, tt); err != nil {
 		t.Fatal(err)
 	}
 	b, err := os.ReadFile(path)
@@ -188,14 +189,14 @@ func TestTTTTimeScale(t *testing.T) {
 }
 
 func TestWriteTTTPlotErrors(t *testing.T) {
-	if err := WriteTTTPlot(filepath.Join(t.TempDir(), "ttt.html"), &ttt.Table{}); err == nil {
+	if err := WriteTTTPlot(context.Background(), filepath.Join(t.TempDir(), "ttt.html"), &ttt.Table{}); err == nil {
 		t.Error("an empty table gave no error")
 	}
-	if err := WriteTTTPlot(filepath.Join(t.TempDir(), "ttt.html"), nil); err == nil {
+	if err := WriteTTTPlot(context.Background(), filepath.Join(t.TempDir(), "ttt.html"), nil); err == nil {
 		t.Error("a nil table gave no error")
 	}
 	tt := tttTable(t, true)
-	if err := WriteTTTPlot(filepath.Join(t.TempDir(), "no-such-dir", "ttt.html"), tt); err == nil {
+	if err := WriteTTTPlot(context.Background(), filepath.Join(t.TempDir(), "no-such-dir", "ttt.html"), tt); err == nil {
 		t.Error("a missing directory gave no error")
 	}
 	// Nothing reached anywhere: the page is written with an alert.

@@ -3,7 +3,7 @@ package results
 import (
 	"cureslab/cases"
 	"cureslab/cases/internal/num"
-	"cureslab/cases/internal/textout"
+	"cureslab/cases/outdir"
 	"cureslab/solver"
 	"encoding/csv"
 	"fmt"
@@ -49,6 +49,11 @@ type Compared struct {
 	// Err says what went wrong: the run could not start, its outputs could
 	// not be written, or it was not started (interrupted).
 	Err error
+	// ReportNotDrawn reports that a report page was asked for but not
+	// drawn because the context was cancelled first (Ctrl-C or SIGTERM,
+	// during the run or while drawing): the run's other files are written
+	// all the same, and an older page is not left beside them.
+	ReportNotDrawn bool
 }
 
 // CompareNames returns the output subdirectory of each case: the base name
@@ -72,12 +77,13 @@ func CompareNames(cs []*cases.Case) []string {
 	return names
 }
 
-// WriteComparison writes dir/compare.csv (WriteFileAtomic): the header
+// StageComparison writes compare.csv into set, a comparison's output set
+// (CompareKind; it goes in place at the set's Commit): the header
 // CompareHeader, then one row per case in the order of rows, with the
 // values of summary.json as written there (null is an empty cell). A case
 // that did not run has only its name, title and status.
-func WriteComparison(dir string, rows []Compared) error {
-	return textout.WriteFileAtomic(dir, CompareFile, func(w io.Writer) error {
+func StageComparison(set *outdir.Set, rows []Compared) error {
+	return set.Stage(CompareFile, func(w io.Writer) error {
 		cw := csv.NewWriter(w)
 		if err := cw.Write(CompareHeader); err != nil {
 			return err

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"cureslab/cases"
 	"cureslab/cases/internal/testkit"
+	"cureslab/cases/outdir"
 	"errors"
 	"math"
 	"os"
@@ -15,7 +16,14 @@ import (
 // TestCompareHeaderGolden pins the columns of compare.csv.
 func TestCompareHeaderGolden(t *testing.T) {
 	dir := t.TempDir()
-	if err := WriteComparison(dir, nil); err != nil {
+	set, err := outdir.Open(dir, CompareKind)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := StageComparison(set, nil); err != nil {
+		t.Fatal(err)
+	}
+	if err := set.Commit(); err != nil {
 		t.Fatal(err)
 	}
 	b, err := os.ReadFile(filepath.Join(dir, CompareFile))

@@ -10,8 +10,11 @@ package simulate
 
 import (
 	"context"
+	"encoding/csv"
 	"errors"
 	"fmt"
+	"io"
+	"os"
 	"path/filepath"
 
 	"cureslab/cases"
@@ -96,7 +99,12 @@ func Case(ctx context.Context, c *cases.Case, dir string, opt Options) results.C
 		return finish(out)
 	}
 	if col != nil {
-		out.Err = col.Stage(set, out.Summary)
+		out.Err = col.Stage(ctx, set, out.Summary)
+		if ctx.Err() != nil && errors.Is(out.Err, ctx.Err()) {
+			// Interrupted (during the run, or while drawing): the run's
+			// files go in place without the page.
+			out.Err, out.ReportNotDrawn = nil, true
+		}
 	}
 	return finish(out)
 }
@@ -128,8 +136,16 @@ func verify(ctx context.Context, c *cases.Case, r *solver.Result) *results.Estim
 // The cases must be validated beforehand: Compare is the first thing that
 // touches dir, which it creates if needed. When ctx is cancelled, the cases
 // not yet started are not run and are recorded as such; the table is still
-// written. A case that fails to run does not stop the others. The error is
-// about dir, compare.csv or the comparison page only.
+// written, and the page is not drawn (the error wraps ErrPageNotDrawn). A
+// case that fails to run does not stop the others. The error is about dir,
+// compare.csv or the comparison page only.
+//
+// dir holds one comparison (package outdir, CompareKind): the folders of
+// the cases that ran are part of its set, and the case folders of an
+// earlier comparison into dir that this one does not write again (other
+// cases, or a case that did not run this time) are removed when the new
+// set is committed, so a folder never describes a case that compare.csv
+// does not list as run.
 //
 // Cost: the sum of the runs.
 func Compare(ctx context.Context, cs []*cases.Case, dir string, opt Options) ([]results.Compared, error) {
@@ -137,12 +153,8 @@ func Compare(ctx context.Context, cs []*cases.Case, dir string, opt Options) ([]
 	if err != nil {
 		return nil, err
 	}
-	committed := false
-	defer func() {
-		if !committed {
-			set.Abort()
-		}
-	}()
+	defer set.Abort() // after Commit it does nothing
+	set.Previous(earlierCaseFolders(dir)...)
 	names := results.CompareNames(cs)
 	rows := make([]results.Compared, len(cs))
 	for i, c := range cs {
@@ -152,33 +164,79 @@ func Compare(ctx context.Context, cs []*cases.Case, dir string, opt Options) ([]
 			rows[i] = Case(ctx, c, filepath.Join(dir, names[i]), opt)
 		}
 		rows[i].Name = names[i]
+		if rows[i].Ran && rows[i].Err == nil {
+			set.Keep(names[i])
+		}
 	}
-	if err := results.WriteComparison(dir, rows); err != nil {
-		return rows, fmt.Errorf("writing %s: %w", results.CompareFile, err)
-	}
-	var rerr error
-	if opt.Report {
-		rerr = CompareReport(dir, rows)
-	}
-	set.Keep(results.CompareFile, "report.html")
-	committed = true
-	if err := set.Commit(); err != nil {
-		return rows, err
-	}
-	return rows, rerr
+	return rows, commitComparison(ctx, set, rows, opt.Report)
 }
 
-// CompareReport writes the comparison page of the rows that ran into dir
-// (report.WriteCompareReport); with none, it writes nothing.
-func CompareReport(dir string, rows []results.Compared) error {
+// earlierCaseFolders returns the case folders named in the first column of
+// dir/compare.csv that hold a run's outputs (summary.json): those of an
+// earlier comparison, even one written before the record of the
+// comparison's set listed its folders.
+func earlierCaseFolders(dir string) []string {
+	f, err := os.Open(filepath.Join(dir, results.CompareFile))
+	if err != nil {
+		return nil
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(io.LimitReader(f, 1<<20)).ReadAll()
+	if err != nil {
+		return nil
+	}
+	var out []string
+	for _, rec := range recs[min(1, len(recs)):] {
+		if len(rec) == 0 {
+			continue
+		}
+		if fi, err := os.Stat(filepath.Join(dir, rec[0], results.SummaryFile)); err == nil && fi.Mode().IsRegular() {
+			out = append(out, rec[0])
+		}
+	}
+	return out
+}
+
+// ErrPageNotDrawn is wrapped by the error of Compare and WriteComparison
+// when the comparison page was not drawn because the context was
+// cancelled; everything else was written.
+var ErrPageNotDrawn = errors.New("the comparison page was not drawn: interrupted")
+
+// WriteComparison writes compare.csv and, with page, the comparison page of
+// the rows that ran into dir as one output set of a comparison (package
+// outdir): both in place together, or the previous set left as it was.
+// When ctx is done before the page is drawn, compare.csv goes in place
+// alone and the error wraps ErrPageNotDrawn.
+func WriteComparison(ctx context.Context, dir string, rows []results.Compared, page bool) error {
+	set, err := outdir.Open(dir, results.CompareKind)
+	if err != nil {
+		return err
+	}
+	defer set.Abort()
+	return commitComparison(ctx, set, rows, page)
+}
+
+// commitComparison stages compare.csv and the comparison page into set and
+// commits it (see WriteComparison).
+func commitComparison(ctx context.Context, set *outdir.Set, rows []results.Compared, page bool) error {
+	if err := results.StageComparison(set, rows); err != nil {
+		return fmt.Errorf("writing %s: %w", results.CompareFile, err)
+	}
 	var ran []results.Compared
 	for _, r := range rows {
 		if r.Result != nil {
 			ran = append(ran, r)
 		}
 	}
-	if len(ran) == 0 {
-		return nil
+	var perr error
+	if page && len(ran) > 0 {
+		perr = set.Stage(report.CompareReportFile, func(w io.Writer) error { return report.CompareReport(ctx, w, ran) })
+		if ctx.Err() != nil && errors.Is(perr, ctx.Err()) {
+			perr = fmt.Errorf("%w (%w)", ErrPageNotDrawn, perr)
+		}
 	}
-	return report.WriteCompareReport(dir, ran)
+	if err := set.Commit(); err != nil {
+		return err
+	}
+	return perr
 }

@@ -2,6 +2,7 @@ package sweep
 
 import (
 	"bytes"
+	"context"
 	"crypto/sha256"
 	"cureslab/cases"
 	"cureslab/cases/internal/textout"
@@ -46,8 +47,16 @@ type MergeReport struct {
 // found in no directory is missing: then nothing is written and the error
 // wraps ErrSweepIncomplete, unless allowMissing, which writes the rows
 // found (out can then be finished by running the sweep into it). out may
-// be one of dirs. Cost: memory and time linear in the rows.
-func MergeSweeps(out string, dirs []string, allowMissing bool) (MergeReport, error) {
+// be one of dirs.
+//
+// Interruption: ctx is checked before each directory, while each journal
+// is read (between chunks of 256 kB), and once more before the first file
+// is written: once it is done MergeSweeps returns ctx.Err() and has written
+// nothing. The writing itself, a few milliseconds per megabyte, is not
+// cut, so out never holds a merge half-written.
+//
+// Cost: memory and time linear in the rows.
+func MergeSweeps(ctx context.Context, out string, dirs []string, allowMissing bool) (MergeReport, error) {
 	var rep MergeReport
 	if len(dirs) == 0 {
 		return rep, &sweepError{msg: "no directories to merge"}
@@ -59,6 +68,9 @@ func MergeSweeps(out string, dirs []string, allowMissing bool) (MergeReport, err
 	var damagedRuns []int
 	var header []string
 	for i, dir := range dirs {
+		if err := ctx.Err(); err != nil {
+			return rep, err
+		}
 		b, err := os.ReadFile(filepath.Join(dir, results.SweepDefinitionFile))
 		if errors.Is(err, fs.ErrNotExist) {
 			return rep, &sweepError{msg: fmt.Sprintf("%s is not a sweep directory: it has no %s", dir, results.SweepDefinitionFile)}
@@ -81,7 +93,7 @@ func MergeSweeps(out string, dirs []string, allowMissing bool) (MergeReport, err
 			return rep, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
 				"%s and %s hold different sweeps: %s", dirs[0], dir, results.DefDiff(def, b))}
 		}
-		jc, err := readJournal(filepath.Join(dir, results.SweepJournalFile), header, d.Runs)
+		jc, err := readJournal(ctx, filepath.Join(dir, results.SweepJournalFile), header, d.Runs)
 		if errors.Is(err, fs.ErrNotExist) {
 			continue // the shard has not committed anything yet
 		}
@@ -134,6 +146,9 @@ func MergeSweeps(out string, dirs []string, allowMissing bool) (MergeReport, err
 	if old, err := os.ReadFile(filepath.Join(out, results.SweepDefinitionFile)); err == nil && !bytes.Equal(old, def) {
 		return rep, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
 			"%s holds another sweep: %s; give another output directory (-o)", out, results.DefDiff(old, def))}
+	}
+	if err := ctx.Err(); err != nil {
+		return rep, err
 	}
 	if err := os.MkdirAll(out, 0o755); err != nil {
 		return rep, err

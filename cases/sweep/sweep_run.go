@@ -6,6 +6,7 @@ import (
 	"cureslab/cases"
 	"cureslab/cases/internal/textout"
 	jrn "cureslab/cases/journal"
+	"cureslab/cases/limits"
 	"cureslab/cases/outdir"
 	"cureslab/cases/results"
 	"cureslab/solver"
@@ -53,6 +54,10 @@ const (
 	sweepCommitEvery = 200 * time.Millisecond
 	sweepCommitMax   = 1024
 )
+
+// maxJournalSize is the largest journal readJournal reads (4 GB, some ten
+// million runs).
+const maxJournalSize = 4 << 30
 
 // StatusCounts counts runs by status (README, Case file reference).
 type StatusCounts struct {
@@ -507,9 +512,11 @@ type journal struct {
 // (journal.Read): a damaged record costs that record only, and the later
 // records that check are kept; the damage is listed in the contents. A
 // first line that is not the header of this sweep is an error wrapping
-// ErrSweepMismatch that says how to recover.
-func readJournal(path string, header []string, runs int) (*jrn.Contents, error) {
-	data, err := os.ReadFile(path)
+// ErrSweepMismatch that says how to recover. The file is read in chunks
+// with ctx checked between them (limits.ReadFile): once ctx is done the
+// error is ctx.Err().
+func readJournal(ctx context.Context, path string, header []string, runs int) (*jrn.Contents, error) {
+	data, err := limits.ReadFile(ctx, path, maxJournalSize)
 	if err != nil {
 		return nil, err
 	}
@@ -546,7 +553,8 @@ func openJournal(dir string, header []string, runs int, earlier func() bool) (*j
 		}
 		syncDir(dir)
 	}
-	c, err := readJournal(path, header, runs)
+	// Read whole even after Ctrl-C: the sweep stops at its next run.
+	c, err := readJournal(context.Background(), path, header, runs)
 	upgraded := false
 	if err != nil && earlier != nil && earlier() {
 		if data, rerr := os.ReadFile(path); rerr == nil {

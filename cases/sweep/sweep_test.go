@@ -457,7 +457,7 @@ func TestSweepShardMerge(t *testing.T) {
 		dirs = append(dirs, d)
 	}
 	out := filepath.Join(root, "merged")
-	rep, err := MergeSweeps(out, dirs, false)
+	rep, err := MergeSweeps(context.Background(), out, dirs, false)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -479,14 +479,14 @@ func TestSweepShardMerge(t *testing.T) {
 	// A missing shard: nothing is written unless allowed; the sweep run into
 	// the partial merge finishes it.
 	partial := filepath.Join(root, "partial")
-	rep, err = MergeSweeps(partial, dirs[:2], false)
+	rep, err = MergeSweeps(context.Background(), partial, dirs[:2], false)
 	if !errors.Is(err, ErrSweepIncomplete) || !slices.Equal(rep.Missing, []int{2, 5, 8, 11, 14, 17}) {
 		t.Fatalf("merge without shard 2: %v, missing %v", err, rep.Missing)
 	}
 	if _, err := os.Stat(partial); !errors.Is(err, os.ErrNotExist) {
 		t.Errorf("an incomplete merge wrote %s", partial)
 	}
-	if _, err := MergeSweeps(partial, dirs[:2], true); err != nil {
+	if _, err := MergeSweeps(context.Background(), partial, dirs[:2], true); err != nil {
 		t.Fatal(err)
 	}
 	if rep := runSweep(t, s, partial, SweepOptions{Jobs: 2}); rep.Resumed != 12 || rep.Done != 18 {
@@ -499,7 +499,7 @@ func TestSweepShardMerge(t *testing.T) {
 	// Shards of another sweep are refused.
 	other := filepath.Join(root, "other")
 	runSweep(t, newTinySweep(t, "", SweepSettings{Vary: mustVary(t, "top.h=5W/m^2/K,6W/m^2/K")}), other, SweepOptions{})
-	if _, err := MergeSweeps(filepath.Join(root, "mixed"), []string{dirs[0], other}, false); !errors.Is(err, ErrSweepMismatch) ||
+	if _, err := MergeSweeps(context.Background(), filepath.Join(root, "mixed"), []string{dirs[0], other}, false); !errors.Is(err, ErrSweepMismatch) ||
 		!strings.Contains(err.Error(), "the varied keys differ") {
 		t.Errorf("merging different sweeps: %v", err)
 	}
@@ -739,7 +739,7 @@ func TestSweepJournalNoNewline(t *testing.T) {
 	if !bytes.Equal(readFile(t, filepath.Join(dir, results.SweepSummaryFile)), readFile(t, filepath.Join(whole, results.SweepSummaryFile))) {
 		t.Error("summary.csv differs from the uninterrupted one")
 	}
-	jc, err := readJournal(path, results.SweepHeader(s.Keys), s.Runs)
+	jc, err := readJournal(context.Background(), path, results.SweepHeader(s.Keys), s.Runs)
 	if err != nil || len(jc.Rows) != 18 || len(jc.Damaged) != 0 {
 		t.Errorf("journal after resume: %v, %v", jc, err)
 	}
@@ -765,7 +765,7 @@ func TestSweepGroupCommit(t *testing.T) {
 	if a, b := readFile(t, filepath.Join(each, results.SweepSummaryFile)), readFile(t, filepath.Join(grouped, results.SweepSummaryFile)); !bytes.Equal(a, b) {
 		t.Errorf("summary.csv differs between grouped and run-by-run commits")
 	}
-	jc, err := readJournal(filepath.Join(grouped, results.SweepJournalFile), results.SweepHeader(s.Keys), s.Runs)
+	jc, err := readJournal(context.Background(), filepath.Join(grouped, results.SweepJournalFile), results.SweepHeader(s.Keys), s.Runs)
 	if err != nil || len(jc.Rows) != 18 {
 		t.Errorf("journal: %v, %v", jc, err)
 	}
@@ -833,5 +833,38 @@ func TestSweepResumeEarlierJournal(t *testing.T) {
 	earlierJournal(t, dir)
 	if _, err := s.Run(context.Background(), dir, SweepOptions{Jobs: 2}); !errors.Is(err, ErrSweepMismatch) {
 		t.Errorf("a viscous case took over an earlier journal: %v", err)
+	}
+}
+
+// A Ctrl-C at any point of a merge before it writes (between shards, while
+// a journal is read, before the first file) ends it with the context's
+// error and nothing written.
+func TestMergeInterrupted(t *testing.T) {
+	s := tinyGrid(t)
+	root := t.TempDir()
+	var dirs []string
+	for i := range 2 {
+		d := filepath.Join(root, "shard-"+itoa(i))
+		runSweep(t, s, d, SweepOptions{Jobs: 2, Shard: i, Shards: 2})
+		dirs = append(dirs, d)
+	}
+	count := testkit.NewStopAfter(-1)
+	if _, err := MergeSweeps(count, filepath.Join(root, "whole"), dirs, false); err != nil {
+		t.Fatal(err)
+	}
+	// Two shards, each read in at least one chunk, and the check before
+	// writing.
+	if count.Checks() < 5 {
+		t.Errorf("%d checks of the context, want at least 5", count.Checks())
+	}
+	for n := range count.Checks() {
+		out := filepath.Join(root, "cut-"+itoa(int(n)))
+		_, err := MergeSweeps(testkit.NewStopAfter(n), out, dirs, false)
+		if !errors.Is(err, context.Canceled) {
+			t.Errorf("stopped at check %d: %v", n+1, err)
+		}
+		if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
+			t.Errorf("stopped at check %d: %s was created", n+1, out)
+		}
 	}
 }

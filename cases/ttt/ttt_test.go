@@ -2,8 +2,10 @@ package ttt
 
 import (
 	"bytes"
+	"context"
 	"cureslab/cases"
 	"cureslab/cases/internal/testkit"
+	"errors"
 	"math"
 	"strings"
 	"testing"
@@ -33,7 +35,7 @@ func TestTTT(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	tab, err := Tabulate(c, "resin-T", Options{})
+	tab, err := Tabulate(context.Background(), c, "resin-T", Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -118,7 +120,7 @@ func TestTTTBelowTg0AndOptions(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	tab, err := Tabulate(c, "resin-T", Options{From: 273.15 - 40, To: 273.15 - 30, Step: 5, Target: 0.5})
+	tab, err := Tabulate(context.Background(), c, "resin-T", Options{From: 273.15 - 40, To: 273.15 - 30, Step: 5, Target: 0.5})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -137,7 +139,7 @@ func TestTTTBelowTg0AndOptions(t *testing.T) {
 		{"resin-T", Options{Target: 1.5}, "the target cure must be in (0, 1]"},
 		{"resin-T", Options{From: 300, To: 400, Step: 0.01}, "more than 1000 rows"},
 	} {
-		if _, err := Tabulate(c, tc.material, tc.opt); err == nil || !strings.Contains(err.Error(), tc.want) {
+		if _, err := Tabulate(context.Background(), c, tc.material, tc.opt); err == nil || !strings.Contains(err.Error(), tc.want) {
 			t.Errorf("%s %+v: %v, want %q", tc.material, tc.opt, err, tc.want)
 		}
 	}
@@ -154,7 +156,7 @@ func TestDefaultTTTRangeWithoutGlass(t *testing.T) {
 	if math.Abs(from-293.15) > 1e-9 || math.Abs(to-373.15) > 1e-9 || step != 5 {
 		t.Errorf("range %g to %g step %g", from, to, step)
 	}
-	tab, err := Tabulate(c, "resin-T", Options{})
+	tab, err := Tabulate(context.Background(), c, "resin-T", Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -167,5 +169,19 @@ func TestDefaultTTTRangeWithoutGlass(t *testing.T) {
 	writeCSV(&csvOut, tab)
 	if !strings.Contains(strings.Split(csvOut.String(), "\n")[1], ",,") {
 		t.Errorf("no empty vitrification field: %q", strings.Split(csvOut.String(), "\n")[1])
+	}
+}
+
+// Ctrl-C stops the table between rows: the context's error, no table.
+func TestTabulateInterrupted(t *testing.T) {
+	c, err := cases.Parse("ttt.toml", []byte(testkit.TTTCase), "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, n := range []int64{0, 1, 5} {
+		tab, err := Tabulate(testkit.NewStopAfter(n), c, "resin-T", Options{})
+		if tab != nil || !errors.Is(err, context.Canceled) {
+			t.Errorf("cancelled after %d rows: %v", n, err)
+		}
 	}
 }

@@ -1,10 +1,12 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
 	"path/filepath"
+	"strings"
 
 	"github.com/spf13/pflag"
 
@@ -46,7 +48,8 @@ value: the log cannot tell them apart.
 
 Exit status: 0 fitted; 2 bad input (nothing written); 3 the fit did not
 converge (the best point's outputs are written and marked); 130 interrupted
-(the best point so far is written and marked).`,
+(the best point so far is written and marked, without report.html). A
+directory holding another kind of output is refused (exit 2) before the fit.`,
 	Example: `cureslab example thick-potting-oven > potting.toml
 cureslab example thick-potting-oven-trial.csv > trial.csv
 cureslab calibrate potting.toml --measured trial.csv --free top.h --free bottom.h \
@@ -89,13 +92,23 @@ cureslab calibrate potting.toml --measured trial.csv --free top.h=5W/m^2/K:40W/m
 			if msg := checkOutDir(dir); msg != "" {
 				return e.usageError("%s", msg)
 			}
+			// A directory of another kind is refused before the fit, which
+			// takes many runs, not after it.
+			if err := outdir.Check(dir, calibrate.Kind); err != nil {
+				fmt.Fprintf(e.stderr, "cureslab calibrate: %v\n", err)
+				return exitUsage
+			}
 			data, err := limits.ReadFile(e.ctx, args[0], limits.MaxFileSize)
-			if err != nil {
+			if e.interrupted(err) {
+				return e.loadError(err)
+			} else if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab calibrate: cannot read the case file: %v\n", err)
 				return exitUsage
 			}
 			logData, err := limits.ReadFile(e.ctx, *measured, limits.MaxFileSize)
-			if err != nil {
+			if e.interrupted(err) {
+				return e.loadError(err)
+			} else if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab calibrate: cannot read the log: %v\n", err)
 				return exitUsage
 			}
@@ -129,18 +142,25 @@ cureslab calibrate potting.toml --measured trial.csv --free top.h=5W/m^2/K:40W/m
 				fmt.Fprintf(e.stderr, "cureslab calibrate: %v\n", err)
 				return exitUsage
 			}
-			if err := writeCalibration(dir, res); err != nil {
+			drawn, err := writeCalibration(e.ctx, dir, res)
+			if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab calibrate: %v\n", err)
 				return exitUsage
 			}
 			calibrate.Print(e.stdout, res)
-			fmt.Fprintf(e.stdout, "\noutputs in %s: %s, %s, %s, %s\n", dir, calibrate.CalibratedFile,
-				calibrate.CalibrationFile, calibrate.ResidualsFile, calibrate.ReportFile)
-			switch res.Status {
-			case lsq.Interrupted:
-				fmt.Fprintln(e.stderr, "cureslab calibrate: interrupted; the outputs hold the best point so far, marked as such")
+			files := []string{calibrate.CalibratedFile, calibrate.CalibrationFile, calibrate.ResidualsFile}
+			if drawn {
+				files = append(files, calibrate.ReportFile)
+			}
+			fmt.Fprintf(e.stdout, "\noutputs in %s: %s\n", dir, strings.Join(files, ", "))
+			switch {
+			case res.Status == lsq.Interrupted:
+				fmt.Fprintf(e.stderr, "cureslab calibrate: interrupted; the outputs hold the best point so far, marked as such; %s was not drawn\n", calibrate.ReportFile)
 				return exitInterrupted
-			case lsq.IterationLimit:
+			case !drawn:
+				fmt.Fprintf(e.stderr, "cureslab calibrate: interrupted while drawing %s: the fit had ended and the other outputs are complete; the page was not drawn\n", calibrate.ReportFile)
+				return exitInterrupted
+			case res.Status == lsq.IterationLimit:
 				fmt.Fprintln(e.stderr, "cureslab calibrate: the fit did not converge; the outputs hold the best point reached, marked as such")
 				return exitFailure
 			}
@@ -151,19 +171,22 @@ cureslab calibrate potting.toml --measured trial.csv --free top.h=5W/m^2/K:40W/m
 
 // writeCalibration writes the outputs of a calibration into dir as one set
 // (package outdir): all of them in place together, or the previous set left
-// as it was.
-func writeCalibration(dir string, r *calibrate.Result) error {
+// as it was. The page is drawn unless ctx is done (Ctrl-C or SIGTERM, during
+// the fit or while drawing): then the other files go in place without it
+// (an older page is removed with the previous set) and drawn is false.
+func writeCalibration(ctx context.Context, dir string, r *calibrate.Result) (drawn bool, err error) {
 	set, err := outdir.Open(dir, calibrate.Kind)
 	if err != nil {
-		return err
+		return false, err
 	}
+	defer set.Abort() // after Commit it does nothing
 	if err := calibrate.StageFiles(set, r); err != nil {
-		set.Abort()
-		return err
+		return false, err
 	}
-	if err := set.Stage(calibrate.ReportFile, func(w io.Writer) error { return report.CalibrationReport(w, r) }); err != nil {
-		set.Abort()
-		return err
+	err = set.Stage(calibrate.ReportFile, func(w io.Writer) error { return report.CalibrationReport(ctx, w, r) })
+	drawn = err == nil
+	if err != nil && !(ctx.Err() != nil && errors.Is(err, ctx.Err())) {
+		return false, err
 	}
-	return set.Commit()
+	return drawn, set.Commit()
 }

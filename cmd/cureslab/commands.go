@@ -157,12 +157,18 @@ func (c *Command) run(e *env, args []string) int {
 // status: exitInterrupted when Ctrl-C or SIGTERM stopped the reading,
 // exitUsage otherwise.
 func (e *env) loadError(err error) int {
-	if e.ctx.Err() != nil && errors.Is(err, e.ctx.Err()) {
+	if e.interrupted(err) {
 		fmt.Fprintf(e.stderr, "cureslab %s: interrupted while reading the case file; nothing was written\n", e.cmd.Name)
 		return exitInterrupted
 	}
 	fmt.Fprintln(e.stderr, err)
 	return exitUsage
+}
+
+// interrupted reports whether err is the command's context having been
+// cancelled by Ctrl-C or SIGTERM.
+func (e *env) interrupted(err error) bool {
+	return err != nil && e.ctx.Err() != nil && errors.Is(err, e.ctx.Err())
 }
 
 // usageError prints a usage error of the running command with the hint and

@@ -4,10 +4,12 @@ import (
 	"cureslab/cases/simulate"
 	"errors"
 	"fmt"
+	"path/filepath"
 
 	"github.com/spf13/pflag"
 
 	"cureslab/cases"
+	"cureslab/cases/report"
 	"cureslab/cases/results"
 )
 
@@ -59,12 +61,20 @@ cureslab compare oven.toml microwave.toml -o compare-out`,
 				return e.usageError("%s", msg)
 			}
 			rows, worst, err := compareRun(e, cs, *out)
-			if err != nil {
+			pageCut := errors.Is(err, simulate.ErrPageNotDrawn)
+			if err != nil && !pageCut {
 				fmt.Fprintf(e.stderr, "cureslab compare: %v\n", err)
 				return max(worst, exitUsage)
 			}
 			fmt.Fprintf(e.stdout, "Comparison of %d cases (outputs in %s)\n", len(rows), *out)
 			results.PrintComparison(e.stdout, rows)
+			if pageCut {
+				if worst != exitInterrupted { // else said with the runs
+					fmt.Fprintf(e.stderr, "cureslab compare: interrupted while drawing the comparison page: every case had finished, and %s and the cases' folders are complete; %s was not drawn\n",
+						filepath.Join(*out, results.CompareFile), filepath.Join(*out, report.CompareReportFile))
+				}
+				return exitInterrupted
+			}
 			return worst
 		}
 	},
@@ -101,13 +111,16 @@ func compareRun(e *env, cs []*cases.Case, dir string) ([]results.Compared, int, 
 			worst = max(worst, exitUsage)
 		default:
 			worst = max(worst, exitCode(r.Summary.Status))
+			if r.ReportNotDrawn {
+				worst = max(worst, exitInterrupted)
+			}
 			if exitCode(r.Summary.Status) == exitFailure {
 				fmt.Fprintf(e.stderr, "cureslab compare: %s: %s: %s\n", r.Case.File, r.Summary.Status, r.Summary.Message)
 			}
 		}
 	}
 	if worst == exitInterrupted {
-		fmt.Fprintf(e.stderr, "cureslab compare: interrupted: the case running kept its outputs up to that moment (marked interrupted, criteria not judged); the cases after it were not run\n")
+		fmt.Fprintf(e.stderr, "cureslab compare: interrupted: the cases that ran keep their outputs, without their report pages (a case cut short is marked interrupted, its criteria not judged); the cases after it were not run\n")
 	}
 	return rows, worst, err
 }

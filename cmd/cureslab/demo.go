@@ -3,8 +3,8 @@ package main
 import (
 	"cureslab/cases/report"
 	"cureslab/cases/simulate"
+	"errors"
 	"fmt"
-	"os"
 	"path/filepath"
 	"strings"
 
@@ -112,12 +112,10 @@ func demoCompare(e *env, ran map[string]results.Compared, names []string, dir st
 		return exitOK
 	}
 	fmt.Fprintf(e.stdout, "\n== comparison: %s\n", strings.Join(names, " vs "))
-	err := os.MkdirAll(dir, 0o755)
-	if err == nil {
-		err = results.WriteComparison(dir, rows)
-	}
-	if err != nil {
-		fmt.Fprintf(e.stderr, "cureslab demo: writing %s: %v\n", filepath.Join(dir, results.CompareFile), err)
+	err := simulate.WriteComparison(e.ctx, dir, rows, opt.Report)
+	cut := errors.Is(err, simulate.ErrPageNotDrawn)
+	if err != nil && !cut {
+		fmt.Fprintf(e.stderr, "cureslab demo: %s: %v\n", dir, err)
 		return exitUsage
 	}
 	results.PrintComparison(e.stdout, rows)
@@ -125,11 +123,10 @@ func demoCompare(e *env, ran map[string]results.Compared, names []string, dir st
 		fmt.Fprintln(e.stdout, demoTakeaway(rows[1].Summary, rows[0].Summary))
 	}
 	fmt.Fprintf(e.stdout, "table in %s\n", filepath.Join(dir, results.CompareFile))
-	if opt.Report {
-		if err := simulate.CompareReport(dir, rows); err != nil {
-			fmt.Fprintf(e.stderr, "cureslab demo: %v\n", err)
-			return exitUsage
-		}
+	if cut {
+		fmt.Fprintf(e.stderr, "cureslab demo: interrupted while drawing the comparison page: %s is complete; %s was not drawn\n",
+			filepath.Join(dir, results.CompareFile), filepath.Join(dir, report.CompareReportFile))
+		return exitInterrupted
 	}
 	return exitOK
 }

@@ -45,7 +45,9 @@ With a single temperature program no model is fitted (exit status 2), but
 everything else is reported. --diffusion needs isothermal scans at two or
 more temperatures that stop short of full cure (vitrification).
 
-Exit status: 0 fitted, 2 bad input, or no model could be fitted.`,
+Exit status: 0 fitted, 2 bad input, or no model could be fitted, 130
+interrupted by Ctrl-C or SIGTERM (no file written; what was computed is
+shown).`,
 	Example: `cureslab fit scan-2K.csv scan-5K.csv scan-10K.csv scan-20K.csv --model autocatalytic
 cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
@@ -105,7 +107,11 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 			var scans []*dsc.Scan
 			var bad []string
 			for _, path := range args {
-				s, err := dscfile.ReadScan(path)
+				s, err := dscfile.ReadScan(e.ctx, path)
+				if e.interrupted(err) {
+					fmt.Fprintf(e.stderr, "cureslab fit: interrupted while reading %s; nothing was written\n", path)
+					return exitInterrupted
+				}
 				if err != nil {
 					bad = append(bad, err.Error())
 					continue
@@ -142,12 +148,22 @@ cureslab fit testdata/dsc/*.csv --diffusion --name resin-B -o resin-B-cure.toml`
 				fmt.Fprintf(e.stderr, "cureslab fit: %v\n", err)
 				return exitUsage
 			}
+			plotCut := false
 			if *plotFile != "" {
-				if err := report.WriteFitPlot(*plotFile, an, *name); err != nil {
+				if err := report.WriteFitPlot(e.ctx, *plotFile, an, *name); e.interrupted(err) {
+					plotCut = true
+				} else if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab fit: %v\n", err)
 					return exitUsage
+				} else {
+					fmt.Fprintf(e.stdout, "\nplot written to %s\n", *plotFile)
 				}
-				fmt.Fprintf(e.stdout, "\nplot written to %s\n", *plotFile)
+			}
+			if plotCut {
+				// The fit is complete and shown above; the block is
+				// written only when no interruption came before it.
+				fmt.Fprintf(e.stderr, "cureslab fit: interrupted while drawing %s: not written, nor any block; the fit shown above is complete\n", *plotFile)
+				return exitInterrupted
 			}
 			if an.FitRefused != "" {
 				fmt.Fprintf(e.stderr, "cureslab fit: no model fitted: %s\n", an.FitRefused)

@@ -32,7 +32,8 @@ least cure.
 
 Exit status: 0 the report was written, 2 DIR does not hold the outputs of a
 run or a sweep, or one of them is malformed (the message gives the file and
-line; nothing is written).`,
+line; nothing is written), 130 interrupted by Ctrl-C or SIGTERM (nothing
+written).`,
 	Example: "cureslab report potting-out\ncureslab report sweep-merged --case potting.toml",
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		casePath := fs.String("case", "", "for a sweep directory: the sweep's case `FILE`, for the criteria")
@@ -54,7 +55,9 @@ line; nothing is written).`,
 					}
 					sc = c
 				}
-				if err := report.WriteSweepReport(dir, "", sc); err != nil {
+				if err := report.WriteSweepReport(e.ctx, dir, "", sc); e.interrupted(err) {
+					return redrawInterrupted(e, dir, report.SweepReportFile)
+				} else if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
 					return exitUsage
 				}
@@ -64,7 +67,9 @@ line; nothing is written).`,
 			if *casePath != "" {
 				return e.usageError("--case is for sweep directories; %s holds no %s", dir, results.SweepDefinitionFile)
 			}
-			if err := report.RedrawReport(dir); err != nil {
+			if err := report.RedrawReport(e.ctx, dir); e.interrupted(err) {
+				return redrawInterrupted(e, dir, report.ReportFile)
+			} else if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
 				return exitUsage
 			}
@@ -75,3 +80,11 @@ line; nothing is written).`,
 }
 
 func init() { register(reportCmd) }
+
+// redrawInterrupted says that Ctrl-C or SIGTERM stopped the drawing of
+// dir/page, and returns exitInterrupted.
+func redrawInterrupted(e *env, dir, page string) int {
+	fmt.Fprintf(e.stderr, "cureslab report: interrupted while drawing %s: nothing was written (a page drawn before, if any, is left as it was)\n",
+		filepath.Join(dir, page))
+	return exitInterrupted
+}

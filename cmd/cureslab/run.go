@@ -31,7 +31,8 @@ var runCmd = &Command{
 report.html (the plots; skip it with --no-report) to DIR (default
 ./CASE-out, named after the case file), then print a short summary with the
 acceptance criteria. A case with errors is refused before anything
-is written. Ctrl-C stops the run and keeps the outputs up to that moment.
+is written. Ctrl-C stops the run and keeps the outputs up to that moment
+(without report.html: draw it with 'cureslab report DIR').
 
 With --verify, run the case a second time at temperature and cure
 tolerances ten times tighter (same mesh) and report, in the terminal and as
@@ -50,7 +51,8 @@ as a failed criterion.
 Exit status: 0 every criterion met (or none given), 1 a criterion failed,
 2 bad input or usage, 3 runaway or numerical failure (outputs kept),
 130 interrupted by Ctrl-C or SIGTERM (outputs up to that moment kept, status
-"interrupted", criteria not judged).`,
+"interrupted", criteria not judged; or, when the run had finished and its
+page was being drawn, its outputs complete and no page).`,
 	Example: `cureslab example thick-potting-oven > potting.toml
 cureslab run potting.toml -o potting-out`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
@@ -133,8 +135,11 @@ cureslab run potting.toml -o potting-out`,
 				fmt.Fprintf(e.stderr, "cureslab run: --uncertain: %v\n", err)
 				return exitUsage
 			}
+			pageCut := false
 			if !*noReport {
-				if err := report.RedrawReport(dir); err != nil {
+				if err := report.RedrawReport(e.ctx, dir); e.interrupted(err) {
+					pageCut = true
+				} else if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab run: %v\n", err)
 					return exitUsage
 				}
@@ -146,6 +151,10 @@ cureslab run potting.toml -o potting-out`,
 				code = max(code, exitCriteria)
 			}
 			fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
+			if pageCut {
+				pageNotDrawn(e, "run", dir, s.Status)
+				return exitInterrupted
+			}
 			return code
 		}
 	},
@@ -215,10 +224,27 @@ func runCase(e *env, cmd string, c *cases.Case, dir string, opt simulate.Options
 	case exitFailure:
 		fmt.Fprintf(e.stderr, "cureslab %s: %s: %s: %s\n", cmd, c.File, o.Summary.Status, o.Summary.Message)
 	case exitInterrupted:
-		fmt.Fprintf(e.stderr, "cureslab %s: %s: interrupted at t = %g s: the outputs in %s hold the state up to then, marked \"interrupted\"; the criteria are not judged\n",
-			cmd, c.File, float64(o.Summary.EndTimeS), dir)
+		notDrawn := ""
+		if o.ReportNotDrawn {
+			notDrawn = fmt.Sprintf("; %s was not drawn (draw it from these files with 'cureslab report %s')", report.ReportFile, dir)
+		}
+		fmt.Fprintf(e.stderr, "cureslab %s: %s: interrupted at t = %g s: the outputs in %s hold the state up to then, marked \"interrupted\"; the criteria are not judged%s\n",
+			cmd, c.File, float64(o.Summary.EndTimeS), dir, notDrawn)
+		return o, code
+	}
+	if o.ReportNotDrawn {
+		// The run had finished: Ctrl-C came while its page was drawn.
+		pageNotDrawn(e, cmd, dir, o.Summary.Status)
+		return o, exitInterrupted
 	}
 	return o, code
+}
+
+// pageNotDrawn says that Ctrl-C or SIGTERM stopped the drawing of a run's
+// report.html after the run had finished: its other files are complete.
+func pageNotDrawn(e *env, cmd, dir, status string) {
+	fmt.Fprintf(e.stderr, "cureslab %s: interrupted while drawing %s: the run had finished, and fields.csv, probes.csv and summary.json in %s are complete (status %q); %s was not drawn (draw it with 'cureslab report %s')\n",
+		cmd, report.ReportFile, dir, status, report.ReportFile, dir)
 }
 
 var checkCmd = &Command{
@@ -232,7 +258,8 @@ temperature rise of each curing layer, and its conduction time against the
 reaction half-life at the highest program temperature. Ends with warnings and
 the cautions that go with every result.
 
-Exit status: 0 the case is valid, 2 it is not (the errors go to stderr).`,
+Exit status: 0 the case is valid, 2 it is not (the errors go to stderr),
+130 interrupted by Ctrl-C or SIGTERM.`,
 	Example: "cureslab check potting.toml",
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		return func(e *env, args []string) int {
@@ -243,7 +270,10 @@ Exit status: 0 the case is valid, 2 it is not (the errors go to stderr).`,
 			if err != nil {
 				return e.loadError(err)
 			}
-			if err := casecheck.Check(e.stdout, c); err != nil {
+			if err := casecheck.CheckContext(e.ctx, e.stdout, c); e.interrupted(err) {
+				fmt.Fprintf(e.stderr, "cureslab check: interrupted; the account above is incomplete\n")
+				return exitInterrupted
+			} else if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab check: %v\n", err)
 				return exitUsage
 			}

@@ -63,7 +63,9 @@ directories.
 Exit status: 0 every run ok, 1 some run failed a criterion (none worse),
 2 bad input or usage (nothing run), 3 some run failed or ran away,
 130 interrupted by Ctrl-C or SIGTERM (finished runs kept; run the same
-command again to finish). In a job script, 0, 1 and 3 mean "done".`,
+command again to finish; while the page was drawn after the last run, the
+summary is complete and the page not written). In a job script, 0, 1 and 3
+mean "done".`,
 	Example: `cureslab sweep potting.toml --vary layer.potting.thickness=4mm,8mm,12mm -o sweep-out
 cureslab sweep potting.toml --vary schedules.oven.segments.0.ramp=1C/min:5C/min:5 \
     --vary top.h=10W/m^2/K,20W/m^2/K -j 8
@@ -148,8 +150,11 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 					plural(n, "run", "runs"), runList(rep.Noted), rep.Note, results.SweepSummaryFile)
 			}
 			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(dir, results.SweepSummaryFile))
+			pageCut := false
 			if !*noReport && !rep.Interrupted {
-				if err := report.WriteSweepReport(dir, "Sweep of "+s.Name, sweepCase(s)); err != nil {
+				if err := report.WriteSweepReport(e.ctx, dir, "Sweep of "+s.Name, sweepCase(s)); e.interrupted(err) {
+					pageCut = true
+				} else if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab sweep: report: %v\n", err)
 				} else {
 					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(dir, report.SweepReportFile))
@@ -169,9 +174,20 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 			if rep.Interrupted {
 				return exitInterrupted
 			}
+			if pageCut {
+				sweepPageNotDrawn(e, "sweep", dir)
+				return exitInterrupted
+			}
 			return sweepExit(rep.Done < rep.Runs, rep.CriteriaFailed, rep.Runaway+rep.Failed)
 		}
 	},
+}
+
+// sweepPageNotDrawn says that Ctrl-C or SIGTERM stopped the drawing of a
+// sweep's page after its summary was complete.
+func sweepPageNotDrawn(e *env, cmd, dir string) {
+	fmt.Fprintf(e.stderr, "cureslab %s: interrupted while drawing %s: %s is complete; the page was not drawn (draw it with 'cureslab report %s')\n",
+		cmd, report.SweepReportFile, results.SweepSummaryFile, dir)
 }
 
 // plural writes n with the singular or the plural noun.
@@ -322,7 +338,9 @@ margin over the case's criteria, else by status, then least cure;
 Exit status: 0 every run ok, 1 some run failed a criterion (none worse),
 2 bad input, different sweeps, or runs missing without --allow-missing
 (nothing written), 3 some run failed or ran away, or runs are missing with
---allow-missing.`,
+--allow-missing, 130 interrupted by Ctrl-C or SIGTERM (nothing written if
+it came before the merge was written; while its page was drawn, the merge
+is complete and the page not written).`,
 	Example: `cureslab merge sweep-out/shard-0 sweep-out/shard-1 sweep-out/shard-2 -o sweep-merged
 cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
@@ -344,7 +362,11 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 				}
 				sc = c
 			}
-			rep, err := sweep.MergeSweeps(*out, args, *allow)
+			rep, err := sweep.MergeSweeps(e.ctx, *out, args, *allow)
+			if e.interrupted(err) {
+				fmt.Fprintf(e.stderr, "cureslab merge: interrupted while reading the shards; nothing was written\n")
+				return exitInterrupted
+			}
 			if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab merge: %v\n", err)
 				if errors.Is(err, sweep.ErrSweepIncomplete) {
@@ -355,8 +377,11 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 			fmt.Fprintf(e.stdout, "%d of %d runs merged from %d directories: %d ok, %d criteria-failed, %d runaway, %d failed\n",
 				rep.Rows, rep.Runs, len(args), rep.OK, rep.CriteriaFailed, rep.Runaway, rep.Failed)
 			fmt.Fprintf(e.stdout, "summary in %s\n", filepath.Join(*out, results.SweepSummaryFile))
+			pageCut := false
 			if !*noReport {
-				if err := report.WriteSweepReport(*out, "", sc); err != nil {
+				if err := report.WriteSweepReport(e.ctx, *out, "", sc); e.interrupted(err) {
+					pageCut = true
+				} else if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab merge: report: %v\n", err)
 				} else {
 					fmt.Fprintf(e.stdout, "report in %s\n", filepath.Join(*out, report.SweepReportFile))
@@ -367,6 +392,10 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 			}
 			if len(rep.Missing) > 0 {
 				fmt.Fprintf(e.stderr, "cureslab merge: %d runs missing: %s\n", len(rep.Missing), sweep.FormatRuns(rep.Missing, 20))
+			}
+			if pageCut {
+				sweepPageNotDrawn(e, "merge", *out)
+				return exitInterrupted
 			}
 			return sweepExit(len(rep.Missing) > 0, rep.CriteriaFailed, rep.Runaway+rep.Failed)
 		}

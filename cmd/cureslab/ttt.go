@@ -33,7 +33,8 @@ The default temperatures run from max(Tg0, 20 C) to Tg_full + 20 K, or
 around the hottest temperature of the case's programs without a glass
 transition.
 
-Exit status: 0 written, 2 bad input.`,
+Exit status: 0 written, 2 bad input, 130 interrupted by Ctrl-C or SIGTERM
+(the table is written only when complete, the page only when drawn whole).`,
 	Example: `cureslab ttt potting.toml --material potting-resin-A
 cureslab ttt potting.toml --material potting-resin-A --from 40C --to 160C --step 10K --cure 0.9 -o ttt.csv
 cureslab ttt potting.toml --material potting-resin-A --plot ttt.html`,
@@ -89,7 +90,11 @@ cureslab ttt potting.toml --material potting-resin-A --plot ttt.html`,
 			if err != nil {
 				return e.loadError(err)
 			}
-			t, err := ttt.Tabulate(c, *material, opt)
+			t, err := ttt.Tabulate(e.ctx, c, *material, opt)
+			if e.interrupted(err) {
+				fmt.Fprintf(e.stderr, "cureslab ttt: interrupted while computing the table; nothing was written\n")
+				return exitInterrupted
+			}
 			if err != nil {
 				fmt.Fprintln(e.stderr, err)
 				return exitUsage
@@ -104,7 +109,10 @@ cureslab ttt potting.toml --material potting-resin-A --plot ttt.html`,
 			}
 			fmt.Fprintf(e.stdout, "table written to %s\n", path)
 			if *plotFile != "" {
-				if err := report.WriteTTTPlot(*plotFile, t); err != nil {
+				if err := report.WriteTTTPlot(e.ctx, *plotFile, t); e.interrupted(err) {
+					fmt.Fprintf(e.stderr, "cureslab ttt: interrupted while drawing %s: not written; the table in %s is complete\n", *plotFile, path)
+					return exitInterrupted
+				} else if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab ttt: %v\n", err)
 					return exitUsage
 				}
