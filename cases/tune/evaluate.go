@@ -31,7 +31,7 @@ func (t *tuner) evaluate(x []float64, phase string, order [3]int) *Candidate {
 	t.mu.Lock()
 	e, ok := t.cache[key]
 	if ok {
-		if tuneOrderLess(order, e.c.order) {
+		if orderLess(order, e.c.order) {
 			e.c.order, e.c.Phase = order, phase
 		}
 		t.mu.Unlock()
@@ -48,7 +48,7 @@ func (t *tuner) evaluate(x []float64, phase string, order [3]int) *Candidate {
 			c.x[j] = min(max(c.x[j], 0), 1)
 		}
 	}
-	e = &tuneEntry{done: make(chan struct{}), c: c}
+	e = &cacheEntry{done: make(chan struct{}), c: c}
 	t.cache[key] = e
 	t.mu.Unlock()
 	t.run1(c, vals)
@@ -87,7 +87,7 @@ func (t *tuner) ownX() []float64 {
 	return x
 }
 
-func tuneOrderLess(a, b [3]int) bool {
+func orderLess(a, b [3]int) bool {
 	for i := range a {
 		if a[i] != b[i] {
 			return a[i] < b[i]
@@ -122,8 +122,8 @@ func (t *tuner) run1(c *Candidate, vals []any) {
 	cs, tr, cyc, err := t.caseFor(vals)
 	c.Cycle = cyc
 	if err != nil {
-		c.Cycle, c.Err, c.Status, c.f = math.NaN(), cases.FlattenErrors(err), results.StatusFailed, tuneInvalid
-		c.worst = tuneBad
+		c.Cycle, c.Err, c.Status, c.f = math.NaN(), cases.FlattenErrors(err), results.StatusFailed, invalidObjective
+		c.worst = badMargin
 		c.Criteria = t.emptyMargins()
 		return
 	}
@@ -201,7 +201,7 @@ func (t *tuner) aggregate(c *Candidate, outs []pointRun) {
 			o.norm = make([]float64, len(t.crit))
 			o.margin = make([]float64, len(t.crit))
 			for j := range o.norm {
-				o.norm[j], o.margin[j] = tuneBad, math.Inf(-1)
+				o.norm[j], o.margin[j] = badMargin, math.Inf(-1)
 			}
 			outs[i] = o
 		}
@@ -227,8 +227,8 @@ func (t *tuner) aggregate(c *Candidate, outs []pointRun) {
 	for i := range idx {
 		idx[i] = i
 	}
-	slices.SortStableFunc(idx, func(a, b int) int { return tuneCmp(worst[a], worst[b]) })
-	c.worst = max(worst[idx[k]], tuneBad)
+	slices.SortStableFunc(idx, func(a, b int) int { return compareFloat(worst[a], worst[b]) })
+	c.worst = max(worst[idx[k]], badMargin)
 	crit := outs[idx[k]]
 	jc := 0
 	for j := range crit.norm {
@@ -248,16 +248,16 @@ func (t *tuner) aggregate(c *Candidate, outs []pointRun) {
 		}
 		slices.Sort(ns)
 		slices.Sort(ms)
-		m.norm, m.Margin = max(ns[k], tuneBad), ms[k]
+		m.norm, m.Margin = max(ns[k], badMargin), ms[k]
 		m.Value = criterionValue(m)
 		c.Criteria[j] = m
-		pen += tuneSq(min(0, m.norm))
+		pen += sq(min(0, m.norm))
 	}
-	pen += tuneSq(min(0, c.worst))
+	pen += sq(min(0, c.worst))
 	c.f = c.Cycle/t.cRef + pen
 }
 
-func tuneSq(x float64) float64 { return x * x }
+func sq(x float64) float64 { return x * x }
 
 // criterionValue returns the value of a criterion from its limit and
 // margin; NaN when the run ran away or the quantity does not exist.
@@ -274,7 +274,7 @@ func criterionValue(m Margin) float64 {
 func (t *tuner) emptyMargins() []Margin {
 	out := make([]Margin, len(t.crit))
 	for j, m := range t.crit {
-		m.Value, m.Margin, m.norm = math.NaN(), math.Inf(-1), tuneBad
+		m.Value, m.Margin, m.norm = math.NaN(), math.Inf(-1), badMargin
 		out[j] = m
 	}
 	return out
@@ -282,7 +282,7 @@ func (t *tuner) emptyMargins() []Margin {
 
 // margins returns the margin of each criterion of the run r of c,
 // normalised and in summary units; a run that ran away or failed gets
-// tuneBad on every criterion.
+// badMargin on every criterion.
 func (t *tuner) margins(c *cases.Case, r *solver.Result) (norm, margin []float64) {
 	norm = make([]float64, len(t.crit))
 	margin = make([]float64, len(t.crit))
@@ -301,9 +301,9 @@ func (t *tuner) margins(c *cases.Case, r *solver.Result) (norm, margin []float64
 			v = math.Inf(1) // the quantity does not exist: the criterion holds
 		}
 		margin[j] = v
-		norm[j] = v / tuneScale[m.Name]
+		norm[j] = v / criterionScale[m.Name]
 		if r.Status != solver.OK {
-			norm[j], margin[j] = tuneBad, math.Inf(-1)
+			norm[j], margin[j] = badMargin, math.Inf(-1)
 		}
 	}
 	return norm, margin

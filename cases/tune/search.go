@@ -53,7 +53,7 @@ func (t *tuner) run(ctx context.Context) (*Result, error) {
 
 	// 2. Nelder–Mead from the best distinct starts.
 	order := slices.Clone(cands)
-	slices.SortStableFunc(order, func(a, b *Candidate) int { return tuneCmp(a.f, b.f) })
+	slices.SortStableFunc(order, func(a, b *Candidate) int { return compareFloat(a.f, b.f) })
 	var picked []*Candidate
 	for _, c := range order {
 		if len(picked) == t.opt.Starts {
@@ -82,7 +82,9 @@ func (t *tuner) run(ctx context.Context) (*Result, error) {
 	return t.finish(), ctx.Err()
 }
 
-func tuneCmp(a, b float64) int {
+// compareFloat orders a and b as cmp.Compare does, but a NaN compares equal
+// to everything.
+func compareFloat(a, b float64) int {
 	switch {
 	case a < b:
 		return -1
@@ -103,7 +105,7 @@ func (t *tuner) search(start *Candidate, s int) {
 	x := make([]float64, k)
 	p := optimize.Problem{Func: func(y []float64) float64 {
 		if t.ctx.Err() != nil {
-			return tuneInvalid
+			return invalidObjective
 		}
 		for j := range y {
 			x[j] = (1 - math.Cos(y[j])) / 2
@@ -143,9 +145,9 @@ func (t *tuner) sorted() []*Candidate {
 	t.mu.Unlock()
 	slices.SortFunc(out, func(a, b *Candidate) int {
 		switch {
-		case tuneOrderLess(a.order, b.order):
+		case orderLess(a.order, b.order):
 			return -1
-		case tuneOrderLess(b.order, a.order):
+		case orderLess(b.order, a.order):
 			return 1
 		}
 		return 0
@@ -231,11 +233,11 @@ func (t *tuner) finish() *Result {
 		return res
 	}
 	b := res.Best
-	res.Active = b.worst <= tuneActive
+	res.Active = b.worst <= activeWithin
 	res.Limiting = []string{b.Critical.Name}
 	if res.Active {
 		for _, m := range b.Criteria {
-			if m.norm <= tuneActive && m.Name != b.Critical.Name {
+			if m.norm <= activeWithin && m.Name != b.Critical.Name {
 				res.Limiting = append(res.Limiting, m.Name)
 			}
 		}

@@ -14,9 +14,9 @@ import (
 // asked: an unknown program, a bad --free, a case without criteria.
 var ErrTune = errors.New("cannot tune")
 
-// tuneFail returns an error of the tuning set-up, wrapping ErrTune; its
+// errorf returns an error of the tuning set-up, wrapping ErrTune; its
 // message is complete.
-func tuneFail(format string, a ...any) error {
+func errorf(format string, a ...any) error {
 	return cases.Reason(ErrTune, nil, fmt.Sprintf(format, a...))
 }
 
@@ -42,7 +42,7 @@ type Free struct {
 // may omit the space. Whether KEY exists is checked by Tune.
 func ParseFree(spec string) (Free, error) {
 	fail := func(format string, a ...any) (Free, error) {
-		return Free{}, tuneFail("--free %s: %s", spec, fmt.Sprintf(format, a...))
+		return Free{}, errorf("--free %s: %s", spec, fmt.Sprintf(format, a...))
 	}
 	key, val, ok := strings.Cut(spec, "=")
 	key = strings.TrimSpace(key)
@@ -105,7 +105,7 @@ type FreeValue struct {
 type Margin struct {
 	Name                 string
 	Value, Limit, Margin float64
-	norm                 float64 // Margin in units of tuneScale
+	norm                 float64 // Margin in units of criterionScale
 }
 
 // Candidate is one evaluated program.
@@ -172,22 +172,22 @@ type Result struct {
 	Block string
 }
 
-// tuneScale are the sizes that make the margins of different criteria
+// criterionScale are the sizes that make the margins of different criteria
 // comparable in the penalty: 0.01 of cure, 1 K.
-var tuneScale = map[string]float64{results.CriterionMinCure: 0.01, results.CriterionMaxTemperature: 1, results.CriterionMaxSpread: 1}
+var criterionScale = map[string]float64{results.CriterionMinCure: 0.01, results.CriterionMaxTemperature: 1, results.CriterionMaxSpread: 1}
 
-// tuneBad is the normalised margin of a run that ran away or failed, and
-// tuneInvalid the objective of a candidate the loader refuses.
+// badMargin is the normalised margin of a run that ran away or failed, and
+// invalidObjective the objective of a candidate the loader refuses.
 const (
-	tuneBad     = -100.0
-	tuneInvalid = 1e6
-	tuneActive  = 0.1 // a criterion within this many scales of its limit is at it
+	badMargin        = -100.0
+	invalidObjective = 1e6
+	activeWithin     = 0.1 // a criterion within this many scales of its limit is at it
 )
 
 // Limits on a tuning, so that a typo cannot ask for hours.
 const (
-	maxTuneFree    = 20
-	maxTuneSamples = 10_000
+	maxFree    = 20
+	maxSamples = 10_000
 )
 
 // Tune searches the free values of the program opt.Program of the case

@@ -24,8 +24,8 @@ func solverRunForTest(c *cases.Case) (*solver.Result, error) {
 	return solver.Run(context.Background(), c.Problem)
 }
 
-// tuneRun tunes testdata/tune/NAME.toml (with extra appended).
-func tuneRun(t *testing.T, name, extra string, opt Options) *Result {
+// runTune tunes testdata/tune/NAME.toml (with extra appended).
+func runTune(t *testing.T, name, extra string, opt Options) *Result {
 	t.Helper()
 	res, err := Tune(context.Background(), name+".toml", testkit.TuneCase(t, name, extra), testkit.TuneDir, opt)
 	if err != nil {
@@ -61,7 +61,7 @@ func holdOf(t *testing.T, c *Candidate) float64 {
 // only min_cure, the shortest program ends when the coldest cell reaches
 // the target.
 func TestTuneOneHold(t *testing.T) {
-	res := tuneRun(t, "hold", "", Options{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=5min:120min"), Jobs: 2})
+	res := runTune(t, "hold", "", Options{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=5min:120min"), Jobs: 2})
 	if res.Best == nil {
 		t.Fatal("no feasible program")
 	}
@@ -180,7 +180,7 @@ func TestTuneRecommendationMeetsCriteria(t *testing.T) {
 			"schedules.oven.segments.0.ramp=5C/min:15C/min")},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			res := tuneRun(t, "three", "", Options{Program: "oven", Free: tc.free, Jobs: 2, Seed: 2})
+			res := runTune(t, "three", "", Options{Program: "oven", Free: tc.free, Jobs: 2, Seed: 2})
 			if res.Best == nil {
 				t.Fatal("no feasible program")
 			}
@@ -217,8 +217,8 @@ func TestTuneRecommendationMeetsCriteria(t *testing.T) {
 // with spreads its cycle is no shorter and meets the required share.
 func TestTuneRobust(t *testing.T) {
 	free := mustFree(t, "schedules.oven.segments.1.hold=5min:120min")
-	plain := tuneRun(t, "hold", "", Options{Program: "oven", Free: free, Jobs: 2})
-	zero := tuneRun(t, "hold", "[uncertainty]\n\"top.h\" = \"±0 %\"\n\"materials.tune-resin.cure.E1\" = \"±0 kJ/mol\"\n",
+	plain := runTune(t, "hold", "", Options{Program: "oven", Free: free, Jobs: 2})
+	zero := runTune(t, "hold", "[uncertainty]\n\"top.h\" = \"±0 %\"\n\"materials.tune-resin.cure.E1\" = \"±0 kJ/mol\"\n",
 		Options{Program: "oven", Free: free, Jobs: 2, Robust: 3})
 	if plain.Best == nil || zero.Best == nil {
 		t.Fatal("no feasible program")
@@ -226,7 +226,7 @@ func TestTuneRobust(t *testing.T) {
 	if plain.Best.Cycle != zero.Best.Cycle || strings.Join(plain.Best.Values, ",") != strings.Join(zero.Best.Values, ",") {
 		t.Errorf("zero spreads: robust %v (%v s), plain %v (%v s)", zero.Best.Values, zero.Best.Cycle, plain.Best.Values, plain.Best.Cycle)
 	}
-	spread := tuneRun(t, "hold", "[uncertainty]\n\"top.h\" = \"±30 %\"\n\"materials.tune-resin.cure.E1\" = { spread = \"±1 kJ/mol\", distribution = \"normal\" }\nshare = 0.9\n",
+	spread := runTune(t, "hold", "[uncertainty]\n\"top.h\" = \"±30 %\"\n\"materials.tune-resin.cure.E1\" = { spread = \"±1 kJ/mol\", distribution = \"normal\" }\nshare = 0.9\n",
 		Options{Program: "oven", Free: free, Jobs: 2, Robust: 10})
 	if spread.Best == nil {
 		t.Fatal("robust: no feasible program")
@@ -254,7 +254,7 @@ func TestTuneRobust(t *testing.T) {
 func TestTuneDeterministic(t *testing.T) {
 	var outs [2][2][]byte
 	for i, jobs := range []int{1, 3} {
-		res := tuneRun(t, "three", "", Options{Program: "oven", Jobs: jobs, Seed: 7})
+		res := runTune(t, "three", "", Options{Program: "oven", Jobs: jobs, Seed: 7})
 		dir := t.TempDir()
 		if err := Write(dir, res); err != nil {
 			t.Fatal(err)
@@ -385,7 +385,7 @@ func TestTuneDefaultRanges(t *testing.T) {
 }
 
 func TestTunePrint(t *testing.T) {
-	res := tuneRun(t, "hold", "", Options{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=5min:120min"), Jobs: 2})
+	res := runTune(t, "hold", "", Options{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=5min:120min"), Jobs: 2})
 	var b bytes.Buffer
 	if err := Print(&b, res); err != nil {
 		t.Fatal(err)
@@ -406,7 +406,7 @@ func TestTunePrint(t *testing.T) {
 		t.Errorf("tune.csv:\n%s", strings.Join(lines[:min(3, len(lines))], "\n"))
 	}
 	// No feasible program in the range: no tuned.toml, and the printout says so.
-	res = tuneRun(t, "hold", "", Options{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=1min:10min"), Jobs: 2})
+	res = runTune(t, "hold", "", Options{Program: "oven", Free: mustFree(t, "schedules.oven.segments.1.hold=1min:10min"), Jobs: 2})
 	if res.Best != nil || res.Closest == nil {
 		t.Fatalf("1 to 10 min: best %+v, closest %+v", res.Best, res.Closest)
 	}

@@ -192,8 +192,8 @@ func marginText(m Margin) string {
 	return s
 }
 
-// tuneCSVNames are the column names of each criterion's value and margin.
-var tuneCSVNames = map[string][2]string{
+// csvNames are the column names of each criterion's value and margin.
+var csvNames = map[string][2]string{
 	results.CriterionMinCure:        {"min_cure", "min_cure_margin"},
 	results.CriterionMaxTemperature: {"max_temperature_C", "max_temperature_margin_K"},
 	results.CriterionMaxSpread:      {"max_spread_K", "max_spread_margin_K"},
@@ -209,7 +209,7 @@ func writeTuneCSV(w io.Writer, r *Result) error {
 	if r.Own != nil {
 		for _, m := range r.Own.Criteria {
 			crit = append(crit, m.Name)
-			n := tuneCSVNames[m.Name]
+			n := csvNames[m.Name]
 			h = append(h, n[0], n[1])
 		}
 	}

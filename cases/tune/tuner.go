@@ -37,14 +37,14 @@ type tuner struct {
 	ctx     context.Context
 
 	mu       sync.Mutex
-	cache    map[string]*tuneEntry
+	cache    map[string]*cacheEntry
 	cyc      map[string]float64 // program end by written values, for the polish
 	runs     int
 	progress *uncertain.Progress
 	best     float64
 }
 
-type tuneEntry struct {
+type cacheEntry struct {
 	done chan struct{}
 	c    *Candidate
 }
@@ -54,16 +54,16 @@ func newTuner(name string, data []byte, dir string, opt Options) (*tuner, error)
 	if err != nil {
 		return nil, err
 	}
-	t := &tuner{v: v, prog: opt.Program, opt: opt, cache: map[string]*tuneEntry{}, cyc: map[string]float64{}}
+	t := &tuner{v: v, prog: opt.Program, opt: opt, cache: map[string]*cacheEntry{}, cyc: map[string]float64{}}
 	if opt.Program == "" {
-		return nil, tuneFail("give the program to tune: --program NAME (one of %s)", strings.Join(sortedScheduleNames(c), ", "))
+		return nil, errorf("give the program to tune: --program NAME (one of %s)", strings.Join(sortedScheduleNames(c), ", "))
 	}
 	if _, ok := c.Schedules[opt.Program]; !ok {
-		return nil, tuneFail("the case has no [schedules.%s]%s (it has %s)", opt.Program,
+		return nil, errorf("the case has no [schedules.%s]%s (it has %s)", opt.Program,
 			cases.DidYouMeanKey(opt.Program, sortedScheduleNames(c)), strings.Join(sortedScheduleNames(c), ", "))
 	}
-	if !tuneDrives(c, opt.Program) {
-		return nil, tuneFail("[schedules.%s] drives nothing in the case: no face air, platen or volumetric control uses it", opt.Program)
+	if !programDrives(c, opt.Program) {
+		return nil, errorf("[schedules.%s] drives nothing in the case: no face air, platen or volumetric control uses it", opt.Program)
 	}
 	if err := t.criteria(c); err != nil {
 		return nil, err
@@ -79,8 +79,8 @@ func newTuner(name string, data []byte, dir string, opt Options) (*tuner, error)
 	if err != nil {
 		return nil, err
 	}
-	if len(t.vars) > maxTuneFree {
-		return nil, tuneFail("at most %d free values, got %d: choose some with --free", maxTuneFree, len(t.vars))
+	if len(t.vars) > maxFree {
+		return nil, errorf("at most %d free values, got %d: choose some with --free", maxFree, len(t.vars))
 	}
 	if t.opt.Budget == 0 {
 		t.opt.Budget = 30 * (len(t.vars) + 1)
@@ -88,14 +88,14 @@ func newTuner(name string, data []byte, dir string, opt Options) (*tuner, error)
 	s := c.Schedules[opt.Program]
 	t.cRef = s.End()
 	if !(t.cRef > 0) {
-		return nil, tuneFail("[schedules.%s] has no length (a steady value): nothing to shorten", opt.Program)
+		return nil, errorf("[schedules.%s] has no length (a steady value): nothing to shorten", opt.Program)
 	}
 	if tm, ok := v.Doc["time"].(map[string]any); ok {
 		if _, ok := tm["end"]; ok {
 			t.endSet = true
 			t.offset = c.Problem.End - t.cRef
 			if t.offset < 0 {
-				return nil, tuneFail("time.end (%s) ends before program %s (%s): the criteria are judged at time.end; remove time.end (it then follows the program) or set it at or after the program's end",
+				return nil, errorf("time.end (%s) ends before program %s (%s): the criteria are judged at time.end; remove time.end (it then follows the program) or set it at or after the program's end",
 					num.HumanTime(c.Problem.End), opt.Program, num.HumanTime(t.cRef))
 			}
 		}
@@ -122,7 +122,7 @@ func (t *tuner) criteria(c *cases.Case) error {
 		t.crit = append(t.crit, Margin{Name: m.Name, Limit: m.Limit})
 	}
 	if len(t.crit) == 0 {
-		return tuneFail("the case has no [criteria]: nothing limits a shorter program; add, for example:\n[criteria]\nmin_cure = 0.9")
+		return errorf("the case has no [criteria]: nothing limits a shorter program; add, for example:\n[criteria]\nmin_cure = 0.9")
 	}
 	for _, m := range t.crit {
 		switch m.Name {
@@ -140,13 +140,13 @@ func (t *tuner) criteria(c *cases.Case) error {
 // options checks the counts of opt and fills in their defaults.
 func (t *tuner) options(opt Options) error {
 	if opt.Jobs < 0 {
-		return tuneFail("-j %d: want at least 1 job", opt.Jobs)
+		return errorf("-j %d: want at least 1 job", opt.Jobs)
 	}
 	if opt.Starts < 0 || opt.Budget < 0 {
-		return tuneFail("starts and budget must not be negative")
+		return errorf("starts and budget must not be negative")
 	}
-	if opt.Robust < 0 || opt.Robust > maxTuneSamples {
-		return tuneFail("--robust wants between 1 and %d samples, got %d", maxTuneSamples, opt.Robust)
+	if opt.Robust < 0 || opt.Robust > maxSamples {
+		return errorf("--robust wants between 1 and %d samples, got %d", maxSamples, opt.Robust)
 	}
 	if t.opt.Seed == 0 {
 		t.opt.Seed = 1
@@ -193,8 +193,8 @@ func sortedScheduleNames(c *cases.Case) []string {
 	return out
 }
 
-// tuneDrives reports whether the schedule prog drives a face or the control.
-func tuneDrives(c *cases.Case, prog string) bool {
+// programDrives reports whether the schedule prog drives a face or the control.
+func programDrives(c *cases.Case, prog string) bool {
 	if c.TopAir == prog || c.BottomAir == prog {
 		return true
 	}
@@ -217,14 +217,14 @@ func (t *tuner) defaultFree() error {
 	segs, ok := p["segments"].([]any)
 	if !ok {
 		if _, isFile := p["file"]; isFile {
-			return tuneFail("[schedules.%s] is a logged run (file): it has no values to tune", t.prog)
+			return errorf("[schedules.%s] is a logged run (file): it has no values to tune", t.prog)
 		}
-		return tuneFail("[schedules.%s] is given by points: choose its free values with --free, such as --free schedules.%s.points.1.0=20min:60min", t.prog, t.prog)
+		return errorf("[schedules.%s] is given by points: choose its free values with --free, such as --free schedules.%s.points.1.0=20min:60min", t.prog, t.prog)
 	}
 	startS, _ := p["start"].(string)
 	prev, err := units.Parse(startS, units.Temperature)
 	if err != nil {
-		return tuneFail("[schedules.%s] start: %v", t.prog, err)
+		return errorf("[schedules.%s] start: %v", t.prog, err)
 	}
 	base := "schedules." + t.prog + ".segments."
 	for i, sv := range segs {
@@ -243,7 +243,7 @@ func (t *tuner) defaultFree() error {
 		}
 		toSI, err := units.Parse(to, units.Temperature)
 		if err != nil {
-			return tuneFail("%s.to: %v", key, err)
+			return errorf("%s.to: %v", key, err)
 		}
 		if i+1 < len(segs) {
 			if next, _ := segs[i+1].(map[string]any); next != nil {
@@ -255,7 +255,7 @@ func (t *tuner) defaultFree() error {
 					one, _ := units.Parse("1 "+unit, units.Temperature)
 					p := (prev - off) / (one - off)
 					half := 0.5 * math.Abs(a-p)
-					if err := t.addVar(key+".to", tuneFmtNum(a-half)+" "+unit, tuneFmtNum(a+half)+" "+unit); err != nil {
+					if err := t.addVar(key+".to", formatNum(a-half)+" "+unit, formatNum(a+half)+" "+unit); err != nil {
 						return err
 					}
 				}
@@ -264,12 +264,12 @@ func (t *tuner) defaultFree() error {
 		prev = toSI
 	}
 	if len(t.vars) == 0 {
-		return tuneFail("[schedules.%s] has no ramp or hold to tune", t.prog)
+		return errorf("[schedules.%s] has no ramp or hold to tune", t.prog)
 	}
 	return nil
 }
 
-func tuneFmtNum(x float64) string { return strconv.FormatFloat(x, 'g', 12, 64) }
+func formatNum(x float64) string { return strconv.FormatFloat(x, 'g', 12, 64) }
 
 // addScaled adds the free value at key with the range lo·v .. hi·v of the
 // value v written as val.
@@ -277,28 +277,28 @@ func (t *tuner) addScaled(key, val string, lo, hi float64) error {
 	num, unit := cases.SplitNumber(strings.TrimSpace(val))
 	a, err := strconv.ParseFloat(num, 64)
 	if err != nil {
-		return tuneFail("%s: cannot read %q", key, val)
+		return errorf("%s: cannot read %q", key, val)
 	}
 	unit = strings.TrimSpace(unit)
-	return t.addVar(key, tuneFmtNum(lo*a)+" "+unit, tuneFmtNum(hi*a)+" "+unit)
+	return t.addVar(key, formatNum(lo*a)+" "+unit, formatNum(hi*a)+" "+unit)
 }
 
 // addVar resolves and adds one free value with the range from..to.
 func (t *tuner) addVar(key string, from, to any) error {
 	path, exists, err := cases.ResolveKey(t.v.Doc, key)
 	if err != nil {
-		return tuneFail("--free %s: %v", key, err)
+		return errorf("--free %s: %v", key, err)
 	}
 	if !exists {
-		return tuneFail("--free %s: the program has no such value", key)
+		return errorf("--free %s: the program has no such value", key)
 	}
 	old := cases.Leaf(t.v.Doc, path)
 	if err := cases.CheckKind(old, cases.Vary{Key: key, From: from, To: to}); err != nil {
-		return tuneFail("--free %s: %v", key, err)
+		return errorf("--free %s: %v", key, err)
 	}
 	sp, err := cases.NewSpan(from, to)
 	if err != nil {
-		return tuneFail("--free %s: %v", key, err)
+		return errorf("--free %s: %v", key, err)
 	}
 	if sp.From > sp.To {
 		sp.From, sp.To = sp.To, sp.From
@@ -314,7 +314,7 @@ func (t *tuner) addVar(key string, from, to any) error {
 	}
 	for _, o := range t.vars {
 		if strings.Join(o.path, ".") == strings.Join(path, ".") {
-			return tuneFail("--free %s: the same value as --free %s", key, o.Key)
+			return errorf("--free %s: the same value as --free %s", key, o.Key)
 		}
 	}
 	t.vars = append(t.vars, fv)
@@ -327,7 +327,7 @@ func (t *tuner) explicitFree(free []Free) error {
 	prefix := "schedules." + t.prog + "."
 	for _, f := range free {
 		if !strings.HasPrefix(f.Key, prefix) {
-			return tuneFail("--free %s: only values of the tuned program can be free (keys starting with %s)", f.Key, prefix)
+			return errorf("--free %s: only values of the tuned program can be free (keys starting with %s)", f.Key, prefix)
 		}
 		if err := t.addVar(f.Key, f.From, f.To); err != nil {
 			return err
