@@ -98,7 +98,9 @@ func TestStreamRunRefusedStagesNothing(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer set.Abort()
-	run := func(sink solver.Sink) (*solver.Result, error) { return solver.RunStream(context.Background(), c.Problem, sink) }
+	run := func(sink solver.Sink) (*solver.Result, error) {
+		return solver.RunStream(context.Background(), c.Problem, sink)
+	}
 	r, _, err := StreamRun(set, c, run, nil)
 	if r != nil || !errors.Is(err, solver.ErrProblem) || len(set.Staged()) != 0 {
 		t.Errorf("result %v, error %v, staged %v: want none, solver.ErrProblem, nothing", r, err, set.Staged())
