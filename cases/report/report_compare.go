@@ -54,6 +54,8 @@ func CompareReport(ctx context.Context, w io.Writer, rows []results.Compared) er
 		switch {
 		case row.Result == nil || c == nil || c.Problem == nil || c.Problem.Mesh == nil:
 			continue
+		case len(row.Result.Snapshots) == 0 && row.Err != nil:
+			continue // its files were not written: nothing to read back
 		case len(row.Result.Snapshots) == 0 && row.Dir != "":
 			// A streamed run: its fields are read back from its files.
 			d, err = readRunData(ctx, row.Dir)

@@ -222,9 +222,12 @@ func commitComparison(ctx context.Context, set *outdir.Set, rows []results.Compa
 	if err := results.StageComparison(set, rows); err != nil {
 		return fmt.Errorf("writing %s: %w", results.CompareFile, err)
 	}
+	// The page draws the cases that ran and whose files are in place: a
+	// streamed run keeps no snapshots, and its page is read back from its
+	// files, which a run that could not write them does not have.
 	var ran []results.Compared
 	for _, r := range rows {
-		if r.Result != nil {
+		if r.Result != nil && (r.Err == nil || len(r.Result.Snapshots) > 0) {
 			ran = append(ran, r)
 		}
 	}
