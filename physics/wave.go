@@ -203,10 +203,13 @@ func (w *Wave) Band() Band { return w.band }
 // each segment's y, e and q follow exact recurrences in frequency,
 // y_{f+1} = y_f y_Δ, e_{f+1} = e_f e_Δ, q_{f+1} = q_f + p (1 − q_f) with
 // p = 1 − e_Δ (no cancellation for thin slabs), restarted from exact
-// exponentials every 64 frequencies: the inner loops over frequencies, on
+// exponentials every 256 frequencies (the vector kernels step each of four
+// lanes by y_Δ⁴, e_Δ⁴ and 1 − e_Δ⁴): the inner loops over frequencies, on
 // separate real and imaginary arrays, are multiplications and one real
-// division, and the recurrences' relative drift, about one rounding unit
-// per frequency, stays below 1e-14. Consecutive lossless slabs of equal
+// division. The recurrences' relative drift grows by a few rounding units
+// per step, so stays below 256 · 4 · 2⁻⁵³ ≈ 1e-13 between restarts (3e-14
+// measured over 10001 points against a per-frequency evaluation,
+// TestWaveAgainstReference). Consecutive lossless slabs of equal
 // permittivity are crossed as one. Reference: Orfanidis, Electromagnetic
 // Waves and Antennas, multilayer structures chapter (the recursion); Born &
 // Wolf, Principles of Optics, §1.6 (stratified media).
@@ -215,10 +218,12 @@ func (w *Wave) Band() Band { return w.band }
 // width > 0, ε′ > 0, ε″ ≥ 0 (panics on a length mismatch).
 //
 // Cost: O(len(slabs) · Points): per slab and frequency some 45 real
-// multiplications and additions and one division going up, two
-// multiplications coming down (twice that for IncidentBoth), plus per slab
-// and 64 frequencies a complex square root and a few exponentials; no
-// allocation.
+// multiplications and additions and one division going up (on amd64 with
+// AVX2 and FMA, four frequencies per instruction: about 2.5 ns per slab and
+// frequency against 8–12 ns for the scalar loops), two multiplications
+// coming down, twice all that for IncidentBoth; plus per slab and 256
+// frequencies a complex square root, two sine–cosine pairs and two
+// exponentials; no allocation.
 func (w *Wave) Absorb(dst []float64, slabs []Slab, inc Incidence) WaveShares {
 	n := len(slabs)
 	if len(dst) != n || n > w.cells {
