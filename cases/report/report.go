@@ -37,7 +37,7 @@ var reportClock = func() time.Time { return time.Now() }
 // time stamp. Plots are drawn with gonum.org/v1/plot into inline SVG; the
 // maps are raster images (PNG with a 256-colour palette, cividis) inside
 // the SVG, so a long run stays small. See mapImage for the resampling. The
-// maps and profiles are drawn from the fields of at most FieldTimesKept
+// maps and profiles are drawn from the fields of at most fieldTimesKept
 // output times and three more (fieldColumns, the rule); the histories from
 // every output time.
 //
@@ -45,7 +45,7 @@ var reportClock = func() time.Time { return time.Now() }
 // c.Problem, possibly ended early). The file is written with
 // WriteFileAtomic; dir is created if missing. Cost: linear in the number of
 // snapshots × cells, the maps capped at 1600 × 1200 pixels; memory
-// O(cells × FieldTimesKept) beyond r; for the examples about 0.05 s and
+// O(cells × fieldTimesKept) beyond r; for the examples about 0.05 s and
 // 50–130 kB.
 //
 // Interruption: ctx is checked before each figure; once it is done the
@@ -76,7 +76,7 @@ func WriteReport(ctx context.Context, dir string, c *cases.Case, r *solver.Resul
 // that it is not drawn.
 //
 // fields.csv is read one output time after the other into the bounded set
-// the report draws (fieldColumns): memory O(cells × FieldTimesKept) plus
+// the report draws (fieldColumns): memory O(cells × fieldTimesKept) plus
 // the probes' values at every output time, however long the file.
 //
 // Errors: a missing or unreadable file wraps ErrFile; a malformed one wraps
@@ -249,9 +249,9 @@ func runDataOf(c *cases.Case, r *solver.Result, s results.Summary) (*runData, er
 // every value rounded as the output files hold it, so that the page does
 // not depend on whether it is drawn at the end of the run or from the
 // files (RedrawReport). It keeps the fields of a bounded set of output
-// times (fieldColumns, FieldTimesKept) and, of every output time, the
+// times (fieldColumns, fieldTimesKept) and, of every output time, the
 // probes, the driving temperatures and the power fraction: memory
-// O(cells × FieldTimesKept + (probes + 1) × output times).
+// O(cells × fieldTimesKept + (probes + 1) × output times).
 type Collector struct {
 	c          *cases.Case
 	tb         *runTable

@@ -5,13 +5,13 @@ import (
 	"slices"
 )
 
-// FieldTimesKept is the most output times on the even grid whose fields
+// fieldTimesKept is the most output times on the even grid whose fields
 // (temperature, degree of cure and absorbed power of every cell) the
 // report of a run keeps to draw its maps and profiles (fieldColumns); the
 // last output time, the hottest and the first with absorbed power are kept
 // besides. A run with at most this many output times is drawn from all of
 // them.
-const FieldTimesKept = 512
+const fieldTimesKept = 512
 
 // fieldCol is the fields of every cell at one output time, rounded as the
 // output files hold them.
@@ -36,9 +36,9 @@ const (
 //
 // Rule: output time k is on the even grid when k is a multiple of the
 // stride s; s starts at 1 and doubles whenever the grid would hold more
-// than FieldTimesKept times (those off the new grid are dropped). So a run
+// than fieldTimesKept times (those off the new grid are dropped). So a run
 // of N output times keeps every s-th one, s the smallest power of two with
-// ⌈N/s⌉ ≤ FieldTimesKept (all of them up to FieldTimesKept), the first
+// ⌈N/s⌉ ≤ fieldTimesKept (all of them up to fieldTimesKept), the first
 // included, and besides: the last output time, the hottest (the highest
 // cell temperature; the earliest on ties) and the first in which some cell
 // absorbs power. The rule depends on the sequence of output times only, so
@@ -50,7 +50,7 @@ const (
 // temperature and the least cure at each time (the comparison page), which
 // cells ever cure, and each cell's gel time (newRunData).
 //
-// Cost: O(cells) per output time; memory O(cells × FieldTimesKept) plus
+// Cost: O(cells) per output time; memory O(cells × fieldTimesKept) plus
 // O(output times) for the per-time values. Dropped columns are reused.
 type fieldColumns struct {
 	n      int
@@ -161,7 +161,7 @@ func (f *fieldColumns) add(t float64, c *fieldCol) {
 	if k%f.stride == 0 {
 		c.roles |= roleGrid
 		f.grid = append(f.grid, c)
-		if len(f.grid) > FieldTimesKept {
+		if len(f.grid) > fieldTimesKept {
 			f.stride *= 2
 			kept := f.grid[:0]
 			for _, g := range f.grid {

@@ -48,8 +48,8 @@ func keptTimes(f *fieldColumns) []int {
 }
 
 // The rule of the kept output times (fieldColumns): all of them up to
-// FieldTimesKept; beyond, every s-th (s the smallest power of two leaving
-// at most FieldTimesKept, the first included), plus the last, the hottest
+// fieldTimesKept; beyond, every s-th (s the smallest power of two leaving
+// at most fieldTimesKept, the first included), plus the last, the hottest
 // and the first with power, in time order. Source: the rule as the README
 // states it (no outside reference).
 func TestFieldColumnsRule(t *testing.T) {
@@ -75,7 +75,7 @@ func TestFieldColumnsRule(t *testing.T) {
 	}
 	// Dropped columns are reused: no more columns exist than are kept,
 	// plus the ones waiting for reuse (at most the grid's last halving).
-	if len(f.free)+len(f.columns()) > FieldTimesKept+4+FieldTimesKept/2+1 {
+	if len(f.free)+len(f.columns()) > fieldTimesKept+4+fieldTimesKept/2+1 {
 		t.Errorf("%d free columns and %d kept: dropped columns are not reused", len(f.free), len(f.columns()))
 	}
 	// Every output time counts where all are needed: the hottest of each
@@ -121,13 +121,13 @@ func withOutputs(t *testing.T, cells, n int) *cases.Case {
 	return c
 }
 
-// Above FieldTimesKept output times the page drawn at the end of a run
+// Above fieldTimesKept output times the page drawn at the end of a run
 // still equals, byte for byte, the one redrawn from the run's files: both
 // keep the same output times. Source: the contract of RedrawReport (a
 // regression guard).
 func TestReportAboveTheCapFromFilesEqualsFromMemory(t *testing.T) {
 	fixedClock(t)
-	c := withOutputs(t, 12, 3*FieldTimesKept)
+	c := withOutputs(t, 12, 3*fieldTimesKept)
 	r, err := solver.Run(context.Background(), c.Problem)
 	if err != nil {
 		t.Fatal(err)
@@ -145,8 +145,8 @@ func TestReportAboveTheCapFromFilesEqualsFromMemory(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(d.FieldTimes) > FieldTimesKept+3 || len(d.Times) != len(r.Snapshots) {
-		t.Errorf("%d output times, %d kept: want all times for the histories and at most %d kept", len(d.Times), len(d.FieldTimes), FieldTimesKept+3)
+	if len(d.FieldTimes) > fieldTimesKept+3 || len(d.Times) != len(r.Snapshots) {
+		t.Errorf("%d output times, %d kept: want all times for the histories and at most %d kept", len(d.Times), len(d.FieldTimes), fieldTimesKept+3)
 	}
 	if err := RedrawReport(context.Background(), dir); err != nil {
 		t.Fatal(err)
@@ -177,7 +177,7 @@ func retained(t *testing.T, c *cases.Case) (uint64, int) {
 
 // What the report keeps of a run is proportional to its cells, not to
 // cells × output times: from 1,024 to 8,192 output times (both above
-// FieldTimesKept) of 404 cells, what it holds grows by less than a tenth of what keeping the
+// fieldTimesKept) of 404 cells, what it holds grows by less than a tenth of what keeping the
 // temperature and cure of every cell at each added output time would take
 // (404 × 2 × 8 B); only the per-time values of the probes, the air and the
 // output times themselves grow.

@@ -9,7 +9,7 @@ import (
 	"io"
 )
 
-// RunWriter writes fields.csv and probes.csv of a run into an output set
+// runWriter writes fields.csv and probes.csv of a run into an output set
 // row by row as its snapshots arrive from the solver (Add is a
 // solver.Sink for solver.RunStream), so that the memory of a run stays
 // proportional to its cells however many output times it has. It keeps
@@ -17,10 +17,10 @@ import (
 // pass, and summarises the run once at the end (Summarize). The bytes of
 // the files are those WriteRun writes for the same snapshots.
 //
-// Use: NewRunWriter, Add for every snapshot, Close, then Summarize and
+// Use: newRunWriter, Add for every snapshot, Close, then Summarize and
 // StageSummary; the files go in place at the set's Commit (Abort removes
 // them, however far they got).
-type RunWriter struct {
+type runWriter struct {
 	c              *cases.Case
 	fields, probes *outdir.File
 	rows           *fieldRows
@@ -30,15 +30,15 @@ type RunWriter struct {
 	err            error // the first error, which ends the writing
 }
 
-// NewRunWriter stages fields.csv and probes.csv of a run of c in set and
+// newRunWriter stages fields.csv and probes.csv of a run of c in set and
 // writes their header rows. Preconditions: c validated (cases.Load or
 // cases.Parse). Errors: file-system errors, wrapped with the file's name;
 // nothing stays staged then.
-func NewRunWriter(set *outdir.Set, c *cases.Case) (*RunWriter, error) {
+func newRunWriter(set *outdir.Set, c *cases.Case) (*runWriter, error) {
 	if c == nil || c.Problem == nil || c.Problem.Mesh == nil {
-		return nil, errors.New("results.NewRunWriter: case, problem and mesh are required")
+		return nil, errors.New("results.newRunWriter: case, problem and mesh are required")
 	}
-	w := &RunWriter{c: c, ctl: newControlTrack(c)}
+	w := &runWriter{c: c, ctl: newControlTrack(c)}
 	var err error
 	if w.fields, err = set.Create(FieldsFile); err != nil {
 		return nil, fmt.Errorf("writing %s: %w", FieldsFile, err)
@@ -59,7 +59,7 @@ func NewRunWriter(set *outdir.Set, c *cases.Case) (*RunWriter, error) {
 // an error it writes nothing more and returns that error (the solver then
 // stops the run). Cost: formatting the rows, no allocation once the
 // buffers have grown.
-func (w *RunWriter) Add(s *solver.Snapshot) error {
+func (w *runWriter) Add(s *solver.Snapshot) error {
 	if w.err != nil {
 		return w.err
 	}
@@ -79,7 +79,7 @@ func (w *RunWriter) Add(s *solver.Snapshot) error {
 
 // Close writes the rows still buffered and closes both files (flushed and
 // synced). It returns the first error of the writing, Add's included.
-func (w *RunWriter) Close() error {
+func (w *runWriter) Close() error {
 	for _, f := range []struct {
 		name string
 		file *outdir.File
@@ -102,7 +102,7 @@ func (w *RunWriter) Close() error {
 
 // Summarize returns the summary of run r, whose snapshots went through Add:
 // as Summarize, with the control error accumulated as they passed.
-func (w *RunWriter) Summarize(r *solver.Result) Summary {
+func (w *runWriter) Summarize(r *solver.Result) Summary {
 	return summarize(w.c, r, w.ctl.value())
 }
 
@@ -117,22 +117,22 @@ func StageSummary(set *outdir.Set, s Summary) error {
 
 // StreamRun runs a case with its snapshots written into set as they come:
 // run is solver.RunStream, or a Workspace's, on c.Problem with the sink it
-// is handed; every snapshot goes to a RunWriter (made at the first one,
+// is handed; every snapshot goes to a runWriter (made at the first one,
 // once the solver has accepted the problem) and then to also, when not
 // nil. summary.json is not staged: the caller may complete the summary
 // first (StageSummary).
 //
 // If the solver refuses the problem, r is nil and err says why; nothing is
 // staged. Otherwise r is the run, possibly stopped early, s its summary,
-// computed once (RunWriter.Summarize), and err is non-nil when an output
+// computed once (runWriter.Summarize), and err is non-nil when an output
 // could not be written, or also failed (either stops the run where it
 // happened).
 func StreamRun(set *outdir.Set, c *cases.Case, run func(solver.Sink) (*solver.Result, error), also solver.Sink) (r *solver.Result, s Summary, err error) {
-	var w *RunWriter
+	var w *runWriter
 	var werr, aerr error // the writer could not be made; also failed
 	sink := func(snap *solver.Snapshot) error {
 		if w == nil {
-			if w, werr = NewRunWriter(set, c); werr != nil {
+			if w, werr = newRunWriter(set, c); werr != nil {
 				return werr
 			}
 		}

@@ -12,12 +12,12 @@ import (
 	"testing"
 )
 
-// A run streamed through RunWriter writes the same bytes, in fields.csv,
+// A run streamed through runWriter writes the same bytes, in fields.csv,
 // probes.csv and summary.json, as WriteRun writes for the run kept in
 // memory: a controlled volumetric case (power columns, program and power
 // fraction, the control error of the summary accumulated as the snapshots
 // pass) and a laminate with a layer that does not cure. Source: the
-// contract of RunWriter (a regression guard, no outside reference).
+// contract of runWriter (a regression guard, no outside reference).
 func TestRunWriterSameBytesAsWriteRun(t *testing.T) {
 	for _, name := range []string{"thick-potting-microwave", "tile-on-spreader"} {
 		c, r := runExample(t, name)
@@ -30,7 +30,7 @@ func TestRunWriterSameBytesAsWriteRun(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		w, err := NewRunWriter(set, c)
+		w, err := newRunWriter(set, c)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -66,7 +66,7 @@ func TestRunWriterError(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer set.Abort()
-	w, err := NewRunWriter(set, c)
+	w, err := newRunWriter(set, c)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -257,7 +257,7 @@ func Summarize(c *cases.Case, r *solver.Result) Summary {
 }
 
 // summarize is Summarize with the control error (ControlError) given, so
-// that a run whose snapshots were streamed (RunWriter) is summarised from
+// that a run whose snapshots were streamed (runWriter) is summarised from
 // what was accumulated as they passed.
 func summarize(c *cases.Case, r *solver.Result, controlError float64) Summary {
 	s := r.Summary

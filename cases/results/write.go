@@ -306,7 +306,7 @@ func writeSummary(w io.Writer, s Summary) error {
 // name, more with the power and viscosity columns). The estimate is within
 // a few tens of per cent of the file, enough to refuse a run whose output
 // would fill a disk (memory does not grow with it: the rows are
-// streamed, RunWriter). Cost O(cells).
+// streamed, runWriter). Cost O(cells).
 func FieldsSize(c *cases.Case) (bytes, rows int64) {
 	p := c.Problem
 	if p == nil || p.Mesh == nil {

@@ -1,11 +1,11 @@
 // Package simulate is the one path of a simulation from a validated case to its
 // output files: solve (solver.RunStream), handing each snapshot as it comes
-// to the rows of fields.csv and probes.csv (results.RunWriter, into the
-// run's output set) → summarise once at the end (results.RunWriter.Summarize)
-// → summary.json → report.html, drawn from what report.Collector kept of the
-// snapshots as they passed (a bounded set of output times). The commands run, demo
-// and compare go through it; sweeps, tuning and uncertainty runs use the
-// same steps without the report.
+// to the rows of fields.csv and probes.csv in the run's output set and to
+// the report's collector (results.StreamRun, report.Collector) → summarise
+// once at the end → summary.json → report.html, drawn from the bounded set
+// of output times the collector kept. The commands run, demo and compare go
+// through it; sweeps, tuning and uncertainty runs use the same steps without
+// the report.
 package simulate
 
 import (
