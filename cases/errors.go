@@ -1,6 +1,7 @@
 package cases
 
 import (
+	"cureslab/cases/tomltext"
 	"errors"
 	"fmt"
 	"sort"
@@ -238,3 +239,7 @@ func FlattenErrors(err error) string {
 func OneLine(s string) string {
 	return strings.Join(strings.Fields(s), " ")
 }
+
+// pos is a position in a case file: 1-based line and byte column; the zero
+// pos means "no position" (tomltext.Place, which finds them).
+type pos = tomltext.Place

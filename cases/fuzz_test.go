@@ -19,6 +19,7 @@ package cases_test
 import (
 	"bytes"
 	"context"
+	"cureslab/cases/tomltext"
 	"errors"
 	"fmt"
 	"io"
@@ -110,7 +111,7 @@ func fzCheckUnknownKeyLines(t *testing.T, list cases.ErrorList, data []byte) {
 		k := e.Key[strings.LastIndexByte(e.Key, '.')+1:] // the last part of the key path
 		bare := k != ""
 		for i := 0; i < len(k); i++ {
-			bare = bare && cases.IsBare(k[i])
+			bare = bare && tomltext.IsBare(k[i])
 		}
 		if bare && strings.Contains(e.Key, k) && !strings.Contains(lines[e.Line-1], k) {
 			t.Errorf("unknown key %q reported on line %d, which is %q", e.Key, e.Line, lines[e.Line-1])

@@ -3,6 +3,7 @@ package cases
 import (
 	"context"
 	"cureslab/cases/internal/num"
+	"cureslab/cases/tomltext"
 	"cureslab/cases/units"
 	"cureslab/physics"
 	"errors"
@@ -602,7 +603,7 @@ func (v *CaseVariant) Parse(t map[string]any) (*Case, error) {
 // SweepSection returns the [sweep] section of the case (empty when it has
 // none). The case was validated by newCaseVariant, so it has no errors.
 func (v *CaseVariant) SweepSection() *SweepSpec {
-	l := &loader{file: v.Name, dir: v.dir, loc: newLocator(v.Text)}
+	l := &loader{file: v.Name, dir: v.dir, loc: tomltext.Locate(v.Text)}
 	if spec := l.sweepSection(&table{m: v.Doc}); spec != nil {
 		return spec
 	}
@@ -612,7 +613,7 @@ func (v *CaseVariant) SweepSection() *SweepSpec {
 // ErrorAt returns an error of the given kind positioned at the value of the
 // key path key in the case file.
 func (v *CaseVariant) ErrorAt(key string, kind error, msg string) error {
-	p := newLocator(v.Text).value(key)
+	p := tomltext.Locate(v.Text).Value(key)
 	return ErrorList{{File: v.Name, Line: p.Line, Col: p.Col, Key: key, Err: &detail{Kind: kind, Msg: msg}}}
 }
 
@@ -667,13 +668,13 @@ type TextPos struct{ Line, Col int }
 //
 // Cost: one pass over the text (the locator of the loader).
 func (v *CaseVariant) Positions(path []string) (value, header TextPos) {
-	l := newLocator(v.Text)
+	l := tomltext.Locate(v.Text)
 	key := strings.Join(path, ".")
-	if p, ok := l.vals[key]; ok {
+	if p, ok := l.ValueAt(key); ok {
 		value = TextPos{p.Line, p.Col}
 	}
 	if len(path) > 1 {
-		if p, ok := l.heads[strings.Join(path[:len(path)-1], ".")]; ok {
+		if p, ok := l.HeaderAt(strings.Join(path[:len(path)-1], ".")); ok {
 			header = TextPos{p.Line, p.Col}
 		}
 	}

@@ -80,7 +80,7 @@ func parse(ctx context.Context, name string, data []byte, dir string) (*Case, er
 // run has changed in place of some values; positions still come from text.
 // doc is only read.
 func parseTree(ctx context.Context, name, text string, doc map[string]any, dir string) (*Case, error) {
-	l := &loader{file: name, dir: dir, loc: newLocator(text), ctx: ctx}
+	l := &loader{file: name, dir: dir, loc: tomltext.Locate(text), ctx: ctx}
 	l.checkTexts("", doc)
 	c := l.build(doc)
 	if err := l.errs.sortFor(name).Err(); err != nil {
@@ -205,7 +205,7 @@ func (l *loader) buildMesh(layers []layerDef, opt mesh.Options) *mesh.Mesh {
 		if errors.As(err, &le) {
 			key = fmt.Sprintf("layer.%d", le.Index)
 		}
-		l.add(l.loc.table(key), key, ErrRange, err, err.Error())
+		l.add(l.loc.Table(key), key, ErrRange, err, err.Error())
 		return nil
 	}
 	return m
@@ -289,7 +289,7 @@ func syntaxError(name, text string, err error, scan tomltext.Scan) *Error {
 		return &Error{File: name, Err: &detail{Kind: ErrSyntax, Cause: err, Msg: err.Error()}}
 	}
 	if msg, ok := unclosedWhat[scan.Unclosed]; ok && (pe.Position.Line < 1 || scan.Open.Line <= pe.Position.Line+1) {
-		return &Error{File: name, Line: scan.Open.Line, Col: scan.Open.Col, Key: lastKeyBefore(text, scan.Open.Line, scan.Open.Col),
+		return &Error{File: name, Line: scan.Open.Line, Col: scan.Open.Col, Key: tomltext.Locate(text).LastKeyBefore(scan.Open.Line, scan.Open.Col),
 			Err:  &detail{Kind: ErrSyntax, Cause: err, Msg: msg},
 			Hint: caret(text, scan.Open.Line, scan.Open.Col, 1)}
 	}
@@ -301,7 +301,7 @@ func syntaxError(name, text string, err error, scan tomltext.Scan) *Error {
 		pe.Position.Line = 1 + strings.Count(text[:off], "\n")
 		pe.Position.Col = 1 + off - (strings.LastIndexByte(text[:off], '\n') + 1)
 	}
-	e := &Error{File: name, Line: pe.Position.Line, Col: pe.Position.Col, Key: lastKeyBefore(text, pe.Position.Line, pe.Position.Col),
+	e := &Error{File: name, Line: pe.Position.Line, Col: pe.Position.Col, Key: tomltext.Locate(text).LastKeyBefore(pe.Position.Line, pe.Position.Col),
 		Err: &detail{Kind: ErrSyntax, Cause: err, Msg: pe.Message}}
 	if e.Key == "" {
 		e.Key = pe.LastKey
@@ -328,24 +328,6 @@ func caret(text string, line, col, n int) string {
 		}
 	}
 	return fmt.Sprintf("%s\n%s%s", src, pad, strings.Repeat("^", max(1, n)))
-}
-
-// lastKeyBefore returns the path, with array indices, of the last key that
-// starts at or before line:col, found by the locator in text that is not
-// valid TOML (the parser's own last key has no indices); "" if none.
-func lastKeyBefore(text string, line, col int) string {
-	l := newLocator(text)
-	best, at := "", pos{}
-	for _, e := range l.all {
-		p := e.at
-		if _, isKey := l.keys[e.path]; !isKey || p.Line > line || p.Line == line && p.Col > col {
-			continue
-		}
-		if p.Line > at.Line || p.Line == at.Line && p.Col >= at.Col {
-			best, at = e.path, p
-		}
-	}
-	return best
 }
 
 // snapToLayerFace returns the depth of the layer face of m within rounding

@@ -2,6 +2,7 @@ package cases
 
 import (
 	"context"
+	"cureslab/cases/tomltext"
 	"fmt"
 	"math"
 	"slices"
@@ -19,7 +20,7 @@ type loader struct {
 	file string // name used in messages
 	dir  string // directory of relative paths
 	ctx  context.Context
-	loc  *locator
+	loc  *tomltext.Locator
 	errs ErrorList
 	// suggested holds the key paths offered as "did you mean" for an
 	// unknown key; require does not also report them as missing, and
@@ -39,26 +40,12 @@ func (l *loader) add(p pos, key string, kind, cause error, msg string) *Error {
 
 // atValue records an error positioned at the value of key path key.
 func (l *loader) atValue(key string, kind error, format string, args ...any) *Error {
-	return l.add(l.loc.value(key), key, kind, nil, fmt.Sprintf(format, args...))
+	return l.add(l.loc.Value(key), key, kind, nil, fmt.Sprintf(format, args...))
 }
 
 // atKey records an error positioned at the key path key.
 func (l *loader) atKey(key string, kind error, format string, args ...any) *Error {
-	at := l.loc.key(key)
-	if at.Line == 0 {
-		// The locator keeps no position for some keys (an empty table
-		// name, [""]): take the first entry in the text whose path ends in
-		// the same last segment, or the first entry at all.
-		last := lastKey(key)
-		for _, e := range l.loc.all {
-			if at.Line == 0 || lastKey(e.path) == last {
-				at = e.at
-				if lastKey(e.path) == last {
-					break
-				}
-			}
-		}
-	}
+	at := l.loc.KeyNear(key)
 	return l.add(at, key, kind, nil, fmt.Sprintf(format, args...))
 }
 
@@ -68,7 +55,7 @@ type table struct {
 	m    map[string]any
 }
 
-func (t *table) keyPath(key string) string { return join(t.path, key) }
+func (t *table) keyPath(key string) string { return tomltext.JoinKey(t.path, key) }
 
 func (t *table) has(key string) bool {
 	if t == nil {
@@ -152,7 +139,7 @@ func (l *loader) require(t *table, keys ...string) bool {
 		if !t.has(k) && l.suggested[t.keyPath(k)] {
 			ok = false // a misspelt key already reported with this suggestion
 		} else if !t.has(k) {
-			l.add(l.loc.table(t.path), t.keyPath(k), ErrMissing, nil, fmt.Sprintf("missing: %s needs %q", describeTable(t.path), k))
+			l.add(l.loc.Table(t.path), t.keyPath(k), ErrMissing, nil, fmt.Sprintf("missing: %s needs %q", describeTable(t.path), k))
 			ok = false
 		}
 	}
@@ -179,7 +166,7 @@ func (l *loader) quantityAt(path string, v any, d units.Dim) (float64, bool) {
 	case string:
 		q, err := units.Parse(x, d)
 		if err != nil { // the message quotes the input and shows the right form
-			l.add(l.loc.value(path), path, ErrUnit, err, err.Error())
+			l.add(l.loc.Value(path), path, ErrUnit, err, err.Error())
 			return 0, false
 		}
 		if math.IsNaN(q) || math.IsInf(q, 0) {

@@ -83,7 +83,7 @@ func (l *loader) sweepSection(root *table) *SweepSpec {
 			s.Samples = int(n)
 		}
 	} else if lhs && !t.has("samples") {
-		l.add(l.loc.table(t.path), t.keyPath("samples"), ErrMissing, nil,
+		l.add(l.loc.Table(t.path), t.keyPath("samples"), ErrMissing, nil,
 			fmt.Sprintf("missing: mode = %q needs samples (the number of runs)", ModeLatinHypercube)).Hint =
 			"add, for example: samples = 200"
 	}
@@ -136,7 +136,7 @@ func (l *loader) varyTable(t *table, root *table, lhs bool, seen map[string]stri
 	if _, _, err := ResolveKey(root.m, key); err != nil {
 		l.atValue(t.keyPath("key"), ErrReference, "%s", err)
 	} else if prev, dup := seen[key]; dup {
-		l.atValue(t.keyPath("key"), ErrDuplicate, "%q is already varied (line %d)", key, l.loc.value(prev).Line)
+		l.atValue(t.keyPath("key"), ErrDuplicate, "%q is already varied (line %d)", key, l.loc.Value(prev).Line)
 	} else {
 		seen[key] = t.keyPath("key")
 	}
@@ -184,14 +184,14 @@ func (l *loader) varyTable(t *table, root *table, lhs bool, seen map[string]stri
 			}
 			v.Count = int(min(max(n, 0), MaxGridRuns))
 		} else if !lhs && !t.has("count") {
-			l.add(l.loc.table(t.path), t.keyPath("count"), ErrMissing, nil,
+			l.add(l.loc.Table(t.path), t.keyPath("count"), ErrMissing, nil,
 				"missing: a range in a grid needs count (the number of values, both ends included)").Hint =
 				"add, for example: count = 5"
 		}
 	case l.suggested[t.keyPath("values")] || l.suggested[t.keyPath("from")] || l.suggested[t.keyPath("to")]:
 		// a misspelt key, already reported with its suggestion
 	default:
-		l.add(l.loc.table(t.path), t.keyPath("values"), ErrMissing, nil,
+		l.add(l.loc.Table(t.path), t.keyPath("values"), ErrMissing, nil,
 			"missing: a [[sweep.vary]] needs values = [...] or from, to (and count)").Hint =
 			"for example: values = [\"4 mm\", \"8 mm\"], or from = \"1 C/min\", to = \"5 C/min\", count = 5"
 	}

@@ -1,6 +1,7 @@
 package cases
 
 import (
+	"cureslab/cases/tomltext"
 	"errors"
 	"fmt"
 	"math"
@@ -83,7 +84,7 @@ func (l *loader) uncertaintySection(root *table) *Uncertainty {
 	var walk func(prefix string, m map[string]any)
 	walk = func(prefix string, m map[string]any) {
 		for _, k := range sortedKeys(m) {
-			key := join(prefix, k)
+			key := tomltext.JoinKey(prefix, k)
 			lp := "uncertainty." + key // the loader's key path, for positions
 			if prefix == "" && k == "share" {
 				if s, ok := l.numberAt(lp, m[k]); ok {
@@ -127,7 +128,7 @@ func (l *loader) uncertaintySection(root *table) *Uncertainty {
 				continue
 			}
 			seen[p] = key
-			found = append(found, placed{in, l.loc.key("uncertainty." + key)})
+			found = append(found, placed{in, l.loc.Key("uncertainty." + key)})
 		}
 	}
 	walk("", m)
@@ -220,7 +221,7 @@ func (l *loader) uncertainInput(root *table, key, lp, spread, dist string) (Unce
 		}
 		abs, rel, err := units.ParseSpread(spread, d)
 		if err != nil {
-			l.add(l.loc.value(lp), lp, ErrUnit, err, fmt.Sprintf("%v (%s is %s: %q)", err, key, article(d), old))
+			l.add(l.loc.Value(lp), lp, ErrUnit, err, fmt.Sprintf("%v (%s is %s: %q)", err, key, article(d), old))
 			return in, false
 		}
 		in.Abs, in.Rel = abs, rel
@@ -270,7 +271,7 @@ func uncPlainSpread(s string) (abs, rel float64, err error) {
 // ReadUncertainty returns the [uncertainty] of the case text (decoded as
 // doc), nil when it has none, or the errors of that section.
 func ReadUncertainty(name, text string, doc map[string]any) (*Uncertainty, error) {
-	l := &loader{file: name, loc: newLocator(text)}
+	l := &loader{file: name, loc: tomltext.Locate(text)}
 	u := l.uncertaintySection(&table{m: doc})
 	if err := l.errs.sortFor(name).Err(); err != nil {
 		return nil, err

@@ -194,7 +194,7 @@ func (l *loader) property(t *table, key string, d units.Dim) (physics.Property, 
 	}
 	p, err := physics.NewTable(temps, vals)
 	if err != nil { // not reached: checked above
-		l.add(l.loc.value(path), path, ErrRange, err, err.Error())
+		l.add(l.loc.Value(path), path, ErrRange, err, err.Error())
 		return physics.Property{}, false
 	}
 	return p, true
@@ -456,7 +456,7 @@ func (l *loader) lossFactor(t *table, key string) (float64, *physics.Property, b
 	}
 	p, err := physics.NewTable(temps, vals)
 	if err != nil { // not reached: checked above
-		l.add(l.loc.value(path), path, ErrRange, err, err.Error())
+		l.add(l.loc.Value(path), path, ErrRange, err, err.Error())
 		return 0, nil, false
 	}
 	return slices.Max(vals), &p, true

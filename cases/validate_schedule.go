@@ -72,7 +72,7 @@ func (l *loader) schedule(path string, v any) *physics.Schedule {
 	}
 	switch {
 	case len(forms) == 0:
-		l.add(l.loc.table(path), path, ErrMissing, nil, "a schedule needs segments (with start), points or file").Hint =
+		l.add(l.loc.Table(path), path, ErrMissing, nil, "a schedule needs segments (with start), points or file").Hint =
 			"for example: start = \"23 C\" and segments = [{ ramp = \"2 C/min\", to = \"120 C\" }, { hold = \"60 min\" }]"
 		return nil
 	case len(forms) > 1:
@@ -160,7 +160,7 @@ func (l *loader) segments(t *table) (physics.Schedule, bool) {
 			cur, known = to, okTo
 		case len(st.m) > 0: // only unknown keys, reported by open
 		default:
-			l.add(l.loc.value(sp), sp, ErrMissing, nil, "a segment needs ramp and to, or hold").Hint =
+			l.add(l.loc.Value(sp), sp, ErrMissing, nil, "a segment needs ramp and to, or hold").Hint =
 				"for example: { ramp = \"2 C/min\", to = \"120 C\" } or { hold = \"60 min\" }"
 		}
 	}
@@ -174,7 +174,7 @@ func (l *loader) segments(t *table) (physics.Schedule, bool) {
 		if errors.As(err, &se) {
 			key = fmt.Sprintf("%s.%d", key, se.Index)
 		}
-		l.add(l.loc.value(key), key, ErrRange, err, err.Error())
+		l.add(l.loc.Value(key), key, ErrRange, err, err.Error())
 		return physics.Schedule{}, false
 	}
 	return s, true
@@ -224,7 +224,7 @@ func (l *loader) points(path string, v any, d units.Dim) (physics.Schedule, bool
 	}
 	s, err := physics.NewSchedule(times, vals)
 	if err != nil { // not reached: checked above
-		l.add(l.loc.value(path), path, ErrRange, err, err.Error())
+		l.add(l.loc.Value(path), path, ErrRange, err, err.Error())
 		return physics.Schedule{}, false
 	}
 	return s, true
@@ -245,7 +245,7 @@ func (l *loader) scheduleFile(key, name string) (physics.Schedule, bool) {
 	}
 	data, err := limits.ReadFile(ctx, full, limits.MaxFileSize)
 	if err != nil {
-		l.add(l.loc.value(key), key, ErrFile, err, fmt.Sprintf("cannot read the schedule file: %v", err))
+		l.add(l.loc.Value(key), key, ErrFile, err, fmt.Sprintf("cannot read the schedule file: %v", err))
 		return physics.Schedule{}, false
 	}
 	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
@@ -323,12 +323,12 @@ func (l *loader) scheduleFile(key, name string) (physics.Schedule, bool) {
 		return physics.Schedule{}, false
 	}
 	if len(times) == 0 {
-		l.add(l.loc.value(key), key, ErrFile, nil, fmt.Sprintf("the schedule file %s has no data rows", full))
+		l.add(l.loc.Value(key), key, ErrFile, nil, fmt.Sprintf("the schedule file %s has no data rows", full))
 		return physics.Schedule{}, false
 	}
 	s, err := physics.NewSchedule(times, vals)
 	if err != nil { // not reached: checked above
-		l.add(l.loc.value(key), key, ErrFile, err, err.Error())
+		l.add(l.loc.Value(key), key, ErrFile, err, err.Error())
 		return physics.Schedule{}, false
 	}
 	return s, true

@@ -79,7 +79,7 @@ func (l *loader) layers(root *table, defs map[string]*physics.Material) ([]layer
 			case strings.ContainsAny(name, ".\n\r\t"):
 				l.rangeErr(t.keyPath("name"), name, "a layer name must not contain dots or control characters (it is used in key paths like layer.NAME.thickness)")
 			case names[name] != "":
-				prev := l.loc.value(names[name] + ".name")
+				prev := l.loc.Value(names[name] + ".name")
 				l.atValue(t.keyPath("name"), ErrDuplicate, "duplicate layer name %q (already used on line %d)", name, prev.Line)
 			default:
 				names[name] = path
@@ -176,12 +176,12 @@ func (l *loader) checkCells(layers []layerDef, opt mesh.Options) bool {
 	// Point at what asks for the cells: [mesh] max_cell when the case sets
 	// it, else the layer with the most cells (its cells or thickness).
 	key := "mesh.max_cell"
-	at := l.loc.value(key)
+	at := l.loc.Value(key)
 	if at.Line == 0 {
 		key = fmt.Sprintf("layer.%d.cells", biggest)
-		if at = l.loc.value(key); at.Line == 0 {
+		if at = l.loc.Value(key); at.Line == 0 {
 			key = fmt.Sprintf("layer.%d.thickness", biggest)
-			at = l.loc.value(key)
+			at = l.loc.Value(key)
 		}
 	}
 	l.add(at, key, ErrRange, nil, fmt.Sprintf("the mesh would have %.0f cells; at most %d", total, maxCells)).Hint =
@@ -234,7 +234,7 @@ func (l *loader) timing(root *table, p *solver.Problem, programEnd, T0 float64) 
 		if programEnd > 0 {
 			end, hasEnd = programEnd, true
 		} else if programEnd == 0 {
-			e := l.add(l.loc.table("time"), "time.end", ErrMissing, nil,
+			e := l.add(l.loc.Table("time"), "time.end", ErrMissing, nil,
 				"time.end is required: the case uses no schedule (or flux points) whose end could set it")
 			e.Hint = "add, for example:\n[time]\nend = \"5 h\""
 		}
@@ -256,7 +256,7 @@ func (l *loader) timing(root *table, p *solver.Problem, programEnd, T0 float64) 
 		p.AbortTemperature = a
 	} else if T0 >= p.AbortTemperature {
 		at := "initial.temperature"
-		l.add(l.loc.value(at), at, ErrRange, nil, fmt.Sprintf("the initial temperature %s is at or above the runaway limit %s (the default of time.abort_temperature)",
+		l.add(l.loc.Value(at), at, ErrRange, nil, fmt.Sprintf("the initial temperature %s is at or above the runaway limit %s (the default of time.abort_temperature)",
 			Celsius(T0), Celsius(p.AbortTemperature))).Hint = "set [time] abort_temperature above the initial temperature, for example abort_temperature = \"500 C\""
 	}
 	if !hasEnd {

@@ -1,6 +1,7 @@
 package cases
 
 import (
+	"cureslab/cases/tomltext"
 	"sort"
 	"strconv"
 
@@ -32,7 +33,7 @@ func (l *loader) checkTexts(path string, v any) {
 		}
 		sort.Strings(keys)
 		for _, k := range keys {
-			p := join(path, k)
+			p := tomltext.JoinKey(path, k)
 			if b, bad := limits.CheckText(k); bad && (path == "materials" || path == "schedules") {
 				l.atKey(p, ErrRange, "the key %q has %s: names may not hold control or bidirectional-override characters", k, b)
 				continue
@@ -41,11 +42,11 @@ func (l *loader) checkTexts(path string, v any) {
 		}
 	case []map[string]any:
 		for i, m := range v {
-			l.checkTexts(join(path, strconv.Itoa(i)), m)
+			l.checkTexts(tomltext.JoinKey(path, strconv.Itoa(i)), m)
 		}
 	case []any:
 		for i, e := range v {
-			l.checkTexts(join(path, strconv.Itoa(i)), e)
+			l.checkTexts(tomltext.JoinKey(path, strconv.Itoa(i)), e)
 		}
 	}
 }

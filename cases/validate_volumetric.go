@@ -161,7 +161,7 @@ func (l *loader) fieldKeys(t, ct *table, d *volDef) {
 			d.info.FieldUnused = true
 		}
 	case ct != nil && !t.has("field"):
-		l.add(l.loc.table(ct.path), ct.keyPath("max_field"), ErrMissing, nil,
+		l.add(l.loc.Table(ct.path), ct.keyPath("max_field"), ErrMissing, nil,
 			"missing: [volumetric.control] needs \"max_field\", the field at full power").Hint =
 			"add, for example: max_field = \"3 kV/m\" (the controller sets the field to max_field * sqrt(power fraction)), or give field in [volumetric]"
 	case ct != nil:
@@ -211,7 +211,7 @@ func (l *loader) standingWave(t, ct *table, d *volDef) {
 		l.band(t, d)
 	default:
 		if !t.has("frequency") {
-			l.add(l.loc.table(t.path), t.keyPath("frequency"), ErrMissing, nil,
+			l.add(l.loc.Table(t.path), t.keyPath("frequency"), ErrMissing, nil,
 				"missing: [volumetric] needs \"frequency\" or \"band\"").Hint =
 				"for example: frequency = \"2.45 GHz\", or band = [\"5.85 GHz\", \"6.65 GHz\"] for a swept source"
 		}
@@ -342,7 +342,7 @@ func (l *loader) checkAbsorbers(layers []layerDef, v *physics.Volumetric) {
 		names = append(names, fmt.Sprintf("%s (%s)", ld.info.Name, ld.info.Material))
 	}
 	if !some {
-		l.add(l.loc.table("volumetric"), "volumetric", ErrRange, nil,
+		l.add(l.loc.Table("volumetric"), "volumetric", ErrRange, nil,
 			fmt.Sprintf("no layer absorbs: none of the materials of %s has a [materials.NAME.dielectric] section with a loss factor", strings.Join(names, ", "))).Hint =
 			"add to the absorbing material, for example:\n[materials.NAME.dielectric]\npermittivity = 4.0\nloss_factor = 0.4\nloss_factor_cured = 0.05"
 		return

@@ -3,7 +3,10 @@
 // than the depth, so a hostile file is refused before it gets there), and
 // where a construct left unclosed opens (a table header, a string, an
 // array), so that a syntax error can point at the line where the problem
-// starts rather than where the parser noticed it.
+// starts rather than where the parser noticed it. After a successful parse,
+// Locate finds where every key, value and table header starts (the TOML
+// library keeps those positions private), so that a value's error points
+// at the value.
 //
 // The scan is a light lexer, linear in the text: it knows comments, the
 // four kinds of strings, table headers, keys and brackets, and stops

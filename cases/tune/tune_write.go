@@ -5,6 +5,7 @@ import (
 	"cureslab/cases/internal/num"
 	"cureslab/cases/internal/textout"
 	"cureslab/cases/results"
+	"cureslab/cases/tomltext"
 	"encoding/csv"
 	"fmt"
 	"io"
@@ -61,7 +62,7 @@ func (t *tuner) block(b *Candidate) string {
 // tomlKey quotes a key that is not a bare TOML key.
 func tomlKey(k string) string {
 	for i := 0; i < len(k); i++ {
-		if !cases.IsBare(k[i]) {
+		if !tomltext.IsBare(k[i]) {
 			return strconv.Quote(k)
 		}
 	}

@@ -1,4 +1,4 @@
-package cases
+package tomltext
 
 import (
 	"strconv"
@@ -6,11 +6,11 @@ import (
 	"unicode"
 )
 
-// pos is a position in a file: 1-based line and byte column. The zero pos
+// Place is a position in a file: 1-based line and byte column. The zero Place
 // means "no position".
-type pos struct{ Line, Col int }
+type Place struct{ Line, Col int }
 
-// locator finds the positions of keys and values in the text of a TOML
+// Locator finds the positions of keys and values in the text of a TOML
 // document that has already been parsed successfully, because
 // BurntSushi/toml keeps the positions of keys private (and misplaces some
 // value errors in repeated [[layer]] tables).
@@ -25,27 +25,27 @@ type pos struct{ Line, Col int }
 // nested ones), dotted keys, arrays and inline tables, and records where
 // every key, value and header starts. On text that is not valid TOML it
 // never panics, but its positions may be wrong. Cost O(len(text)).
-type locator struct {
-	keys  map[string]pos // where the key (or array element) starts
-	vals  map[string]pos // where the value starts
-	heads map[string]pos // where a table header [..] or [[..]] starts
-	all   []entry        // every key and header, in text order
+type Locator struct {
+	keys  map[string]Place // where the key (or array element) starts
+	vals  map[string]Place // where the value starts
+	heads map[string]Place // where a table header [..] or [[..]] starts
+	all   []entry          // every key and header, in text order
 }
 
 type entry struct {
 	path string
-	at   pos
+	at   Place
 }
 
-// maxDepth bounds the nesting of arrays and inline tables the locator
+// maxDepth bounds the nesting of arrays and inline tables the Locator
 // follows, so that no input can exhaust the stack.
 const maxDepth = 200
 
-func newLocator(text string) *locator {
-	l := &locator{
-		keys:  make(map[string]pos),
-		vals:  make(map[string]pos),
-		heads: make(map[string]pos),
+func Locate(text string) *Locator {
+	l := &Locator{
+		keys:  make(map[string]Place),
+		vals:  make(map[string]Place),
+		heads: make(map[string]Place),
 	}
 	s := &scanner{src: text, line: 1, loc: l, arrays: make(map[string]int)}
 	s.document()
@@ -54,25 +54,25 @@ func newLocator(text string) *locator {
 
 // key returns the position of the key at path, falling back to the table
 // that holds it.
-func (l *locator) key(path string) pos {
+func (l *Locator) Key(path string) Place {
 	if p, ok := l.keys[path]; ok {
 		return p
 	}
-	return l.table(path)
+	return l.Table(path)
 }
 
 // value returns the position of the value at path, falling back to its key.
-func (l *locator) value(path string) pos {
+func (l *Locator) Value(path string) Place {
 	if p, ok := l.vals[path]; ok {
 		return p
 	}
-	return l.key(path)
+	return l.Key(path)
 }
 
 // table returns the position of the table at path: its header, its key (an
 // inline or dotted table), the first key inside it, or else the position of
-// the enclosing table. The zero pos when nothing of the path is in the text.
-func (l *locator) table(path string) pos {
+// the enclosing table. The zero Place when nothing of the path is in the text.
+func (l *Locator) Table(path string) Place {
 	for path != "" {
 		if p, ok := l.heads[path]; ok {
 			return p
@@ -92,16 +92,57 @@ func (l *locator) table(path string) pos {
 		}
 		path = path[:i]
 	}
-	return pos{}
+	return Place{}
 }
 
-// scanner is the state of one locator pass.
+// KeyNear returns the position of the key at path like Key, and for a key
+// the text has no position for (an empty table name, [""]) the first entry
+// whose path ends in the same last part, or else the first entry at all;
+// the zero Place for a text without entries.
+func (l *Locator) KeyNear(path string) Place {
+	at := l.Key(path)
+	if at.Line != 0 {
+		return at
+	}
+	last := lastPart(path)
+	for _, e := range l.all {
+		if at.Line == 0 || lastPart(e.path) == last {
+			at = e.at
+			if lastPart(e.path) == last {
+				break
+			}
+		}
+	}
+	return at
+}
+
+// ValueAt returns where the value at path starts, without falling back.
+func (l *Locator) ValueAt(path string) (Place, bool) {
+	p, ok := l.vals[path]
+	return p, ok
+}
+
+// HeaderAt returns where the header [..] or [[..]] of the table at path
+// starts, without falling back.
+func (l *Locator) HeaderAt(path string) (Place, bool) {
+	p, ok := l.heads[path]
+	return p, ok
+}
+
+func lastPart(path string) string {
+	if i := strings.LastIndexByte(path, '.'); i >= 0 {
+		return path[i+1:]
+	}
+	return path
+}
+
+// scanner is the state of one Locator pass.
 type scanner struct {
 	src       string
 	i         int // byte offset
 	line      int
 	lineStart int // offset of the first byte of the current line
-	loc       *locator
+	loc       *Locator
 	arrays    map[string]int // resolved path of an array of tables -> elements so far
 	table     string         // resolved path of the current table ("" at top level)
 }
@@ -115,7 +156,7 @@ func (s *scanner) peek(k int) byte {
 	return 0
 }
 
-func (s *scanner) at() pos { return pos{s.line, s.i - s.lineStart + 1} }
+func (s *scanner) at() Place { return Place{s.line, s.i - s.lineStart + 1} }
 
 // advance moves one byte, keeping the line count.
 func (s *scanner) advance() {
@@ -157,7 +198,7 @@ func (s *scanner) toLineEnd() {
 	}
 }
 
-func (s *scanner) record(m map[string]pos, path string, p pos, all bool) {
+func (s *scanner) record(m map[string]Place, path string, p Place, all bool) {
 	if _, ok := m[path]; !ok {
 		m[path] = p
 	}
@@ -166,8 +207,9 @@ func (s *scanner) record(m map[string]pos, path string, p pos, all bool) {
 	}
 }
 
-func join(a, b string) string {
-	b = keyPart(b)
+// JoinKey returns the key path a.b, with b written as KeyPart writes it.
+func JoinKey(a, b string) string {
+	b = KeyPart(b)
 	if a == "" {
 		return b
 	}
@@ -179,7 +221,7 @@ func join(a, b string) string {
 // return...), which is then quoted (`layer.0.""`, `"a\rb"`). Parts with
 // dots or spaces stay as written: a quoted "top.h" in [uncertainty] is a
 // key path on purpose.
-func keyPart(k string) string {
+func KeyPart(k string) string {
 	if k == "" {
 		return `""`
 	}
@@ -234,7 +276,7 @@ func (s *scanner) header() {
 		s.record(s.loc.heads, s.table, p, true)
 		return
 	}
-	arr := join(s.resolve(parts[:len(parts)-1]), parts[len(parts)-1])
+	arr := JoinKey(s.resolve(parts[:len(parts)-1]), parts[len(parts)-1])
 	n := s.arrays[arr]
 	s.arrays[arr] = n + 1
 	s.table = arr + "." + strconv.Itoa(n)
@@ -247,7 +289,7 @@ func (s *scanner) header() {
 func (s *scanner) resolve(parts []string) string {
 	path := ""
 	for _, k := range parts {
-		path = join(path, k)
+		path = JoinKey(path, k)
 		if n, ok := s.arrays[path]; ok && n > 0 {
 			path += "." + strconv.Itoa(n-1)
 		}
@@ -257,7 +299,7 @@ func (s *scanner) resolve(parts []string) string {
 
 // keyParts reads a possibly dotted key and returns its parts and the
 // position of its first character.
-func (s *scanner) keyParts() ([]string, pos) {
+func (s *scanner) keyParts() ([]string, Place) {
 	p := s.at()
 	var parts []string
 	for !s.eof() {
@@ -287,6 +329,8 @@ func (s *scanner) keyParts() ([]string, pos) {
 	return parts, p
 }
 
+// IsBare reports whether c may appear in a bare TOML key (A-Z a-z 0-9 _ -;
+// TOML v1.0.0, "Keys").
 func IsBare(c byte) bool {
 	return c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' || c == '_' || c == '-'
 }
@@ -325,7 +369,7 @@ func (s *scanner) keyValue(table string, depth int) {
 	}
 	path := table
 	for _, k := range parts {
-		path = join(path, k)
+		path = JoinKey(path, k)
 	}
 	s.record(s.loc.keys, path, p, true)
 	s.blanks()
@@ -429,4 +473,20 @@ func (s *scanner) str() {
 	if !s.eof() && s.src[s.i] == q {
 		s.i++
 	}
+}
+
+// LastKeyBefore returns the path, with array indices, of the last key that
+// starts at or before line:col, in text that is not valid TOML (the parser's own last key has no indices); "" if none.
+func (l *Locator) LastKeyBefore(line, col int) string {
+	best, at := "", Place{}
+	for _, e := range l.all {
+		p := e.at
+		if _, isKey := l.keys[e.path]; !isKey || p.Line > line || p.Line == line && p.Col > col {
+			continue
+		}
+		if p.Line > at.Line || p.Line == at.Line && p.Col >= at.Col {
+			best, at = e.path, p
+		}
+	}
+	return best
 }
