@@ -344,7 +344,7 @@ func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 				lossy4(&w.lanes, &gr[0], &gi[0], &into[0], &in[0], &on[0], len(gr))
 			case simd:
 				w.lanes.start(k)
-				lossless4(&w.lanes, &gr[0], &gi[0], &into[0], &on[0], len(gr))
+				lossless4(&w.lanes, &gr[0], &gi[0], &into[0], &in[0], &on[0], len(gr))
 			case sg.lossy:
 				k.lossy(gr, gi, into, in, on)
 			default:

@@ -45,7 +45,7 @@ func xgetbv() (eax, edx uint32)
 //go:noescape
 func lossy4(l *lanes, gr, gi, into, in, on *float64, n int)
 
-// lossless4 is kernel.lossless likewise.
+// lossless4 is kernel.lossless likewise (in is not used).
 //
 //go:noescape
-func lossless4(l *lanes, gr, gi, into, on *float64, n int)
+func lossless4(l *lanes, gr, gi, into, in, on *float64, n int)

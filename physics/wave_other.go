@@ -6,4 +6,4 @@ package physics
 
 func lossy4(l *lanes, gr, gi, into, in, on *float64, n int) { panic("physics: no vector kernel") }
 
-func lossless4(l *lanes, gr, gi, into, on *float64, n int) { panic("physics: no vector kernel") }
+func lossless4(l *lanes, gr, gi, into, in, on *float64, n int) { panic("physics: no vector kernel") }

@@ -208,6 +208,24 @@ func TestWaveWaterPenetrationDepth(t *testing.T) {
 	}
 }
 
+// randomStack returns 1 to 60 slabs of random width (10 µm to 10 mm) and
+// permittivity ε′ (1 to 81); a slab is lossy (ε″ log-uniform from 1e-4 to
+// 10) when a uniform draw falls below lossy, a conductor when it falls
+// between lossy and metal, lossless otherwise.
+func randomStack(rng *rand.Rand, lossy, metal float64) []Slab {
+	st := make([]Slab, 1+rng.IntN(60))
+	for i := range st {
+		st[i] = Slab{Width: 1e-5 + 0.01*rng.Float64(), Permittivity: 1 + 80*rng.Float64()}
+		switch r := rng.Float64(); {
+		case r < lossy:
+			st[i].Loss = math.Pow(10, -4+5*rng.Float64())
+		case r < metal:
+			st[i].Conductor = true
+		}
+	}
+	return st
+}
+
 func TestWaveEnergyBalance(t *testing.T) {
 	// Poynting's theorem (Born & Wolf §1.1.4, from memory): for each source
 	// the absorbed power equals S (1 − |Γ|² − |T|²). Random stacks with
@@ -216,17 +234,8 @@ func TestWaveEnergyBalance(t *testing.T) {
 	// independently of Γ and T. Fixed seed.
 	rng := rand.New(rand.NewPCG(7, 17))
 	for trial := range 40 {
-		n := 1 + rng.IntN(60)
-		st := make([]Slab, n)
-		for i := range st {
-			st[i] = Slab{Width: 1e-5 + 0.01*rng.Float64(), Permittivity: 1 + 80*rng.Float64()}
-			switch r := rng.Float64(); {
-			case r < 0.6:
-				st[i].Loss = math.Pow(10, -4+5*rng.Float64())
-			case r < 0.63:
-				st[i].Conductor = true
-			}
-		}
+		st := randomStack(rng, 0.6, 0.63)
+		n := len(st)
 		for _, b := range []Band{single(2.45e9), {Lo: 5.85e9, Hi: 6.65e9, Points: 101}, {Lo: 0.9e9, Hi: 0.93e9, Points: 7}} {
 			for _, inc := range []Incidence{IncidentTop, IncidentBottom, IncidentBoth} {
 				K := make([]float64, n)
@@ -469,17 +478,8 @@ func TestWaveAgainstReference(t *testing.T) {
 	defer func(s bool) { simd = s }(simd)
 	rng := rand.New(rand.NewPCG(11, 13))
 	for trial := range 160 {
-		n := 1 + rng.IntN(60)
-		st := make([]Slab, n)
-		for i := range st {
-			st[i] = Slab{Width: 1e-5 + 0.01*rng.Float64(), Permittivity: 1 + 80*rng.Float64()}
-			switch r := rng.Float64(); {
-			case r < 0.7:
-				st[i].Loss = math.Pow(10, -4+5*rng.Float64())
-			case r < 0.72:
-				st[i].Conductor = true
-			}
-		}
+		st := randomStack(rng, 0.7, 0.72)
+		n := len(st)
 		lo := 1e8 + 1e10*rng.Float64()
 		b := Band{Lo: lo, Hi: lo * (1 + 0.3*rng.Float64()), Points: 2 + rng.IntN(100)}
 		if trial%40 == 0 {
