@@ -154,6 +154,7 @@ func TestFreeErrors(t *testing.T) {
 		{"layer.slab.contact_resistance", "the case does not set it: give its range"},
 		{"layer.slab.cells", "the case is invalid when it changes"},
 		{"materials.test-epoxy.cure.n=1:2", "" /* fine: a plain number with plain bounds */},
+		{"materials.test-epoxy.cure.n=2:3", "the case's value 1.5 is not inside the range:" /* no unit, no space before the colon */},
 		{"materials.test-epoxy.cure.n=1mm:2mm", "must be a plain number, as the value is"},
 	} {
 		f, err := ParseFree(c.spec)

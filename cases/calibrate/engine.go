@@ -338,7 +338,7 @@ func (r *Result) warn(est *lsq.Estimate) {
 		case p.AtBound:
 			add("%s ended on a bound of its range (%s): the log asks for a value beyond it; widen the range or check the case", p.Key, fmtRange(p))
 		case p.Ratio && p.High-p.Low > math.Abs(p.Value):
-			add("the 95 %% interval of %s (%s to %s %s) is wider than the value: %s", p.Key, fmtVal(p.Low), fmtVal(p.High), p.Unit, cannotTell)
+			add("the 95 %% interval of %s (%s to %s) is wider than the value: %s", p.Key, fmtVal(p.Low), withUnit(fmtVal(p.High), p.Unit), cannotTell)
 		}
 	}
 	for k, a := range r.Autocorr {

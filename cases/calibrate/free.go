@@ -102,7 +102,16 @@ func (b *binding) literal(i int, x float64, digits int) any {
 	if b.plain[i] {
 		return x
 	}
-	return s + " " + b.params[i].Unit
+	return withUnit(s, b.params[i].Unit)
+}
+
+// withUnit writes a number (as text) with its unit: "12 W/m^2/K", or the
+// number alone when the value has no unit.
+func withUnit(v, unit string) string {
+	if unit == "" {
+		return v
+	}
+	return v + " " + unit
 }
 
 // problem returns the solver problem of the case with the free values vals.
@@ -301,10 +310,10 @@ func (bf *boundFree) setStart(start float64, exists bool) error {
 		default:
 			return bf.fail("the case's value is %s: a fit on a logarithmic scale starts from a positive value; give a range with a positive lower bound, such as %s=LO:HI", fmtVal(start), p.Key)
 		}
-		bf.note = fmt.Sprintf("%s starts at the middle of its range (%s %s)%s", p.Key, fmtVal(start), p.Unit,
+		bf.note = fmt.Sprintf("%s starts at the middle of its range (%s)%s", p.Key, withUnit(fmtVal(start), p.Unit),
 			map[bool]string{true: ", geometric: it is fitted on a logarithmic scale", false: ""}[p.Log])
 	} else if !(start > p.Lo && start < p.Hi) {
-		return bf.fail("the case's value %s %s is not inside the range: the fit starts from the case's values; widen the range or edit the case", fmtVal(start), p.Unit)
+		return bf.fail("the case's value %s is not inside the range: the fit starts from the case's values; widen the range or edit the case", withUnit(fmtVal(start), p.Unit))
 	}
 	p.Start = start
 	return nil
