@@ -18,6 +18,7 @@ test:
 
 vet:
 	$(GO) vet ./...
+	$(GO) vet -tags purego ./physics/...
 	@test -z "$$(gofmt -l . | grep -v '^testdata/')" || (gofmt -l .; exit 1)
 
 # Speed figures (README "Performance"; dated record in DEVELOPERS.md,
