@@ -122,11 +122,25 @@ cureslab run potting.toml -o potting-out`,
 				return code
 			}
 			s := o.Summary
+			if code == exitInterrupted { // the nominal run was cut short
+				results.PrintSummary(e.stdout, s)
+				fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
+				fmt.Fprintf(e.stderr, "cureslab run: --uncertain: no sample was run\n")
+				return code
+			}
 			opt := uncertain.Options{Samples: *samples, Seed: *seed, Jobs: *jobs}
 			if isTerminal(e.stderr) {
 				opt.Progress = e.stderr
 			}
 			rep, err := uncertain.Propagate(e.ctx, c, text, opt)
+			if e.interrupted(err) {
+				results.PrintSummary(e.stdout, s)
+				fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
+				fmt.Fprintf(e.stderr, "cureslab run: interrupted during the --uncertain samples: the outputs in %s are the nominal run's, complete, "+
+					"its criteria judged without the samples; no uncertainty.csv, and %s was not drawn (draw it with 'cureslab report %s')\n",
+					dir, report.ReportFile, dir)
+				return exitInterrupted
+			}
 			if err == nil {
 				s = uncertain.Judge(s, rep)
 				err = uncertain.Write(dir, s, rep)
