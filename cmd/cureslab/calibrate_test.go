@@ -1,6 +1,9 @@
 package main
 
 import (
+	"context"
+	"cureslab/cases"
+	"cureslab/cases/calibrate"
 	"os"
 	"path/filepath"
 	"strings"
@@ -70,5 +73,42 @@ func TestCalibrateCommand(t *testing.T) {
 		if _, err := os.Stat(filepath.Join(dir, "bad")); err == nil {
 			t.Fatalf("cureslab %q wrote its output directory", args)
 		}
+	}
+}
+
+// A Ctrl-C before the page of a calibration is drawn (during the fit, or
+// while it is drawn): the three files go in place without the page, and
+// the page of an earlier calibration into the directory is removed.
+func TestWriteCalibrationInterrupted(t *testing.T) {
+	ex, _ := cases.ExampleByName("thick-potting-oven")
+	l, err := calibrate.ReadLog("trial.csv", calibrate.ExampleLog())
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := calibrate.ParseFree("top.h")
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := calibrate.Calibrate(context.Background(), "potting.toml", ex.Text, ".", l, []calibrate.Free{f}, calibrate.Options{Jobs: 1, MaxIter: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := filepath.Join(t.TempDir(), "cal")
+	if drawn, err := writeCalibration(context.Background(), dir, res); err != nil || !drawn {
+		t.Fatalf("uninterrupted: drawn %v, %v", drawn, err)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	drawn, err := writeCalibration(ctx, dir, res)
+	if err != nil || drawn {
+		t.Fatalf("interrupted: drawn %v, %v", drawn, err)
+	}
+	for _, name := range []string{calibrate.CalibratedFile, calibrate.CalibrationFile, calibrate.ResidualsFile} {
+		if _, err := os.Stat(filepath.Join(dir, name)); err != nil {
+			t.Errorf("%s: %v", name, err)
+		}
+	}
+	if _, err := os.Stat(filepath.Join(dir, calibrate.ReportFile)); !os.IsNotExist(err) {
+		t.Errorf("the earlier page is left beside the new files: %v", err)
 	}
 }
