@@ -49,24 +49,11 @@ var ErrTooLarge = errors.New("file too large")
 // Errors: ErrNotRegular or ErrTooLarge wrapped with what the path is or how
 // large it is; ctx.Err() when cancelled; the file system's errors.
 func ReadFile(ctx context.Context, path string, max int64) ([]byte, error) {
-	fi, err := os.Stat(path)
-	if err != nil {
-		return nil, err
-	}
-	if err := regular(fi, max); err != nil {
-		return nil, err
-	}
-	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
+	f, fi, err := open(path, max)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	if fi, err = f.Stat(); err != nil {
-		return nil, err
-	}
-	if err := regular(fi, max); err != nil {
-		return nil, err
-	}
 	buf := make([]byte, 0, min(fi.Size(), max)+1)
 	for {
 		if err := ctx.Err(); err != nil {
@@ -88,6 +75,39 @@ func ReadFile(ctx context.Context, path string, max int64) ([]byte, error) {
 			return nil, err
 		}
 	}
+}
+
+// Open opens the regular file at path, of at most max bytes, for reading
+// as a stream (under Reader, to stop at a cancelled context): checked as
+// ReadFile checks it, before it is opened and on the open file, so that a
+// FIFO or a device is refused at once instead of blocking or never ending.
+// Errors: as ReadFile's, ErrNotRegular or ErrTooLarge wrapped with what
+// the path is or how large it is.
+func Open(path string, max int64) (*os.File, error) {
+	f, _, err := open(path, max)
+	return f, err
+}
+
+func open(path string, max int64) (*os.File, fs.FileInfo, error) {
+	fi, err := os.Stat(path)
+	if err != nil {
+		return nil, nil, err
+	}
+	if err := regular(fi, max); err != nil {
+		return nil, nil, err
+	}
+	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
+	if err != nil {
+		return nil, nil, err
+	}
+	if fi, err = f.Stat(); err == nil {
+		err = regular(fi, max)
+	}
+	if err != nil {
+		f.Close()
+		return nil, nil, err
+	}
+	return f, fi, nil
 }
 
 // checkFile returns why the file at path cannot be read as an input of at

@@ -61,9 +61,10 @@ func readRunData(ctx context.Context, dir string) (*runData, error) {
 }
 
 // openOutput opens an output file of a run, with a message that says what
-// is expected when it is missing.
+// is expected when it is missing. A path that is not a regular file (a
+// FIFO, a device) is refused at once (limits.Open), not waited on.
 func openOutput(path string) (*os.File, error) {
-	f, err := os.Open(path)
+	f, err := limits.Open(path, math.MaxInt64)
 	if err != nil {
 		msg := fmt.Sprintf("cannot read the output file: %v", err)
 		if errors.Is(err, os.ErrNotExist) {

@@ -12,7 +12,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"regexp"
 	"sort"
@@ -141,7 +140,10 @@ func (r *sweepRow) num(col string) float64 {
 
 func readSweepData(ctx context.Context, dir string) (*sweepData, error) {
 	defPath := filepath.Join(dir, results.SweepDefinitionFile)
-	b, err := os.ReadFile(defPath)
+	b, err := limits.ReadFile(ctx, defPath, limits.MaxFileSize)
+	if err != nil && ctx.Err() != nil {
+		return nil, ctx.Err()
+	}
 	if err != nil {
 		return nil, fmt.Errorf("sweep report: cannot read %s: %w", defPath, err)
 	}
@@ -159,7 +161,7 @@ func readSweepData(ctx context.Context, dir string) (*sweepData, error) {
 		sd.Ranges = append(sd.Ranges, [2]string{v.From, v.To})
 	}
 	sumPath := filepath.Join(dir, results.SweepSummaryFile)
-	f, err := os.Open(sumPath)
+	f, err := limits.Open(sumPath, math.MaxInt64)
 	if err != nil {
 		return nil, fmt.Errorf("sweep report: cannot read %s: %w", sumPath, err)
 	}

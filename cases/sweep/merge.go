@@ -6,6 +6,7 @@ import (
 	"crypto/sha256"
 	"cureslab/cases"
 	"cureslab/cases/internal/textout"
+	"cureslab/cases/limits"
 	"cureslab/cases/results"
 	"encoding/csv"
 	"encoding/hex"
@@ -71,12 +72,14 @@ func MergeSweeps(ctx context.Context, out string, dirs []string, allowMissing bo
 		if err := ctx.Err(); err != nil {
 			return rep, err
 		}
-		b, err := os.ReadFile(filepath.Join(dir, results.SweepDefinitionFile))
-		if errors.Is(err, fs.ErrNotExist) {
+		b, err := limits.ReadFile(ctx, filepath.Join(dir, results.SweepDefinitionFile), limits.MaxFileSize)
+		switch {
+		case errors.Is(err, fs.ErrNotExist):
 			return rep, &sweepError{msg: fmt.Sprintf("%s is not a sweep directory: it has no %s", dir, results.SweepDefinitionFile)}
-		}
-		if err != nil {
-			return rep, err
+		case err != nil && ctx.Err() != nil:
+			return rep, ctx.Err()
+		case err != nil:
+			return rep, fmt.Errorf("%s: %w", filepath.Join(dir, results.SweepDefinitionFile), err)
 		}
 		if i == 0 {
 			def = b
@@ -143,7 +146,7 @@ func MergeSweeps(ctx context.Context, out string, dirs []string, allowMissing bo
 	if fi, err := os.Stat(out); err == nil && !fi.IsDir() {
 		return rep, &sweepError{msg: fmt.Sprintf("%s exists and is not a directory", out)}
 	}
-	if old, err := os.ReadFile(filepath.Join(out, results.SweepDefinitionFile)); err == nil && !bytes.Equal(old, def) {
+	if old, err := limits.ReadFile(ctx, filepath.Join(out, results.SweepDefinitionFile), limits.MaxFileSize); err == nil && !bytes.Equal(old, def) {
 		return rep, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
 			"%s holds another sweep: %s; give another output directory (-o)", out, results.DefDiff(old, def))}
 	}
@@ -214,7 +217,7 @@ func FormatRuns(runs []int, limit int) string {
 // case file itself are returned as Parse gives them. Cost: one read and
 // one validation of the case.
 func SweepCase(dir, casePath string) (*cases.Case, error) {
-	b, err := os.ReadFile(filepath.Join(dir, results.SweepDefinitionFile))
+	b, err := limits.ReadFile(context.Background(), filepath.Join(dir, results.SweepDefinitionFile), limits.MaxFileSize)
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil, &sweepError{msg: fmt.Sprintf("%s is not a sweep directory: it has no %s", dir, results.SweepDefinitionFile)}
 	}
@@ -225,7 +228,7 @@ func SweepCase(dir, casePath string) (*cases.Case, error) {
 	if err := json.Unmarshal(b, &d); err != nil || d.Format != results.SweepFormat {
 		return nil, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf("%s: %s is not a sweep definition of this version", dir, results.SweepDefinitionFile)}
 	}
-	data, err := os.ReadFile(casePath)
+	data, err := limits.ReadFile(context.Background(), casePath, limits.MaxFileSize)
 	if err != nil {
 		return nil, err
 	}

@@ -517,8 +517,14 @@ type journal struct {
 // error is ctx.Err().
 func readJournal(ctx context.Context, path string, header []string, runs int) (*jrn.Contents, error) {
 	data, err := limits.ReadFile(ctx, path, maxJournalSize)
-	if err != nil {
-		return nil, err
+	switch {
+	case err == nil:
+	case ctx.Err() != nil && errors.Is(err, ctx.Err()):
+		return nil, ctx.Err()
+	case errors.Is(err, limits.ErrNotRegular) || errors.Is(err, limits.ErrTooLarge):
+		return nil, fmt.Errorf("%s: %w", path, err)
+	default:
+		return nil, err // a *PathError names the file
 	}
 	c, err := jrn.Read(path, data, header, runs)
 	if err != nil {
