@@ -101,28 +101,25 @@ func TestOtherPagesInterrupted(t *testing.T) {
 		{Name: "a", Case: c1, Ran: true, Result: r1, Summary: results.Summarize(c1, r1)},
 		{Name: "b", Case: c2, Ran: true, Result: r2, Summary: results.Summarize(c2, r2)},
 	}
-	var b bytes.Buffer
-	empty := func() bool { return b.Len() == 0 }
-	t.Run("compare", func(t *testing.T) {
-		checkInterruptible(t, 3, func(ctx context.Context) error {
+	// writerCase draws a page into a buffer: nothing written is an empty
+	// buffer.
+	writerCase := func(t *testing.T, minChecks int64, draw func(ctx context.Context, w io.Writer) error) {
+		var b bytes.Buffer
+		checkInterruptible(t, minChecks, func(ctx context.Context) error {
 			b.Reset()
-			err := CompareReport(ctx, &b, rows)
+			err := draw(ctx, &b)
 			if err == nil {
 				b.Reset()
 			}
 			return err
-		}, empty)
+		}, func() bool { return b.Len() == 0 })
+	}
+	t.Run("compare", func(t *testing.T) {
+		writerCase(t, 3, func(ctx context.Context, w io.Writer) error { return CompareReport(ctx, w, rows) })
 	})
 	t.Run("calibration", func(t *testing.T) {
 		cal := calibrationResult(t, 0)
-		checkInterruptible(t, 2, func(ctx context.Context) error {
-			b.Reset()
-			err := CalibrationReport(ctx, &b, cal)
-			if err == nil {
-				b.Reset()
-			}
-			return err
-		}, empty)
+		writerCase(t, 2, func(ctx context.Context, w io.Writer) error { return CalibrationReport(ctx, w, cal) })
 	})
 	fileCase := func(t *testing.T, minChecks int64, path string, draw func(ctx context.Context) error) {
 		checkInterruptible(t, minChecks, func(ctx context.Context) error {
