@@ -22,6 +22,9 @@ import (
 	"strings"
 )
 
+// sweepPageFile is the page of a sweep directory (package report draws it).
+const sweepPageFile = "report.html"
+
 // MergeReport is the outcome of MergeSweeps.
 type MergeReport struct {
 	Runs    int   // runs of the sweep
@@ -48,7 +51,8 @@ type MergeReport struct {
 // found in no directory is missing: then nothing is written and the error
 // wraps ErrSweepIncomplete, unless allowMissing, which writes the rows
 // found (out can then be finished by running the sweep into it). out may
-// be one of dirs.
+// be one of dirs. A page (report.html) of an earlier merge into out is
+// removed: it shows another summary.
 //
 // Interruption: ctx is checked before each directory, while each journal
 // is read (between chunks of 256 kB), and once more before the first file
@@ -177,6 +181,11 @@ func MergeSweeps(ctx context.Context, out string, dirs []string, allowMissing bo
 		return rep, err
 	}
 	if err := writeSweepSummary(out, header, rows); err != nil {
+		return rep, err
+	}
+	// The page of an earlier merge into out shows another summary: it goes
+	// (the command draws the new one, unless --no-report or Ctrl-C).
+	if err := os.Remove(filepath.Join(out, sweepPageFile)); err != nil && !errors.Is(err, fs.ErrNotExist) {
 		return rep, err
 	}
 	syncDir(out)

@@ -838,7 +838,8 @@ func TestSweepResumeEarlierJournal(t *testing.T) {
 
 // A Ctrl-C at any point of a merge before it writes (between shards, while
 // a journal is read, before the first file) ends it with the context's
-// error and nothing written.
+// error and nothing written. A merge that is not stopped removes the page
+// of an earlier merge into its directory.
 func TestMergeInterrupted(t *testing.T) {
 	s := tinyGrid(t)
 	root := t.TempDir()
@@ -848,9 +849,21 @@ func TestMergeInterrupted(t *testing.T) {
 		runSweep(t, s, d, SweepOptions{Jobs: 2, Shard: i, Shards: 2})
 		dirs = append(dirs, d)
 	}
-	count := testkit.NewStopAfter(-1)
-	if _, err := MergeSweeps(count, filepath.Join(root, "whole"), dirs, false); err != nil {
+	// An earlier page in the output directory goes with the merge that
+	// replaces its summary.
+	whole := filepath.Join(root, "whole")
+	if err := os.MkdirAll(whole, 0o755); err != nil {
 		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(whole, sweepPageFile), []byte("<p>an earlier merge</p>"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	count := testkit.NewStopAfter(-1)
+	if _, err := MergeSweeps(count, whole, dirs, false); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(filepath.Join(whole, sweepPageFile)); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("the page of an earlier merge is left beside the new summary: %v", err)
 	}
 	// Two shards, each read in at least one chunk, and the check before
 	// writing.

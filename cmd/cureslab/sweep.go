@@ -333,7 +333,8 @@ Per-run output files (--keep-fields) stay in the shard directories.
 OUT/report.html is drawn from the merged summary; with --case FILE (the
 sweep's case file, checked against sweep.json) its tables are ordered by the
 margin over the case's criteria, else by status, then least cure;
---no-report leaves it out.
+--no-report leaves it out (a page of an earlier merge into OUT is removed
+all the same: it shows another summary).
 
 Exit status: 0 every run ok, 1 some run failed a criterion (none worse),
 2 bad input, different sweeps, or runs missing without --allow-missing
