@@ -269,25 +269,86 @@ func legendAt(c draw.Canvas, da draw.Canvas, leg plot.Legend) {
 // the probe cures, and the power fraction, over time, in panels one above
 // the other with a shared time axis.
 func historyFigure(d *runData, ts timeScale) (string, string, error) {
-	t := ts.of(d.Times)
-	x0, x1 := t[0], t[len(t)-1]
-	var withCure bool
+	hp := historyPanels{d: d, t: ts.of(d.Times), xl: "time (" + ts.unit + ")", limits: map[string]float64{}}
+	hp.x0, hp.x1 = hp.t[0], hp.t[len(hp.t)-1]
 	for _, pr := range d.Probes {
 		if pr.Cure != nil {
-			withCure = true
+			hp.withCure = true
 		}
 	}
-	limits := map[string]float64{}
 	for _, v := range d.Summary.Criteria {
-		limits[v.Name] = v.Limit
+		hp.limits[v.Name] = v.Limit
 	}
 	nPanels := 1
-	if withCure {
+	if hp.withCure {
 		nPanels++
 	}
 	if d.Power != nil {
 		nPanels++
 	}
+	h := vg.Length(panelHeight*nPanels + 20)
+	svg, err := svgFigure(figWidth, h, "probe histories", func(dc draw.Canvas) error {
+		hp.leg = newLegend()
+		pT, err := hp.temperature()
+		if err != nil {
+			return err
+		}
+		plots := [][]*plot.Plot{{pT}}
+		if hp.withCure {
+			pA, err := hp.cure()
+			if err != nil {
+				return err
+			}
+			plots = append(plots, []*plot.Plot{pA})
+		}
+		if d.Power != nil {
+			pP, err := hp.power()
+			if err != nil {
+				return err
+			}
+			plots = append(plots, []*plot.Plot{pP})
+		}
+		for i, row := range plots {
+			row[0].X.Min, row[0].X.Max = hp.x0, hp.x1
+			if i < len(plots)-1 {
+				row[0].X.Label.Text = "" // the panels share the time axis of the lowest
+			}
+		}
+		lw := legendWidthFor(hp.labels)
+		left := draw.Crop(dc, 0, -lw, 0, 0)
+		cs := plot.Align(plots, draw.Tiles{Rows: len(plots), Cols: 1, PadY: vg.Points(8)}, left)
+		for i, row := range plots {
+			row[0].Draw(cs[i][0])
+		}
+		da := pT.DataCanvas(cs[0][0])
+		legendAt(draw.Crop(dc, dc.Max.X-dc.Min.X-lw+vg.Points(10), 0, 0, 0), da, hp.leg)
+		return nil
+	})
+	return svg, hp.caption(), err
+}
+
+// historyPanels is what the panels of historyFigure share: the run, the
+// times on the figure's scale, the limits of the criteria, and the legend
+// (of the temperature and power panels) with its labels.
+type historyPanels struct {
+	d        *runData
+	t        []float64 // the output times in the figure's unit
+	x0, x1   float64
+	xl       string // the time axis label
+	withCure bool   // a probe lies in a curing layer
+	limits   map[string]float64
+	leg      plot.Legend
+	labels   []string
+}
+
+func (hp *historyPanels) legAdd(name string, l plot.Thumbnailer) {
+	hp.leg.Add(name, l)
+	hp.labels = append(hp.labels, name)
+}
+
+// caption says what each panel of historyFigure draws.
+func (hp *historyPanels) caption() string {
+	d := hp.d
 	caption := "Temperature at each probe depth"
 	if len(d.Drivers) > 0 {
 		var parts []string
@@ -297,133 +358,117 @@ func historyFigure(d *runData, ts timeScale) (string, string, error) {
 		}
 		caption += ", with " + joinAnd(parts)
 	}
-	if withCure {
+	if hp.withCure {
 		caption += "; degree of cure at the probes in curing layers"
 	}
 	if d.Power != nil {
 		caption += "; the power fraction of the controlled volumetric heating"
 	}
-	caption += ". Horizontal " + dashDotLine.Word + " lines: the limits of the criteria."
-	h := vg.Length(panelHeight*nPanels + 20)
-	svg, err := svgFigure(figWidth, h, "probe histories", func(dc draw.Canvas) error {
-		xl := "time (" + ts.unit + ")"
-		leg := newLegend()
-		var labels []string
-		legAdd := func(name string, l plot.Thumbnailer) {
-			leg.Add(name, l)
-			labels = append(labels, name)
-		}
-		pT := newPlot(xl, "temperature (°C)")
-		addGrid(pT)
-		var lines [][]float64
-		sensor := math.NaN()
-		if z := d.Summary.ControlSensorDepthMM; z != nil {
-			sensor = float64(*z)
-		}
-		// addDrivers draws the driving temperatures that are (program true)
-		// or are not the control program.
-		addDrivers := func(program bool) error {
-			for j, dv := range d.Drivers {
-				if (dv.Column == results.ProgramColumn) != program {
-					continue
-				}
-				st := driverStyleOf(dv.Column, j)
-				l, err := addSeries(pT, series{X: t, Y: dv.Values, Color: st.Color, Width: st.Width, Dash: st.Dash.Dash})
-				if err != nil {
-					return err
-				}
-				lines = append(lines, dv.Values)
-				if l != nil {
-					legAdd(dv.Name, l)
-				}
+	return caption + ". Horizontal " + dashDotLine.Word + " lines: the limits of the criteria."
+}
+
+// temperature is the top panel: the control program under the probes (so
+// that the sensor's trace is seen on it), the probes, the other driving
+// temperatures, and the max_temperature limit.
+func (hp *historyPanels) temperature() (*plot.Plot, error) {
+	d, t := hp.d, hp.t
+	pT := newPlot(hp.xl, "temperature (°C)")
+	addGrid(pT)
+	var lines [][]float64
+	sensor := math.NaN()
+	if z := d.Summary.ControlSensorDepthMM; z != nil {
+		sensor = float64(*z)
+	}
+	// addDrivers draws the driving temperatures that are (program true)
+	// or are not the control program.
+	addDrivers := func(program bool) error {
+		for j, dv := range d.Drivers {
+			if (dv.Column == results.ProgramColumn) != program {
+				continue
 			}
-			return nil
-		}
-		// The control program goes under the probes, so that the sensor's
-		// trace is seen on it.
-		if err := addDrivers(true); err != nil {
-			return err
-		}
-		for j, pr := range d.Probes {
-			c, dash := lineColor(j)
-			l, err := addSeries(pT, series{X: t, Y: pr.T, Color: c, Dash: dash})
+			st := driverStyleOf(dv.Column, j)
+			l, err := addSeries(pT, series{X: t, Y: dv.Values, Color: st.Color, Width: st.Width, Dash: st.Dash.Dash})
 			if err != nil {
 				return err
 			}
-			lines = append(lines, pr.T)
+			lines = append(lines, dv.Values)
 			if l != nil {
-				name := "at " + pr.Label + " mm"
-				if pr.Depth == sensor {
-					name += " (sensor)"
-				}
-				legAdd(name, l)
+				hp.legAdd(dv.Name, l)
 			}
 		}
-		if err := addDrivers(false); err != nil {
-			return err
-		}
-		lo, hi := valueRange(lines...)
-		if lim, ok := limits[results.CriterionMaxTemperature]; ok && !math.IsNaN(lim) {
-			if err := addLimit(pT, x0, x1, lim, "max_temperature "+strconv.FormatFloat(lim, 'g', 4, 64)+" °C"); err != nil {
-				return err
-			}
-			lo, hi = min(lo, lim), max(hi, lim)
-		}
-		if math.IsInf(lo, 1) {
-			lo, hi = 0, 1
-		}
-		pT.Y.Min, pT.Y.Max = niceRange(lo, hi, 0.05, 2)
-		plots := [][]*plot.Plot{{pT}}
-		if withCure {
-			pA := newPlot(xl, "degree of cure (–)")
-			addGrid(pA)
-			for j, pr := range d.Probes {
-				if pr.Cure == nil {
-					continue
-				}
-				c, dash := lineColor(j)
-				if _, err := addSeries(pA, series{X: t, Y: pr.Cure, Color: c, Dash: dash}); err != nil {
-					return err
-				}
-			}
-			if lim, ok := limits[results.CriterionMinCure]; ok && !math.IsNaN(lim) {
-				if err := addLimit(pA, x0, x1, lim, "min_cure "+strconv.FormatFloat(lim, 'g', 4, 64)); err != nil {
-					return err
-				}
-			}
-			pA.Y.Min, pA.Y.Max = 0, 1.04
-			plots = append(plots, []*plot.Plot{pA})
-		}
-		if d.Power != nil {
-			pP := newPlot(xl, "power fraction (–)")
-			addGrid(pP)
-			l, err := addSeries(pP, series{X: t, Y: d.Power, Color: ink, Width: vg.Points(1.1)})
-			if err != nil {
-				return err
-			}
-			if l != nil {
-				legAdd("power fraction", l)
-			}
-			pP.Y.Min, pP.Y.Max = 0, 1.04
-			plots = append(plots, []*plot.Plot{pP})
-		}
-		for i, row := range plots {
-			row[0].X.Min, row[0].X.Max = x0, x1
-			if i < len(plots)-1 {
-				row[0].X.Label.Text = "" // the panels share the time axis of the lowest
-			}
-		}
-		lw := legendWidthFor(labels)
-		left := draw.Crop(dc, 0, -lw, 0, 0)
-		cs := plot.Align(plots, draw.Tiles{Rows: len(plots), Cols: 1, PadY: vg.Points(8)}, left)
-		for i, row := range plots {
-			row[0].Draw(cs[i][0])
-		}
-		da := pT.DataCanvas(cs[0][0])
-		legendAt(draw.Crop(dc, dc.Max.X-dc.Min.X-lw+vg.Points(10), 0, 0, 0), da, leg)
 		return nil
-	})
-	return svg, caption, err
+	}
+	if err := addDrivers(true); err != nil {
+		return nil, err
+	}
+	for j, pr := range d.Probes {
+		c, dash := lineColor(j)
+		l, err := addSeries(pT, series{X: t, Y: pr.T, Color: c, Dash: dash})
+		if err != nil {
+			return nil, err
+		}
+		lines = append(lines, pr.T)
+		if l != nil {
+			name := "at " + pr.Label + " mm"
+			if pr.Depth == sensor {
+				name += " (sensor)"
+			}
+			hp.legAdd(name, l)
+		}
+	}
+	if err := addDrivers(false); err != nil {
+		return nil, err
+	}
+	lo, hi := valueRange(lines...)
+	if lim, ok := hp.limits[results.CriterionMaxTemperature]; ok && !math.IsNaN(lim) {
+		if err := addLimit(pT, hp.x0, hp.x1, lim, "max_temperature "+strconv.FormatFloat(lim, 'g', 4, 64)+" °C"); err != nil {
+			return nil, err
+		}
+		lo, hi = min(lo, lim), max(hi, lim)
+	}
+	if math.IsInf(lo, 1) {
+		lo, hi = 0, 1
+	}
+	pT.Y.Min, pT.Y.Max = niceRange(lo, hi, 0.05, 2)
+	return pT, nil
+}
+
+// cure is the panel of the degree of cure at the probes in curing layers,
+// with the min_cure limit.
+func (hp *historyPanels) cure() (*plot.Plot, error) {
+	pA := newPlot(hp.xl, "degree of cure (–)")
+	addGrid(pA)
+	for j, pr := range hp.d.Probes {
+		if pr.Cure == nil {
+			continue
+		}
+		c, dash := lineColor(j)
+		if _, err := addSeries(pA, series{X: hp.t, Y: pr.Cure, Color: c, Dash: dash}); err != nil {
+			return nil, err
+		}
+	}
+	if lim, ok := hp.limits[results.CriterionMinCure]; ok && !math.IsNaN(lim) {
+		if err := addLimit(pA, hp.x0, hp.x1, lim, "min_cure "+strconv.FormatFloat(lim, 'g', 4, 64)); err != nil {
+			return nil, err
+		}
+	}
+	pA.Y.Min, pA.Y.Max = 0, 1.04
+	return pA, nil
+}
+
+// power is the panel of the controller's power fraction.
+func (hp *historyPanels) power() (*plot.Plot, error) {
+	pP := newPlot(hp.xl, "power fraction (–)")
+	addGrid(pP)
+	l, err := addSeries(pP, series{X: hp.t, Y: hp.d.Power, Color: ink, Width: vg.Points(1.1)})
+	if err != nil {
+		return nil, err
+	}
+	if l != nil {
+		hp.legAdd("power fraction", l)
+	}
+	pP.Y.Min, pP.Y.Max = 0, 1.04
+	return pP, nil
 }
 
 // addLimit draws a criterion limit as a horizontal dash-dot line across the
