@@ -156,7 +156,7 @@ func TestFastmathTables(t *testing.T) {
 	// The generator builds its tables for the same sizes and offset.
 	if expN != fastmathgen.ExpN || logN != fastmathgen.LogN || logOffBits != fastmathgen.LogOffBits {
 		t.Errorf("expN, logN, logOffBits = %d, %d, %#x; the generator uses %d, %d, %#x",
-			expN, logN, logOffBits, fastmathgen.ExpN, fastmathgen.LogN, uint64(fastmathgen.LogOffBits))
+			expN, logN, uint64(logOffBits), fastmathgen.ExpN, fastmathgen.LogN, uint64(fastmathgen.LogOffBits))
 	}
 	// The interval containing 1 must be centred on 1 in bit space.
 	if a, b := logInterval(153); !(a == 1-0x1p-10 && b == 1+0x1p-9) {

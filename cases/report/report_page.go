@@ -144,6 +144,7 @@ header + section h2 { border-top: 0; padding-top: 0; }
   margin: 14px 0 4px; font: 700 .95em/1.45 var(--label); }
 .alert p { margin: 2px 0; }
 p.intro { margin: 0 0 10px; color: var(--soft); max-width: 46em; }
+.wide { overflow-x: auto; max-width: 100%; }
 table { border-collapse: collapse; margin: 6px 0 4px; font: .88em/1.4 var(--label); font-variant-numeric: tabular-nums; }
 th, td { text-align: left; padding: 3px 16px 3px 0; vertical-align: top; }
 thead th { background: var(--paper); border-bottom: 1.5px solid var(--ink); padding: 4px 16px 4px 6px; font-weight: 700; }
@@ -161,7 +162,7 @@ footer { margin-top: 34px; border-top: 3px double var(--ink); padding-top: 8px; 
 footer strong { font: 700 .95em var(--label); text-transform: uppercase; letter-spacing: .06em; color: var(--head); }
 footer ul { margin: 4px 0 8px; padding-left: 1.2em; }
 @media print { body { font-size: 10.5pt; } main { max-width: none; padding: 0; }
-  figure, table { break-inside: avoid; } h2 { break-after: avoid; } }
+  .wide { overflow: visible; } figure, table { break-inside: avoid; } h2 { break-after: avoid; } }
 </style>
 </head>
 <body>
@@ -194,7 +195,7 @@ footer ul { margin: 4px 0 8px; padding-left: 1.2em; }
 // Cells are escaped.
 func tableHTML(head []string, rows [][]string, numeric map[int]bool) template.HTML {
 	var b strings.Builder
-	b.WriteString("<table>\n<thead><tr>")
+	b.WriteString("<div class=\"wide\"><table>\n<thead><tr>") // a table wider than the page scrolls on its own
 	for _, h := range head {
 		b.WriteString("<th>" + template.HTMLEscapeString(h) + "</th>")
 	}
@@ -224,7 +225,7 @@ func tableHTML(head []string, rows [][]string, numeric map[int]bool) template.HT
 		}
 		b.WriteString("</tr>\n")
 	}
-	b.WriteString("</tbody>\n</table>\n")
+	b.WriteString("</tbody>\n</table></div>\n")
 	return template.HTML(b.String())
 }
 

@@ -146,7 +146,12 @@ func runAlerts(d *runData) []string {
 	case results.StatusFailed:
 		out = append(out, "✗ The run failed: "+s.Message)
 	case results.StatusInterrupted:
-		out = append(out, "The run was interrupted: "+s.Message+". The criteria are not judged.")
+		// The message starts "interrupted (Ctrl-C or SIGTERM); ...".
+		msg := "interrupted: " + s.Message
+		if strings.HasPrefix(s.Message, "interrupted") {
+			msg = s.Message
+		}
+		out = append(out, "The run was "+msg+". The criteria are not judged.")
 	}
 	for _, v := range s.Criteria {
 		if !v.Pass && !v.Unjudged {

@@ -14,6 +14,7 @@ import (
 	"math"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -260,6 +261,25 @@ func sweepColumns(sd *sweepData) []string {
 	return cols
 }
 
+// flowNote says what the flow window is when cols draws it: the shortest
+// time, over the resin's cells, spent below the flow threshold before gel,
+// with the threshold the case sets (crit; nil when the page does not know
+// the case).
+func flowNote(cols []string, crit *cases.Criteria) string {
+	if !slices.Contains(cols, colFlow) {
+		return ""
+	}
+	th := "criteria.flow_viscosity, 100 Pa·s unless the case sets it"
+	if crit != nil {
+		v := crit.FlowViscosity
+		if v == 0 {
+			v = 100
+		}
+		th = strconv.FormatFloat(v, 'g', 4, 64) + " Pa·s, criteria.flow_viscosity"
+	}
+	return " Flow window: the shortest time any resin cell spends below the flow threshold (" + th + ") before it gels."
+}
+
 // sweepColumnsText names the drawn columns for a caption: "least final cure
 // and peak temperature", or with the flow window, "least final cure, peak
 // temperature and flow window".
@@ -327,7 +347,7 @@ func renderSweepReport(ctx context.Context, w io.Writer, sd *sweepData, title st
 			}
 			pg.Sections = append(pg.Sections, section{ID: "map-" + c, Heading: "Process window: " + sweepLabels[c],
 				Body: figureHTML(svg, "One cell per run, coloured by "+c+" ("+results.SweepSummaryFile+"). Outlined and crossed cells: "+
-					"runs that did not pass (a criterion failed, or the run failed or ran away). White, hatched: no value.")})
+					"runs that did not pass (a criterion failed, or the run failed or ran away). White, hatched: no value."+flowNote([]string{c}, crit))})
 		}
 	case len(sd.Keys) == 1:
 		if err := ctx.Err(); err != nil {
@@ -340,7 +360,7 @@ func renderSweepReport(ctx context.Context, w io.Writer, sd *sweepData, title st
 		}
 		pg.Sections = append(pg.Sections, section{ID: "lines", Heading: "Against " + sd.Keys[0],
 			Body: figureHTML(svg, capital(sweepColumnsText(cols))+" of each run. Crosses: runs that did not pass "+
-				"(a criterion failed, or the run failed or ran away).")})
+				"(a criterion failed, or the run failed or ran away)."+flowNote(cols, crit))})
 	default:
 		pg.Sections = append(pg.Sections, section{ID: "runs", Heading: "Every run, the worst first",
 			Intro: sweepOrderText(crit), Body: sweepTable(sd, order, crit)})

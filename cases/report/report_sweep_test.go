@@ -175,6 +175,9 @@ func TestSweepReportFlowWindow(t *testing.T) {
 	if !strings.Contains(page, "Least final cure, peak temperature and flow window of each run.") {
 		t.Error("the caption does not name the flow window")
 	}
+	if !strings.Contains(page, "Flow window: the shortest time any resin cell spends below the flow threshold (100 Pa·s, criteria.flow_viscosity) before it gels.") {
+		t.Error("the caption does not say what the flow window is")
+	}
 	if !strings.Contains(page, "<th>flow window (s)</th>") {
 		t.Error("the table of runs that did not pass has no flow-window column")
 	}

@@ -174,7 +174,7 @@ func ComparisonRows(rows []Compared) [][]string {
 		case r.Summary.TimeToMinCureS.Known():
 			return num.TextTime(float64(r.Summary.TimeToMinCureS))
 		case minCureSet(r.Summary) && r.Summary.MinFinalCure.Known():
-			return "never"
+			return "not reached"
 		}
 		return "n/a"
 	})

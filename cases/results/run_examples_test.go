@@ -134,7 +134,7 @@ func ExamplePrintSummary() {
 	//   layer spread           adherend 0.3 K, bond 0.8 K (hottest minus coldest inside each layer, largest over the run)
 	//   least final cure       0.860 at 0.45 mm
 	//   mean final cure        0.910
-	//   time to min_cure       never
+	//   time to min_cure       not reached by the end of the run, t = 2.50 h
 	//   first gel time         40.0 min
 	//   last gel time          41.0 min
 	//   lowest final Tg        95.0 °C

@@ -377,15 +377,20 @@ func SummaryRows(s Summary) []SummaryRow {
 	if s.MinFinalCure.Known() {
 		add("min_final_cure", num.TextCure(float64(s.MinFinalCure))+" at "+num.TextMM(float64(s.MinFinalCureDepthMM)))
 		add("mean_final_cure", num.TextCure(float64(s.MeanFinalCure)))
+		// What was not reached is said against the time the run reached.
+		by := "by the end of the run, t = " + num.TextTime(float64(s.EndTimeS))
+		if s.Status == StatusInterrupted {
+			by = "by t = " + num.TextTime(float64(s.EndTimeS)) + ", when the run was interrupted"
+		}
 		if s.TimeToMinCureS.Known() {
 			add("time_to_min_cure_s", num.TextTime(float64(s.TimeToMinCureS)))
 		} else if minCureSet(s) {
-			add("time_to_min_cure_s", "never")
+			add("time_to_min_cure_s", "not reached "+by)
 		}
-		first, last := "never", "never"
+		first, last := "no cell gels "+by, "no cell gels "+by
 		if s.GelTimeFirstS.Known() {
 			first = num.TextTime(float64(s.GelTimeFirstS))
-			last = "some cells never gel"
+			last = "some cells do not gel " + by
 		}
 		if s.GelTimeLastS.Known() {
 			last = num.TextTime(float64(s.GelTimeLastS))
