@@ -49,7 +49,7 @@ func LoadContext(ctx context.Context, path string) (*Case, error) {
 // schedule, a required section that is missing. All problems are collected
 // and returned together as an ErrorList of *Error, each with the file, line,
 // column and key path; no partial Case is returned. [sweep] is validated
-// (NewSweep reads it) but does not change the case; so is [uncertainty]
+// (sweep.New reads it) but does not change the case; so is [uncertainty]
 // (uncertaintySection; uncertain.Propagate and tune.Tune read it).
 // [volumetric] becomes Problem.Volumetric (see validate_volumetric.go) and
 // [materials.X.dielectric] physics.Dielectric.

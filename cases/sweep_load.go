@@ -52,7 +52,7 @@ type SweepSpec struct {
 
 // sweepSection reads and checks [sweep] (README, Case file reference): mode, samples, seed and
 // every [[sweep.vary]]: its key path must lead to an existing table of the
-// case (whether the last key itself is valid is checked by NewSweep, which
+// case (whether the last key itself is valid is checked by sweep.New, which
 // tries it), its values must be single values, a range needs both ends of
 // the same dimension and, in grid mode, a count ≥ 2. It returns nil when the
 // case has no [sweep] or it is not a table.

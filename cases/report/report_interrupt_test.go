@@ -132,9 +132,9 @@ func TestOtherPagesInterrupted(t *testing.T) {
 	}
 	t.Run("sweep", func(t *testing.T) {
 		dir := t.TempDir()
-		runSweep(t, newTinySweep(t, "", sweep.SweepSettings{Vary: mustVary(t,
+		runSweep(t, newTinySweep(t, "", sweep.Settings{Vary: mustVary(t,
 			"layer.resin.thickness=2mm,3mm",
-			"schedules.oven.segments.1.hold=1min,3min")}), dir, sweep.SweepOptions{Jobs: 1})
+			"schedules.oven.segments.1.hold=1min,3min")}), dir, sweep.Options{Jobs: 1})
 		os.Remove(filepath.Join(dir, SweepReportFile))
 		fileCase(t, 2, filepath.Join(dir, SweepReportFile), func(ctx context.Context) error { return WriteSweepReport(ctx, dir, "", nil) })
 	})

@@ -18,12 +18,12 @@ import (
 
 // sweepPage runs a tiny sweep into a temporary directory, writes its report
 // and returns the directory and the page.
-func sweepPage(t *testing.T, set sweep.SweepSettings, crit *cases.Criteria) (string, string) {
+func sweepPage(t *testing.T, set sweep.Settings, crit *cases.Criteria) (string, string) {
 	t.Helper()
 	fixedClock(t)
 	s := newTinySweep(t, "", set)
 	dir := t.TempDir()
-	runSweep(t, s, dir, sweep.SweepOptions{Jobs: 2})
+	runSweep(t, s, dir, sweep.Options{Jobs: 2})
 	var c *cases.Case
 	if crit != nil {
 		var err error
@@ -65,7 +65,7 @@ func checkSelfContained(t *testing.T, page string) {
 // with the units of the values as written, the runs that fail a criterion
 // of the case (min_cure 0.5, max_temperature 200 °C) crossed on the map.
 func TestSweepReportGrid(t *testing.T) {
-	set := sweep.SweepSettings{Vary: mustVary(t,
+	set := sweep.Settings{Vary: mustVary(t,
 		"layer.resin.thickness=2mm,3mm,4mm",
 		"schedules.oven.segments.1.hold=1min,3min,10min")}
 	dir, page := sweepPage(t, set, nil)
@@ -126,7 +126,7 @@ func TestSweepReportGrid(t *testing.T) {
 
 // One key: two line panels against it, its unit on the x axis.
 func TestSweepReportOneKey(t *testing.T) {
-	_, page := sweepPage(t, sweep.SweepSettings{Vary: mustVary(t, "layer.resin.thickness=2mm,3mm,4mm,8mm")}, nil)
+	_, page := sweepPage(t, sweep.Settings{Vary: mustVary(t, "layer.resin.thickness=2mm,3mm,4mm,8mm")}, nil)
 	checkSelfContained(t, page)
 	figs := svgs(page)
 	if len(figs) != 1 {
@@ -145,9 +145,9 @@ func TestSweepReportOneKey(t *testing.T) {
 // runs that did not pass.
 func TestSweepReportFlowWindow(t *testing.T) {
 	fixedClock(t)
-	s := newTinySweep(t, testkit.TinyViscosity, sweep.SweepSettings{Vary: mustVary(t, "layer.resin.thickness=2mm,3mm,4mm")})
+	s := newTinySweep(t, testkit.TinyViscosity, sweep.Settings{Vary: mustVary(t, "layer.resin.thickness=2mm,3mm,4mm")})
 	dir := t.TempDir()
-	runSweep(t, s, dir, sweep.SweepOptions{Jobs: 2})
+	runSweep(t, s, dir, sweep.Options{Jobs: 2})
 	c, err := s.Case(0)
 	if err != nil {
 		t.Fatal(err)
@@ -182,7 +182,7 @@ func TestSweepReportFlowWindow(t *testing.T) {
 		t.Error("the table of runs that did not pass has no flow-window column")
 	}
 	// Without a viscosity law: two panels, as before.
-	_, plain := sweepPage(t, sweep.SweepSettings{Vary: mustVary(t, "layer.resin.thickness=2mm,3mm")}, nil)
+	_, plain := sweepPage(t, sweep.Settings{Vary: mustVary(t, "layer.resin.thickness=2mm,3mm")}, nil)
 	if hasText(svgTexts(t, svgs(plain)[0]), "flow window (s)") {
 		t.Error("a sweep without a viscosity law draws a flow window")
 	}
@@ -191,7 +191,7 @@ func TestSweepReportFlowWindow(t *testing.T) {
 // Three keys: no figure, a table of every run, the smallest margin first.
 func TestSweepReportTable(t *testing.T) {
 	crit := &cases.Criteria{MinCure: 0.5, MaxTemperature: 200 + 273.15, MaxSpread: math.NaN()}
-	_, page := sweepPage(t, sweep.SweepSettings{Vary: mustVary(t,
+	_, page := sweepPage(t, sweep.Settings{Vary: mustVary(t,
 		"layer.resin.thickness=2mm,4mm",
 		"top.h=10W/m^2/K,30W/m^2/K",
 		"schedules.oven.segments.1.hold=2min,10min")}, crit)
@@ -262,8 +262,8 @@ func TestSweepReportErrors(t *testing.T) {
 	if err := WriteSweepReport(context.Background(), dir, "", nil); err == nil || !strings.Contains(err.Error(), results.SweepDefinitionFile) {
 		t.Errorf("empty directory: err %v, want one naming %s", err, results.SweepDefinitionFile)
 	}
-	s := newTinySweep(t, "", sweep.SweepSettings{Vary: mustVary(t, "layer.resin.thickness=1mm,2mm")})
-	runSweep(t, s, dir, sweep.SweepOptions{Jobs: 1})
+	s := newTinySweep(t, "", sweep.Settings{Vary: mustVary(t, "layer.resin.thickness=1mm,2mm")})
+	runSweep(t, s, dir, sweep.Options{Jobs: 1})
 	if err := os.WriteFile(filepath.Join(dir, results.SweepSummaryFile), []byte("run,status\n0,ok\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
@@ -304,16 +304,16 @@ func mustVary(t testing.TB, specs ...string) []cases.Vary {
 	return out
 }
 
-func newTinySweep(t testing.TB, extra string, set sweep.SweepSettings) *sweep.Sweep {
+func newTinySweep(t testing.TB, extra string, set sweep.Settings) *sweep.Sweep {
 	t.Helper()
-	s, err := sweep.NewSweep("tiny.toml", tinyCase(t, extra), sweepDir, set)
+	s, err := sweep.New("tiny.toml", tinyCase(t, extra), sweepDir, set)
 	if err != nil {
 		t.Fatalf("NewSweep: %v", err)
 	}
 	return s
 }
 
-func runSweep(t testing.TB, s *sweep.Sweep, dir string, opt sweep.SweepOptions) sweep.SweepReport {
+func runSweep(t testing.TB, s *sweep.Sweep, dir string, opt sweep.Options) sweep.Report {
 	t.Helper()
 	rep, err := s.Run(context.Background(), dir, opt)
 	if err != nil {

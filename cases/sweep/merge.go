@@ -25,7 +25,7 @@ import (
 // sweepPageFile is the page of a sweep directory (package report draws it).
 const sweepPageFile = "report.html"
 
-// MergeReport is the outcome of MergeSweeps.
+// MergeReport is the outcome of Merge.
 type MergeReport struct {
 	Runs    int   // runs of the sweep
 	Rows    int   // runs found in the directories
@@ -39,29 +39,29 @@ type MergeReport struct {
 	Conflicts int
 }
 
-// MergeSweeps joins the directories of the shards of one sweep into out:
+// Merge joins the directories of the shards of one sweep into out:
 // out gets the sweep.json they share, a journal.csv holding every row, and
 // the summary.csv that the whole sweep run in one directory writes, byte
 // for byte (README, Case file reference); a line goes to out/sweep.log.
 //
 // Every directory must hold the same sweep.json (else an error wrapping
-// ErrSweepMismatch, naming the directory and what differs), and so must out
+// ErrMismatch, naming the directory and what differs), and so must out
 // if it already is a sweep directory. Rows are read from each journal as
 // Sweep.Run does (a torn tail is ignored; the inputs are not changed). A run
 // found in no directory is missing: then nothing is written and the error
-// wraps ErrSweepIncomplete, unless allowMissing, which writes the rows
+// wraps ErrIncomplete, unless allowMissing, which writes the rows
 // found (out can then be finished by running the sweep into it). out may
 // be one of dirs. A page (report.html) of an earlier merge into out is
 // removed: it shows another summary.
 //
 // Interruption: ctx is checked before each directory, while each journal
 // is read (between chunks of 256 kB), and once more before the first file
-// is written: once it is done MergeSweeps returns ctx.Err() and has written
+// is written: once it is done Merge returns ctx.Err() and has written
 // nothing. The writing itself, a few milliseconds per megabyte, is not
 // cut, so out never holds a merge half-written.
 //
 // Cost: memory and time linear in the rows.
-func MergeSweeps(ctx context.Context, out string, dirs []string, allowMissing bool) (MergeReport, error) {
+func Merge(ctx context.Context, out string, dirs []string, allowMissing bool) (MergeReport, error) {
 	var rep MergeReport
 	if len(dirs) == 0 {
 		return rep, &sweepError{msg: "no directories to merge"}
@@ -88,7 +88,7 @@ func MergeSweeps(ctx context.Context, out string, dirs []string, allowMissing bo
 		if i == 0 {
 			def = b
 			if err := json.Unmarshal(b, &d); err != nil || d.Format != results.SweepFormat || d.Runs < 1 {
-				return rep, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf("%s: %s is not a sweep definition of this version", dir, results.SweepDefinitionFile)}
+				return rep, &sweepError{kind: ErrMismatch, msg: fmt.Sprintf("%s: %s is not a sweep definition of this version", dir, results.SweepDefinitionFile)}
 			}
 			keys := make([]string, len(d.Vary))
 			for k, v := range d.Vary {
@@ -97,7 +97,7 @@ func MergeSweeps(ctx context.Context, out string, dirs []string, allowMissing bo
 			header = results.SweepHeader(keys)
 			rep.Runs = d.Runs
 		} else if !bytes.Equal(b, def) {
-			return rep, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+			return rep, &sweepError{kind: ErrMismatch, msg: fmt.Sprintf(
 				"%s and %s hold different sweeps: %s", dirs[0], dir, results.DefDiff(def, b))}
 		}
 		jc, err := readJournal(ctx, filepath.Join(dir, results.SweepJournalFile), header, d.Runs)
@@ -129,7 +129,7 @@ func MergeSweeps(ctx context.Context, out string, dirs []string, allowMissing bo
 		}
 	}
 	if len(lost) > 0 && !allowMissing {
-		return rep, &sweepError{kind: ErrSweepIncomplete, msg: fmt.Sprintf(
+		return rep, &sweepError{kind: ErrIncomplete, msg: fmt.Sprintf(
 			"the journal of a shard is damaged: %s; run that shard again with the same sweep command into the same directory (it does the damaged runs again), then merge; nothing was written",
 			strings.Join(lost, "; "))}
 	}
@@ -143,7 +143,7 @@ func MergeSweeps(ctx context.Context, out string, dirs []string, allowMissing bo
 		rep.add(rec[statusCol])
 	}
 	if len(rep.Missing) > 0 && !allowMissing {
-		return rep, &sweepError{kind: ErrSweepIncomplete, msg: fmt.Sprintf(
+		return rep, &sweepError{kind: ErrIncomplete, msg: fmt.Sprintf(
 			"%d of %d runs are missing (%s); nothing was written", len(rep.Missing), rep.Runs, FormatRuns(rep.Missing, 10))}
 	}
 
@@ -151,7 +151,7 @@ func MergeSweeps(ctx context.Context, out string, dirs []string, allowMissing bo
 		return rep, &sweepError{msg: fmt.Sprintf("%s exists and is not a directory", out)}
 	}
 	if old, err := limits.ReadFile(ctx, filepath.Join(out, results.SweepDefinitionFile), limits.MaxFileSize); err == nil && !bytes.Equal(old, def) {
-		return rep, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+		return rep, &sweepError{kind: ErrMismatch, msg: fmt.Sprintf(
 			"%s holds another sweep: %s; give another output directory (-o)", out, results.DefDiff(old, def))}
 	}
 	if err := ctx.Err(); err != nil {
@@ -219,13 +219,13 @@ func FormatRuns(runs []int, limit int) string {
 	return strings.Join(parts, ", ")
 }
 
-// SweepCase returns the case file at casePath for the report of the sweep
+// CaseOf returns the case file at casePath for the report of the sweep
 // directory dir (WriteSweepReport: its criteria and cautions), after checking
 // that it is the sweep's case: its SHA-256 must be the case_sha256 of
-// dir/sweep.json (else an error wrapping ErrSweepMismatch). Errors of the
+// dir/sweep.json (else an error wrapping ErrMismatch). Errors of the
 // case file itself are returned as Parse gives them. Cost: one read and
 // one validation of the case.
-func SweepCase(dir, casePath string) (*cases.Case, error) {
+func CaseOf(dir, casePath string) (*cases.Case, error) {
 	b, err := limits.ReadFile(context.Background(), filepath.Join(dir, results.SweepDefinitionFile), limits.MaxFileSize)
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil, &sweepError{msg: fmt.Sprintf("%s is not a sweep directory: it has no %s", dir, results.SweepDefinitionFile)}
@@ -235,14 +235,14 @@ func SweepCase(dir, casePath string) (*cases.Case, error) {
 	}
 	var d results.SweepDef
 	if err := json.Unmarshal(b, &d); err != nil || d.Format != results.SweepFormat {
-		return nil, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf("%s: %s is not a sweep definition of this version", dir, results.SweepDefinitionFile)}
+		return nil, &sweepError{kind: ErrMismatch, msg: fmt.Sprintf("%s: %s is not a sweep definition of this version", dir, results.SweepDefinitionFile)}
 	}
 	data, err := limits.ReadFile(context.Background(), casePath, limits.MaxFileSize)
 	if err != nil {
 		return nil, err
 	}
 	if sum := sha256.Sum256(data); hex.EncodeToString(sum[:]) != d.CaseSHA256 {
-		return nil, &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+		return nil, &sweepError{kind: ErrMismatch, msg: fmt.Sprintf(
 			"%s is not the case of the sweep in %s: its SHA-256 differs from the case_sha256 in %s (edited since?)",
 			casePath, dir, results.SweepDefinitionFile)}
 	}

@@ -21,36 +21,36 @@ import (
 
 // Errors of sweeps, for errors.Is.
 var (
-	// ErrSweep is wrapped by the error of a sweep that cannot be run as
+	// ErrInvalid is wrapped by the error of a sweep that cannot be run as
 	// asked: nothing to vary, an unknown key path, a bad --vary, a bad
 	// shard.
-	ErrSweep = errors.New("invalid sweep")
-	// ErrSweepMismatch is wrapped when a directory holds another sweep than
+	ErrInvalid = errors.New("invalid sweep")
+	// ErrMismatch is wrapped when a directory holds another sweep than
 	// the one being run or merged.
-	ErrSweepMismatch = errors.New("different sweep")
-	// ErrSweepIncomplete is wrapped by MergeSweeps when runs are missing.
-	ErrSweepIncomplete = errors.New("incomplete sweep")
+	ErrMismatch = errors.New("different sweep")
+	// ErrIncomplete is wrapped by Merge when runs are missing.
+	ErrIncomplete = errors.New("incomplete sweep")
 )
 
 // sweepError is an error of a sweep definition, an option or a directory;
 // its message is complete (no prefix is added).
 type sweepError struct {
 	msg  string
-	kind error // nil means ErrSweep
+	kind error // nil means ErrInvalid
 }
 
 func (e *sweepError) Error() string { return e.msg }
 
 func (e *sweepError) Unwrap() error {
 	if e.kind == nil {
-		return ErrSweep
+		return ErrInvalid
 	}
 	return e.kind
 }
 
-// SweepSettings are the parts of a sweep given on the command line. The
+// Settings are the parts of a sweep given on the command line. The
 // zero value takes everything from the [sweep] section of the case.
-type SweepSettings struct {
+type Settings struct {
 	// Vary, when not empty, replaces the whole [[sweep.vary]] list of the
 	// case (it is not merged with it key by key).
 	Vary []cases.Vary
@@ -70,7 +70,7 @@ type SweepSettings struct {
 // stable 0-based index; run i is the case with the values Values(i) put in
 // place of the varied keys, and is validated exactly like a case file.
 //
-// A Sweep is immutable after NewSweep: Run and Case may be called from
+// A Sweep is immutable after New: Run and Case may be called from
 // several goroutines.
 type Sweep struct {
 	Name    string   // file name of the case (without directory), used in messages
@@ -97,17 +97,17 @@ type axis struct {
 	rng    *cases.Span // latin-hypercube: a continuous range instead of a list
 }
 
-// LoadSweep reads the case file at path and resolves its sweep (see
-// NewSweep); relative paths in the case are taken from its directory.
-func LoadSweep(path string, set SweepSettings) (*Sweep, error) {
+// Load reads the case file at path and resolves its sweep (see
+// New); relative paths in the case are taken from its directory.
+func Load(path string, set Settings) (*Sweep, error) {
 	data, err := limits.ReadFile(context.Background(), path, limits.MaxFileSize)
 	if err != nil {
 		return nil, cases.ErrorList{{File: path, Err: cases.Reason(cases.ErrFile, err, fmt.Sprintf("cannot read the case file: %v", err))}}
 	}
-	return NewSweep(filepath.Base(path), data, filepath.Dir(path), set)
+	return New(filepath.Base(path), data, filepath.Dir(path), set)
 }
 
-// NewSweep resolves the sweep of the case file data (named name in
+// New resolves the sweep of the case file data (named name in
 // messages, with relative paths taken from dir): the [sweep] section of the
 // case, with set applied on top (the command line wins).
 //
@@ -126,13 +126,13 @@ func LoadSweep(path string, set SweepSettings) (*Sweep, error) {
 // errors come back as an ErrorList); every key path must lead into the
 // case (tables, layers by name, array elements by 0-based index, and a
 // last key that the case file accepts); ranges need ends of one dimension.
-// Such errors wrap ErrSweep (or are an ErrorList, positioned, for the
+// Such errors wrap ErrInvalid (or are an ErrorList, positioned, for the
 // [sweep] section of the file). A value that is invalid for its key (a
 // negative thickness) is not an error here: that run fails and says why.
 //
 // Cost: one parse of the case, plus one to try key paths absent from the
 // case; memory O(Runs·k) for latin-hypercube, O(Σ values) for a grid.
-func NewSweep(name string, data []byte, dir string, set SweepSettings) (*Sweep, error) {
+func New(name string, data []byte, dir string, set Settings) (*Sweep, error) {
 	v, _, err := cases.NewCaseVariant(name, data, dir)
 	if err != nil {
 		return nil, err
@@ -202,7 +202,7 @@ func NewSweep(name string, data []byte, dir string, set SweepSettings) (*Sweep, 
 
 // setMode sets the mode, samples and seed of s from the [sweep] section
 // spec and the command line set (which wins).
-func (s *Sweep) setMode(spec *cases.SweepSpec, set SweepSettings) error {
+func (s *Sweep) setMode(spec *cases.SweepSpec, set Settings) error {
 	fail := func(format string, a ...any) error {
 		return &sweepError{msg: fmt.Sprintf(format, a...)}
 	}

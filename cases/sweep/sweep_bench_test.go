@@ -25,7 +25,7 @@ func BenchmarkSweepDemoPotting(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	s, err := NewSweep("thick-potting-oven.toml", ex.Text, "", SweepSettings{Vary: []cases.Vary{v}})
+	s, err := New("thick-potting-oven.toml", ex.Text, "", Settings{Vary: []cases.Vary{v}})
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -50,7 +50,7 @@ func BenchmarkSweepBench1000(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	s, err := NewSweep("potting.toml", data, filepath.Dir(path), SweepSettings{Vary: []cases.Vary{v}})
+	s, err := New("potting.toml", data, filepath.Dir(path), Settings{Vary: []cases.Vary{v}})
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -69,7 +69,7 @@ func benchSweep(b *testing.B, s *Sweep, runs int) {
 				if err != nil {
 					b.Fatal(err)
 				}
-				rep, err := s.Run(context.Background(), dir, SweepOptions{Jobs: jobs})
+				rep, err := s.Run(context.Background(), dir, Options{Jobs: jobs})
 				if err != nil || rep.Done != runs {
 					b.Fatalf("sweep: %v, %+v", err, rep)
 				}

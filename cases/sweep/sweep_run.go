@@ -25,9 +25,9 @@ import (
 	"time"
 )
 
-// SweepOptions say how to run a sweep. The zero value runs every run on
+// Options say how to run a sweep. The zero value runs every run on
 // all cores, without per-run outputs and without progress.
-type SweepOptions struct {
+type Options struct {
 	// Jobs is the number of runs at a time; 0 means runtime.NumCPU().
 	Jobs int
 	// Shard and Shards select the runs whose index is ≡ Shard mod Shards
@@ -78,8 +78,8 @@ func (c *StatusCounts) add(status string) {
 	}
 }
 
-// SweepReport is the outcome of Sweep.Run over the runs of its shard.
-type SweepReport struct {
+// Report is the outcome of Sweep.Run over the runs of its shard.
+type Report struct {
 	Runs    int // runs of the shard
 	Done    int // of them, committed in the directory (including Resumed)
 	Resumed int // of Done, committed by an earlier run of the same sweep
@@ -109,7 +109,7 @@ type SweepReport struct {
 // the runs that dir already holds, and writes dir/summary.csv.
 //
 // Layout of dir: sweep.json (the definition; an existing one must match,
-// else an error wrapping ErrSweepMismatch and nothing is touched),
+// else an error wrapping ErrMismatch and nothing is touched),
 // journal.csv (the committed rows), summary.csv (every committed row in run
 // order, rewritten at the end), sweep.log (start, each run with its wall
 // time, end, host), and with KeepFields runs/NNNNN/ (the files of `run`).
@@ -132,8 +132,8 @@ type SweepReport struct {
 // a crash costs at most the runs of that window, run again on resume. The
 // error is for problems with dir (cannot write, another sweep) and bad
 // options; a failed run is not an error.
-func (s *Sweep) Run(ctx context.Context, dir string, opt SweepOptions) (SweepReport, error) {
-	var rep SweepReport
+func (s *Sweep) Run(ctx context.Context, dir string, opt Options) (Report, error) {
+	var rep Report
 	shards := opt.Shards
 	if shards == 0 {
 		shards = 1
@@ -278,7 +278,7 @@ func (s *Sweep) startWorkers(ctx context.Context, todo []int, jobs int, dir stri
 // that could not write its outputs, or the journal) stops the sweep.
 type collector struct {
 	j           *journal
-	rep         *SweepReport
+	rep         *Report
 	prog        *sweepProgress
 	log         *sweepLog
 	cancel      context.CancelFunc
@@ -447,7 +447,7 @@ func claimSweepDir(dir string, def []byte) error {
 	switch {
 	case err == nil:
 		if !bytes.Equal(old, def) {
-			return &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+			return &sweepError{kind: ErrMismatch, msg: fmt.Sprintf(
 				"%s holds another sweep: %s; give another output directory (-o), or remove %s to start over",
 				dir, results.DefDiff(old, def), dir)}
 		}
@@ -456,7 +456,7 @@ func claimSweepDir(dir string, def []byte) error {
 		return err
 	}
 	if _, err := os.Stat(filepath.Join(dir, results.SweepJournalFile)); err == nil {
-		return &sweepError{kind: ErrSweepMismatch, msg: fmt.Sprintf(
+		return &sweepError{kind: ErrMismatch, msg: fmt.Sprintf(
 			"%s has a %s but no %s: it is not a sweep directory this version can resume", dir, results.SweepJournalFile, results.SweepDefinitionFile)}
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
@@ -512,7 +512,7 @@ type journal struct {
 // (journal.Read): a damaged record costs that record only, and the later
 // records that check are kept; the damage is listed in the contents. A
 // first line that is not the header of this sweep is an error wrapping
-// ErrSweepMismatch that says how to recover. The file is read in chunks
+// ErrMismatch that says how to recover. The file is read in chunks
 // with ctx checked between them (limits.ReadFile): once ctx is done the
 // error is ctx.Err().
 func readJournal(ctx context.Context, path string, header []string, runs int) (*jrn.Contents, error) {
@@ -528,7 +528,7 @@ func readJournal(ctx context.Context, path string, header []string, runs int) (*
 	}
 	c, err := jrn.Read(path, data, header, runs)
 	if err != nil {
-		return nil, &sweepError{kind: ErrSweepMismatch, msg: err.Error()}
+		return nil, &sweepError{kind: ErrMismatch, msg: err.Error()}
 	}
 	return c, nil
 }

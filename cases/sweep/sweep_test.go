@@ -46,11 +46,11 @@ func mustVary(t testing.TB, specs ...string) []cases.Vary {
 	return out
 }
 
-func newTinySweep(t testing.TB, extra string, set SweepSettings) *Sweep {
+func newTinySweep(t testing.TB, extra string, set Settings) *Sweep {
 	t.Helper()
-	s, err := NewSweep("tiny.toml", tinyCase(t, extra), sweepDir, set)
+	s, err := New("tiny.toml", tinyCase(t, extra), sweepDir, set)
 	if err != nil {
-		t.Fatalf("NewSweep: %v", err)
+		t.Fatalf("sweep.New: %v", err)
 	}
 	return s
 }
@@ -108,8 +108,8 @@ func TestParseVary(t *testing.T) {
 	} {
 		t.Run("bad "+tc.spec, func(t *testing.T) {
 			_, err := ParseVary(tc.spec)
-			if err == nil || !strings.Contains(err.Error(), tc.inErr) || !errors.Is(err, ErrSweep) {
-				t.Errorf("ParseVary(%q) = %v, want an ErrSweep containing %q", tc.spec, err, tc.inErr)
+			if err == nil || !strings.Contains(err.Error(), tc.inErr) || !errors.Is(err, ErrInvalid) {
+				t.Errorf("ParseVary(%q) = %v, want an ErrInvalid containing %q", tc.spec, err, tc.inErr)
 			}
 		})
 	}
@@ -119,7 +119,7 @@ func TestParseVary(t *testing.T) {
 // the last key fastest; range values linear in SI, written in the unit of
 // FROM with the shortest decimal.
 func TestSweepGridValues(t *testing.T) {
-	s := newTinySweep(t, "", SweepSettings{Vary: mustVary(t,
+	s := newTinySweep(t, "", Settings{Vary: mustVary(t,
 		"layer.resin.thickness=1mm,2mm",
 		// 300 K/h = 5 K/min (analytic): 1, 3, 5 C/min.
 		"schedules.oven.segments.0.ramp=1C/min:300K/h:3",
@@ -166,13 +166,13 @@ func TestSweepGridValues(t *testing.T) {
 	} {
 		if strings.HasSuffix(tc.spec, "1:2:3") {
 			// Integer ends round to integers: 1, 2 (1.5 -> 2) repeats a value.
-			_, err := NewSweep("tiny.toml", tinyCase(t, ""), sweepDir, SweepSettings{Vary: mustVary(t, tc.spec)})
+			_, err := New("tiny.toml", tinyCase(t, ""), sweepDir, Settings{Vary: mustVary(t, tc.spec)})
 			if err == nil || !strings.Contains(err.Error(), "twice") {
 				t.Errorf("%s: got %v, want an error about a repeated value", tc.spec, err)
 			}
 			continue
 		}
-		s := newTinySweep(t, "", SweepSettings{Vary: mustVary(t, tc.spec)})
+		s := newTinySweep(t, "", Settings{Vary: mustVary(t, tc.spec)})
 		var got []string
 		for r := range s.Runs {
 			got = append(got, s.Values(r)[0])
@@ -205,19 +205,19 @@ func TestSweepKeyErrors(t *testing.T) {
 		{"layer.resin.thickness=1mm:5mm", "a range in a grid needs a count"},
 	} {
 		t.Run(tc.spec, func(t *testing.T) {
-			_, err := NewSweep("tiny.toml", tinyCase(t, ""), sweepDir, SweepSettings{Vary: mustVary(t, tc.spec)})
-			if err == nil || !errors.Is(err, ErrSweep) || !strings.Contains(err.Error(), tc.inErr) {
-				t.Errorf("got %v, want an ErrSweep containing %q", err, tc.inErr)
+			_, err := New("tiny.toml", tinyCase(t, ""), sweepDir, Settings{Vary: mustVary(t, tc.spec)})
+			if err == nil || !errors.Is(err, ErrInvalid) || !strings.Contains(err.Error(), tc.inErr) {
+				t.Errorf("got %v, want an ErrInvalid containing %q", err, tc.inErr)
 			}
 		})
 	}
 	// A key the case does not have, in a table it has, and that a case
 	// file accepts, is fine.
-	s := newTinySweep(t, "", SweepSettings{Vary: mustVary(t, "time.max_step=30s,60s", "title=a,b")})
+	s := newTinySweep(t, "", Settings{Vary: mustVary(t, "time.max_step=30s,60s", "title=a,b")})
 	if s.Runs != 4 {
 		t.Errorf("runs %d, want 4", s.Runs)
 	}
-	if _, err := NewSweep("tiny.toml", tinyCase(t, ""), sweepDir, SweepSettings{}); err == nil || !strings.Contains(err.Error(), "nothing to vary") {
+	if _, err := New("tiny.toml", tinyCase(t, ""), sweepDir, Settings{}); err == nil || !strings.Contains(err.Error(), "nothing to vary") {
 		t.Errorf("no vary: got %v", err)
 	}
 }
@@ -240,7 +240,7 @@ count = 3
 	if _, err := cases.Parse("tiny.toml", tinyCase(t, good), sweepDir); err != nil {
 		t.Fatalf("a case with a valid [sweep] must load: %v", err)
 	}
-	s := newTinySweep(t, good, SweepSettings{})
+	s := newTinySweep(t, good, Settings{})
 	if s.Runs != 6 || !slices.Equal(s.Keys, []string{"layer.resin.thickness", "schedules.oven.segments.0.ramp"}) {
 		t.Fatalf("runs %d keys %q", s.Runs, s.Keys)
 	}
@@ -248,7 +248,7 @@ count = 3
 		t.Errorf("run 5: got %q, want %q", got, want)
 	}
 	// The command line replaces the file's list.
-	s = newTinySweep(t, good, SweepSettings{Vary: mustVary(t, "top.h=5W/m^2/K,6W/m^2/K")})
+	s = newTinySweep(t, good, Settings{Vary: mustVary(t, "top.h=5W/m^2/K,6W/m^2/K")})
 	if s.Runs != 2 || !slices.Equal(s.Keys, []string{"top.h"}) {
 		t.Errorf("--vary must replace [[sweep.vary]]: runs %d keys %q", s.Runs, s.Keys)
 	}
@@ -288,7 +288,7 @@ count = 3
 // holds exactly one sample.
 // Source: McKay, Beckman & Conover, Technometrics 21(2):239–245 (1979), §2.
 func TestLatinHypercube(t *testing.T) {
-	set := SweepSettings{Mode: cases.ModeLatinHypercube, Samples: 40, Seed: 7, SeedSet: true, Vary: mustVary(t,
+	set := Settings{Mode: cases.ModeLatinHypercube, Samples: 40, Seed: 7, SeedSet: true, Vary: mustVary(t,
 		"layer.resin.thickness=1mm:3mm",
 		"top.h=10W/m^2/K:30W/m^2/K",
 		// 40 samples over 4 values: each value in 10 runs (40/4, analytic).
@@ -345,7 +345,7 @@ func TestLatinHypercube(t *testing.T) {
 	}
 }
 
-func runSweep(t testing.TB, s *Sweep, dir string, opt SweepOptions) SweepReport {
+func runSweep(t testing.TB, s *Sweep, dir string, opt Options) Report {
 	t.Helper()
 	rep, err := s.Run(context.Background(), dir, opt)
 	if err != nil {
@@ -355,7 +355,7 @@ func runSweep(t testing.TB, s *Sweep, dir string, opt SweepOptions) SweepReport 
 }
 
 func tinyGrid(t testing.TB) *Sweep {
-	return newTinySweep(t, "", SweepSettings{Vary: mustVary(t,
+	return newTinySweep(t, "", Settings{Vary: mustVary(t,
 		"layer.resin.thickness=1mm,2mm,4mm",
 		"top.h=10W/m^2/K:30W/m^2/K:3",
 		"schedules.oven.segments.0.ramp=5C/min,10C/min",
@@ -367,7 +367,7 @@ func tinyGrid(t testing.TB) *Sweep {
 func TestSweepRows(t *testing.T) {
 	s := tinyGrid(t)
 	dir := t.TempDir()
-	rep := runSweep(t, s, dir, SweepOptions{Jobs: 2})
+	rep := runSweep(t, s, dir, Options{Jobs: 2})
 	if rep.Runs != 18 || rep.Done != 18 || rep.Resumed != 0 || rep.OK+rep.CriteriaFailed+rep.Runaway+rep.Failed != 18 || rep.Interrupted {
 		t.Fatalf("report %+v", rep)
 	}
@@ -446,18 +446,18 @@ func TestSweepShardMerge(t *testing.T) {
 	s := tinyGrid(t)
 	root := t.TempDir()
 	whole := filepath.Join(root, "whole")
-	runSweep(t, s, whole, SweepOptions{Jobs: 2})
+	runSweep(t, s, whole, Options{Jobs: 2})
 	var dirs []string
 	for i := range 3 {
 		d := filepath.Join(root, "shard-"+itoa(i))
-		rep := runSweep(t, s, d, SweepOptions{Jobs: 2, Shard: i, Shards: 3})
+		rep := runSweep(t, s, d, Options{Jobs: 2, Shard: i, Shards: 3})
 		if rep.Runs != 6 || rep.Done != 6 {
 			t.Fatalf("shard %d: %+v", i, rep)
 		}
 		dirs = append(dirs, d)
 	}
 	out := filepath.Join(root, "merged")
-	rep, err := MergeSweeps(context.Background(), out, dirs, false)
+	rep, err := Merge(context.Background(), out, dirs, false)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -472,24 +472,24 @@ func TestSweepShardMerge(t *testing.T) {
 		t.Error("merged sweep.json differs")
 	}
 	// The merged directory is a finished sweep: running into it does nothing.
-	if rep := runSweep(t, s, out, SweepOptions{}); rep.Resumed != 18 || rep.Done != 18 {
+	if rep := runSweep(t, s, out, Options{}); rep.Resumed != 18 || rep.Done != 18 {
 		t.Errorf("resume into the merged directory: %+v", rep)
 	}
 
 	// A missing shard: nothing is written unless allowed; the sweep run into
 	// the partial merge finishes it.
 	partial := filepath.Join(root, "partial")
-	rep, err = MergeSweeps(context.Background(), partial, dirs[:2], false)
-	if !errors.Is(err, ErrSweepIncomplete) || !slices.Equal(rep.Missing, []int{2, 5, 8, 11, 14, 17}) {
+	rep, err = Merge(context.Background(), partial, dirs[:2], false)
+	if !errors.Is(err, ErrIncomplete) || !slices.Equal(rep.Missing, []int{2, 5, 8, 11, 14, 17}) {
 		t.Fatalf("merge without shard 2: %v, missing %v", err, rep.Missing)
 	}
 	if _, err := os.Stat(partial); !errors.Is(err, os.ErrNotExist) {
 		t.Errorf("an incomplete merge wrote %s", partial)
 	}
-	if _, err := MergeSweeps(context.Background(), partial, dirs[:2], true); err != nil {
+	if _, err := Merge(context.Background(), partial, dirs[:2], true); err != nil {
 		t.Fatal(err)
 	}
-	if rep := runSweep(t, s, partial, SweepOptions{Jobs: 2}); rep.Resumed != 12 || rep.Done != 18 {
+	if rep := runSweep(t, s, partial, Options{Jobs: 2}); rep.Resumed != 12 || rep.Done != 18 {
 		t.Errorf("finishing a partial merge: %+v", rep)
 	}
 	if got := readFile(t, filepath.Join(partial, results.SweepSummaryFile)); !bytes.Equal(got, want) {
@@ -498,8 +498,8 @@ func TestSweepShardMerge(t *testing.T) {
 
 	// Shards of another sweep are refused.
 	other := filepath.Join(root, "other")
-	runSweep(t, newTinySweep(t, "", SweepSettings{Vary: mustVary(t, "top.h=5W/m^2/K,6W/m^2/K")}), other, SweepOptions{})
-	if _, err := MergeSweeps(context.Background(), filepath.Join(root, "mixed"), []string{dirs[0], other}, false); !errors.Is(err, ErrSweepMismatch) ||
+	runSweep(t, newTinySweep(t, "", Settings{Vary: mustVary(t, "top.h=5W/m^2/K,6W/m^2/K")}), other, Options{})
+	if _, err := Merge(context.Background(), filepath.Join(root, "mixed"), []string{dirs[0], other}, false); !errors.Is(err, ErrMismatch) ||
 		!strings.Contains(err.Error(), "the varied keys differ") {
 		t.Errorf("merging different sweeps: %v", err)
 	}
@@ -512,14 +512,14 @@ func TestSweepResume(t *testing.T) {
 	s := tinyGrid(t)
 	root := t.TempDir()
 	whole := filepath.Join(root, "whole")
-	runSweep(t, s, whole, SweepOptions{Jobs: 2})
+	runSweep(t, s, whole, Options{Jobs: 2})
 	want := readFile(t, filepath.Join(whole, results.SweepSummaryFile))
 
 	dir := filepath.Join(root, "cut")
 	const k = 5
 	ctx, cancel := context.WithCancel(context.Background())
 	defer cancel()
-	rep, err := s.Run(ctx, dir, SweepOptions{Jobs: 2, commitEvery: time.Nanosecond, afterCommit: func(done int) {
+	rep, err := s.Run(ctx, dir, Options{Jobs: 2, commitEvery: time.Nanosecond, afterCommit: func(done int) {
 		if done >= k {
 			cancel()
 		}
@@ -542,7 +542,7 @@ func TestSweepResume(t *testing.T) {
 	jf.Close()
 
 	done := rep.Done
-	rep = runSweep(t, s, dir, SweepOptions{Jobs: 2})
+	rep = runSweep(t, s, dir, Options{Jobs: 2})
 	if rep.Resumed != done || rep.Done != 18 || !rep.Repaired || rep.Interrupted {
 		t.Errorf("resumed sweep: %+v, want %d resumed, 18 done, repaired", rep, done)
 	}
@@ -550,7 +550,7 @@ func TestSweepResume(t *testing.T) {
 		t.Errorf("resumed summary.csv differs from the uninterrupted one:\n%s\nwant:\n%s", got, want)
 	}
 	// Running again finds everything done and changes nothing.
-	if rep := runSweep(t, s, dir, SweepOptions{}); rep.Resumed != 18 || rep.Repaired {
+	if rep := runSweep(t, s, dir, Options{}); rep.Resumed != 18 || rep.Repaired {
 		t.Errorf("second resume: %+v", rep)
 	}
 	if got := readFile(t, filepath.Join(dir, results.SweepSummaryFile)); !bytes.Equal(got, want) {
@@ -566,17 +566,17 @@ func TestSweepResume(t *testing.T) {
 // error and leaves it alone.
 func TestSweepResumeMismatch(t *testing.T) {
 	dir := t.TempDir()
-	runSweep(t, tinyGrid(t), dir, SweepOptions{Jobs: 2})
+	runSweep(t, tinyGrid(t), dir, Options{Jobs: 2})
 	before := readFile(t, filepath.Join(dir, results.SweepSummaryFile))
 	for name, s := range map[string]*Sweep{
-		"the varied values differ": newTinySweep(t, "", SweepSettings{Vary: mustVary(t,
+		"the varied values differ": newTinySweep(t, "", Settings{Vary: mustVary(t,
 			"layer.resin.thickness=1mm,2mm,5mm", "top.h=10W/m^2/K:30W/m^2/K:3", "schedules.oven.segments.0.ramp=5C/min,10C/min")}),
-		"the varied keys differ": newTinySweep(t, "", SweepSettings{Vary: mustVary(t, "layer.resin.thickness=1mm,2mm,4mm")}),
-		"the case file differs": newTinySweep(t, "# edited\n", SweepSettings{Vary: mustVary(t,
+		"the varied keys differ": newTinySweep(t, "", Settings{Vary: mustVary(t, "layer.resin.thickness=1mm,2mm,4mm")}),
+		"the case file differs": newTinySweep(t, "# edited\n", Settings{Vary: mustVary(t,
 			"layer.resin.thickness=1mm,2mm,4mm", "top.h=10W/m^2/K:30W/m^2/K:3", "schedules.oven.segments.0.ramp=5C/min,10C/min")}),
 	} {
-		_, err := s.Run(context.Background(), dir, SweepOptions{})
-		if !errors.Is(err, ErrSweepMismatch) || !strings.Contains(err.Error(), name) {
+		_, err := s.Run(context.Background(), dir, Options{})
+		if !errors.Is(err, ErrMismatch) || !strings.Contains(err.Error(), name) {
 			t.Errorf("%s: got %v", name, err)
 		}
 	}
@@ -588,14 +588,14 @@ func TestSweepResumeMismatch(t *testing.T) {
 // TestSweepFailures: a runaway and an invalid value become rows with their
 // status and error; the sweep completes.
 func TestSweepFailures(t *testing.T) {
-	s := newTinySweep(t, "", SweepSettings{Vary: mustVary(t,
+	s := newTinySweep(t, "", Settings{Vary: mustVary(t,
 		// 1e5 J/g over 1500 J/kg/K is an adiabatic rise of ~6.7e4 K
 		// (analytic): far past the 400 C abort limit.
 		"materials.tiny-resin.cure.total_heat=300J/g,100000J/g",
 		"layer.resin.thickness=2mm,-1mm",
 	)})
 	dir := t.TempDir()
-	rep := runSweep(t, s, dir, SweepOptions{Jobs: 2, KeepFields: true})
+	rep := runSweep(t, s, dir, Options{Jobs: 2, KeepFields: true})
 	if rep.Done != 4 || rep.Runaway != 1 || rep.Failed != 2 || rep.OK+rep.CriteriaFailed != 1 {
 		t.Fatalf("report %+v, want 1 runaway and 2 failed of 4", rep)
 	}
@@ -632,7 +632,7 @@ func TestSweepFailures(t *testing.T) {
 // TestSweepDroppedProbe: a probe that a thinner run puts below the stack is
 // dropped from that run instead of failing it.
 func TestSweepDroppedProbe(t *testing.T) {
-	s := newTinySweep(t, "", SweepSettings{Vary: mustVary(t, "layer.resin.thickness=1mm")})
+	s := newTinySweep(t, "", Settings{Vary: mustVary(t, "layer.resin.thickness=1mm")})
 	c, err := s.Case(0)
 	if err != nil {
 		t.Fatalf("the 3 mm probe of a 2 mm stack must be dropped: %v", err)
@@ -646,9 +646,9 @@ func TestSweepDroppedProbe(t *testing.T) {
 	if len(c.Notes) != 1 || c.Notes[0] != note {
 		t.Errorf("notes %q, want %q", c.Notes, note)
 	}
-	s2 := newTinySweep(t, "", SweepSettings{Vary: mustVary(t, "layer.resin.thickness=1mm,2.5mm")})
+	s2 := newTinySweep(t, "", Settings{Vary: mustVary(t, "layer.resin.thickness=1mm,2.5mm")})
 	dir := t.TempDir()
-	rep := runSweep(t, s2, dir, SweepOptions{Jobs: 1})
+	rep := runSweep(t, s2, dir, Options{Jobs: 1})
 	if len(rep.Noted) != 1 || rep.Noted[0] != 0 || rep.Note != note {
 		t.Errorf("report: noted runs %v, note %q; want run 0 with %q", rep.Noted, rep.Note, note)
 	}
@@ -661,7 +661,7 @@ func TestSweepDroppedProbe(t *testing.T) {
 		t.Errorf("sweep.log does not note the probe left out (%v):\n%s", err, logText)
 	}
 	// A varied probe is checked as written.
-	s = newTinySweep(t, "", SweepSettings{Vary: mustVary(t, "output.probes.2=9mm")})
+	s = newTinySweep(t, "", Settings{Vary: mustVary(t, "output.probes.2=9mm")})
 	if _, err := s.Case(0); err == nil || !strings.Contains(err.Error(), "output.probes.2") {
 		t.Errorf("a varied probe below the stack: %v", err)
 	}
@@ -714,11 +714,11 @@ func TestSweepJournalNoNewline(t *testing.T) {
 	s := tinyGrid(t)
 	root := t.TempDir()
 	whole := filepath.Join(root, "whole")
-	runSweep(t, s, whole, SweepOptions{Jobs: 1})
+	runSweep(t, s, whole, Options{Jobs: 1})
 	dir := filepath.Join(root, "cut")
 	ctx, cancel := context.WithCancel(context.Background())
 	defer cancel()
-	rep, err := s.Run(ctx, dir, SweepOptions{Jobs: 1, commitEvery: time.Nanosecond, afterCommit: func(done int) {
+	rep, err := s.Run(ctx, dir, Options{Jobs: 1, commitEvery: time.Nanosecond, afterCommit: func(done int) {
 		if done >= 3 {
 			cancel()
 		}
@@ -732,7 +732,7 @@ func TestSweepJournalNoNewline(t *testing.T) {
 		t.Fatal(err)
 	}
 	first := rep.Done
-	rep = runSweep(t, s, dir, SweepOptions{Jobs: 1})
+	rep = runSweep(t, s, dir, Options{Jobs: 1})
 	if rep.Resumed != first || rep.Done != 18 || rep.Repaired {
 		t.Errorf("resume: %+v, want %d resumed, 18 done, not repaired", rep, first)
 	}
@@ -753,10 +753,10 @@ func TestSweepGroupCommit(t *testing.T) {
 	s := tinyGrid(t)
 	root := t.TempDir()
 	each := filepath.Join(root, "each")
-	runSweep(t, s, each, SweepOptions{Jobs: 2, commitEvery: time.Nanosecond})
+	runSweep(t, s, each, Options{Jobs: 2, commitEvery: time.Nanosecond})
 	grouped := filepath.Join(root, "grouped")
 	var commits []int
-	rep := runSweep(t, s, grouped, SweepOptions{Jobs: 2, commitEvery: time.Hour, afterCommit: func(done int) {
+	rep := runSweep(t, s, grouped, Options{Jobs: 2, commitEvery: time.Hour, afterCommit: func(done int) {
 		commits = append(commits, done)
 	}})
 	if rep.Done != 18 || len(commits) != 2 || commits[0] != 1 || commits[1] != 18 {
@@ -811,11 +811,11 @@ func earlierJournal(t *testing.T, dir string) {
 // values it would have).
 func TestSweepResumeEarlierJournal(t *testing.T) {
 	fresh, old := t.TempDir(), t.TempDir()
-	runSweep(t, tinyGrid(t), fresh, SweepOptions{Jobs: 2})
-	runSweep(t, tinyGrid(t), old, SweepOptions{Jobs: 2})
+	runSweep(t, tinyGrid(t), fresh, Options{Jobs: 2})
+	runSweep(t, tinyGrid(t), old, Options{Jobs: 2})
 	earlierJournal(t, old)
 	os.Remove(filepath.Join(old, results.SweepSummaryFile))
-	rep := runSweep(t, tinyGrid(t), old, SweepOptions{Jobs: 2})
+	rep := runSweep(t, tinyGrid(t), old, Options{Jobs: 2})
 	if rep.Upgraded != rep.Runs || rep.Resumed != rep.Runs {
 		t.Errorf("taken over %d and resumed %d of %d runs, want all", rep.Upgraded, rep.Resumed, rep.Runs)
 	}
@@ -823,15 +823,15 @@ func TestSweepResumeEarlierJournal(t *testing.T) {
 		t.Error("summary.csv after taking over an earlier journal differs from a fresh sweep's")
 	}
 	// The journal is now in the present layout: a second resume reads it plainly.
-	if rep := runSweep(t, tinyGrid(t), old, SweepOptions{Jobs: 2}); rep.Upgraded != 0 || rep.Resumed != rep.Runs {
+	if rep := runSweep(t, tinyGrid(t), old, Options{Jobs: 2}); rep.Upgraded != 0 || rep.Resumed != rep.Runs {
 		t.Errorf("second resume: upgraded %d, resumed %d of %d", rep.Upgraded, rep.Resumed, rep.Runs)
 	}
 
-	s := newTinySweep(t, testkit.TinyViscosity, SweepSettings{Vary: mustVary(t, "layer.resin.thickness=1mm,2mm")})
+	s := newTinySweep(t, testkit.TinyViscosity, Settings{Vary: mustVary(t, "layer.resin.thickness=1mm,2mm")})
 	dir := t.TempDir()
-	runSweep(t, s, dir, SweepOptions{Jobs: 2})
+	runSweep(t, s, dir, Options{Jobs: 2})
 	earlierJournal(t, dir)
-	if _, err := s.Run(context.Background(), dir, SweepOptions{Jobs: 2}); !errors.Is(err, ErrSweepMismatch) {
+	if _, err := s.Run(context.Background(), dir, Options{Jobs: 2}); !errors.Is(err, ErrMismatch) {
 		t.Errorf("a viscous case took over an earlier journal: %v", err)
 	}
 }
@@ -846,7 +846,7 @@ func TestMergeInterrupted(t *testing.T) {
 	var dirs []string
 	for i := range 2 {
 		d := filepath.Join(root, "shard-"+itoa(i))
-		runSweep(t, s, d, SweepOptions{Jobs: 2, Shard: i, Shards: 2})
+		runSweep(t, s, d, Options{Jobs: 2, Shard: i, Shards: 2})
 		dirs = append(dirs, d)
 	}
 	// An earlier page in the output directory goes with the merge that
@@ -859,7 +859,7 @@ func TestMergeInterrupted(t *testing.T) {
 		t.Fatal(err)
 	}
 	count := testkit.NewStopAfter(-1)
-	if _, err := MergeSweeps(count, whole, dirs, false); err != nil {
+	if _, err := Merge(count, whole, dirs, false); err != nil {
 		t.Fatal(err)
 	}
 	if _, err := os.Stat(filepath.Join(whole, sweepPageFile)); !errors.Is(err, os.ErrNotExist) {
@@ -872,7 +872,7 @@ func TestMergeInterrupted(t *testing.T) {
 	}
 	for n := range count.Checks() {
 		out := filepath.Join(root, "cut-"+itoa(int(n)))
-		_, err := MergeSweeps(testkit.NewStopAfter(n), out, dirs, false)
+		_, err := Merge(testkit.NewStopAfter(n), out, dirs, false)
 		if !errors.Is(err, context.Canceled) {
 			t.Errorf("stopped at check %d: %v", n+1, err)
 		}

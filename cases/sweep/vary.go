@@ -16,7 +16,7 @@ import (
 // Values keep their units and may omit the space before it ("12W/m^2/K",
 // "4mm"); a plain number is a number and true/false a boolean. A list must
 // not repeat a value; a range needs COUNT ≥ 2 and both ends of one
-// dimension. Whether KEY exists in the case is checked by NewSweep. Errors
+// dimension. Whether KEY exists in the case is checked by New. Errors
 // read "--vary KEY=VALUES: what is wrong".
 func ParseVary(spec string) (cases.Vary, error) {
 	fail := func(format string, a ...any) (cases.Vary, error) {

@@ -77,7 +77,7 @@ func TestTuneOneHold(t *testing.T) {
 	// min_cure is href. The tuned hold is on a finer grid (0.1 min) that
 	// contains this one, so it must lie in (href − 1 min, href].
 	text := testkit.TuneCase(t, "hold", "")
-	sw, err := sweep.NewSweep("hold.toml", text, testkit.TuneDir, sweep.SweepSettings{Vary: []cases.Vary{{Key: "schedules.oven.segments.1.hold", From: "5 min", To: "120 min", Count: 116}}})
+	sw, err := sweep.New("hold.toml", text, testkit.TuneDir, sweep.Settings{Vary: []cases.Vary{{Key: "schedules.oven.segments.1.hold", From: "5 min", To: "120 min", Count: 116}}})
 	if err != nil {
 		t.Fatal(err)
 	}

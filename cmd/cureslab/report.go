@@ -48,7 +48,7 @@ written).`,
 			if _, err := os.Stat(filepath.Join(dir, results.SweepDefinitionFile)); err == nil {
 				var sc *cases.Case
 				if *casePath != "" {
-					c, err := sweep.SweepCase(dir, *casePath)
+					c, err := sweep.CaseOf(dir, *casePath)
 					if err != nil {
 						fmt.Fprintf(e.stderr, "cureslab report: --case: %v\n", err)
 						return exitUsage

@@ -87,7 +87,7 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 			if len(args) != 1 {
 				return e.usageError("expects one case file, got %d arguments", len(args))
 			}
-			set := sweep.SweepSettings{Mode: *mode, Samples: *samples}
+			set := sweep.Settings{Mode: *mode, Samples: *samples}
 			if fs.Changed("seed") {
 				set.Seed, set.SeedSet = *seed, true
 			}
@@ -98,7 +98,7 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 				}
 				set.Vary = append(set.Vary, v)
 			}
-			opt := sweep.SweepOptions{Jobs: *jobs, KeepFields: *keep}
+			opt := sweep.Options{Jobs: *jobs, KeepFields: *keep}
 			if *jobs < 0 || fs.Changed("jobs") && *jobs == 0 {
 				return e.usageError("-j wants at least 1, got %d", *jobs)
 			}
@@ -107,7 +107,7 @@ cureslab sweep potting.toml --shard slurm -o sweep-out/shard-$SLURM_ARRAY_TASK_I
 			if err != nil {
 				return e.usageError("%v", err)
 			}
-			s, err := sweep.LoadSweep(args[0], set)
+			s, err := sweep.Load(args[0], set)
 			if err != nil {
 				var list cases.ErrorList
 				if errors.As(err, &list) {
@@ -356,21 +356,21 @@ cureslab merge sweep-out/shard-* -o sweep-merged --allow-missing`,
 			var sc *cases.Case
 			if *casePath != "" {
 				// Checked before anything is written.
-				c, err := sweep.SweepCase(args[0], *casePath)
+				c, err := sweep.CaseOf(args[0], *casePath)
 				if err != nil {
 					fmt.Fprintf(e.stderr, "cureslab merge: --case: %v\n", err)
 					return exitUsage
 				}
 				sc = c
 			}
-			rep, err := sweep.MergeSweeps(e.ctx, *out, args, *allow)
+			rep, err := sweep.Merge(e.ctx, *out, args, *allow)
 			if e.interrupted(err) {
 				fmt.Fprintf(e.stderr, "cureslab merge: interrupted while reading the shards; nothing was written\n")
 				return exitInterrupted
 			}
 			if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab merge: %v\n", err)
-				if errors.Is(err, sweep.ErrSweepIncomplete) {
+				if errors.Is(err, sweep.ErrIncomplete) {
 					fmt.Fprintf(e.stderr, "Finish the shards that own them (run the same sweep command into their directories), or pass --allow-missing.\n")
 				}
 				return exitUsage
