@@ -367,6 +367,19 @@ func (s *Set) add(name string) {
 	}
 }
 
+// Unstage takes name out of the set being written: what was staged under
+// it is deleted, and Commit treats name as not written now (the previous
+// set's file of that name, if any, is removed with the other files the new
+// set does not write). For a writer that staged a folder and then found
+// nothing to put in it (a case whose outputs could not be written).
+func (s *Set) Unstage(name string) {
+	if s.done || !slices.Contains(s.staged, name) {
+		return
+	}
+	os.RemoveAll(filepath.Join(s.Dir, name+stagingExt))
+	s.staged = slices.DeleteFunc(s.staged, func(n string) bool { return n == name })
+}
+
 // Keep makes the named files, as they are now in the directory, part of
 // the new set: Commit neither moves nor removes them and the manifest
 // lists them (for a writer that appends to a file in place, such as a

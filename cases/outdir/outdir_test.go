@@ -237,6 +237,31 @@ func TestAbortKeepsPreviousSet(t *testing.T) {
 	}
 }
 
+// Unstage deletes what was staged under a name, and Commit then removes
+// the previous set's file of that name instead of keeping it beside the
+// new set.
+func TestUnstage(t *testing.T) {
+	dir := t.TempDir()
+	write(t, dir, runKind, "one", "fields.csv", "summary.json", "runs")
+	s, err := Open(dir, runKind)
+	if err != nil {
+		t.Fatal(err)
+	}
+	stage(t, s, "two", "summary.json", "runs")
+	s.Unstage("runs")
+	s.Unstage("report.html") // never staged: nothing happens
+	if _, err := os.Stat(filepath.Join(dir, "runs"+stagingExt)); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("the staged folder is still there: %v", err)
+	}
+	if err := s.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	want := manifestFile + "\nsummary.json: two summary.json\n"
+	if got := listing(t, dir); got != want {
+		t.Errorf("after Unstage and Commit:\n%s\nwant\n%s", got, want)
+	}
+}
+
 // A second writer is refused while the first holds the directory; a lock
 // left by a process that no longer runs is taken over.
 func TestLock(t *testing.T) {

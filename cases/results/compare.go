@@ -61,7 +61,10 @@ type Compared struct {
 // unique with a suffix -2, -3, ... in order when two cases share a name.
 func CompareNames(cs []*cases.Case) []string {
 	names := make([]string, len(cs))
-	used := map[string]bool{CompareFile: true}
+	used := map[string]bool{}
+	for _, n := range CompareKind.Names {
+		used[n] = true
+	}
 	for i, c := range cs {
 		base := strings.TrimSuffix(filepath.Base(c.File), filepath.Ext(c.File))
 		if base == "" || base == "." || base == string(filepath.Separator) {
@@ -131,7 +134,7 @@ func cmpNum(f Float) string {
 // the comparison page and the README show for cases side by side: a head
 // row (an empty cell, then each case's name) and one row per quantity, its
 // label from Vocabulary and one cell per case ("-" for a case that did not
-// run): status, peak temperature, its depth and time, overshoot, largest
+// run, whose status says why: failed, or not-run): status, peak temperature, its depth and time, overshoot, largest
 // spread, least final cure and its depth, mean final cure, time to
 // min_cure, first and last gel time, gel front spread, lowest final Tg,
 // sensor off its program, end time and conservation residual.
@@ -155,7 +158,11 @@ func ComparisonRows(rows []Compared) [][]string {
 	quantity := func(key string, format func(float64) string) {
 		line(Label(key), func(r Compared) string { return format(Term(key).Value(&r.Summary)) })
 	}
-	line("status", func(r Compared) string { return r.Summary.Status })
+	status := []string{"status"}
+	for _, r := range rows {
+		status = append(status, r.Summary.Status)
+	}
+	out = append(out, status)
 	quantity("peak_temperature_C", num.TextC)
 	quantity("peak_depth_mm", num.TextMM)
 	quantity("peak_time_s", num.TextTime)

@@ -55,7 +55,7 @@ func TestPrintComparisonGolden(t *testing.T) {
 	rows := []Compared{
 		{Name: "oven", Case: crit, Ran: true, Summary: a},
 		{Name: "microwave", Case: crit, Ran: true, Summary: b},
-		{Name: "third", Summary: Summary{Title: "not run", Status: StatusFailed}, Err: errors.New("not run: interrupted")},
+		{Name: "third", Summary: Summary{Title: "not run", Status: StatusNotRun}, Err: errors.New("not run: interrupted")},
 	}
 	var buf bytes.Buffer
 	if err := PrintComparison(&buf, rows); err != nil {

@@ -21,6 +21,10 @@ const (
 	StatusRunaway        = "runaway"
 	StatusFailed         = "failed"
 	StatusInterrupted    = "interrupted"
+	// StatusNotRun is the status in compare.csv of a case that was never
+	// started (Ctrl-C or SIGTERM came before its turn); no summary.json
+	// ever holds it.
+	StatusNotRun = "not-run"
 )
 
 // Names of the acceptance criteria, as written in [criteria].

@@ -5,10 +5,13 @@ import (
 	"cureslab/cases"
 	"cureslab/cases/results"
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"slices"
+	"strings"
 	"testing"
+	"time"
 )
 
 // whenExists is a context that is cancelled from the moment the file path
@@ -21,6 +24,23 @@ type whenExists struct {
 
 func (c whenExists) Err() error {
 	if _, err := os.Stat(c.path); err == nil {
+		return context.Canceled
+	}
+	return nil
+}
+
+// onceExists is whenExists that stays cancelled once the file has been
+// seen: a Ctrl-C that comes while a staging file is there, and holds after
+// it is renamed.
+type onceExists struct {
+	context.Context
+	path string
+	seen *bool
+}
+
+func (c onceExists) Err() error {
+	if *c.seen || exists(c.path) {
+		*c.seen = true
 		return context.Canceled
 	}
 	return nil
@@ -75,7 +95,8 @@ func named(c *cases.Case, file string) *cases.Case {
 // A comparison removes the case folders of an earlier comparison into the
 // same directory that it does not write again, including those of a
 // directory written before the record of the set listed its folders, and
-// the folder of a case that did not run this time.
+// the folder of a case that did not run this time; interrupted before any
+// case finished, it leaves the earlier comparison as it was.
 func TestCompareRemovesEarlierCases(t *testing.T) {
 	c := exampleCase(t, "tile-on-spreader")
 	a, b, x := named(c, "a.toml"), named(c, "b.toml"), named(c, "x.toml")
@@ -107,22 +128,54 @@ func TestCompareRemovesEarlierCases(t *testing.T) {
 	}
 	has("a", "b")
 
-	// Interrupted before any case ran: no folder of the comparison before.
+	// Interrupted before any case had finished, whether before the first
+	// one started or while it ran: nothing is written, the comparison
+	// before stays as it was.
+	before := snapshot(t, dir)
 	cancelled, cancel := context.WithCancel(bg)
 	cancel()
-	rows, err := Compare(cancelled, []*cases.Case{a, b}, dir, Options{Report: true})
+	during := onceExists{bg, filepath.Join(dir, "x.staging", results.FieldsFile+".staging"), new(bool)}
+	for _, ctx := range []context.Context{cancelled, during} {
+		rows, err := Compare(ctx, []*cases.Case{x, b}, dir, Options{Report: true})
+		if !errors.Is(err, ErrNoneFinished) {
+			t.Fatalf("interrupted before any case finished: %v", err)
+		}
+		if !errors.Is(rows[1].Err, ErrNotRun) || rows[1].Summary.Status != results.StatusNotRun {
+			t.Errorf("%s: %v, status %q", rows[1].Name, rows[1].Err, rows[1].Summary.Status)
+		}
+		if got := snapshot(t, dir); got != before {
+			t.Errorf("the comparison before was changed:\n%s\nwant\n%s", got, before)
+		}
+	}
+	if exists(filepath.Join(dir, "x")) {
+		t.Error("the folder of the interrupted case was left")
+	}
+}
+
+// snapshot lists every folder under dir, and every file with its size
+// and modification time.
+func snapshot(t *testing.T, dir string) string {
+	t.Helper()
+	var b strings.Builder
+	err := filepath.WalkDir(dir, func(p string, d os.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		if d.IsDir() { // its time changes with the staging files made and removed in it
+			fmt.Fprintf(&b, "%s/\n", p)
+			return nil
+		}
+		fi, err := d.Info()
+		if err != nil {
+			return err
+		}
+		fmt.Fprintf(&b, "%s %d %s\n", p, fi.Size(), fi.ModTime().Format(time.RFC3339Nano))
+		return nil
+	})
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, r := range rows {
-		if !errors.Is(r.Err, ErrNotRun) {
-			t.Errorf("%s: %v", r.Name, r.Err)
-		}
-	}
-	has()
-	if !exists(filepath.Join(dir, results.CompareFile)) {
-		t.Error("no compare.csv")
-	}
+	return b.String()
 }
 
 // A Ctrl-C while the comparison page is drawn keeps compare.csv and the

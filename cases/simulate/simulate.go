@@ -16,6 +16,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 
 	"cureslab/cases"
 	"cureslab/cases/outdir"
@@ -24,9 +25,9 @@ import (
 	"cureslab/solver"
 )
 
-// ErrNotRun is wrapped by the error of a case that Compare did not start
-// because the context was cancelled.
-var ErrNotRun = errors.New("not run")
+// ErrNotRun is the error of a case that Compare did not start because the
+// context was cancelled before its turn.
+var ErrNotRun = errors.New("not run: interrupted before its turn")
 
 // Options say what a run writes besides fields.csv, probes.csv and
 // summary.json. The zero value writes no report.
@@ -128,47 +129,83 @@ func verify(ctx context.Context, c *cases.Case, r *solver.Result) *results.Estim
 	return results.NoEstimate(c, why)
 }
 
+// ErrNoneFinished is the error of Compare when ctx was cancelled before
+// any case had run to its end: nothing was written, and dir holds what it
+// held before (an earlier comparison as it was, or nothing).
+var ErrNoneFinished = errors.New("interrupted before any case had finished: nothing was written")
+
 // Compare runs every case of cs with Case, one after the other, into
 // dir/NAME/ (results.CompareNames), writes dir/compare.csv and, with
 // opt.Report, the comparison page of the cases that ran; it returns one row
 // per case in the order of cs.
 //
 // The cases must be validated beforehand: Compare is the first thing that
-// touches dir, which it creates if needed. When ctx is cancelled, the cases
-// not yet started are not run and are recorded as such; the table is still
-// written, and the page is not drawn (the error wraps ErrPageNotDrawn). A
-// case that fails to run does not stop the others. The error is about dir,
-// compare.csv or the comparison page only.
+// touches dir, which it creates if needed. A case that fails to run does
+// not stop the others. The error is about dir, compare.csv or the
+// comparison page only.
 //
-// dir holds one comparison (package outdir, CompareKind): the folders of
-// the cases that ran are part of its set, and the case folders of an
+// dir holds one comparison (package outdir, CompareKind): each case runs
+// into a staged folder of the comparison's set, and the folders go in
+// place with compare.csv and the page at the end. The case folders of an
 // earlier comparison into dir that this one does not write again (other
-// cases, or a case that did not run this time) are removed when the new
-// set is committed, so a folder never describes a case that compare.csv
-// does not list as run.
+// cases, or a case that did not run this time) are removed then, so a
+// folder never describes a case that compare.csv does not list as run.
+//
+// When ctx is cancelled, the cases not yet started are not run and are
+// recorded with the status results.StatusNotRun; the page is not drawn.
+// If at least one case had run to its end (whatever its status), the set
+// goes in place without the page (the error wraps ErrPageNotDrawn);
+// otherwise nothing is written, dir is left as it was, and the error is
+// ErrNoneFinished.
 //
 // Cost: the sum of the runs.
 func Compare(ctx context.Context, cs []*cases.Case, dir string, opt Options) ([]results.Compared, error) {
-	set, err := outdir.Open(dir, results.CompareKind)
+	names := results.CompareNames(cs)
+	kind := results.CompareKind
+	kind.Names = append(slices.Clone(kind.Names), names...)
+	_, statErr := os.Lstat(dir)
+	set, err := outdir.Open(dir, kind)
 	if err != nil {
 		return nil, err
 	}
 	defer set.Abort() // after Commit it does nothing
 	set.Previous(earlierCaseFolders(dir)...)
-	names := results.CompareNames(cs)
 	rows := make([]results.Compared, len(cs))
+	finished := false
 	for i, c := range cs {
-		if err := ctx.Err(); err != nil {
-			rows[i] = results.Compared{Case: c, Summary: results.Summary{Title: c.Title, Status: results.StatusFailed}, Err: fmt.Errorf("%w: %w", ErrNotRun, err)}
+		if ctx.Err() != nil {
+			rows[i] = results.Compared{Case: c, Summary: results.Summary{Title: c.Title, Status: results.StatusNotRun}, Err: ErrNotRun}
 		} else {
-			rows[i] = Case(ctx, c, filepath.Join(dir, names[i]), opt)
+			staged, err := set.StageDir(names[i])
+			if err != nil {
+				return nil, err
+			}
+			rows[i] = Case(ctx, c, staged, opt)
+			if !rows[i].Ran || rows[i].Err != nil {
+				// Nothing of it is in place: no folder for it.
+				set.Unstage(names[i])
+				rows[i].Dir = ""
+			}
+			finished = finished || (rows[i].Ran && rows[i].Summary.Status != results.StatusInterrupted)
 		}
 		rows[i].Name = names[i]
-		if rows[i].Ran && rows[i].Err == nil {
-			set.Keep(names[i])
+	}
+	if ctx.Err() != nil && !finished {
+		set.Abort()
+		if statErr != nil {
+			os.Remove(dir) // created by Open; removed only if empty
+		}
+		return rows, ErrNoneFinished
+	}
+	// The page is drawn from the cases' staged folders; they go in place
+	// with it.
+	err = commitComparison(ctx, set, rows, opt.Report)
+	for i := range rows {
+		if rows[i].Dir != "" {
+			rows[i].Dir = filepath.Join(dir, names[i])
 		}
 	}
-	return rows, commitComparison(ctx, set, rows, opt.Report)
+	return rows, err
 }
 
 // earlierCaseFolders returns the case folders named in the first column of

@@ -122,25 +122,27 @@ func TestCompareOvenMicrowave(t *testing.T) {
 	}
 }
 
-// TestCompareInterrupted checks that cases not started after a cancellation
-// are recorded as such and the table is still written.
+// TestCompareInterrupted checks that the cases not started after a
+// cancellation that came once a case had finished are recorded as not run,
+// with the table written and no folder of theirs; cancelled before any
+// case ran, Compare writes nothing at all.
 func TestCompareInterrupted(t *testing.T) {
-	ctx, cancel := context.WithCancel(context.Background())
-	cancel()
 	c := exampleCase(t, "tile-on-spreader")
 	dir := filepath.Join(t.TempDir(), "out")
+	ctx := whenExists{context.Background(), filepath.Join(dir, "tile-on-spreader.staging", results.SummaryFile)}
 	rows, err := Compare(ctx, []*cases.Case{c, c}, dir, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, r := range rows {
-		if r.Ran || !errors.Is(r.Err, context.Canceled) || r.Summary.Status != results.StatusFailed {
-			t.Errorf("%s: ran %v, err %v, status %q", r.Name, r.Ran, r.Err, r.Summary.Status)
-		}
+	if r := rows[0]; !r.Ran || r.Err != nil || r.Summary.Status != results.StatusOK {
+		t.Errorf("first case: ran %v, err %v, status %q", r.Ran, r.Err, r.Summary.Status)
+	}
+	if r := rows[1]; r.Ran || !errors.Is(r.Err, ErrNotRun) || r.Summary.Status != results.StatusNotRun {
+		t.Errorf("%s: ran %v, err %v, status %q", r.Name, r.Ran, r.Err, r.Summary.Status)
 	}
 	tab := testkit.ReadCSV(t, filepath.Join(dir, results.CompareFile))
-	want := []string{"tile-on-spreader-2", c.Title, results.StatusFailed}
-	if len(tab) != 3 || !reflect.DeepEqual(tab[2][:3], want) {
+	want := []string{"tile-on-spreader-2", c.Title, results.StatusNotRun}
+	if len(tab) != 3 || !reflect.DeepEqual(tab[2][:3], want) || tab[1][2] != results.StatusOK {
 		t.Fatalf("compare.csv:\n%v", tab)
 	}
 	for _, cell := range tab[2][3:] {
@@ -149,8 +151,27 @@ func TestCompareInterrupted(t *testing.T) {
 			break
 		}
 	}
-	if _, err := os.Stat(filepath.Join(dir, "tile-on-spreader")); !os.IsNotExist(err) {
+	if _, err := os.Stat(filepath.Join(dir, "tile-on-spreader", results.SummaryFile)); err != nil {
+		t.Errorf("the finished case has no outputs: %v", err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "tile-on-spreader-2")); !os.IsNotExist(err) {
 		t.Errorf("a case not run has an output directory: %v", err)
+	}
+
+	cancelled, cancel := context.WithCancel(context.Background())
+	cancel()
+	fresh := filepath.Join(t.TempDir(), "fresh")
+	rows, err = Compare(cancelled, []*cases.Case{c, c}, fresh, Options{})
+	if !errors.Is(err, ErrNoneFinished) {
+		t.Fatalf("cancelled before any case ran: %v", err)
+	}
+	for _, r := range rows {
+		if r.Ran || r.Summary.Status != results.StatusNotRun {
+			t.Errorf("%s: ran %v, status %q", r.Name, r.Ran, r.Summary.Status)
+		}
+	}
+	if _, err := os.Stat(fresh); !os.IsNotExist(err) {
+		t.Errorf("nothing ran, yet the output directory was made: %v", err)
 	}
 }
 

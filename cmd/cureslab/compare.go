@@ -61,6 +61,10 @@ cureslab compare oven.toml microwave.toml -o compare-out`,
 				return e.usageError("%s", msg)
 			}
 			rows, worst, err := compareRun(e, cs, *out)
+			if errors.Is(err, simulate.ErrNoneFinished) {
+				fmt.Fprintf(e.stderr, "cureslab compare: interrupted before any case had finished: nothing was written, and %s holds what it held before (an earlier comparison there is left as it was)\n", *out)
+				return exitInterrupted
+			}
 			pageCut := errors.Is(err, simulate.ErrPageNotDrawn)
 			if err != nil && !pageCut {
 				fmt.Fprintf(e.stderr, "cureslab compare: %v\n", err)
@@ -119,8 +123,8 @@ func compareRun(e *env, cs []*cases.Case, dir string) ([]results.Compared, int, 
 			}
 		}
 	}
-	if worst == exitInterrupted {
-		fmt.Fprintf(e.stderr, "cureslab compare: interrupted: the cases that ran keep their outputs, without their report pages (a case cut short is marked interrupted, its criteria not judged); the cases after it were not run\n")
+	if worst == exitInterrupted && !errors.Is(err, simulate.ErrNoneFinished) {
+		fmt.Fprintf(e.stderr, "cureslab compare: interrupted: the cases that had finished keep their outputs and pages; the case cut short keeps its outputs up to then, marked interrupted (criteria not judged), without a page; the cases after it were not run (status not-run in %s); no comparison page was drawn\n", results.CompareFile)
 	}
 	return rows, worst, err
 }
