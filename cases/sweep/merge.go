@@ -66,76 +66,19 @@ func Merge(ctx context.Context, out string, dirs []string, allowMissing bool) (M
 	if len(dirs) == 0 {
 		return rep, &sweepError{msg: "no directories to merge"}
 	}
-	var def []byte
-	var d results.SweepDef
-	rows := make(map[int][]string)
-	var damaged, damagedDirs []string // damaged records, and the shard of each
-	var damagedRuns []int
-	var header []string
-	for i, dir := range dirs {
-		if err := ctx.Err(); err != nil {
-			return rep, err
-		}
-		b, err := limits.ReadFile(ctx, filepath.Join(dir, results.SweepDefinitionFile), limits.MaxFileSize)
-		switch {
-		case errors.Is(err, fs.ErrNotExist):
-			return rep, &sweepError{msg: fmt.Sprintf("%s is not a sweep directory: it has no %s", dir, results.SweepDefinitionFile)}
-		case err != nil && ctx.Err() != nil:
-			return rep, ctx.Err()
-		case err != nil:
-			return rep, fmt.Errorf("%s: %w", filepath.Join(dir, results.SweepDefinitionFile), err)
-		}
-		if i == 0 {
-			def = b
-			if err := json.Unmarshal(b, &d); err != nil || d.Format != results.SweepFormat || d.Runs < 1 {
-				return rep, &sweepError{kind: ErrMismatch, msg: fmt.Sprintf("%s: %s is not a sweep definition of this version", dir, results.SweepDefinitionFile)}
-			}
-			keys := make([]string, len(d.Vary))
-			for k, v := range d.Vary {
-				keys[k] = v.Key
-			}
-			header = results.SweepHeader(keys)
-			rep.Runs = d.Runs
-		} else if !bytes.Equal(b, def) {
-			return rep, &sweepError{kind: ErrMismatch, msg: fmt.Sprintf(
-				"%s and %s hold different sweeps: %s", dirs[0], dir, results.DefDiff(def, b))}
-		}
-		jc, err := readJournal(ctx, filepath.Join(dir, results.SweepJournalFile), header, d.Runs)
-		if errors.Is(err, fs.ErrNotExist) {
-			continue // the shard has not committed anything yet
-		}
-		if err != nil {
-			return rep, err
-		}
-		for _, dm := range jc.Damaged {
-			damaged = append(damaged, fmt.Sprintf("%s: %s", filepath.Join(dir, results.SweepJournalFile), dm))
-			damagedDirs = append(damagedDirs, dir)
-			damagedRuns = append(damagedRuns, dm.Run)
-		}
-		rs := jc.Rows
-		for r, rec := range rs {
-			if prev, ok := rows[r]; !ok {
-				rows[r] = rec
-			} else if !slices.Equal(prev, rec) {
-				rep.Conflicts++
-			}
-		}
+	sh, err := readShards(ctx, dirs)
+	if err != nil {
+		return rep, err
 	}
-	rep.Rows = len(rows)
-	var lost []string
-	for i, r := range damagedRuns {
-		if _, ok := rows[r]; !ok || r < 0 {
-			lost = append(lost, damaged[i]+" (in the shard "+damagedDirs[i]+")")
-		}
-	}
-	if len(lost) > 0 && !allowMissing {
+	rep.Runs, rep.Rows, rep.Conflicts = sh.runs, len(sh.rows), sh.conflicts
+	if lost := sh.lost(); len(lost) > 0 && !allowMissing {
 		return rep, &sweepError{kind: ErrIncomplete, msg: fmt.Sprintf(
 			"the journal of a shard is damaged: %s; run that shard again with the same sweep command into the same directory (it does the damaged runs again), then merge; nothing was written",
 			strings.Join(lost, "; "))}
 	}
-	statusCol := results.SweepStatusCol(header)
+	statusCol := results.SweepStatusCol(sh.header)
 	for r := range rep.Runs {
-		rec, ok := rows[r]
+		rec, ok := sh.rows[r]
 		if !ok {
 			rep.Missing = append(rep.Missing, r)
 			continue
@@ -146,54 +89,156 @@ func Merge(ctx context.Context, out string, dirs []string, allowMissing bool) (M
 		return rep, &sweepError{kind: ErrIncomplete, msg: fmt.Sprintf(
 			"%d of %d runs are missing (%s); nothing was written", len(rep.Missing), rep.Runs, FormatRuns(rep.Missing, 10))}
 	}
-
-	if fi, err := os.Stat(out); err == nil && !fi.IsDir() {
-		return rep, &sweepError{msg: fmt.Sprintf("%s exists and is not a directory", out)}
-	}
-	if old, err := limits.ReadFile(ctx, filepath.Join(out, results.SweepDefinitionFile), limits.MaxFileSize); err == nil && !bytes.Equal(old, def) {
-		return rep, &sweepError{kind: ErrMismatch, msg: fmt.Sprintf(
-			"%s holds another sweep: %s; give another output directory (-o)", out, results.DefDiff(old, def))}
-	}
-	if err := ctx.Err(); err != nil {
+	if err := sh.write(ctx, out); err != nil {
 		return rep, err
 	}
-	if err := os.MkdirAll(out, 0o755); err != nil {
-		return rep, err
-	}
-	runs := make([]int, 0, len(rows))
-	for r := range rows {
-		runs = append(runs, r)
-	}
-	slices.Sort(runs)
-	if err := textout.WriteFileAtomic(out, results.SweepDefinitionFile, func(w io.Writer) error { _, err := w.Write(def); return err }); err != nil {
-		return rep, err
-	}
-	err := textout.WriteFileAtomic(out, results.SweepJournalFile, func(w io.Writer) error {
-		cw := csv.NewWriter(w)
-		cw.Write(append(slices.Clip(header), "crc32"))
-		for _, r := range runs {
-			cw.Write(append(slices.Clip(rows[r]), recordCRC(rows[r])))
-		}
-		cw.Flush()
-		return cw.Error()
-	})
-	if err != nil {
-		return rep, err
-	}
-	if err := writeSweepSummary(out, header, rows); err != nil {
-		return rep, err
-	}
-	// The page of an earlier merge into out shows another summary: it goes
-	// (the command draws the new one, unless --no-report or Ctrl-C).
-	if err := os.Remove(filepath.Join(out, sweepPageFile)); err != nil && !errors.Is(err, fs.ErrNotExist) {
-		return rep, err
-	}
-	syncDir(out)
 	log := openSweepLog(out)
 	defer log.close()
 	host, _ := os.Hostname()
 	log.printf("merge host=%s dirs=%q rows=%d/%d missing=%d conflicts=%d", host, dirs, rep.Rows, rep.Runs, len(rep.Missing), rep.Conflicts)
 	return rep, nil
+}
+
+// shards is what the directories of a merge hold together: the sweep
+// definition they share, the rows of their journals (the first directory
+// given wins a run), and the damage found.
+type shards struct {
+	def        []byte // sweep.json, byte for byte
+	runs       int
+	header     []string
+	rows       map[int][]string
+	conflicts  int      // runs committed in several directories with rows that differ
+	damaged    []string // each damaged record, with its journal
+	damagedIn  []string // the shard of each
+	damagedRun []int    // the run of each (−1 when unreadable)
+}
+
+// readShards reads sweep.json and the journal of each directory in dirs
+// (Merge): every sweep.json must equal the first; a journal's damaged
+// records are listed, its good ones kept. ctx is checked before each
+// directory and while each journal is read.
+func readShards(ctx context.Context, dirs []string) (*shards, error) {
+	sh := &shards{rows: make(map[int][]string)}
+	for i, dir := range dirs {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		b, err := limits.ReadFile(ctx, filepath.Join(dir, results.SweepDefinitionFile), limits.MaxFileSize)
+		switch {
+		case errors.Is(err, fs.ErrNotExist):
+			return nil, &sweepError{msg: fmt.Sprintf("%s is not a sweep directory: it has no %s", dir, results.SweepDefinitionFile)}
+		case err != nil && ctx.Err() != nil:
+			return nil, ctx.Err()
+		case err != nil:
+			return nil, fmt.Errorf("%s: %w", filepath.Join(dir, results.SweepDefinitionFile), err)
+		}
+		if i == 0 {
+			if err := sh.define(dir, b); err != nil {
+				return nil, err
+			}
+		} else if !bytes.Equal(b, sh.def) {
+			return nil, &sweepError{kind: ErrMismatch, msg: fmt.Sprintf(
+				"%s and %s hold different sweeps: %s", dirs[0], dir, results.DefDiff(sh.def, b))}
+		}
+		jc, err := readJournal(ctx, filepath.Join(dir, results.SweepJournalFile), sh.header, sh.runs)
+		if errors.Is(err, fs.ErrNotExist) {
+			continue // the shard has not committed anything yet
+		}
+		if err != nil {
+			return nil, err
+		}
+		for _, dm := range jc.Damaged {
+			sh.damaged = append(sh.damaged, fmt.Sprintf("%s: %s", filepath.Join(dir, results.SweepJournalFile), dm))
+			sh.damagedIn = append(sh.damagedIn, dir)
+			sh.damagedRun = append(sh.damagedRun, dm.Run)
+		}
+		for r, rec := range jc.Rows {
+			if prev, ok := sh.rows[r]; !ok {
+				sh.rows[r] = rec
+			} else if !slices.Equal(prev, rec) {
+				sh.conflicts++
+			}
+		}
+	}
+	return sh, nil
+}
+
+// define takes the sweep definition b, read from dir, as the one every
+// directory must share: its runs and the journal's header.
+func (sh *shards) define(dir string, b []byte) error {
+	var d results.SweepDef
+	if err := json.Unmarshal(b, &d); err != nil || d.Format != results.SweepFormat || d.Runs < 1 {
+		return &sweepError{kind: ErrMismatch, msg: fmt.Sprintf("%s: %s is not a sweep definition of this version", dir, results.SweepDefinitionFile)}
+	}
+	keys := make([]string, len(d.Vary))
+	for k, v := range d.Vary {
+		keys[k] = v.Key
+	}
+	sh.def, sh.runs, sh.header = b, d.Runs, results.SweepHeader(keys)
+	return nil
+}
+
+// lost lists the damaged records whose run no directory holds a good row
+// of, each with its shard.
+func (sh *shards) lost() []string {
+	var lost []string
+	for i, r := range sh.damagedRun {
+		if _, ok := sh.rows[r]; !ok || r < 0 {
+			lost = append(lost, sh.damaged[i]+" (in the shard "+sh.damagedIn[i]+")")
+		}
+	}
+	return lost
+}
+
+// write puts the merge into out: sweep.json, journal.csv with every row in
+// run order, and summary.csv, each written whole (temporary file and
+// rename); a page of an earlier merge into out is removed. out must not
+// hold another sweep. ctx is checked once before the first file: the
+// writing itself is not cut.
+func (sh *shards) write(ctx context.Context, out string) error {
+	if fi, err := os.Stat(out); err == nil && !fi.IsDir() {
+		return &sweepError{msg: fmt.Sprintf("%s exists and is not a directory", out)}
+	}
+	if old, err := limits.ReadFile(ctx, filepath.Join(out, results.SweepDefinitionFile), limits.MaxFileSize); err == nil && !bytes.Equal(old, sh.def) {
+		return &sweepError{kind: ErrMismatch, msg: fmt.Sprintf(
+			"%s holds another sweep: %s; give another output directory (-o)", out, results.DefDiff(old, sh.def))}
+	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
+	if err := os.MkdirAll(out, 0o755); err != nil {
+		return err
+	}
+	runs := make([]int, 0, len(sh.rows))
+	for r := range sh.rows {
+		runs = append(runs, r)
+	}
+	slices.Sort(runs)
+	if err := textout.WriteFileAtomic(out, results.SweepDefinitionFile, func(w io.Writer) error { _, err := w.Write(sh.def); return err }); err != nil {
+		return err
+	}
+	err := textout.WriteFileAtomic(out, results.SweepJournalFile, func(w io.Writer) error {
+		cw := csv.NewWriter(w)
+		cw.Write(append(slices.Clip(sh.header), "crc32"))
+		for _, r := range runs {
+			cw.Write(append(slices.Clip(sh.rows[r]), recordCRC(sh.rows[r])))
+		}
+		cw.Flush()
+		return cw.Error()
+	})
+	if err != nil {
+		return err
+	}
+	if err := writeSweepSummary(out, sh.header, sh.rows); err != nil {
+		return err
+	}
+	// The page of an earlier merge into out shows another summary: it goes
+	// (the command draws the new one, unless --no-report or Ctrl-C).
+	if err := os.Remove(filepath.Join(out, sweepPageFile)); err != nil && !errors.Is(err, fs.ErrNotExist) {
+		return err
+	}
+	syncDir(out)
+	return nil
 }
 
 // FormatRuns writes run indices compactly for a message, with ranges:
