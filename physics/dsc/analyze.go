@@ -101,7 +101,37 @@ func AnalyzeContext(ctx context.Context, scans []*Scan, opt Options) (*Analysis,
 	if len(scans) == 0 {
 		return nil, errors.New("dsc: no scans")
 	}
-	an := &Analysis{HeatSD: math.NaN(), EaSpread: math.NaN()}
+	curves, err := processAll(ctx, scans, opt)
+	if err != nil {
+		return nil, err
+	}
+	an := &Analysis{Curves: curves, HeatSD: math.NaN(), EaSpread: math.NaN()}
+	var dyn, iso []*Curve
+	for _, c := range an.Curves {
+		if c.Program.Kind == Dynamic {
+			dyn = append(dyn, c)
+		} else {
+			iso = append(iso, c)
+		}
+		for _, n := range c.Notes {
+			an.warn("%s: %s", c.Scan.Name, n)
+		}
+	}
+	an.measureHeat(dyn, iso, opt)
+	an.checkPrograms(iso)
+	an.isoconversional(dyn, iso)
+	if opt.Model == "" {
+		return an, nil
+	}
+	return an, an.fitModel(ctx, iso, opt)
+}
+
+// processAll processes every scan (see Process) with the baseline and
+// window of opt. It returns ctx.Err() as soon as ctx is cancelled, else the
+// errors of all the scans that cannot be processed, joined, else the curves
+// in the order of scans.
+func processAll(ctx context.Context, scans []*Scan, opt Options) ([]*Curve, error) {
+	var curves []*Curve
 	var errs []error
 	for _, s := range scans {
 		if err := ctx.Err(); err != nil {
@@ -115,25 +145,32 @@ func AnalyzeContext(ctx context.Context, scans []*Scan, opt Options) (*Analysis,
 			errs = append(errs, err)
 			continue
 		}
-		an.Curves = append(an.Curves, c)
+		curves = append(curves, c)
 	}
 	if len(errs) > 0 {
 		return nil, errors.Join(errs...)
 	}
-	warn := func(format string, a ...any) { an.Warnings = append(an.Warnings, fmt.Sprintf(format, a...)) }
+	return curves, nil
+}
 
-	// Total heat; isothermal curves are measured against it.
-	var dyn, iso []*Curve
-	for _, c := range an.Curves {
-		if c.Program.Kind == Dynamic {
-			dyn = append(dyn, c)
-		} else {
-			iso = append(iso, c)
-		}
-		for _, n := range c.Notes {
-			warn("%s: %s", c.Scan.Name, n)
-		}
-	}
+// warn adds a formatted warning.
+func (an *Analysis) warn(format string, a ...any) {
+	an.Warnings = append(an.Warnings, fmt.Sprintf(format, a...))
+}
+
+// measureHeat sets the total heat of full cure and its spread, and
+// normalises the isothermal curves by it:
+//
+//	TotalHeat = (1/k) Σ H_i,  HeatSD = √((Σ H_i² − (Σ H_i)²/k) / (k − 1))
+//
+// over the k dynamic heats H_i (the sample mean and standard deviation in
+// one pass; the difference is clamped at 0 against rounding). Without a
+// dynamic scan TotalHeat is the largest isothermal heat, a lower bound, and
+// a warning says so. It warns when the dynamic heats range over more than
+// 5 % of their mean, and when an isotherm stalls below StalledCure
+// without a diffusion factor. Cost: linear in the scans and in the samples
+// of the isothermal curves.
+func (an *Analysis) measureHeat(dyn, iso []*Curve, opt Options) {
 	if len(dyn) > 0 {
 		var s, s2 float64
 		for _, c := range dyn {
@@ -149,7 +186,7 @@ func AnalyzeContext(ctx context.Context, scans []*Scan, opt Options) (*Analysis,
 				lo, hi = min(lo, c.Heat), max(hi, c.Heat)
 			}
 			if (hi-lo)/an.TotalHeat > 0.05 {
-				warn("the dynamic scans' heats range from %.4g to %.4g J/g (%.0f %%): check the baselines, the sample masses and the end of each scan",
+				an.warn("the dynamic scans' heats range from %.4g to %.4g J/g (%.0f %%): check the baselines, the sample masses and the end of each scan",
 					lo/1000, hi/1000, 100*(hi-lo)/an.TotalHeat)
 			}
 		}
@@ -157,34 +194,50 @@ func AnalyzeContext(ctx context.Context, scans []*Scan, opt Options) (*Analysis,
 		for _, c := range iso {
 			an.TotalHeat = max(an.TotalHeat, c.Heat)
 		}
-		warn("no dynamic scan: the total heat is the largest isothermal heat, a lower bound if any isotherm stopped short of full cure; add a dynamic scan to measure it")
+		an.warn("no dynamic scan: the total heat is the largest isothermal heat, a lower bound if any isotherm stopped short of full cure; add a dynamic scan to measure it")
 	}
 	for _, c := range iso {
 		c.Normalize(an.TotalHeat)
 		if af := c.Alpha[len(c.Alpha)-1]; af < StalledCure && !opt.Diffusion && opt.Model != Isoconversional {
-			warn("%s: the cure stops at α = %.3f at %.4g C (vitrification?): the model without --diffusion cannot follow it", c.Scan.Name, af, c.Program.Temperature-273.15)
+			an.warn("%s: the cure stops at α = %.3f at %.4g C (vitrification?): the model without --diffusion cannot follow it", c.Scan.Name, af, c.Program.Temperature-273.15)
 		}
 	}
+}
 
-	// Temperature programs and the ICTAC checks on them.
+// checkPrograms sets Rates and Programs and warns where the temperature
+// programs fall short of the ICTAC recommendations (Vyazovkin et al.,
+// Thermochim. Acta 520:1, 2011): fewer than MinPrograms programs, heating
+// rates spanning less than a factor MinRateSpan, or a rate above 25 K/min
+// (thermal lag; common practice).
+func (an *Analysis) checkPrograms(iso []*Curve) {
 	an.Rates = distinctRates(an.Curves)
 	an.Programs = len(an.Rates) + countIsotherms(iso)
 	if an.Programs < MinPrograms {
-		warn("only %d temperature program(s): the ICTAC Kinetics Committee recommends at least %d, preferably 3 to 5 heating rates (Vyazovkin et al. 2011)", an.Programs, MinPrograms)
+		an.warn("only %d temperature program(s): the ICTAC Kinetics Committee recommends at least %d, preferably 3 to 5 heating rates (Vyazovkin et al. 2011)", an.Programs, MinPrograms)
 	}
 	if len(an.Rates) >= 2 {
 		if span := an.Rates[len(an.Rates)-1] / an.Rates[0]; span < MinRateSpan {
-			warn("the heating rates span a factor %.2g only; ICTAC recommends about a factor of 10", span)
+			an.warn("the heating rates span a factor %.2g only; ICTAC recommends about a factor of 10", span)
 		}
 	}
 	for _, r := range an.Rates {
 		if r*60 > 25 {
-			warn("a heating rate of %.3g K/min: fast scans of a reacting sample lag behind the sensor and shift the peak; prefer 20 K/min or less", r*60)
+			an.warn("a heating rate of %.3g K/min: fast scans of a reacting sample lag behind the sensor and shift the peak; prefer 20 K/min or less", r*60)
 			break
 		}
 	}
+}
 
-	// Isoconversional estimates.
+// isoconversional sets the Kissinger, Ozawa–Flynn–Wall and Friedman
+// estimates (the first two only with at least two heating rates) and the
+// spread of Friedman's E over α = 0.1 … 0.9,
+//
+//	EaSpread = (max E − min E) / mean E,
+//
+// warning above MaxEaSpread that the kinetics are likely multi-step (ICTAC,
+// Vyazovkin et al. 2011). Cost: that of Kissinger, OFWAt at every Friedman
+// level, and Friedman.
+func (an *Analysis) isoconversional(dyn, iso []*Curve) {
 	if len(an.Rates) >= 2 {
 		var beta, Tp []float64
 		for _, c := range dyn {
@@ -212,45 +265,50 @@ func AnalyzeContext(ctx context.Context, scans []*Scan, opt Options) (*Analysis,
 			n++
 		}
 	}
-	if n > 0 {
-		an.EaSpread = (hi - lo) / (sum / float64(n))
-		if an.EaSpread > MaxEaSpread {
-			why := ""
-			for _, c := range iso {
-				if c.Alpha[len(c.Alpha)-1] < StalledCure {
-					why = " (here the isothermal scans that vitrify add diffusion-controlled points at high α)"
-					break
-				}
+	if n == 0 {
+		return
+	}
+	an.EaSpread = (hi - lo) / (sum / float64(n))
+	if an.EaSpread > MaxEaSpread {
+		why := ""
+		for _, c := range iso {
+			if c.Alpha[len(c.Alpha)-1] < StalledCure {
+				why = " (here the isothermal scans that vitrify add diffusion-controlled points at high α)"
+				break
 			}
-			warn("Friedman's activation energy varies from %.3g to %.3g kJ/mol (%.0f %%) over α = 0.1 to 0.9: multi-step kinetics likely%s; "+
-				"a single-step model is only an empirical description", lo/1000, hi/1000, 100*an.EaSpread, why)
 		}
+		an.warn("Friedman's activation energy varies from %.3g to %.3g kJ/mol (%.0f %%) over α = 0.1 to 0.9: multi-step kinetics likely%s; "+
+			"a single-step model is only an empirical description", lo/1000, hi/1000, 100*an.EaSpread, why)
 	}
+}
 
-	// The model.
-	if opt.Model == "" {
-		return an, nil
-	}
+// fitModel fits opt.Model to all curves at once (see FitContext), started
+// from the Friedman estimates, and warns when the fit did not converge, is
+// singular or poor (R² < 0.98), with a hint at what to try. It refuses a
+// single temperature program (FitRefused; ICTAC, Vyazovkin et al. 2011)
+// and records a fit error in FitRefused. Cancelled, it sets FitRefused and
+// returns ctx.Err(); otherwise nil. Cost: that of the fit.
+func (an *Analysis) fitModel(ctx context.Context, iso []*Curve, opt Options) error {
 	if an.Programs < 2 {
 		an.FitRefused = "a single temperature program: a model fitted to one heating rate is not determined (ICTAC, Vyazovkin et al. 2011); give scans at 3 or more heating rates"
-		return an, nil
+		return nil
 	}
 	fit, err := FitContext(ctx, an.Curves, an.Friedman, FitSpec{Model: opt.Model, Diffusion: opt.Diffusion, Progress: opt.Progress})
 	if ctx.Err() != nil {
 		an.FitRefused = "interrupted before the fit converged"
-		return an, ctx.Err()
+		return ctx.Err()
 	}
 	if err != nil {
 		an.FitRefused = err.Error()
-		return an, nil
+		return nil
 	}
 	an.Fit = fit
 	fit.Cure.TotalHeat = an.TotalHeat
 	if !fit.Converged {
-		warn("the fit did not converge within its iteration limit: treat the parameters with caution")
+		an.warn("the fit did not converge within its iteration limit: treat the parameters with caution")
 	}
 	if !fit.Identifiable {
-		warn("some parameters are not determined by these scans (singular fit): standard errors are not available; add temperature programs")
+		an.warn("some parameters are not determined by these scans (singular fit): standard errors are not available; add temperature programs")
 	}
 	if fit.R2 < 0.98 {
 		hint := "the kinetics may need more than these models offer"
@@ -264,9 +322,9 @@ func AnalyzeContext(ctx context.Context, scans []*Scan, opt Options) (*Analysis,
 		case !opt.Diffusion && countStalled(iso) >= 2:
 			hint = "try the diffusion factor (--diffusion)"
 		}
-		warn("the fit is poor (R² = %.3f): %s", fit.R2, hint)
+		an.warn("the fit is poor (R² = %.3f): %s", fit.R2, hint)
 	}
-	return an, nil
+	return nil
 }
 
 // countStalled counts the isothermal curves that stop below StalledCure.
