@@ -574,52 +574,17 @@ func driverCaption(dv seriesData, s results.Summary) string {
 // first and last gel times of the curing layers (vertical lines; each
 // trace ends where its probe gels). "" when no probe has a viscosity.
 func viscosityFigure(d *runData, ts timeScale) (string, string, error) {
-	var any bool
-	lo, hi := math.Inf(1), math.Inf(-1)
-	for _, pr := range d.Probes {
-		for _, v := range pr.Viscosity {
-			if v > 0 && !math.IsInf(v, 0) {
-				any = true
-				lo, hi = min(lo, v), max(hi, v)
-			}
-		}
-	}
-	if !any {
-		return "", "", nil
-	}
 	s := d.Summary
 	flow := math.NaN()
 	if s.FlowViscosityPaS != nil {
 		flow = float64(*s.FlowViscosityPaS)
-		lo, hi = min(lo, flow), max(hi, flow)
 	}
-	// Whole decades around the data; the traces rise steeply toward gel,
-	// so the top is capped at 10^4 times the threshold.
-	if !math.IsNaN(flow) {
-		hi = min(hi, flow*1e4)
-	}
-	lo, hi = math.Pow(10, math.Floor(math.Log10(lo))), math.Pow(10, math.Ceil(math.Log10(hi)))
-	if hi <= lo {
-		hi = lo * 10
+	lo, hi, any := viscosityScale(d, flow)
+	if !any {
+		return "", "", nil
 	}
 	t := ts.of(d.Times)
 	x0, x1 := t[0], t[len(t)-1]
-	caption := "Viscosity of the resin at each probe depth in a layer with a viscosity law, logarithmic scale; a trace ends where its probe reaches the gel point"
-	if !math.IsNaN(flow) {
-		caption += ". Horizontal " + dashDotLine.Word + " line: the flow threshold (" + strconv.FormatFloat(flow, 'g', 4, 64) +
-			" Pa·s); the flow window is the time a cell spends below it before gel"
-	}
-	var gels []string
-	if s.GelTimeFirstS.Known() {
-		gels = append(gels, "the first gel time")
-	}
-	if s.GelTimeLastS.Known() && s.GelTimeLastS != s.GelTimeFirstS {
-		gels = append(gels, "the last gel time")
-	}
-	if len(gels) > 0 {
-		caption += ". Vertical dashed lines: " + joinAnd(gels) + " of the curing layers"
-	}
-	caption += "."
 	svg, err := svgFigure(figWidth, profileHeight, "viscosity at the probes", func(dc draw.Canvas) error {
 		p := newPlot("time ("+ts.unit+")", "viscosity, log scale (Pa·s)")
 		addGrid(p)
@@ -654,25 +619,8 @@ func viscosityFigure(d *runData, ts timeScale) (string, string, error) {
 				return err
 			}
 		}
-		for _, g := range []struct {
-			at   results.Float
-			text string
-		}{{s.GelTimeFirstS, "first gel"}, {s.GelTimeLastS, "last gel"}} {
-			if !g.at.Known() || (g.text == "last gel" && s.GelTimeLastS == s.GelTimeFirstS) {
-				continue
-			}
-			x := ts.of([]float64{float64(g.at)})[0]
-			if _, err := addSeries(p, series{X: []float64{x, x}, Y: []float64{lo, hi}, Color: ink, Width: vg.Points(0.9),
-				Dash: []vg.Length{vg.Points(4), vg.Points(3)}}); err != nil {
-				return err
-			}
-			// The first gel's label to the left of its line, the last's to
-			// the right, so that the two never overlap.
-			tg := &tag{X: x, Y: hi, Text: g.text, XAlign: draw.XLeft, YAlign: draw.YTop, DX: vg.Points(3), DY: vg.Points(-3)}
-			if g.text == "first gel" {
-				tg.XAlign, tg.DX = draw.XRight, vg.Points(-3)
-			}
-			p.Add(tg)
+		if err := addGelLines(p, s, ts, lo, hi); err != nil {
+			return err
 		}
 		p.X.Min, p.X.Max = x0, x1
 		p.Y.Min, p.Y.Max = lo, hi
@@ -682,5 +630,80 @@ func viscosityFigure(d *runData, ts timeScale) (string, string, error) {
 		legendAt(draw.Crop(dc, dc.Max.X-dc.Min.X-lw+vg.Points(10), 0, 0, 0), p.DataCanvas(left), leg)
 		return nil
 	})
-	return svg, caption, err
+	return svg, viscosityCaption(s, flow), err
+}
+
+// viscosityScale returns the logarithmic axis of viscosityFigure: whole
+// decades around the probes' finite viscosities and the flow threshold
+// flow (NaN when none), the top capped at 10^4 times the threshold (the
+// traces rise steeply toward gel). any is false when no probe has a
+// viscosity.
+func viscosityScale(d *runData, flow float64) (lo, hi float64, any bool) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for _, pr := range d.Probes {
+		for _, v := range pr.Viscosity {
+			if v > 0 && !math.IsInf(v, 0) {
+				any = true
+				lo, hi = min(lo, v), max(hi, v)
+			}
+		}
+	}
+	if !any {
+		return lo, hi, false
+	}
+	if !math.IsNaN(flow) {
+		lo, hi = min(lo, flow), max(hi, flow)
+		hi = min(hi, flow*1e4)
+	}
+	lo, hi = math.Pow(10, math.Floor(math.Log10(lo))), math.Pow(10, math.Ceil(math.Log10(hi)))
+	if hi <= lo {
+		hi = lo * 10
+	}
+	return lo, hi, true
+}
+
+// viscosityCaption says what viscosityFigure draws.
+func viscosityCaption(s results.Summary, flow float64) string {
+	caption := "Viscosity of the resin at each probe depth in a layer with a viscosity law, logarithmic scale; a trace ends where its probe reaches the gel point"
+	if !math.IsNaN(flow) {
+		caption += ". Horizontal " + dashDotLine.Word + " line: the flow threshold (" + strconv.FormatFloat(flow, 'g', 4, 64) +
+			" Pa·s); the flow window is the time a cell spends below it before gel"
+	}
+	var gels []string
+	if s.GelTimeFirstS.Known() {
+		gels = append(gels, "the first gel time")
+	}
+	if s.GelTimeLastS.Known() && s.GelTimeLastS != s.GelTimeFirstS {
+		gels = append(gels, "the last gel time")
+	}
+	if len(gels) > 0 {
+		caption += ". Vertical dashed lines: " + joinAnd(gels) + " of the curing layers"
+	}
+	return caption + "."
+}
+
+// addGelLines draws the first and the last gel time of the curing layers
+// as vertical dashed lines from lo to hi, labelled at the top: the first's
+// label left of its line, the last's right, so that the two never overlap.
+// The last is left out when it equals the first.
+func addGelLines(p *plot.Plot, s results.Summary, ts timeScale, lo, hi float64) error {
+	for _, g := range []struct {
+		at   results.Float
+		text string
+	}{{s.GelTimeFirstS, "first gel"}, {s.GelTimeLastS, "last gel"}} {
+		if !g.at.Known() || (g.text == "last gel" && s.GelTimeLastS == s.GelTimeFirstS) {
+			continue
+		}
+		x := ts.of([]float64{float64(g.at)})[0]
+		if _, err := addSeries(p, series{X: []float64{x, x}, Y: []float64{lo, hi}, Color: ink, Width: vg.Points(0.9),
+			Dash: []vg.Length{vg.Points(4), vg.Points(3)}}); err != nil {
+			return err
+		}
+		tg := &tag{X: x, Y: hi, Text: g.text, XAlign: draw.XLeft, YAlign: draw.YTop, DX: vg.Points(3), DY: vg.Points(-3)}
+		if g.text == "first gel" {
+			tg.XAlign, tg.DX = draw.XRight, vg.Points(-3)
+		}
+		p.Add(tg)
+	}
+	return nil
 }
