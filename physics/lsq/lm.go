@@ -112,8 +112,6 @@ func Minimize(ctx context.Context, f Func, x0 []float64, m int, s Settings) Resu
 	}
 	x := append([]float64(nil), x0...)
 	r := make([]float64, m)
-	rNew := make([]float64, m)
-	xNew := make([]float64, p)
 	jac := newJacobian(f, m, p, s)
 	res := Result{}
 	finish := func(st Status, J *mat.Dense, cost float64) Result {
@@ -139,22 +137,7 @@ func Minimize(ctx context.Context, f Func, x0 []float64, m int, s Settings) Resu
 	if !jac.at(ctx, J, x, r) {
 		return finish(Interrupted, nil, cost)
 	}
-	var A mat.SymDense
-	g := mat.NewVecDense(p, nil)
-	normal := func() {
-		A.SymOuterK(1, J.T())
-		g.MulVec(J.T(), mat.NewVecDense(m, r))
-	}
-	normal()
-	maxDiag := 0.0
-	for i := range p {
-		maxDiag = max(maxDiag, A.At(i, i))
-	}
-	lambda := 1e-3
-	nu := 2.0
-	M := mat.NewSymDense(p, nil)
-	var chol mat.Cholesky
-	delta := mat.NewVecDense(p, nil)
+	l := newLM(x, r, cost, J)
 	status := IterationLimit
 	iter := 0
 	for iter < s.MaxIter {
@@ -163,73 +146,30 @@ func Minimize(ctx context.Context, f Func, x0 []float64, m int, s Settings) Resu
 			break
 		}
 		iter++
-		// Damped normal equations with Marquardt's scaling.
-		M.CopySym(&A)
-		for i := range p {
-			d := max(A.At(i, i), 1e-12*maxDiag, 1e-300)
-			M.SetSym(i, i, A.At(i, i)+lambda*d)
-		}
-		if !chol.Factorize(M) {
-			lambda *= nu
-			nu *= 2
+		if !l.solve() {
+			l.raise()
 			continue
 		}
-		if err := chol.SolveVecTo(delta, g); err != nil {
-			lambda *= nu
-			nu *= 2
-			continue
-		}
-		small := true
-		for i := range p {
-			xNew[i] = x[i] - delta.AtVec(i)
-			if math.Abs(delta.AtVec(i)) > 1e-9*max(math.Abs(x[i]), 1) {
-				small = false
-			}
-		}
-		costNew := costOf(f, rNew, xNew)
+		small := l.trial()
+		costNew := costOf(f, l.rNew, l.xNew)
 		res.Evals++
 		if ctx.Err() != nil {
 			status = Interrupted
 			break
 		}
-		// Predicted reduction of the quadratic model: ½δᵀ(λDδ + g) with
-		// δ the step taken (−delta).
-		var pred float64
-		for i := range p {
-			d := max(A.At(i, i), 1e-12*maxDiag, 1e-300)
-			pred += 0.5 * delta.AtVec(i) * (lambda*d*delta.AtVec(i) + g.AtVec(i))
-		}
-		if costNew < cost {
-			drop := cost - costNew
-			rho := drop / max(pred, 1e-300)
-			copy(x, xNew)
-			copy(r, rNew)
-			cost = costNew
-			lambda *= max(1.0/3, 1-math.Pow(2*rho-1, 3))
-			nu = 2
-			if !jac.at(ctx, J, x, r) {
-				J = nil
+		if costNew < l.cost {
+			drop := l.accept(costNew)
+			if !jac.at(ctx, l.J, l.x, l.r) {
+				l.J = nil
 				status = Interrupted
 				break
 			}
-			normal()
+			l.normal()
 			if s.Progress != nil {
-				s.Progress(iter, cost)
+				s.Progress(iter, l.cost)
 			}
-			if drop <= 1e-10*cost {
-				status, res.Reason = Converged, "the last step lowered the cost by less than a relative 1e-10"
-				break
-			}
-			if small {
-				status, res.Reason = Converged, "the last step was below a relative 1e-9 in every variable"
-				break
-			}
-			var gmax float64
-			for i := range p {
-				gmax = max(gmax, math.Abs(g.AtVec(i)))
-			}
-			if gmax <= 1e-14*max(cost, 1e-300) {
-				status, res.Reason = Converged, "the gradient vanishes"
+			if res.Reason = l.converged(drop, small); res.Reason != "" {
+				status = Converged
 				break
 			}
 		} else {
@@ -237,9 +177,8 @@ func Minimize(ctx context.Context, f Func, x0 []float64, m int, s Settings) Resu
 				status, res.Reason = Converged, "the step was below a relative 1e-9 in every variable"
 				break
 			}
-			lambda *= nu
-			nu *= 2
-			if lambda > 1e16 {
+			l.raise()
+			if l.lambda > 1e16 {
 				// No step lowers the cost: a minimum to rounding.
 				status, res.Reason = Converged, "no step lowers the cost"
 				break
@@ -247,7 +186,148 @@ func Minimize(ctx context.Context, f Func, x0 []float64, m int, s Settings) Resu
 		}
 	}
 	res.Iterations = iter
-	return finish(status, J, cost)
+	return finish(status, l.J, l.cost)
+}
+
+// lm is the state of Minimize's iteration between two steps: the best
+// point accepted, the normal equations there, the damping and the scratch
+// of the trial step. Its slices and matrices are made in newLM and reused.
+type lm struct {
+	x, r       []float64     // the best point accepted and its residuals
+	cost       float64       // ½‖r‖² at x
+	J          *mat.Dense    // ∂r/∂x at x
+	A          mat.SymDense  // JᵀJ at x
+	g          *mat.VecDense // Jᵀr at x
+	maxDiag    float64       // the largest diagonal element of JᵀJ at the start
+	lambda, nu float64       // the damping λ and its growth factor ν
+	xNew, rNew []float64     // the trial point and its residuals
+	M          *mat.SymDense // the damped matrix JᵀJ + λ·D
+	chol       mat.Cholesky  // of M
+	delta      *mat.VecDense // −(the step), the solution of M·delta = g
+}
+
+// newLM starts the iteration at x with residuals r, cost ½‖r‖² and
+// Jacobian J: it forms the normal equations there and sets λ = 1e-3
+// (relative to the scaled diagonal, see scale) and ν = 2. x, r and J are
+// kept, not copied.
+func newLM(x, r []float64, cost float64, J *mat.Dense) *lm {
+	m, p := J.Dims()
+	l := &lm{
+		x: x, r: r, cost: cost, J: J,
+		g:      mat.NewVecDense(p, nil),
+		lambda: 1e-3, nu: 2,
+		xNew:  make([]float64, p),
+		rNew:  make([]float64, m),
+		M:     mat.NewSymDense(p, nil),
+		delta: mat.NewVecDense(p, nil),
+	}
+	l.normal()
+	for i := range p {
+		l.maxDiag = max(l.maxDiag, l.A.At(i, i))
+	}
+	return l
+}
+
+// normal forms the normal equations at the current point,
+//
+//	A = JᵀJ,  g = Jᵀr.
+//
+// Cost: O(m·p²).
+func (l *lm) normal() {
+	m, _ := l.J.Dims()
+	l.A.SymOuterK(1, l.J.T())
+	l.g.MulVec(l.J.T(), mat.NewVecDense(m, l.r))
+}
+
+// scale is Marquardt's scaling D_ii of variable i: the diagonal (JᵀJ)_ii,
+// kept above 1e-12 of the largest diagonal at the start (and above 1e-300)
+// so that a variable the residuals do not see is still damped.
+func (l *lm) scale(i int) float64 {
+	return max(l.A.At(i, i), 1e-12*l.maxDiag, 1e-300)
+}
+
+// solve solves the damped normal equations with Marquardt's scaling,
+//
+//	(JᵀJ + λ·D)·delta = Jᵀr,  D = diag(scale),
+//
+// by Cholesky into delta (the step taken is −delta). It returns false when
+// the matrix is not positive definite to rounding. Cost: O(p³).
+func (l *lm) solve() bool {
+	_, p := l.J.Dims()
+	l.M.CopySym(&l.A)
+	for i := range p {
+		l.M.SetSym(i, i, l.A.At(i, i)+l.lambda*l.scale(i))
+	}
+	if !l.chol.Factorize(l.M) {
+		return false
+	}
+	return l.chol.SolveVecTo(l.delta, l.g) == nil
+}
+
+// trial sets the trial point xNew = x − delta and reports whether the step
+// is small: below 1e-9 in every component, relative to the component
+// (absolute below 1).
+func (l *lm) trial() (small bool) {
+	small = true
+	for i := range l.x {
+		l.xNew[i] = l.x[i] - l.delta.AtVec(i)
+		if math.Abs(l.delta.AtVec(i)) > 1e-9*max(math.Abs(l.x[i]), 1) {
+			small = false
+		}
+	}
+	return small
+}
+
+// raise increases the damping after a step that failed: λ ← λν, ν ← 2ν.
+func (l *lm) raise() {
+	l.lambda *= l.nu
+	l.nu *= 2
+}
+
+// accept moves to the trial point, whose cost costNew is below the current
+// one, and lowers the damping by Nielsen's rule
+//
+//	λ ← λ·max(⅓, 1 − (2ρ − 1)³),  ν ← 2,
+//
+// with ρ the gain ratio of the actual to the predicted reduction of the
+// cost (Madsen, Nielsen & Tingleff 2004, §3.2, Algorithm 3.16); the
+// predicted reduction of the quadratic model is ½hᵀ(λDh − g) with h =
+// −delta the step taken. It returns the actual reduction. The Jacobian and
+// the normal equations are left for the caller to update.
+func (l *lm) accept(costNew float64) (drop float64) {
+	var pred float64
+	for i := range l.x {
+		pred += 0.5 * l.delta.AtVec(i) * (l.lambda*l.scale(i)*l.delta.AtVec(i) + l.g.AtVec(i))
+	}
+	drop = l.cost - costNew
+	rho := drop / max(pred, 1e-300)
+	copy(l.x, l.xNew)
+	copy(l.r, l.rNew)
+	l.cost = costNew
+	l.lambda *= max(1.0/3, 1-math.Pow(2*rho-1, 3))
+	l.nu = 2
+	return drop
+}
+
+// converged applies Minimize's convergence tests after an accepted step
+// that lowered the cost by drop and was small or not (see trial), with the
+// normal equations already at the new point. It returns the test met, or ""
+// if none.
+func (l *lm) converged(drop float64, small bool) string {
+	if drop <= 1e-10*l.cost {
+		return "the last step lowered the cost by less than a relative 1e-10"
+	}
+	if small {
+		return "the last step was below a relative 1e-9 in every variable"
+	}
+	var gmax float64
+	for i := range l.x {
+		gmax = max(gmax, math.Abs(l.g.AtVec(i)))
+	}
+	if gmax <= 1e-14*max(l.cost, 1e-300) {
+		return "the gradient vanishes"
+	}
+	return ""
 }
 
 // costOf evaluates f at x into r and returns ½‖r‖², +Inf when r is not
