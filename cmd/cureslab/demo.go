@@ -1,6 +1,7 @@
 package main
 
 import (
+	"cureslab/cases/outdir"
 	"cureslab/cases/report"
 	"cureslab/cases/simulate"
 	"errors"
@@ -32,7 +33,12 @@ Exit status, as for 'cureslab run' over all the examples: 0 every example
 met its criteria, 1 one failed a criterion, 2 an output could not be
 written, 3 an example ran away or failed numerically, 130 interrupted by
 Ctrl-C or SIGTERM (the example running keeps its outputs up to that moment,
-marked interrupted; the ones after it are not run).`,
+marked interrupted; the ones after it are not run and no comparison is
+made).
+
+DIR holds one demo: its folders are written under staging names and put in
+place together at the end, interrupted or not, and the folders of an
+earlier demo into DIR are removed then, so that DIR never mixes two demos.`,
 	Example: "cureslab demo -o demo-out",
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		out := fs.StringP("out", "o", "./cureslab-demo", "write the outputs under `DIR`")
@@ -44,13 +50,28 @@ marked interrupted; the ones after it are not run).`,
 			if msg := checkOutDir(*out); msg != "" {
 				return e.usageError("%s", msg)
 			}
+			if e.ctx.Err() != nil {
+				fmt.Fprintf(e.stderr, "cureslab demo: interrupted before the first example: nothing was run or written\n")
+				return exitInterrupted
+			}
+			// The demo's directory is one output set: this demo's
+			// folders go in place together at the end, and those of an
+			// earlier demo are removed then, whether this one ran to its
+			// end or was interrupted.
+			set, err := outdir.Open(*out, demoKind)
+			if err != nil {
+				fmt.Fprintf(e.stderr, "cureslab demo: %v\n", err)
+				return exitUsage
+			}
+			defer set.Abort() // after Commit it does nothing
 			opt := simulate.Options{Report: !*noReport}
 			worst := exitOK
 			ran := map[string]results.Compared{}
+			stopped := "" // what an interruption left undone
 			for i, ex := range cases.Examples() {
 				if e.ctx.Err() != nil {
-					fmt.Fprintf(e.stderr, "cureslab demo: interrupted; %s and the examples after it were not run\n", ex.Name)
-					return exitInterrupted
+					stopped = ex.Name + " and the examples after it were not run"
+					break
 				}
 				if i > 0 {
 					fmt.Fprintln(e.stdout)
@@ -62,29 +83,70 @@ marked interrupted; the ones after it are not run).`,
 					worst = max(worst, exitUsage)
 					continue
 				}
+				at, err := set.StageDir(ex.Name)
+				if err != nil {
+					fmt.Fprintf(e.stderr, "cureslab demo: %v; nothing was written, the earlier outputs in %s are left as they were\n", err, *out)
+					return exitUsage
+				}
 				dir := filepath.Join(*out, ex.Name)
-				o, code := runCase(e, "demo", c, dir, opt)
+				o, code := runCaseStaged(e, "demo", c, at, dir, opt)
 				s, r := o.Summary, o.Result
 				worst = max(worst, code)
+				if !o.Ran || o.Err != nil {
+					set.Unstage(ex.Name) // no outputs of its own: no folder
+				}
 				if code == exitUsage {
 					continue
 				}
 				results.PrintSummary(e.stdout, s)
 				fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
 				if code == exitInterrupted {
-					fmt.Fprintf(e.stderr, "cureslab demo: the examples after %s were not run\n", ex.Name)
-					return exitInterrupted
+					stopped = "the examples after " + ex.Name + " were not run"
+					break
 				}
-				// A failed status without a message: the run never started.
-				started := s.Status != results.StatusFailed || s.Message != ""
-				ran[ex.Name] = results.Compared{Name: ex.Name, Case: c, Ran: started, Summary: s, Result: r, Dir: dir}
+				ran[ex.Name] = results.Compared{Name: ex.Name, Case: c, Ran: o.Ran, Summary: s, Result: r, Dir: at}
 			}
-			for _, dc := range demoComparisons {
-				worst = max(worst, demoCompare(e, ran, dc.names, filepath.Join(*out, dc.dir), opt))
+			if stopped == "" {
+				for i, dc := range demoComparisons {
+					if e.ctx.Err() != nil {
+						stopped = "the comparisons from " + demoComparisons[i].dir + " on were not made"
+						break
+					}
+					code := demoCompare(e, set, ran, dc.names, *out, dc.dir, opt)
+					worst = max(worst, code)
+					if code == exitInterrupted {
+						stopped = "the comparisons after " + dc.dir + " were not made"
+						break
+					}
+				}
+			} else {
+				stopped += "; no comparison was made"
+			}
+			if err := set.Commit(); err != nil {
+				fmt.Fprintf(e.stderr, "cureslab demo: %s: %v; the earlier outputs there are left as they were\n", *out, err)
+				return exitUsage
+			}
+			if stopped != "" {
+				fmt.Fprintf(e.stderr, "cureslab demo: interrupted: %s. %s holds only what this demo computed, the examples listed above (what an earlier demo wrote there was removed)\n", stopped, *out)
+				return exitInterrupted
 			}
 			return worst
 		}
 	},
+}
+
+// demoKind is the demo's output directory (package outdir): one folder per
+// example and one per comparison, written as one set, so that the
+// directory never mixes two demos.
+var demoKind = outdir.Register(outdir.Kind{Name: "demo", Names: demoNames()})
+
+// demoNames returns every folder the demo writes.
+func demoNames() []string {
+	names := cases.ExampleNames()
+	for _, dc := range demoComparisons {
+		names = append(names, dc.dir)
+	}
+	return names
 }
 
 // demoComparisons are the examples the demo sets side by side, each into
@@ -99,9 +161,11 @@ var demoComparisons = []struct {
 	{"compare-6ghz", []string{"thick-potting-6ghz", "thick-potting-6ghz-swept"}},
 }
 
-// demoCompare prints the comparison of the named examples that ran and
-// writes dir/compare.csv. It returns the exit status of a write error.
-func demoCompare(e *env, ran map[string]results.Compared, names []string, dir string, opt simulate.Options) int {
+// demoCompare prints the comparison of the named examples that ran (their
+// files in the staged folders of set, Dir) and stages out/sub/compare.csv
+// and the comparison page into set. It returns the exit status of a write
+// error, or exitInterrupted when the page was not drawn.
+func demoCompare(e *env, set *outdir.Set, ran map[string]results.Compared, names []string, out, sub string, opt simulate.Options) int {
 	var rows []results.Compared
 	for _, name := range names {
 		if r, ok := ran[name]; ok {
@@ -111,10 +175,15 @@ func demoCompare(e *env, ran map[string]results.Compared, names []string, dir st
 	if len(rows) < 2 {
 		return exitOK
 	}
+	dir := filepath.Join(out, sub)
 	fmt.Fprintf(e.stdout, "\n== comparison: %s\n", strings.Join(names, " vs "))
-	err := simulate.WriteComparison(e.ctx, dir, rows, opt.Report)
+	at, err := set.StageDir(sub)
+	if err == nil {
+		err = simulate.WriteComparison(e.ctx, at, rows, opt.Report)
+	}
 	cut := errors.Is(err, simulate.ErrPageNotDrawn)
 	if err != nil && !cut {
+		set.Unstage(sub)
 		fmt.Fprintf(e.stderr, "cureslab demo: %s: %v\n", dir, err)
 		return exitUsage
 	}

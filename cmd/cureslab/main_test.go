@@ -5,10 +5,12 @@ import (
 	"context"
 	"encoding/json"
 	"flag"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
@@ -295,6 +297,71 @@ func TestDemo(t *testing.T) {
 	if _, err := os.Stat(filepath.Join("tmp", "compare", report.CompareReportFile)); err != nil {
 		t.Errorf("no comparison report: %v", err)
 	}
+
+	// Interrupted as its second example starts, a demo into the same
+	// directory leaves exactly what it computed: the first example, the
+	// second marked interrupted, no folder of the first demo's other
+	// examples, no comparison built on them.
+	names := cases.ExampleNames()
+	var errb bytes.Buffer
+	e := &env{ctx: onceExists{context.Background(), filepath.Join("tmp", names[1]+".staging"), new(bool)}, stdout: io.Discard, stderr: &errb, cmd: demoCmd}
+	if code := runDirect(t, e, demoCmd, "-o", "tmp"); code != exitInterrupted {
+		t.Fatalf("interrupted demo: exit %d, want 130\nstderr:\n%s", code, errb.String())
+	}
+	for _, w := range []string{"interrupted", "the examples after " + names[1] + " were not run", "no comparison was made", "holds only what this demo computed"} {
+		if !strings.Contains(errb.String(), w) {
+			t.Errorf("the interrupted demo does not say %q:\n%s", w, errb.String())
+		}
+	}
+	if s := readSummary(t, filepath.Join("tmp", names[0])); s.Status != results.StatusOK {
+		t.Errorf("%s: status %q, want ok", names[0], s.Status)
+	}
+	if s := readSummary(t, filepath.Join("tmp", names[1])); s.Status != results.StatusInterrupted {
+		t.Errorf("%s: status %q, want interrupted", names[1], s.Status)
+	}
+	ents, _ := os.ReadDir("tmp")
+	var left []string
+	for _, d := range ents {
+		left = append(left, d.Name())
+	}
+	if want := []string{".cureslab-set.json", names[0], names[1]}; !slices.Equal(left, want) {
+		t.Errorf("after the interrupted demo the directory holds %v, want %v", left, want)
+	}
+
+	// A demo into a run's directory is refused, naming what is there.
+	code, _, errs = cl(t, "demo", "-o", filepath.Join("tmp", names[0]))
+	if code != exitUsage || !strings.Contains(errs, "holds a run's output") {
+		t.Errorf("demo into a run's directory: exit %d\n%s", code, errs)
+	}
+}
+
+// runDirect runs command c with e as it is, without the signal context
+// of Command.run (which would hide a context that reports its
+// cancellation through Err alone, such as onceExists).
+func runDirect(t *testing.T, e *env, c *Command, args ...string) int {
+	t.Helper()
+	fs, _ := c.flagSet(e.stderr)
+	runner := c.Setup(fs)
+	if err := fs.Parse(args); err != nil {
+		t.Fatal(err)
+	}
+	return runner(e, fs.Args())
+}
+
+// onceExists is a context cancelled from the moment the file path exists
+// on: a Ctrl-C at a known point of the work.
+type onceExists struct {
+	context.Context
+	path string
+	seen *bool
+}
+
+func (c onceExists) Err() error {
+	if _, err := os.Stat(c.path); err == nil || *c.seen {
+		*c.seen = true
+		return context.Canceled
+	}
+	return nil
 }
 
 func TestInterrupted(t *testing.T) {

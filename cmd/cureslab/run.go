@@ -219,7 +219,13 @@ func checkOutDir(dir string) string {
 // returns its outcome and the exit status. Errors go to stderr under the
 // command name cmd.
 func runCase(e *env, cmd string, c *cases.Case, dir string, opt simulate.Options) (results.Compared, int) {
-	o := simulate.Case(e.ctx, c, dir, opt)
+	return runCaseStaged(e, cmd, c, dir, dir, opt)
+}
+
+// runCaseStaged is runCase writing into the folder at, a staged folder of
+// a larger output set that goes in place as dir: the messages name dir.
+func runCaseStaged(e *env, cmd string, c *cases.Case, at, dir string, opt simulate.Options) (results.Compared, int) {
+	o := simulate.Case(e.ctx, c, at, opt)
 	var ke *outdir.KindError
 	var be *outdir.BusyError
 	switch {
