@@ -31,7 +31,7 @@ few kelvin of overshoot instead of the oven's tens, and how long each takes.
 
 Exit status, as for 'cureslab run' over all the examples: 0 every example
 met its criteria, 1 one failed a criterion, 2 an output could not be
-written, 3 an example ran away or failed numerically, 130 interrupted by
+written or DIR holds another kind of output, 3 an example ran away or failed numerically, 130 interrupted by
 Ctrl-C or SIGTERM (the example running keeps its outputs up to that moment,
 marked interrupted; the ones after it are not run and no comparison is
 made).
