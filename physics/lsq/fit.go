@@ -267,34 +267,13 @@ func Fit(ctx context.Context, pr Problem, s Settings) (*Estimate, error) {
 	if pr.Residuals == nil || (pr.Weights != nil && len(pr.Weights) != m) {
 		panic("lsq: Fit needs a residual function and one weight per residual")
 	}
-	if p == 0 {
-		return nil, fmt.Errorf("lsq: no unknowns")
-	}
-	if m <= p {
-		return nil, fmt.Errorf("lsq: %d residuals for %d unknowns: need more residuals than unknowns", m, p)
-	}
-	level := pr.Level
-	if level == 0 {
-		level = 0.95
-	}
-	if !(level > 0 && level < 1) {
-		return nil, fmt.Errorf("lsq: confidence level %g is not in (0, 1)", level)
-	}
-	sw := make([]float64, m)
-	for i := range sw {
-		sw[i] = 1
-		if pr.Weights != nil {
-			w := pr.Weights[i]
-			if !(w > 0) || math.IsInf(w, 1) {
-				return nil, fmt.Errorf("lsq: weight %d is %g: weights must be positive and finite", i, w)
-			}
-			sw[i] = math.Sqrt(w)
-		}
+	level, sw, err := checkProblem(pr)
+	if err != nil {
+		return nil, err
 	}
 	tr := make([]transform, p)
 	u0 := make([]float64, p)
 	for i, v := range pr.Vars {
-		var err error
 		if tr[i], err = newTransform(i, v); err != nil {
 			return nil, err
 		}
@@ -311,7 +290,55 @@ func Fit(ctx context.Context, pr Problem, s Settings) (*Estimate, error) {
 		}
 	}
 	r := Minimize(ctx, f, u0, m, s)
-	e := &Estimate{
+	e, dv, dy := newEstimate(r, tr, sw, level)
+	if r.Jacobian != nil {
+		e.statistics(r, tr, dv, dy, level)
+	}
+	return e, nil
+}
+
+// checkProblem checks the sizes, the confidence level and the weights of
+// pr, and returns the level (0.95 for 0) and the square roots of the
+// weights (all 1 without weights), the factors of the residuals that
+// Minimize sees.
+func checkProblem(pr Problem) (level float64, sw []float64, err error) {
+	p, m := len(pr.Vars), pr.M
+	if p == 0 {
+		return 0, nil, fmt.Errorf("lsq: no unknowns")
+	}
+	if m <= p {
+		return 0, nil, fmt.Errorf("lsq: %d residuals for %d unknowns: need more residuals than unknowns", m, p)
+	}
+	level = pr.Level
+	if level == 0 {
+		level = 0.95
+	}
+	if !(level > 0 && level < 1) {
+		return 0, nil, fmt.Errorf("lsq: confidence level %g is not in (0, 1)", level)
+	}
+	sw = make([]float64, m)
+	for i := range sw {
+		sw[i] = 1
+		if pr.Weights != nil {
+			w := pr.Weights[i]
+			if !(w > 0) || math.IsInf(w, 1) {
+				return 0, nil, fmt.Errorf("lsq: weight %d is %g: weights must be positive and finite", i, w)
+			}
+			sw[i] = math.Sqrt(w)
+		}
+	}
+	return level, sw, nil
+}
+
+// newEstimate maps the outcome r of Minimize in the scaled variables back
+// to the values, AtBound flags and unweighted residuals (dividing by the
+// square roots of the weights sw), with SSR = 2·cost, DoF = m − p,
+// Sigma = √(SSR/DoF) and T at level; SE and the intervals are NaN, for
+// statistics to fill. It also returns the derivatives dv/du and dy/du of
+// each value and of its fitted scale at the optimum (see transform).
+func newEstimate(r Result, tr []transform, sw []float64, level float64) (e *Estimate, dv, dy []float64) {
+	p, m := len(tr), len(r.Residuals)
+	e = &Estimate{
 		Value: make([]float64, p), SE: make([]float64, p), Low: make([]float64, p), High: make([]float64, p),
 		AtBound: make([]bool, p), Residuals: make([]float64, m),
 		SSR: 2 * r.Cost, M: m, DoF: m - p, Status: r.Status, Reason: r.Reason,
@@ -322,8 +349,8 @@ func Fit(ctx context.Context, pr Problem, s Settings) (*Estimate, error) {
 	for i := range r.Residuals {
 		e.Residuals[i] = r.Residuals[i] / sw[i]
 	}
-	dv := make([]float64, p) // dv/du
-	dy := make([]float64, p) // dy/du
+	dv = make([]float64, p)
+	dy = make([]float64, p)
 	for i := range p {
 		var y float64
 		y, dy[i] = tr[i].y(r.X[i])
@@ -335,11 +362,20 @@ func Fit(ctx context.Context, pr Problem, s Settings) (*Estimate, error) {
 		e.AtBound[i] = tr[i].atBound(r.X[i])
 		e.SE[i], e.Low[i], e.High[i] = math.NaN(), math.NaN(), math.NaN()
 	}
-	if r.Jacobian == nil {
-		return e, nil
-	}
-	// A value on a bound is held there for the statistics: its column
-	// (near zero, as the transformation flattens there) is left out.
+	return e, dv, dy
+}
+
+// statistics fills the linear-approximation statistics of e from the
+// Jacobian r.Jacobian (not nil) of the weighted residuals in the scaled
+// variables at the optimum r.X (the formulas are in Fit's doc comment).
+// A value on a bound is held there: its column (near zero, as the
+// transformation flattens there) is left out, its entries stay NaN, and
+// DoF, Sigma and T count the free unknowns only. The weakest direction and
+// the condition come from Nullspace; nothing more is filled when
+// Covariance finds JᵀJ not positive definite (Identifiable false). Cost:
+// O(m·p² + p³).
+func (e *Estimate) statistics(r Result, tr []transform, dv, dy []float64, level float64) {
+	p, m := len(tr), len(r.Residuals)
 	var free []int
 	for i := range p {
 		if !e.AtBound[i] {
@@ -347,7 +383,7 @@ func Fit(ctx context.Context, pr Problem, s Settings) (*Estimate, error) {
 		}
 	}
 	if len(free) == 0 {
-		return e, nil
+		return
 	}
 	J := r.Jacobian
 	if len(free) < p {
@@ -372,8 +408,28 @@ func Fit(ctx context.Context, pr Problem, s Settings) (*Estimate, error) {
 	cov, ok := Covariance(J, r.Cost)
 	e.Identifiable = ok
 	if !ok {
-		return e, nil
+		return
 	}
+	e.setCovariance(cov, free, dv)
+	for a, i := range free {
+		su := math.Sqrt(cov.At(a, a))
+		e.SE[i] = math.Abs(dv[i]) * su
+		y, _ := tr[i].y(r.X[i])
+		h := e.T * math.Abs(dy[i]) * su
+		lo, hi := tr[i].fromY(y-h), tr[i].fromY(y+h)
+		e.Low[i] = max(lo, tr[i].qLo)
+		e.High[i] = min(hi, tr[i].qHi)
+	}
+}
+
+// setCovariance sets Cov and Corr of the values from the covariance cov of
+// the free scaled variables (free[a] is the unknown of row a):
+//
+//	Cov[i][j] = (dv_i/du_i)·Cov_u[a][b]·(dv_j/du_j)
+//
+// with NaN in the rows and columns of the unknowns held on a bound.
+func (e *Estimate) setCovariance(cov *mat.SymDense, free []int, dv []float64) {
+	p := len(e.Value)
 	corr := Correlation(cov)
 	e.Corr, e.Cov = mat.NewSymDense(p, nil), mat.NewSymDense(p, nil)
 	for i := range p {
@@ -391,14 +447,4 @@ func Fit(ctx context.Context, pr Problem, s Settings) (*Estimate, error) {
 			e.Cov.SetSym(i, j, dv[i]*cov.At(a, b)*dv[j])
 		}
 	}
-	for a, i := range free {
-		su := math.Sqrt(cov.At(a, a))
-		e.SE[i] = math.Abs(dv[i]) * su
-		y, _ := tr[i].y(r.X[i])
-		h := e.T * math.Abs(dy[i]) * su
-		lo, hi := tr[i].fromY(y-h), tr[i].fromY(y+h)
-		e.Low[i] = max(lo, tr[i].qLo)
-		e.High[i] = min(hi, tr[i].qHi)
-	}
-	return e, nil
 }
