@@ -16,7 +16,7 @@ import (
 var reportCmd = &Command{
 	Name:  "report",
 	Args:  "DIR",
-	Short: "(re)draw the HTML report from the output files of a run or a sweep",
+	Short: "(re)draw the HTML report from the output files of a run, a sweep or a comparison",
 	Long: `Read fields.csv, probes.csv and summary.json in DIR, the output directory
 of 'cureslab run', and write DIR/report.html from them: the page that run
 writes at the end (depth–time maps of temperature and cure, profiles, probe
@@ -30,8 +30,13 @@ merge') gets its sweep page redrawn from summary.csv and sweep.json. With
 are ordered by the margin over the case's criteria, else by status, then
 least cure.
 
+A comparison's directory (one with compare.csv, from 'cureslab compare', or
+a comparison folder of 'cureslab demo') gets its comparison page redrawn
+from compare.csv and the files of its cases' folders (for a demo's, the
+folders beside it); a case listed as not run is listed so on the page.
+
 Exit status: 0 the report was written, 2 DIR does not hold the outputs of a
-run or a sweep, or one of them is malformed (the message gives the file and
+run, a sweep or a comparison, or one of them is malformed (the message gives the file and
 line; nothing is written), 130 interrupted by Ctrl-C or SIGTERM (nothing
 written).`,
 	Example: "cureslab report potting-out\ncureslab report sweep-merged --case potting.toml",
@@ -66,6 +71,16 @@ written).`,
 			}
 			if *casePath != "" {
 				return e.usageError("--case is for sweep directories; %s holds no %s", dir, results.SweepDefinitionFile)
+			}
+			if report.IsComparison(dir) {
+				if err := report.RedrawCompareReport(e.ctx, dir); e.interrupted(err) {
+					return redrawInterrupted(e, dir, report.CompareReportFile)
+				} else if err != nil {
+					fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
+					return exitUsage
+				}
+				fmt.Fprintf(e.stdout, "wrote %s (the comparison page)\n", filepath.Join(dir, report.CompareReportFile))
+				return exitOK
 			}
 			if err := report.RedrawReport(e.ctx, dir); e.interrupted(err) {
 				return redrawInterrupted(e, dir, report.ReportFile)

@@ -1,0 +1,74 @@
+package report
+
+import (
+	"bytes"
+	"context"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"cureslab/cases/outdir"
+	"cureslab/cases/results"
+)
+
+// A comparison's page redrawn from compare.csv and its cases' folders is
+// the page drawn from memory at the end of the comparison, byte for byte;
+// a case listed without values is shown as not run; a folder whose summary
+// is not that of its row is refused, nothing written.
+func TestRedrawCompareReport(t *testing.T) {
+	fixedClock(t)
+	c1, r1 := runReportCase(t, "150 C")
+	c2, r2 := runReportCase(t, "40 C")
+	rows := []results.Compared{
+		{Name: "cool-limit", Case: c1, Ran: true, Result: r1, Summary: results.Summarize(c1, r1)},
+		{Name: "tight-limit", Case: c2, Ran: true, Result: r2, Summary: results.Summarize(c2, r2)},
+		{Name: "never-ran", Case: c2, Summary: results.Summary{Title: c2.Title, Status: results.StatusNotRun}},
+	}
+	var mem bytes.Buffer
+	if err := CompareReport(context.Background(), &mem, rows); err != nil {
+		t.Fatal(err)
+	}
+	dir := filepath.Join(t.TempDir(), "cmp")
+	for _, r := range rows[:2] {
+		if err := results.WriteRun(filepath.Join(dir, r.Name), r.Case, r.Result, r.Summary); err != nil {
+			t.Fatal(err)
+		}
+	}
+	set, err := outdir.Open(dir, results.CompareKind)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := results.StageComparison(set, rows); err != nil {
+		t.Fatal(err)
+	}
+	if err := set.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if !IsComparison(dir) || IsComparison(filepath.Join(dir, "cool-limit")) {
+		t.Error("IsComparison does not tell the comparison from its cases")
+	}
+	if err := RedrawCompareReport(context.Background(), dir); err != nil {
+		t.Fatal(err)
+	}
+	page, _ := os.ReadFile(filepath.Join(dir, CompareReportFile))
+	if !bytes.Equal(page, mem.Bytes()) {
+		t.Error("the comparison page from the files differs from the page from memory")
+	}
+	if !strings.Contains(string(page), "✗ never-ran did not run.") {
+		t.Error("the case not run is not listed as such")
+	}
+
+	// Another run's outputs in a case's folder: refused, the page left.
+	os.Remove(filepath.Join(dir, CompareReportFile))
+	if err := results.WriteRun(filepath.Join(dir, "tight-limit"), c1, r1, results.Summarize(c1, r1)); err != nil {
+		t.Fatal(err)
+	}
+	err = RedrawCompareReport(context.Background(), dir)
+	if err == nil || !strings.Contains(err.Error(), "compare.csv:3") || !strings.Contains(err.Error(), "no folder holds its outputs") {
+		t.Errorf("a folder of another run: %v", err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, CompareReportFile)); !os.IsNotExist(err) {
+		t.Error("a page was written")
+	}
+}
