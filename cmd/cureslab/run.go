@@ -137,7 +137,7 @@ cureslab run potting.toml -o potting-out`,
 				results.PrintSummary(e.stdout, s)
 				fmt.Fprintf(e.stdout, "outputs in %s\n", dir)
 				fmt.Fprintf(e.stderr, "cureslab run: interrupted during the --uncertain samples: the outputs in %s are the nominal run's, complete, "+
-					"its criteria judged without the samples; no uncertainty.csv, and %s was not drawn (draw it with 'cureslab report %s')\n",
+					"its criteria judged without the samples; the samples run so far are not written (no uncertainty.csv), and %s was not drawn (draw it with 'cureslab report %s')\n",
 					dir, report.ReportFile, dir)
 				return exitInterrupted
 			}
