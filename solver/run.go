@@ -169,13 +169,59 @@ func normalise(p *Problem) (*Problem, error) {
 	return &q, nil
 }
 
+// run integrates from t = 0 to p.End (see Run): the initial state
+// (start), a snapshot at t = 0, the march through the event times (march)
+// and, when the run stops early, a snapshot at the moment itself. Without
+// a sink the snapshots are kept in the Result; with one each is handed to
+// it (see emitter).
 func (s *stepper) run(ctx context.Context, sink Sink) *Result {
-	p := s.p
-	n := s.n
 	res := &Result{}
+	s.start()
+	em := s.newEmitter(res, sink)
+	tr := s.newTracker()
+	tr.observe(s, 0)
+	snap0 := s.snapshot(s.old, 0)
 
-	// Initial state.
-	for i := range n {
+	events := s.events()
+	s.h = s.initialStep(events[0])
+	s.startup = 2 // implicit Euler steps after t = 0
+	s.tr = tr
+
+	ctl := (*physics.Control)(nil)
+	if s.vol != nil {
+		ctl = s.vol.Control
+	}
+	if ctl != nil {
+		s.controlUpdate(ctl)
+		snap0.PowerFraction = s.u
+	}
+	em.emit(snap0)
+	if em.err != nil {
+		res.Status, res.Err = Failed, em.err
+	} else {
+		res.Status, res.Err = s.march(ctx, events, ctl, em)
+	}
+	if res.Status != OK && em.err == nil && em.last != s.t {
+		em.emit(s.snapshot(s.old, s.ledger.Faces+s.ledger.Volumetric))
+		if em.err != nil {
+			res.Err = errors.Join(res.Err, em.err)
+		}
+	}
+	res.Ledger = s.ledger
+	res.EndTime = s.t
+	tr.finish(s, &s.ledger)
+	res.Summary = tr.sum
+	res.Summary.FieldSolutions = s.fieldRuns
+	return res
+}
+
+// start sets the initial state at t = 0: p.InitialTemperature in every
+// cell and p.InitialCure in every cell that cures, the standing-wave field
+// (if any) and the accepted level there, which becomes the only entry of
+// the history.
+func (s *stepper) start() {
+	p := s.p
+	for i := range s.n {
 		s.T[i] = p.InitialTemperature
 		if s.cure[i] != nil {
 			s.A[i] = p.InitialCure
@@ -188,10 +234,93 @@ func (s *stepper) run(ctx context.Context, sink Sink) *Result {
 	s.eval(s.old, 0, s.T, s.A)
 	s.histLen = 0
 	s.pushHistory()
+}
 
-	// One block for every snapshot of the run: the output times, t = 0 and
-	// an early stop.
-	shots := len(p.OutputTimes) + 2
+// march advances from the initial state through every event time (see
+// events), one step attempt at a time (advance), sampling the controller
+// ctl (nil for none) at every multiple of its period and emitting a
+// snapshot at every output time. It returns OK after the last event, or
+// the status and error of the first of: ctx cancelled (Interrupted), a
+// step that cannot be made or a sink error (Failed), a cell past
+// p.AbortTemperature (Runaway). It allocates nothing beyond the snapshots
+// and the error.
+func (s *stepper) march(ctx context.Context, events []float64, ctl *physics.Control, em *emitter) (Status, error) {
+	p, tr := s.p, s.tr
+	ev := 0     // next event index
+	out := 0    // next output time index
+	sample := 0 // index of the controller's last sample
+	for ev < len(events) {
+		if err := ctx.Err(); err != nil {
+			return Interrupted, err
+		}
+		target := events[ev]
+		if ctl != nil {
+			target = min(target, float64(sample+1)*ctl.Period)
+		}
+		accepted, err := s.advance(target)
+		if err != nil {
+			return Failed, err
+		}
+		if !accepted {
+			continue
+		}
+		if ctl != nil && s.t == float64(sample+1)*ctl.Period {
+			sample++
+			s.controlUpdate(ctl)
+		}
+		if s.t == events[ev] {
+			ev++
+			for out < len(p.OutputTimes) && p.OutputTimes[out] <= s.t {
+				if p.OutputTimes[out] == s.t {
+					em.emit(s.snapshot(s.old, s.ledger.Faces+s.ledger.Volumetric))
+				}
+				out++
+			}
+			if em.err != nil {
+				return Failed, em.err
+			}
+		}
+		if tr.hot > p.AbortTemperature {
+			return Runaway, &RunawayError{Time: s.t, Depth: p.Mesh.Centers[tr.hotCell], Temperature: tr.hot, Limit: p.AbortTemperature}
+		}
+	}
+	return OK, nil
+}
+
+// emitter hands the snapshots of a run on: without a sink it keeps them in
+// res.Snapshots; with one it hands each to the sink in one reused Snapshot
+// and rewinds the store, so that the next snapshot reuses the same slices.
+type emitter struct {
+	s     *stepper
+	sink  Sink
+	res   *Result
+	shown Snapshot // the one snapshot handed to the sink, reused
+	last  float64  // time of the last snapshot emitted (NaN before the first)
+	err   error    // the sink's error for the last snapshot
+}
+
+// newEmitter sizes the snapshot store for a run that emits to sink (nil
+// for none). Without a sink a block holds up to 3072 values, at least one
+// snapshot and at most every snapshot of the run (the output times, t = 0
+// and an early stop), and res.Snapshots has room for all of them; with a
+// sink the block is one snapshot, reused.
+func (s *stepper) newEmitter(res *Result, sink Sink) *emitter {
+	shots := len(s.p.OutputTimes) + 2
+	per := s.snapshotSize()
+	if sink == nil {
+		s.store.block = min(shots*per, max(per, 3072))
+		res.Snapshots = make([]Snapshot, 0, shots)
+	} else {
+		s.store.block = per
+	}
+	return &emitter{s: s, sink: sink, res: res, last: math.NaN()}
+}
+
+// snapshotSize is the number of values in the slices of one snapshot (see
+// snapshot): the probe temperatures and cures, the fields the problem
+// records, and the probe viscosities.
+func (s *stepper) snapshotSize() int {
+	p, n := s.p, s.n
 	per := 2 * len(p.Probes)
 	switch {
 	case p.NoFields:
@@ -209,103 +338,19 @@ func (s *stepper) run(ctx context.Context, sink Sink) *Result {
 	if s.viscous {
 		per += len(p.Probes)
 	}
-	lastShot := math.NaN() // time of the last snapshot taken
-	var sinkErr error
-	var shown Snapshot // the one snapshot handed to the sink, reused
-	emit := func(snap Snapshot) {
-		lastShot = snap.Time
-		if sink == nil {
-			res.Snapshots = append(res.Snapshots, snap)
-			return
-		}
-		shown = snap
-		sinkErr = sink(&shown)
-		s.store.rewind()
-	}
-	if sink == nil {
-		s.store.block = min(shots*per, max(per, 3072))
-		res.Snapshots = make([]Snapshot, 0, shots)
-	} else {
-		s.store.block = per // one snapshot, reused
-	}
+	return per
+}
 
-	tr := s.newTracker()
-	tr.observe(s, 0)
-	snap0 := s.snapshot(s.old, 0)
-
-	events := s.events()
-	ev := 0
-	out := 0 // next output time index
-	s.h = s.initialStep(events[0])
-	s.startup = 2 // implicit Euler steps after t = 0
-	s.tr = tr
-
-	ctl := (*physics.Control)(nil)
-	if s.vol != nil {
-		ctl = s.vol.Control
+// emit hands snap on (see emitter) and records its time.
+func (e *emitter) emit(snap Snapshot) {
+	e.last = snap.Time
+	if e.sink == nil {
+		e.res.Snapshots = append(e.res.Snapshots, snap)
+		return
 	}
-	sample := 0 // index of the controller's last sample
-	if ctl != nil {
-		s.controlUpdate(ctl)
-		snap0.PowerFraction = s.u
-	}
-	emit(snap0)
-	if sinkErr != nil {
-		res.Status, res.Err = Failed, sinkErr
-	}
-
-	for res.Status == OK && ev < len(events) {
-		if err := ctx.Err(); err != nil {
-			res.Status, res.Err = Interrupted, err
-			break
-		}
-		target := events[ev]
-		if ctl != nil {
-			target = min(target, float64(sample+1)*ctl.Period)
-		}
-		accepted, err := s.advance(target)
-		if err != nil {
-			res.Status, res.Err = Failed, err
-			break
-		}
-		if !accepted {
-			continue
-		}
-		if ctl != nil && s.t == float64(sample+1)*ctl.Period {
-			sample++
-			s.controlUpdate(ctl)
-		}
-		if s.t == events[ev] {
-			ev++
-			for out < len(p.OutputTimes) && p.OutputTimes[out] <= s.t {
-				if p.OutputTimes[out] == s.t {
-					emit(s.snapshot(s.old, s.ledger.Faces+s.ledger.Volumetric))
-				}
-				out++
-			}
-			if sinkErr != nil {
-				res.Status, res.Err = Failed, sinkErr
-				break
-			}
-		}
-		if tr.hot > p.AbortTemperature {
-			res.Status = Runaway
-			res.Err = &RunawayError{Time: s.t, Depth: p.Mesh.Centers[tr.hotCell], Temperature: tr.hot, Limit: p.AbortTemperature}
-			break
-		}
-	}
-	if res.Status != OK && sinkErr == nil && lastShot != s.t {
-		emit(s.snapshot(s.old, s.ledger.Faces+s.ledger.Volumetric))
-		if sinkErr != nil {
-			res.Err = errors.Join(res.Err, sinkErr)
-		}
-	}
-	res.Ledger = s.ledger
-	res.EndTime = s.t
-	tr.finish(s, &s.ledger)
-	res.Summary = tr.sum
-	res.Summary.FieldSolutions = s.fieldRuns
-	return res
+	e.shown = snap
+	e.err = e.sink(&e.shown)
+	e.s.store.rewind()
 }
 
 // advance makes one step attempt from s.t toward target, never past it. It
