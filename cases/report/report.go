@@ -120,18 +120,26 @@ func stageRunReport(ctx context.Context, set *outdir.Set, d *runData) error {
 }
 
 func writeRunReport(ctx context.Context, dir string, d *runData) error {
-	b, err := drawPage(ctx, func(w io.Writer) error { return renderRunReport(ctx, w, d, reportClock()) })
+	return writePage(ctx, dir, ReportFile, func(w io.Writer) error { return renderRunReport(ctx, w, d, reportClock()) })
+}
+
+// writePage draws a page through render in memory (drawPage) and writes it
+// to dir/file in one go (a temporary file renamed; dir made if missing).
+// When ctx is done before the page is drawn, nothing is written and the
+// error wraps ctx.Err().
+func writePage(ctx context.Context, dir, file string, render func(io.Writer) error) error {
+	b, err := drawPage(ctx, render)
 	if err != nil {
-		return fmt.Errorf("drawing %s: %w", ReportFile, err)
+		return fmt.Errorf("drawing %s: %w", file, err)
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
 	}
-	if err := textout.WriteFileAtomic(dir, ReportFile, func(w io.Writer) error {
+	if err := textout.WriteFileAtomic(dir, file, func(w io.Writer) error {
 		_, err := w.Write(b)
 		return err
 	}); err != nil {
-		return fmt.Errorf("writing %s: %w", ReportFile, err)
+		return fmt.Errorf("writing %s: %w", file, err)
 	}
 	return nil
 }

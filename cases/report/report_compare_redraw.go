@@ -11,7 +11,6 @@ import (
 	"slices"
 
 	"cureslab/cases"
-	"cureslab/cases/internal/textout"
 	"cureslab/cases/limits"
 	"cureslab/cases/results"
 )
@@ -85,17 +84,7 @@ func RedrawCompareReport(ctx context.Context, dir string) error {
 	if err := ctx.Err(); err != nil {
 		return fmt.Errorf("drawing %s: %w", CompareReportFile, err)
 	}
-	b, err := drawPage(ctx, func(w io.Writer) error { return renderCompareReport(ctx, w, names, ds, reportClock()) })
-	if err != nil {
-		return fmt.Errorf("drawing %s: %w", CompareReportFile, err)
-	}
-	if err := textout.WriteFileAtomic(dir, CompareReportFile, func(w io.Writer) error {
-		_, err := w.Write(b)
-		return err
-	}); err != nil {
-		return fmt.Errorf("writing %s: %w", CompareReportFile, err)
-	}
-	return nil
+	return writePage(ctx, dir, CompareReportFile, func(w io.Writer) error { return renderCompareReport(ctx, w, names, ds, reportClock()) })
 }
 
 // compareCSVRow is what RedrawCompareReport needs of a row of compare.csv.

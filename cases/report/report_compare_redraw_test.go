@@ -18,13 +18,8 @@ import (
 // is not that of its row is refused, nothing written.
 func TestRedrawCompareReport(t *testing.T) {
 	fixedClock(t)
-	c1, r1 := runReportCase(t, "150 C")
-	c2, r2 := runReportCase(t, "40 C")
-	rows := []results.Compared{
-		{Name: "cool-limit", Case: c1, Ran: true, Result: r1, Summary: results.Summarize(c1, r1)},
-		{Name: "tight-limit", Case: c2, Ran: true, Result: r2, Summary: results.Summarize(c2, r2)},
-		{Name: "never-ran", Case: c2, Summary: results.Summary{Title: c2.Title, Status: results.StatusNotRun}},
-	}
+	rows := comparedRows(t, results.StatusNotRun)
+	c1, r1 := rows[0].Case, rows[0].Result
 	var mem bytes.Buffer
 	if err := CompareReport(context.Background(), &mem, rows); err != nil {
 		t.Fatal(err)

@@ -8,15 +8,23 @@ import (
 	"testing"
 )
 
-func TestWriteCompareReport(t *testing.T) {
-	fixedClock(t)
+// comparedRows returns a comparison of two runs of the report's case, one
+// meeting max_temperature and one failing it, and a third case that did
+// not run with the given status.
+func comparedRows(t *testing.T, notRun string) []results.Compared {
+	t.Helper()
 	c1, r1 := runReportCase(t, "150 C")
 	c2, r2 := runReportCase(t, "40 C")
-	rows := []results.Compared{
+	return []results.Compared{
 		{Name: "cool-limit", Case: c1, Ran: true, Result: r1, Summary: results.Summarize(c1, r1)},
 		{Name: "tight-limit", Case: c2, Ran: true, Result: r2, Summary: results.Summarize(c2, r2)},
-		{Name: "never-ran", Case: c2, Summary: results.Summary{Title: c2.Title, Status: results.StatusFailed}},
+		{Name: "never-ran", Case: c2, Summary: results.Summary{Title: c2.Title, Status: notRun}},
 	}
+}
+
+func TestWriteCompareReport(t *testing.T) {
+	fixedClock(t)
+	rows := comparedRows(t, results.StatusFailed)
 	var b bytes.Buffer
 	if err := CompareReport(context.Background(), &b, rows); err != nil {
 		t.Fatal(err)

@@ -60,41 +60,35 @@ written).`,
 					}
 					sc = c
 				}
-				if err := report.WriteSweepReport(e.ctx, dir, "", sc); e.interrupted(err) {
-					return redrawInterrupted(e, dir, report.SweepReportFile)
-				} else if err != nil {
-					fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
-					return exitUsage
-				}
-				fmt.Fprintf(e.stdout, "wrote %s\n", filepath.Join(dir, report.SweepReportFile))
-				return exitOK
+				return redrawn(e, dir, report.SweepReportFile, "", report.WriteSweepReport(e.ctx, dir, "", sc))
 			}
 			if *casePath != "" {
 				return e.usageError("--case is for sweep directories; %s holds no %s", dir, results.SweepDefinitionFile)
 			}
 			if report.IsComparison(dir) {
-				if err := report.RedrawCompareReport(e.ctx, dir); e.interrupted(err) {
-					return redrawInterrupted(e, dir, report.CompareReportFile)
-				} else if err != nil {
-					fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
-					return exitUsage
-				}
-				fmt.Fprintf(e.stdout, "wrote %s (the comparison page)\n", filepath.Join(dir, report.CompareReportFile))
-				return exitOK
+				return redrawn(e, dir, report.CompareReportFile, " (the comparison page)", report.RedrawCompareReport(e.ctx, dir))
 			}
-			if err := report.RedrawReport(e.ctx, dir); e.interrupted(err) {
-				return redrawInterrupted(e, dir, report.ReportFile)
-			} else if err != nil {
-				fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
-				return exitUsage
-			}
-			fmt.Fprintf(e.stdout, "wrote %s\n", filepath.Join(dir, report.ReportFile))
-			return exitOK
+			return redrawn(e, dir, report.ReportFile, "", report.RedrawReport(e.ctx, dir))
 		}
 	},
 }
 
 func init() { register(reportCmd) }
+
+// redrawn reports the outcome err of redrawing dir/page: the page written
+// (what it is, in what), interrupted, or an error; it returns the exit
+// status.
+func redrawn(e *env, dir, page, what string, err error) int {
+	switch {
+	case e.interrupted(err):
+		return redrawInterrupted(e, dir, page)
+	case err != nil:
+		fmt.Fprintf(e.stderr, "cureslab report: %v\n", err)
+		return exitUsage
+	}
+	fmt.Fprintf(e.stdout, "wrote %s%s\n", filepath.Join(dir, page), what)
+	return exitOK
+}
 
 // redrawInterrupted says that Ctrl-C or SIGTERM stopped the drawing of
 // dir/page, and returns exitInterrupted.
