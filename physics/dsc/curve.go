@@ -164,12 +164,58 @@ func process(ctx context.Context, s *Scan, b Baseline, w Window) (*Curve, error)
 // heat flow fixes the ends of a linear baseline.
 func edgeHalf(n int) int { return max(3, n/100) }
 
-// dynamicBaseline sets c.On, c.End and returns the baseline over them.
+// dynamicBaseline sets c.On, c.End and returns the baseline over them (see
+// Process): the window detected from the data (detectWindow), the ends
+// given in w imposed on it (impose), a note for an exotherm cut by an end
+// of the data, and the straight baseline turned sigmoidal if b asks for it.
 func (c *Curve) dynamicBaseline(ctx context.Context, b Baseline, w Window) ([]float64, error) {
 	s := c.Scan
+	t := s.Time
+	e := edgeHalf(len(t))
+	d, err := detectWindow(s, e)
+	if err != nil {
+		return nil, err
+	}
+	if w.Onset != 0 || w.End != 0 {
+		if err := d.impose(s, w, e); err != nil {
+			return nil, err
+		}
+	}
+	if d.startCut {
+		c.Notes = append(c.Notes, "the exotherm is already under way near the start of the scan: some heat may be lost; start the scan lower")
+	}
+	if d.endCut {
+		c.Notes = append(c.Notes, "the exotherm has not died out well before the end of the scan: some heat may be lost; run the scan higher")
+	}
+	c.On, c.End = d.on, d.end
+	base := make([]float64, d.end-d.on+1)
+	for i := range base {
+		base[i] = d.icpt + d.slope*t[d.on+i]
+	}
+	if b == SigmoidalBaseline && !c.sigmoidal(ctx, base, d.flat0, d.flat1) {
+		c.Notes = append(c.Notes, "too little flat baseline outside the exotherm for a sigmoidal baseline: a linear one is used")
+	}
+	return base, nil
+}
+
+// dynWindow is the integration window of a dynamic scan and the straight
+// baseline icpt + slope·t over it.
+type dynWindow struct {
+	on, end          int     // the first and last samples of the window
+	flat0, flat1     int     // the ends of the flat parts before and after the exotherm
+	startCut, endCut bool    // the exotherm comes close to the start (end) of the data
+	slope, icpt      float64 // W/kg/s, W/kg
+}
+
+// detectWindow finds the window and the straight baseline of a dynamic scan
+// from its data, with e = edgeHalf(n) for n samples (see Process for the
+// method). The noise is the root mean square of the heat flow about its
+// smoothing (smoothQuad over about n/200 samples each side); it fails with
+// a *ScanError when the peak above the baseline is not above 8 times the
+// noise. Cost: O(n) per pass, four passes.
+func detectWindow(s *Scan, e int) (dynWindow, error) {
 	t, q := s.Time, s.HeatFlow
 	n := len(t)
-	e := edgeHalf(n)
 	qs := smoothQuad(t, q, max(2, n/200))
 	var noise float64
 	for i := range q {
@@ -182,89 +228,83 @@ func (c *Curve) dynamicBaseline(ctx context.Context, b Baseline, w Window) ([]fl
 	xs := append(append([]float64{}, t[:k]...), t[n-k:]...)
 	ys := append(append([]float64{}, q[:k]...), q[n-k:]...)
 	l := fitLine(xs, ys)
-	slope, icpt := l.Slope, l.Intercept
-	on, end := 0, n-1
-	var startCut, endCut bool
-	var flat0, flat1 int // ends of the flat parts before and after the exotherm
+	d := dynWindow{slope: l.Slope, icpt: l.Intercept}
 	for range 3 {
 		pk, h := 0, math.Inf(-1)
 		for i := range n {
-			if r := qs[i] - (icpt + slope*t[i]); r > h {
+			if r := qs[i] - (d.icpt + d.slope*t[i]); r > h {
 				pk, h = i, r
 			}
 		}
 		if !(h > 8*noise) || !(h > 0) {
-			return nil, scanErr(s, "no exotherm found: the largest heat flow above the baseline (%.3g W/g) is within the noise (%.3g W/g)", h/1000, noise/1000)
+			return d, scanErr(s, "no exotherm found: the largest heat flow above the baseline (%.3g W/g) is within the noise (%.3g W/g)", h/1000, noise/1000)
 		}
 		thr := 0.02 * h
 		a := pk
-		for a > 0 && qs[a]-(icpt+slope*t[a]) > thr {
+		for a > 0 && qs[a]-(d.icpt+d.slope*t[a]) > thr {
 			a--
 		}
 		z := pk
-		for z < n-1 && qs[z]-(icpt+slope*t[z]) > thr {
+		for z < n-1 && qs[z]-(d.icpt+d.slope*t[z]) > thr {
 			z++
 		}
 		wd := z - a
 		// Cut: the 2 % level is not reached inside the data, or the flat
 		// part beyond it is shorter than a quarter of the peak's extent.
-		startCut, endCut = a == 0 || a < wd/4, z == n-1 || n-1-z < wd/4
-		on, end = max(a-wd/2, min(e, a)), min(z+wd/2, max(n-1-e, z))
-		flat0, flat1 = on+(a-on)/4, end-(end-z)/4
-		ya := levelAt(t, q, flat0-wd, flat0, on, e)
-		yb := levelAt(t, q, flat1, flat1+wd, end, e)
-		slope = (yb - ya) / (t[end] - t[on])
-		icpt = ya - slope*t[on]
+		d.startCut, d.endCut = a == 0 || a < wd/4, z == n-1 || n-1-z < wd/4
+		d.on, d.end = max(a-wd/2, min(e, a)), min(z+wd/2, max(n-1-e, z))
+		d.flat0, d.flat1 = d.on+(a-d.on)/4, d.end-(d.end-z)/4
+		ya := levelAt(t, q, d.flat0-wd, d.flat0, d.on, e)
+		yb := levelAt(t, q, d.flat1, d.flat1+wd, d.end, e)
+		d.slope = (yb - ya) / (t[d.end] - t[d.on])
+		d.icpt = ya - d.slope*t[d.on]
 	}
-	if w.Onset != 0 || w.End != 0 {
-		T := s.Temp
-		if w.Onset != 0 {
-			if w.Onset < T[0] || w.Onset >= T[n-1] {
-				return nil, scanErr(s, "the onset %.6g C is outside the scan (%.6g C to %.6g C)", w.Onset-273.15, T[0]-273.15, T[n-1]-273.15)
-			}
-			on = 0
-			for on < n-1 && T[on] < w.Onset {
-				on++
-			}
-			flat0 = on
-			startCut = false
+	return d, nil
+}
+
+// impose replaces the detected ends of the window by those given in w
+// (each only where not zero, as a temperature the scan must reach; the
+// window then starts at the first sample at or above w.Onset and ends at
+// the last at or below w.End), which no longer count as cut, and refits
+// the straight baseline to the levels at the window ends, each read from
+// the quarter-window outside it (levelAt). Errors (*ScanError): an end
+// outside the scan, or a window of fewer than MinPoints+1 samples.
+func (d *dynWindow) impose(s *Scan, w Window, e int) error {
+	t, q, T := s.Time, s.HeatFlow, s.Temp
+	n := len(t)
+	if w.Onset != 0 {
+		if w.Onset < T[0] || w.Onset >= T[n-1] {
+			return scanErr(s, "the onset %.6g C is outside the scan (%.6g C to %.6g C)", w.Onset-273.15, T[0]-273.15, T[n-1]-273.15)
 		}
-		if w.End != 0 {
-			if w.End <= T[0] || w.End > T[n-1] {
-				return nil, scanErr(s, "the end %.6g C is outside the scan (%.6g C to %.6g C)", w.End-273.15, T[0]-273.15, T[n-1]-273.15)
-			}
-			end = n - 1
-			for end > 0 && T[end] > w.End {
-				end--
-			}
-			flat1 = end
-			endCut = false
+		d.on = 0
+		for d.on < n-1 && T[d.on] < w.Onset {
+			d.on++
 		}
-		if end-on < MinPoints {
-			return nil, scanErr(s, "the window from %.6g C to %.6g C holds %d samples; at least %d are needed",
-				T[on]-273.15, T[end]-273.15, max(end-on+1, 0), MinPoints+1)
+		d.flat0 = d.on
+		d.startCut = false
+	}
+	if w.End != 0 {
+		if w.End <= T[0] || w.End > T[n-1] {
+			return scanErr(s, "the end %.6g C is outside the scan (%.6g C to %.6g C)", w.End-273.15, T[0]-273.15, T[n-1]-273.15)
 		}
-		wd := (end - on) / 4
-		ya := levelAt(t, q, on-wd, on, on, e)
-		yb := levelAt(t, q, end, end+wd, end, e)
-		slope = (yb - ya) / (t[end] - t[on])
-		icpt = ya - slope*t[on]
+		d.end = n - 1
+		for d.end > 0 && T[d.end] > w.End {
+			d.end--
+		}
+		d.flat1 = d.end
+		d.endCut = false
 	}
-	if startCut {
-		c.Notes = append(c.Notes, "the exotherm is already under way near the start of the scan: some heat may be lost; start the scan lower")
+	on, end := d.on, d.end
+	if end-on < MinPoints {
+		return scanErr(s, "the window from %.6g C to %.6g C holds %d samples; at least %d are needed",
+			T[on]-273.15, T[end]-273.15, max(end-on+1, 0), MinPoints+1)
 	}
-	if endCut {
-		c.Notes = append(c.Notes, "the exotherm has not died out well before the end of the scan: some heat may be lost; run the scan higher")
-	}
-	c.On, c.End = on, end
-	base := make([]float64, end-on+1)
-	for i := range base {
-		base[i] = icpt + slope*t[on+i]
-	}
-	if b == SigmoidalBaseline && !c.sigmoidal(ctx, base, flat0, flat1) {
-		c.Notes = append(c.Notes, "too little flat baseline outside the exotherm for a sigmoidal baseline: a linear one is used")
-	}
-	return base, nil
+	wd := (end - on) / 4
+	ya := levelAt(t, q, on-wd, on, on, e)
+	yb := levelAt(t, q, end, end+wd, end, e)
+	d.slope = (yb - ya) / (t[end] - t[on])
+	d.icpt = ya - d.slope*t[on]
+	return nil
 }
 
 // levelAt returns the baseline level at sample at from the flat stretch
