@@ -254,10 +254,7 @@ func detectWindow(s *Scan, e int) (dynWindow, error) {
 		d.startCut, d.endCut = a == 0 || a < wd/4, z == n-1 || n-1-z < wd/4
 		d.on, d.end = max(a-wd/2, min(e, a)), min(z+wd/2, max(n-1-e, z))
 		d.flat0, d.flat1 = d.on+(a-d.on)/4, d.end-(d.end-z)/4
-		ya := levelAt(t, q, d.flat0-wd, d.flat0, d.on, e)
-		yb := levelAt(t, q, d.flat1, d.flat1+wd, d.end, e)
-		d.slope = (yb - ya) / (t[d.end] - t[d.on])
-		d.icpt = ya - d.slope*t[d.on]
+		d.through(t, levelAt(t, q, d.flat0-wd, d.flat0, d.on, e), levelAt(t, q, d.flat1, d.flat1+wd, d.end, e))
 	}
 	return d, nil
 }
@@ -300,11 +297,15 @@ func (d *dynWindow) impose(s *Scan, w Window, e int) error {
 			T[on]-273.15, T[end]-273.15, max(end-on+1, 0), MinPoints+1)
 	}
 	wd := (end - on) / 4
-	ya := levelAt(t, q, on-wd, on, on, e)
-	yb := levelAt(t, q, end, end+wd, end, e)
-	d.slope = (yb - ya) / (t[end] - t[on])
-	d.icpt = ya - d.slope*t[on]
+	d.through(t, levelAt(t, q, on-wd, on, on, e), levelAt(t, q, end, end+wd, end, e))
 	return nil
+}
+
+// through sets the straight baseline through the level ya at the first
+// sample of the window and yb at the last (t the sample times).
+func (d *dynWindow) through(t []float64, ya, yb float64) {
+	d.slope = (yb - ya) / (t[d.end] - t[d.on])
+	d.icpt = ya - d.slope*t[d.on]
 }
 
 // levelAt returns the baseline level at sample at from the flat stretch
