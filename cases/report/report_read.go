@@ -145,8 +145,52 @@ func readFieldsCSV(ctx context.Context, path string, tb *runTable) error {
 		return err
 	}
 	defer f.Close()
-	t := newCSVTable(ctx, path, f)
-	head, err := t.next()
+	fr := &fieldsReader{t: newCSVTable(ctx, path, f), tb: tb}
+	if err := fr.header(); err != nil {
+		return err
+	}
+	for {
+		rec, err := fr.t.next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return err
+		}
+		if err := fr.row(rec); err != nil {
+			return err
+		}
+	}
+	if len(tb.Times) == 0 {
+		return outputError(path, 2, 0, "", "no data rows after the header")
+	}
+	if fr.cell != len(tb.Centers) {
+		return outputError(path, fr.t.line, 0, "", "the last output time has %d cells, want %d (the file is cut short)", fr.cell, len(tb.Centers))
+	}
+	fr.flush()
+	return nil
+}
+
+// fieldsReader is the state of readFieldsCSV: the cells of the first
+// output time are gathered in first (they set the cells every later time
+// must list); every later output time fills a column of tb.Fields
+// (fieldColumns), handed over once complete.
+type fieldsReader struct {
+	t                   *csvTable
+	tb                  *runTable
+	iT, iZ, iL, iTC, iA int // columns: time, depth, layer, temperature, cure
+	iP                  int // column of the absorbed power, when withPower
+	withPower           bool
+	first               fieldCol
+	cur                 *fieldCol
+	cell                int // index of the cell in the current block
+}
+
+// header reads the header row: every column of results.FieldsHeader must
+// be there; the absorbed power is optional.
+func (fr *fieldsReader) header() error {
+	path := fr.t.path
+	head, err := fr.t.next()
 	if err == io.EOF {
 		return outputError(path, 1, 0, "", "empty file, want the header %s", strings.Join(results.FieldsHeader, ","))
 	}
@@ -162,115 +206,124 @@ func readFieldsCSV(ctx context.Context, path string, tb *runTable) error {
 			return outputError(path, 1, 0, "", "no column %q in the header, want %s", h, strings.Join(results.FieldsHeader, ","))
 		}
 	}
-	iT, iZ, iL, iTC, iA := col["time_s"], col["depth_mm"], col["layer"], col["temperature_C"], col["cure"]
-	iP, withPower := col[results.PowerColumn]
-	// The cells of the first output time are gathered in first; every
-	// later output time fills a column of tb.Fields (fieldColumns), handed
-	// over once complete.
-	var first fieldCol
-	var cur *fieldCol
-	flush := func() {
-		if tb.Fields == nil {
-			tb.newFields(withPower)
-			c := tb.Fields.column()
-			copy(c.T, first.T)
-			copy(c.Cure, first.Cure)
-			copy(c.P, first.P)
-			first = fieldCol{}
-			tb.Fields.add(tb.Times[0], c)
-			return
-		}
-		tb.Fields.add(tb.Times[len(tb.Times)-1], cur)
+	fr.iT, fr.iZ, fr.iL, fr.iTC, fr.iA = col["time_s"], col["depth_mm"], col["layer"], col["temperature_C"], col["cure"]
+	fr.iP, fr.withPower = col[results.PowerColumn]
+	return nil
+}
+
+// flush hands the block just read to tb.Fields.
+func (fr *fieldsReader) flush() {
+	tb := fr.tb
+	if tb.Fields == nil {
+		tb.newFields(fr.withPower)
+		c := tb.Fields.column()
+		copy(c.T, fr.first.T)
+		copy(c.Cure, fr.first.Cure)
+		copy(c.P, fr.first.P)
+		fr.first = fieldCol{}
+		tb.Fields.add(tb.Times[0], c)
+		return
 	}
-	cell := 0 // index of the cell in the current block
-	for {
-		rec, err := t.next()
-		if err == io.EOF {
-			break
-		}
-		if err != nil {
-			return err
-		}
-		tm, err := t.number(rec, iT, "time_s", false)
-		if err != nil {
-			return err
-		}
-		z, err := t.number(rec, iZ, "depth_mm", false)
-		if err != nil {
-			return err
-		}
-		T, err := t.number(rec, iTC, "temperature_C", false)
-		if err != nil {
-			return err
-		}
-		a, err := t.number(rec, iA, "cure", true)
-		if err != nil {
-			return err
-		}
-		nt := len(tb.Times)
-		if nt == 0 || tm != tb.Times[nt-1] {
-			if nt > 0 && !(tm > tb.Times[nt-1]) {
-				return t.errAt(iT, "time_s", "%s s after %s s: output times must increase", rec[iT], fmtG(tb.Times[nt-1]))
-			}
-			if nt > 0 && cell != len(tb.Centers) {
-				return t.errAt(iT, "time_s", "output time %s s starts after %d cells of time %s s, want %d (every output time lists the same cells)",
-					rec[iT], cell, fmtG(tb.Times[nt-1]), len(tb.Centers))
-			}
-			if nt > 0 {
-				flush()
-				cur = tb.Fields.column()
-			}
-			tb.Times = append(tb.Times, tm)
-			cell, nt = 0, nt+1
-		}
-		if nt == 1 {
-			if n := len(tb.Centers); n > 0 && !(z > tb.Centers[n-1]) {
-				return t.errAt(iZ, "depth_mm", "%s mm after %s mm: cells must go down the stack", rec[iZ], fmtG(tb.Centers[n-1]))
-			}
-			if !(z > 0) {
-				return t.errAt(iZ, "depth_mm", "%s mm: a cell centre lies below the top face (depth > 0)", rec[iZ])
-			}
-			if rec[iL] == "" {
-				return t.errAt(iL, "layer", "empty layer name")
-			}
-			tb.Centers = append(tb.Centers, z)
-			tb.LayerOf = append(tb.LayerOf, rec[iL])
-		} else {
-			if cell >= len(tb.Centers) {
-				return t.errAt(iZ, "depth_mm", "more than the %d cells of the first output time", len(tb.Centers))
-			}
-			if z != tb.Centers[cell] || rec[iL] != tb.LayerOf[cell] {
-				return t.errAt(iZ, "depth_mm", "cell %d is %s mm in %q, but %s mm in %q at the first output time",
-					cell+1, rec[iZ], rec[iL], fmtG(tb.Centers[cell]), tb.LayerOf[cell])
-			}
-		}
-		P := 0.0
-		if withPower {
-			if P, err = t.number(rec, iP, results.PowerColumn, false); err != nil {
-				return err
-			}
-		}
-		if nt == 1 {
-			first.T = append(first.T, T)
-			first.Cure = append(first.Cure, a)
-			if withPower {
-				first.P = append(first.P, P)
-			}
-		} else {
-			cur.T[cell], cur.Cure[cell] = T, a
-			if withPower {
-				cur.P[cell] = P
-			}
-		}
-		cell++
+	tb.Fields.add(tb.Times[len(tb.Times)-1], fr.cur)
+}
+
+// row reads one data row: its time (a new output time starts a block),
+// its cell (checked against the first block) and its values.
+func (fr *fieldsReader) row(rec []string) error {
+	t, tb := fr.t, fr.tb
+	tm, err := t.number(rec, fr.iT, "time_s", false)
+	if err != nil {
+		return err
 	}
-	if len(tb.Times) == 0 {
-		return outputError(path, 2, 0, "", "no data rows after the header")
+	z, err := t.number(rec, fr.iZ, "depth_mm", false)
+	if err != nil {
+		return err
 	}
-	if cell != len(tb.Centers) {
-		return outputError(path, t.line, 0, "", "the last output time has %d cells, want %d (the file is cut short)", cell, len(tb.Centers))
+	T, err := t.number(rec, fr.iTC, "temperature_C", false)
+	if err != nil {
+		return err
 	}
-	flush()
+	a, err := t.number(rec, fr.iA, "cure", true)
+	if err != nil {
+		return err
+	}
+	if nt := len(tb.Times); nt == 0 || tm != tb.Times[nt-1] {
+		if err := fr.startTime(rec, tm); err != nil {
+			return err
+		}
+	}
+	if err := fr.placeCell(rec, z); err != nil {
+		return err
+	}
+	P := 0.0
+	if fr.withPower {
+		if P, err = t.number(rec, fr.iP, results.PowerColumn, false); err != nil {
+			return err
+		}
+	}
+	if len(tb.Times) == 1 {
+		fr.first.T = append(fr.first.T, T)
+		fr.first.Cure = append(fr.first.Cure, a)
+		if fr.withPower {
+			fr.first.P = append(fr.first.P, P)
+		}
+	} else {
+		fr.cur.T[fr.cell], fr.cur.Cure[fr.cell] = T, a
+		if fr.withPower {
+			fr.cur.P[fr.cell] = P
+		}
+	}
+	fr.cell++
+	return nil
+}
+
+// startTime starts the block of the output time tm: times must increase,
+// and the block before must have listed every cell.
+func (fr *fieldsReader) startTime(rec []string, tm float64) error {
+	t, tb := fr.t, fr.tb
+	if nt := len(tb.Times); nt > 0 {
+		if !(tm > tb.Times[nt-1]) {
+			return t.errAt(fr.iT, "time_s", "%s s after %s s: output times must increase", rec[fr.iT], fmtG(tb.Times[nt-1]))
+		}
+		if fr.cell != len(tb.Centers) {
+			return t.errAt(fr.iT, "time_s", "output time %s s starts after %d cells of time %s s, want %d (every output time lists the same cells)",
+				rec[fr.iT], fr.cell, fmtG(tb.Times[nt-1]), len(tb.Centers))
+		}
+		fr.flush()
+		fr.cur = tb.Fields.column()
+	}
+	tb.Times = append(tb.Times, tm)
+	fr.cell = 0
+	return nil
+}
+
+// placeCell checks the cell at depth z: in the first block, cells go down
+// the stack inside it and are recorded with their layer; later, each must
+// be the first block's cell at the same place.
+func (fr *fieldsReader) placeCell(rec []string, z float64) error {
+	t, tb := fr.t, fr.tb
+	if len(tb.Times) == 1 {
+		if n := len(tb.Centers); n > 0 && !(z > tb.Centers[n-1]) {
+			return t.errAt(fr.iZ, "depth_mm", "%s mm after %s mm: cells must go down the stack", rec[fr.iZ], fmtG(tb.Centers[n-1]))
+		}
+		if !(z > 0) {
+			return t.errAt(fr.iZ, "depth_mm", "%s mm: a cell centre lies below the top face (depth > 0)", rec[fr.iZ])
+		}
+		if rec[fr.iL] == "" {
+			return t.errAt(fr.iL, "layer", "empty layer name")
+		}
+		tb.Centers = append(tb.Centers, z)
+		tb.LayerOf = append(tb.LayerOf, rec[fr.iL])
+		return nil
+	}
+	cell := fr.cell
+	if cell >= len(tb.Centers) {
+		return t.errAt(fr.iZ, "depth_mm", "more than the %d cells of the first output time", len(tb.Centers))
+	}
+	if z != tb.Centers[cell] || rec[fr.iL] != tb.LayerOf[cell] {
+		return t.errAt(fr.iZ, "depth_mm", "cell %d is %s mm in %q, but %s mm in %q at the first output time",
+			cell+1, rec[fr.iZ], rec[fr.iL], fmtG(tb.Centers[cell]), tb.LayerOf[cell])
+	}
 	return nil
 }
 
@@ -296,50 +349,9 @@ func readProbesCSV(ctx context.Context, path string, tb *runTable) error {
 	if len(head) == 0 || head[0] != "time_s" {
 		return outputError(path, 1, 1, "", "the header starts with %q, want time_s", head[0])
 	}
-	type colRef struct {
-		probe int // index into tb.Probes, or -1
-		cure  bool
-		visc  bool
-		drv   int // index into tb.Drivers, or -1
-		power bool
-	}
-	refs := make([]colRef, len(head))
-	byLabel := map[string]int{}
-	hasPower := false
-	for i := 1; i < len(head); i++ {
-		h := head[i]
-		refs[i] = colRef{probe: -1, drv: -1}
-		switch {
-		case strings.HasPrefix(h, "T_") && strings.HasSuffix(h, "mm_C"):
-			l := strings.TrimSuffix(strings.TrimPrefix(h, "T_"), "mm_C")
-			z, err := strconv.ParseFloat(l, 64)
-			if err != nil || z < 0 {
-				return t.errAt(i, "", "probe column %q: the depth %q is not a number of mm", h, l)
-			}
-			byLabel[l] = len(tb.Probes)
-			refs[i].probe = len(tb.Probes)
-			tb.Probes = append(tb.Probes, probeData{Label: l, Depth: z})
-		case strings.HasPrefix(h, "cure_") && strings.HasSuffix(h, "mm"):
-			l := strings.TrimSuffix(strings.TrimPrefix(h, "cure_"), "mm")
-			j, ok := byLabel[l]
-			if !ok {
-				return t.errAt(i, "", "column %q comes without T_%smm_C before it", h, l)
-			}
-			refs[i].probe, refs[i].cure = j, true
-		case strings.HasPrefix(h, "viscosity_") && strings.HasSuffix(h, "mm_Pa_s"):
-			l := strings.TrimSuffix(strings.TrimPrefix(h, "viscosity_"), "mm_Pa_s")
-			j, ok := byLabel[l]
-			if !ok {
-				return t.errAt(i, "", "column %q comes without T_%smm_C before it", h, l)
-			}
-			refs[i].probe, refs[i].visc = j, true
-		case h == "power_fraction":
-			refs[i].power, hasPower = true, true
-		case h == "heat_in_J_per_m2":
-		case strings.HasSuffix(h, "_C") && len(h) > 2:
-			refs[i].drv = len(tb.Drivers)
-			tb.Drivers = append(tb.Drivers, seriesData{Column: h, Name: driverName(h)})
-		}
+	refs, hasPower, err := probeColumns(t, head, tb)
+	if err != nil {
+		return err
 	}
 	cures := make([][]float64, len(tb.Probes))
 	viscs := make([][]float64, len(tb.Probes))
@@ -401,6 +413,60 @@ func readProbesCSV(ctx context.Context, path string, tb *runTable) error {
 		tb.Power = nil
 	}
 	return nil
+}
+
+// probeColumn is what a column of probes.csv holds.
+type probeColumn struct {
+	probe int // index into tb.Probes, or -1
+	cure  bool
+	visc  bool
+	drv   int // index into tb.Drivers, or -1
+	power bool
+}
+
+// probeColumns reads the header head of probes.csv (read by t) into one
+// probeColumn per column, adding tb's probes (T_<d>mm_C) and driving
+// temperatures (*_C); a probe's cure and viscosity columns must follow its
+// temperature column. hasPower reports a power_fraction column.
+func probeColumns(t *csvTable, head []string, tb *runTable) (refs []probeColumn, hasPower bool, err error) {
+	refs = make([]probeColumn, len(head))
+	byLabel := map[string]int{}
+	for i := 1; i < len(head); i++ {
+		h := head[i]
+		refs[i] = probeColumn{probe: -1, drv: -1}
+		switch {
+		case strings.HasPrefix(h, "T_") && strings.HasSuffix(h, "mm_C"):
+			l := strings.TrimSuffix(strings.TrimPrefix(h, "T_"), "mm_C")
+			z, err := strconv.ParseFloat(l, 64)
+			if err != nil || z < 0 {
+				return nil, false, t.errAt(i, "", "probe column %q: the depth %q is not a number of mm", h, l)
+			}
+			byLabel[l] = len(tb.Probes)
+			refs[i].probe = len(tb.Probes)
+			tb.Probes = append(tb.Probes, probeData{Label: l, Depth: z})
+		case strings.HasPrefix(h, "cure_") && strings.HasSuffix(h, "mm"):
+			l := strings.TrimSuffix(strings.TrimPrefix(h, "cure_"), "mm")
+			j, ok := byLabel[l]
+			if !ok {
+				return nil, false, t.errAt(i, "", "column %q comes without T_%smm_C before it", h, l)
+			}
+			refs[i].probe, refs[i].cure = j, true
+		case strings.HasPrefix(h, "viscosity_") && strings.HasSuffix(h, "mm_Pa_s"):
+			l := strings.TrimSuffix(strings.TrimPrefix(h, "viscosity_"), "mm_Pa_s")
+			j, ok := byLabel[l]
+			if !ok {
+				return nil, false, t.errAt(i, "", "column %q comes without T_%smm_C before it", h, l)
+			}
+			refs[i].probe, refs[i].visc = j, true
+		case h == "power_fraction":
+			refs[i].power, hasPower = true, true
+		case h == "heat_in_J_per_m2":
+		case strings.HasSuffix(h, "_C") && len(h) > 2:
+			refs[i].drv = len(tb.Drivers)
+			tb.Drivers = append(tb.Drivers, seriesData{Column: h, Name: driverName(h)})
+		}
+	}
+	return refs, hasPower, nil
 }
 
 // readSummaryJSON reads summary.json into tb.Summary, and the optional
