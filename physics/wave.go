@@ -261,13 +261,26 @@ func (w *Wave) reversed(slabs []Slab) []Slab {
 	return r
 }
 
-// oneSided is Absorb for a wave from the air above slabs[0].
+// oneSided is Absorb for a wave from the air above slabs[0]: the segments
+// down to the first conductor, one pass up the stack (passUp), one pass
+// down (passDown).
 func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 	clear(dst)
-	nf, np := w.band.Points, padded(w.band.Points)
-	// Segments down to the first conductor.
+	metal := w.segments(slabs)
+	if len(w.seg) == 0 {
+		// A conductor at the face: total reflection.
+		return WaveShares{Reflected: 1}
+	}
+	w.passUp(metal)
+	return w.passDown(dst, slabs)
+}
+
+// segments sets w.seg to the segments of slabs down to the first conductor
+// (neighbouring lossless slabs of one permittivity merged into one), with
+// ρ and τ = 1 + ρ at each segment's lower face (ρ = −1, τ = 0 on a
+// conductor). It reports whether a conductor ends the stack.
+func (w *Wave) segments(slabs []Slab) (metal bool) {
 	w.seg = w.seg[:0]
-	metal := false
 	for i, s := range slabs {
 		if s.Conductor {
 			metal = true
@@ -283,10 +296,8 @@ func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 	}
 	m := len(w.seg)
 	if m == 0 {
-		// A conductor at the face: total reflection.
-		return WaveShares{Reflected: 1}
+		return metal
 	}
-	// Interfaces: ρ and τ = 1 + ρ at each segment's lower face.
 	for c := range m {
 		nb := complex(1, 0) // air below
 		if c+1 < m {
@@ -299,9 +310,18 @@ func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 	if metal {
 		w.seg[m-1].rho, w.seg[m-1].tau = -1, 0
 	}
-	// One pass up the stack: Γ at the bottom of each segment (air below, or
-	// −1 on a conductor), the factors that carry |A|² down, and the
-	// closed-form integral of each lossy segment.
+	return metal
+}
+
+// passUp is the pass up the stack over every frequency: Γ at the bottom of
+// each segment (air below, or −1 on a conductor), the factors that carry
+// |A|² down (w.into, w.on), and the closed-form integral of each lossy
+// segment (w.in), by the vector kernels where simd, else the Go loops.
+// Afterwards w.gr, w.gi hold Γ of the whole stack and w.into |A|² at the
+// top of the first segment per unit incident |E|².
+func (w *Wave) passUp(metal bool) {
+	np := padded(w.band.Points)
+	m := len(w.seg)
 	gr, gi, into := w.gr[:np], w.gi[:np], w.into[:np]
 	rho := w.seg[m-1].rho
 	// Into the air below: Γ = 0 there, so |A|² gains |τ|²; onto a
@@ -352,16 +372,23 @@ func (w *Wave) oneSided(dst []float64, slabs []Slab) WaveShares {
 			}
 		}
 	}
-	// gr, gi hold Γ of the whole stack, into |A|² at the top of the first
-	// segment per unit incident |E|². Down the stack: the cells' integrals
-	// weighted by |A|², and what reaches the air below.
+}
+
+// passDown is the pass down the stack after passUp: each lossy segment's
+// cell gets the band mean of its integral weighted by |A|² (per unit width
+// and incident |E|²), |A|² is carried to the next segment, and what reaches
+// the air below is the transmitted share; the reflected share is the band
+// mean of |Γ|².
+func (w *Wave) passDown(dst []float64, slabs []Slab) WaveShares {
+	nf, np := w.band.Points, padded(w.band.Points)
+	gr, gi, into := w.gr[:np], w.gi[:np], w.into[:np]
 	var refl float64
 	aa := w.aa[:nf]
 	for f := range aa {
 		refl += gr[f]*gr[f] + gi[f]*gi[f]
 		aa[f] = into[f]
 	}
-	for c := range m {
+	for c := range w.seg {
 		sg := &w.seg[c]
 		in := w.in[c*np : c*np+nf]
 		on := w.on[c*np : c*np+nf]
