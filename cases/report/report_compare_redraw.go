@@ -35,9 +35,10 @@ func IsComparison(dir string) bool {
 // Method: compare.csv gives the cases in order (case, title, status); a
 // case with values ran, and its files are read as RedrawReport reads them
 // from the folder dir/NAME or, for a demo's comparison, the folder NAME
-// beside dir; the first of the two whose summary.json has the title and
-// status of its row is taken, so a folder of another run is never drawn
-// under its name. A case without values (not-run, or failed before it
+// beside dir; the first of the two whose summary.json gives the row's
+// values, every one of them as compare.csv writes it
+// (results.CompareRowOf), is taken, so a folder of another run is never
+// drawn under its name. A case without values (not-run, or failed before it
 // started) is listed as not run.
 //
 // Errors: compare.csv missing, unreadable or malformed, or a case that ran
@@ -58,7 +59,11 @@ func RedrawCompareReport(ctx context.Context, dir string) error {
 			continue
 		}
 		var tried []string
-		for _, folder := range []string{filepath.Join(dir, r.name), filepath.Join(filepath.Dir(filepath.Clean(dir)), r.name)} {
+		beside := filepath.Join(filepath.Dir(filepath.Clean(dir)), r.name)
+		if abs, err := filepath.Abs(dir); err == nil {
+			beside = filepath.Join(filepath.Dir(abs), r.name) // "." has a parent too
+		}
+		for _, folder := range []string{filepath.Join(dir, r.name), beside} {
 			if slices.Contains(tried, folder) {
 				continue
 			}
@@ -70,14 +75,14 @@ func RedrawCompareReport(ctx context.Context, dir string) error {
 			if err != nil {
 				return fmt.Errorf("report of %s: %w", r.name, err)
 			}
-			if d.Summary.Title == r.title && d.Summary.Status == r.status {
+			if slices.Equal(results.CompareRowOf(r.name, d.Summary), r.rec) {
 				ds[i] = d
 				break
 			}
 		}
 		if ds[i] == nil {
 			return &cases.Error{File: path, Line: r.line, Err: cases.Reason(ErrOutputFile, nil,
-				fmt.Sprintf("case %s ran (status %s), but no folder holds its outputs with that title and status (looked in %v)", r.name, r.status, tried)),
+				fmt.Sprintf("case %s ran (status %s), but no folder holds its outputs: none of %v has a summary.json with the values of this row", r.name, r.status, tried)),
 				Hint: "run the comparison again (cureslab compare, or cureslab demo for its comparisons)"}
 		}
 	}
@@ -90,7 +95,8 @@ func RedrawCompareReport(ctx context.Context, dir string) error {
 // compareCSVRow is what RedrawCompareReport needs of a row of compare.csv.
 type compareCSVRow struct {
 	name, title, status string
-	ran                 bool // it has values
+	rec                 []string // the whole row
+	ran                 bool     // it has values
 	line                int
 }
 
@@ -127,7 +133,7 @@ func readCompareCSV(path string) ([]compareCSVRow, error) {
 		if len(rec) != len(results.CompareHeader) || rec[0] == "" || filepath.Base(rec[0]) != rec[0] || rec[0] == "." || rec[0] == ".." {
 			return nil, bad(i+2, fmt.Sprintf("expected %d cells starting with the case's folder name", len(results.CompareHeader)))
 		}
-		r := compareCSVRow{name: rec[0], title: rec[1], status: rec[2], line: i + 2}
+		r := compareCSVRow{name: rec[0], title: rec[1], status: rec[2], rec: rec, line: i + 2}
 		for _, v := range rec[3:] {
 			r.ran = r.ran || v != ""
 		}

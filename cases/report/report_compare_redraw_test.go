@@ -67,3 +67,56 @@ func TestRedrawCompareReport(t *testing.T) {
 		t.Error("a page was written")
 	}
 }
+
+// A demo's comparison folder: the cases' folders sit beside it. The page
+// is redrawn from there, also when the folder is given as "."; a folder
+// beside it holding a run with the same title and status but other values
+// (another run of the same case) is refused, not drawn under the case's
+// name.
+func TestRedrawCompareReportBeside(t *testing.T) {
+	fixedClock(t)
+	rows := comparedRows(t, results.StatusNotRun)[:2]
+	var mem bytes.Buffer
+	if err := CompareReport(context.Background(), &mem, rows); err != nil {
+		t.Fatal(err)
+	}
+	base := t.TempDir()
+	dir := filepath.Join(base, "compare")
+	for _, r := range rows {
+		if err := results.WriteRun(filepath.Join(base, r.Name), r.Case, r.Result, r.Summary); err != nil {
+			t.Fatal(err)
+		}
+	}
+	set, err := outdir.Open(dir, results.CompareKind)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := results.StageComparison(set, rows); err != nil {
+		t.Fatal(err)
+	}
+	if err := set.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	t.Chdir(dir)
+	if err := RedrawCompareReport(context.Background(), "."); err != nil {
+		t.Fatalf(`report ".": %v`, err)
+	}
+	if page, _ := os.ReadFile(CompareReportFile); !bytes.Equal(page, mem.Bytes()) {
+		t.Error("the page redrawn from the folders beside differs from the page from memory")
+	}
+
+	// The same case run again with other values, same title and status.
+	os.Remove(CompareReportFile)
+	other := rows[0].Summary
+	other.PeakTemperatureC += 1
+	if err := results.WriteRun(filepath.Join(base, rows[0].Name), rows[0].Case, rows[0].Result, other); err != nil {
+		t.Fatal(err)
+	}
+	err = RedrawCompareReport(context.Background(), ".")
+	if err == nil || !strings.Contains(err.Error(), "no folder holds its outputs") {
+		t.Errorf("a folder beside holding another run of the same title and status: %v", err)
+	}
+	if _, err := os.Stat(CompareReportFile); !os.IsNotExist(err) {
+		t.Error("a page was written")
+	}
+}

@@ -31,7 +31,7 @@ import (
 const SweepReportFile = "report.html"
 
 // WriteSweepReport reads dir/summary.csv and dir/sweep.json (as written by
-// Sweep.Run or MergeSweeps) and writes dir/report.html: one self-contained
+// Sweep.Run or sweep.Merge) and writes dir/report.html: one self-contained
 // page in the style of the run report.
 //
 //   - two varied keys in grid mode: process-window maps of min_final_cure,

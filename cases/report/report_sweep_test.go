@@ -308,7 +308,7 @@ func newTinySweep(t testing.TB, extra string, set sweep.Settings) *sweep.Sweep {
 	t.Helper()
 	s, err := sweep.New("tiny.toml", tinyCase(t, extra), sweepDir, set)
 	if err != nil {
-		t.Fatalf("NewSweep: %v", err)
+		t.Fatalf("sweep.New: %v", err)
 	}
 	return s
 }

@@ -101,6 +101,13 @@ func StageComparison(set *outdir.Set, rows []Compared) error {
 	})
 }
 
+// CompareRowOf returns the row of compare.csv of a case that ran, named
+// name, with summary s: what a comparison wrote for it, so that a folder
+// read back can be matched to its row value for value.
+func CompareRowOf(name string, s Summary) []string {
+	return compareRow(Compared{Name: name, Ran: true, Summary: s})
+}
+
 // compareRow formats one row of compare.csv.
 func compareRow(r Compared) []string {
 	s := r.Summary
@@ -180,8 +187,10 @@ func ComparisonRows(rows []Compared) [][]string {
 		switch {
 		case r.Summary.TimeToMinCureS.Known():
 			return num.TextTime(float64(r.Summary.TimeToMinCureS))
+		case minCureSet(r.Summary) && r.Summary.MinFinalCure.Known() && r.Summary.Status == StatusInterrupted:
+			return "not reached (interrupted)"
 		case minCureSet(r.Summary) && r.Summary.MinFinalCure.Known():
-			return "not reached"
+			return "not reached by the end"
 		}
 		return "n/a"
 	})

@@ -254,7 +254,7 @@ func Print(w io.Writer, r *Result) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	mode := "nominal case"
 	if r.Robust > 0 {
-		mode = fmt.Sprintf("robust: the criteria required in at least %.0f %% of %d samples of [uncertainty]", 100*r.Share, r.Robust)
+		mode = fmt.Sprintf("robust: criteria must hold in at least %.0f %% of %d samples of [uncertainty]", 100*r.Share, r.Robust)
 	}
 	fmt.Fprintf(tw, "tune %s, program %s (%s): %d candidates, %d runs, seed %d\n",
 		r.File, r.Program, mode, len(r.Candidates), r.Runs, r.Seed)

@@ -4,6 +4,7 @@ import (
 	"cureslab/cases/simulate"
 	"errors"
 	"fmt"
+	"os"
 	"path/filepath"
 
 	"github.com/spf13/pflag"
@@ -60,9 +61,15 @@ cureslab compare oven.toml microwave.toml -o compare-out`,
 			if msg := checkOutDir(*out); msg != "" {
 				return e.usageError("%s", msg)
 			}
+			_, statErr := os.Stat(*out)
+			existed := statErr == nil
 			rows, worst, err := compareRun(e, cs, *out)
 			if errors.Is(err, simulate.ErrNoneFinished) {
-				fmt.Fprintf(e.stderr, "cureslab compare: interrupted before any case had finished: nothing was written, and %s holds what it held before (an earlier comparison there is left as it was)\n", *out)
+				if existed {
+					fmt.Fprintf(e.stderr, "cureslab compare: interrupted before any case had finished: nothing was written, and %s holds what it held before (an earlier comparison there is left as it was)\n", *out)
+				} else {
+					fmt.Fprintf(e.stderr, "cureslab compare: interrupted before any case had finished: nothing was written (%s was not created)\n", *out)
+				}
 				return exitInterrupted
 			}
 			pageCut := errors.Is(err, simulate.ErrPageNotDrawn)

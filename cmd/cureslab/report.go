@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"github.com/spf13/pflag"
 
@@ -68,6 +69,10 @@ written).`,
 			if report.IsComparison(dir) {
 				return redrawn(e, dir, report.CompareReportFile, " (the comparison page)", report.RedrawCompareReport(e.ctx, dir))
 			}
+			if subs := outputFolders(dir); len(subs) > 0 {
+				return e.usageError("%s holds no run of its own, only the output folders %s: give one of them, e.g. cureslab report %s",
+					dir, strings.Join(subs, ", "), filepath.Join(dir, subs[0]))
+			}
 			return redrawn(e, dir, report.ReportFile, "", report.RedrawReport(e.ctx, dir))
 		}
 	},
@@ -96,4 +101,30 @@ func redrawInterrupted(e *env, dir, page string) int {
 	fmt.Fprintf(e.stderr, "cureslab report: interrupted while drawing %s: nothing was written (a page drawn before, if any, is left as it was)\n",
 		filepath.Join(dir, page))
 	return exitInterrupted
+}
+
+// outputFolders lists, in name order, the folders in dir that hold a run's
+// or a comparison's outputs (summary.json or compare.csv) when dir itself
+// holds no summary.json; nil otherwise.
+func outputFolders(dir string) []string {
+	if _, err := os.Stat(filepath.Join(dir, results.SummaryFile)); err == nil {
+		return nil
+	}
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		return nil
+	}
+	var out []string
+	for _, en := range ents {
+		if !en.IsDir() {
+			continue
+		}
+		for _, f := range []string{results.SummaryFile, results.CompareFile} {
+			if _, err := os.Stat(filepath.Join(dir, en.Name(), f)); err == nil {
+				out = append(out, en.Name())
+				break
+			}
+		}
+	}
+	return out
 }

@@ -90,6 +90,15 @@ func TestReportCommandErrors(t *testing.T) {
 	if _, err := os.Stat(filepath.Join("out", "report.html")); !os.IsNotExist(err) {
 		t.Error("report.html written from a malformed directory")
 	}
+	// A folder that only holds output folders (a demo's): named, not read
+	// as a run.
+	os.MkdirAll(filepath.Join("parent", "b"), 0o755)
+	os.Rename("out", filepath.Join("parent", "a"))
+	os.WriteFile(filepath.Join("parent", "b", "compare.csv"), nil, 0o644)
+	code, _, errs = cl(t, "report", "parent")
+	if want := "parent holds no run of its own, only the output folders a, b: give one of them, e.g. cureslab report " + filepath.Join("parent", "a"); code != 2 || !strings.Contains(errs, want) {
+		t.Errorf("a folder of output folders: exit %d, stderr %q; want 2 and %q", code, errs, want)
+	}
 }
 
 func TestNoReportFlag(t *testing.T) {
