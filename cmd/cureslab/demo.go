@@ -6,6 +6,7 @@ import (
 	"cureslab/cases/simulate"
 	"errors"
 	"fmt"
+	"os"
 	"path/filepath"
 	"strings"
 
@@ -37,8 +38,10 @@ marked interrupted; the ones after it are not run and no comparison is
 made).
 
 DIR holds one demo: its folders are written under staging names and put in
-place together at the end, interrupted or not, and the folders of an
-earlier demo into DIR are removed then, so that DIR never mixes two demos.`,
+place together at the end, and the folders of an earlier demo into DIR are
+removed then, so that DIR never mixes two demos. An interrupted demo goes in
+place too, once at least one example has run to its end; interrupted before
+that, it writes nothing and leaves DIR as it was (an earlier demo whole).`,
 	Example: "cureslab demo -o demo-out",
 	Setup: func(fs *pflag.FlagSet) func(*env, []string) int {
 		out := fs.StringP("out", "o", "./cureslab-demo", "write the outputs under `DIR`")
@@ -57,7 +60,8 @@ earlier demo into DIR are removed then, so that DIR never mixes two demos.`,
 			// The demo's directory is one output set: this demo's
 			// folders go in place together at the end, and those of an
 			// earlier demo are removed then, whether this one ran to its
-			// end or was interrupted.
+			// end or was interrupted after an example had finished.
+			_, statErr := os.Lstat(*out)
 			set, err := outdir.Open(*out, demoKind)
 			if err != nil {
 				fmt.Fprintf(e.stderr, "cureslab demo: %v\n", err)
@@ -67,7 +71,8 @@ earlier demo into DIR are removed then, so that DIR never mixes two demos.`,
 			opt := simulate.Options{Report: !*noReport}
 			worst := exitOK
 			ran := map[string]results.Compared{}
-			stopped := "" // what an interruption left undone
+			stopped := ""     // what an interruption left undone
+			finished := false // an example ran to its end (whatever its status)
 			for i, ex := range cases.Examples() {
 				if e.ctx.Err() != nil {
 					stopped = ex.Name + " and the examples after it were not run"
@@ -89,7 +94,13 @@ earlier demo into DIR are removed then, so that DIR never mixes two demos.`,
 					return exitUsage
 				}
 				dir := filepath.Join(*out, ex.Name)
-				o, code := runCaseStaged(e, "demo", c, at, dir, opt)
+				o := simulate.Case(e.ctx, c, at, opt)
+				if o.Ran && o.Err == nil && o.Summary.Status != results.StatusInterrupted {
+					finished = true
+				} else if e.ctx.Err() != nil && !finished {
+					break // nothing to keep: see below
+				}
+				code := runOutcome(e, "demo", c, dir, o)
 				s, r := o.Summary, o.Result
 				worst = max(worst, code)
 				if !o.Ran || o.Err != nil {
@@ -105,6 +116,18 @@ earlier demo into DIR are removed then, so that DIR never mixes two demos.`,
 					break
 				}
 				ran[ex.Name] = results.Compared{Name: ex.Name, Case: c, Ran: o.Ran, Summary: s, Result: r, Dir: at}
+			}
+			if e.ctx.Err() != nil && !finished {
+				// Like an interrupted comparison: an earlier demo
+				// stays whole rather than giving way to one example
+				// cut short.
+				set.Abort()
+				where := *out + " holds what it held before"
+				if statErr != nil && os.Remove(*out) == nil {
+					where = *out + " was not created"
+				}
+				fmt.Fprintf(e.stderr, "cureslab demo: interrupted before the first example finished: nothing was written; %s\n", where)
+				return exitInterrupted
 			}
 			if stopped == "" {
 				for i, dc := range demoComparisons {

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"errors"
 	"flag"
 	"io"
 	"math"
@@ -298,13 +299,44 @@ func TestDemo(t *testing.T) {
 		t.Errorf("no comparison report: %v", err)
 	}
 
+	// Interrupted as its first example starts, before any example has
+	// finished, a demo into the same directory writes nothing: the
+	// earlier demo stays whole, as an earlier comparison does.
+	full := dirNames(t, "tmp")
+	names := cases.ExampleNames()
+	var errb bytes.Buffer
+	e := &env{ctx: onceExists{context.Background(), filepath.Join("tmp", names[0]+".staging"), new(bool)}, stdout: io.Discard, stderr: &errb, cmd: demoCmd}
+	if code := runDirect(t, e, demoCmd, "-o", "tmp"); code != exitInterrupted {
+		t.Fatalf("demo interrupted at once: exit %d, want 130\nstderr:\n%s", code, errb.String())
+	}
+	if w := "interrupted before the first example finished: nothing was written; tmp holds what it held before"; !strings.Contains(errb.String(), w) {
+		t.Errorf("the demo interrupted at once does not say %q:\n%s", w, errb.String())
+	}
+	if strings.Contains(errb.String(), "hold the state up to then") {
+		t.Errorf("the demo interrupted at once speaks of outputs it did not keep:\n%s", errb.String())
+	}
+	if left := dirNames(t, "tmp"); !slices.Equal(left, full) || len(full) != len(demoNames())+1 {
+		t.Errorf("after a demo interrupted at once the directory holds %v, want the earlier demo whole: %v", left, full)
+	}
+	if s := readSummary(t, filepath.Join("tmp", names[0])); s.Status != results.StatusOK {
+		t.Errorf("%s: status %q, want the earlier demo's ok", names[0], s.Status)
+	}
+	// Into a new directory, the same interruption leaves no directory.
+	errb.Reset()
+	e = &env{ctx: onceExists{context.Background(), filepath.Join("new", names[0]+".staging"), new(bool)}, stdout: io.Discard, stderr: &errb, cmd: demoCmd}
+	if code := runDirect(t, e, demoCmd, "-o", "new"); code != exitInterrupted || !strings.Contains(errb.String(), "nothing was written; new was not created") {
+		t.Errorf("demo into a new directory interrupted at once: exit %d, want 130 and a note\nstderr:\n%s", code, errb.String())
+	}
+	if _, err := os.Lstat("new"); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("demo into a new directory interrupted at once: %v, want no directory", err)
+	}
+
 	// Interrupted as its second example starts, a demo into the same
 	// directory leaves exactly what it computed: the first example, the
 	// second marked interrupted, no folder of the first demo's other
 	// examples, no comparison built on them.
-	names := cases.ExampleNames()
-	var errb bytes.Buffer
-	e := &env{ctx: onceExists{context.Background(), filepath.Join("tmp", names[1]+".staging"), new(bool)}, stdout: io.Discard, stderr: &errb, cmd: demoCmd}
+	errb.Reset()
+	e = &env{ctx: onceExists{context.Background(), filepath.Join("tmp", names[1]+".staging"), new(bool)}, stdout: io.Discard, stderr: &errb, cmd: demoCmd}
 	if code := runDirect(t, e, demoCmd, "-o", "tmp"); code != exitInterrupted {
 		t.Fatalf("interrupted demo: exit %d, want 130\nstderr:\n%s", code, errb.String())
 	}
@@ -319,12 +351,7 @@ func TestDemo(t *testing.T) {
 	if s := readSummary(t, filepath.Join("tmp", names[1])); s.Status != results.StatusInterrupted {
 		t.Errorf("%s: status %q, want interrupted", names[1], s.Status)
 	}
-	ents, _ := os.ReadDir("tmp")
-	var left []string
-	for _, d := range ents {
-		left = append(left, d.Name())
-	}
-	if want := []string{".cureslab-set.json", names[0], names[1]}; !slices.Equal(left, want) {
+	if left, want := dirNames(t, "tmp"), []string{".cureslab-set.json", names[0], names[1]}; !slices.Equal(left, want) {
 		t.Errorf("after the interrupted demo the directory holds %v, want %v", left, want)
 	}
 
@@ -333,6 +360,20 @@ func TestDemo(t *testing.T) {
 	if code != exitUsage || !strings.Contains(errs, "holds a run's output") {
 		t.Errorf("demo into a run's directory: exit %d\n%s", code, errs)
 	}
+}
+
+// dirNames returns the names in dir, sorted.
+func dirNames(t *testing.T, dir string) []string {
+	t.Helper()
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, d := range ents {
+		names = append(names, d.Name())
+	}
+	return names
 }
 
 // runDirect runs command c with e as it is, without the signal context

@@ -219,25 +219,27 @@ func checkOutDir(dir string) string {
 // returns its outcome and the exit status. Errors go to stderr under the
 // command name cmd.
 func runCase(e *env, cmd string, c *cases.Case, dir string, opt simulate.Options) (results.Compared, int) {
-	return runCaseStaged(e, cmd, c, dir, dir, opt)
+	o := simulate.Case(e.ctx, c, dir, opt)
+	return o, runOutcome(e, cmd, c, dir, o)
 }
 
-// runCaseStaged is runCase writing into the folder at, a staged folder of
-// a larger output set that goes in place as dir: the messages name dir.
-func runCaseStaged(e *env, cmd string, c *cases.Case, at, dir string, opt simulate.Options) (results.Compared, int) {
-	o := simulate.Case(e.ctx, c, at, opt)
+// runOutcome says on stderr what went wrong with the run o of c whose
+// outputs are (or go in place) in dir, nothing when it met its criteria,
+// and returns its exit status. The demo calls it for an example written
+// into a staged folder of its set, dir naming the folder's final place.
+func runOutcome(e *env, cmd string, c *cases.Case, dir string, o results.Compared) int {
 	var ke *outdir.KindError
 	var be *outdir.BusyError
 	switch {
 	case errors.As(o.Err, &ke) || errors.As(o.Err, &be):
 		fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, o.Err)
-		return o, exitUsage
+		return exitUsage
 	case !o.Ran:
 		fmt.Fprintf(e.stderr, "cureslab %s: %s: %v\n", cmd, c.File, o.Err)
-		return o, exitFailure
+		return exitFailure
 	case o.Err != nil:
 		fmt.Fprintf(e.stderr, "cureslab %s: %v\n", cmd, o.Err)
-		return o, exitUsage
+		return exitUsage
 	}
 	code := exitCode(o.Summary.Status)
 	switch code {
@@ -250,14 +252,14 @@ func runCaseStaged(e *env, cmd string, c *cases.Case, at, dir string, opt simula
 		}
 		fmt.Fprintf(e.stderr, "cureslab %s: %s: interrupted at t = %g s: the outputs in %s hold the state up to then, marked \"interrupted\"; the criteria are not judged%s\n",
 			cmd, c.File, float64(o.Summary.EndTimeS), dir, notDrawn)
-		return o, code
+		return code
 	}
 	if o.ReportNotDrawn {
 		// The run had finished: Ctrl-C came while its page was drawn.
 		pageNotDrawn(e, cmd, dir, o.Summary.Status)
-		return o, exitInterrupted
+		return exitInterrupted
 	}
-	return o, code
+	return code
 }
 
 // pageNotDrawn says that Ctrl-C or SIGTERM stopped the drawing of a run's
