@@ -181,6 +181,10 @@ type runData struct {
 	// Volumetric reports that the run had volumetric heating (from the
 	// case, or from the output files: a power column).
 	Volumetric bool
+	// Page is, on a comparison's page, the path of the case's own
+	// report.html from the comparison page's folder (casePage); "" when
+	// it has none or where it is is not known.
+	Page string
 }
 
 // layerData is one layer of the stack as the report shows it.

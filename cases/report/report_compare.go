@@ -8,6 +8,9 @@ import (
 	"html/template"
 	"io"
 	"math"
+	"os"
+	"path"
+	"path/filepath"
 	"strings"
 	"time"
 
@@ -23,8 +26,12 @@ const CompareReportFile = "report.html"
 // the summaries and criteria of the cases side by side, their histories
 // overlaid (the hottest cell and the least-cured cell over time, with the
 // air that drives each case), and their final profiles through the
-// thickness overlaid. Each row names its case and the subdirectory NAME,
-// beside the page, that holds its own report.html; a row without a result
+// thickness overlaid. The page names each case's own report.html by its
+// path from the page's folder: cases/NAME/report.html, where cases is the
+// folder holding the cases' folders relative to the page's ("." for
+// 'cureslab compare', whose case folders are inside its directory; ".."
+// for the demo's comparisons, beside the examples' folders); only the
+// pages that exist in row.Dir are named. A row without a result
 // is a case that did not run (it is listed, not drawn). A row whose result
 // keeps no snapshots (streamed to its files, package simulate) is read back
 // from its directory (row.Dir), as RedrawReport reads it.
@@ -37,7 +44,7 @@ const CompareReportFile = "report.html"
 // of its result (results.Summarize). When ctx is done (checked before each
 // case and each figure) nothing is written to w and the error wraps
 // ctx.Err().
-func CompareReport(ctx context.Context, w io.Writer, rows []results.Compared) error {
+func CompareReport(ctx context.Context, w io.Writer, rows []results.Compared, cases string) error {
 	if len(rows) == 0 {
 		return errors.New("report.CompareReport: no case to compare")
 	}
@@ -65,6 +72,7 @@ func CompareReport(ctx context.Context, w io.Writer, rows []results.Compared) er
 		if err != nil {
 			return fmt.Errorf("report of %s: %w", names[i], err)
 		}
+		d.Page = casePage(cases, row.Name, row.Dir)
 		ds[i] = d
 	}
 	b, err := drawPage(ctx, func(w io.Writer) error { return renderCompareReport(ctx, w, names, ds, reportClock()) })
@@ -105,9 +113,18 @@ func renderCompareReport(ctx context.Context, w io.Writer, names []string, ds []
 			pg.Status = worst
 		}
 	}
+	intro := "The report of each case, with its maps, is the report.html in its folder."
+	var pages []string
+	for _, d := range ds {
+		if d != nil && d.Page != "" {
+			pages = append(pages, d.Page)
+		}
+	}
+	if len(pages) > 0 {
+		intro = "The report of each case, with its maps: " + strings.Join(pages, ", ") + " (paths from the folder of this page)."
+	}
 	pg.Sections = append(pg.Sections, section{ID: "summary", Heading: "Summaries side by side",
-		Intro: "Each case's own report, with its maps, is " + strings.Join(withSuffix(names, "/report.html"), ", ") + " beside this page.",
-		Body:  compareTable(names, ds)})
+		Intro: intro, Body: compareTable(names, ds)})
 	if ran == 0 {
 		return renderPage(ctx, w, pg)
 	}
@@ -154,12 +171,18 @@ func renderCompareReport(ctx context.Context, w io.Writer, names []string, ds []
 	return renderPage(ctx, w, pg)
 }
 
-func withSuffix(names []string, suffix string) []string {
-	out := make([]string, len(names))
-	for i, n := range names {
-		out[i] = n + suffix
+// casePage returns the path, from a comparison page's folder, of the own
+// report.html of the case name whose folder is cases/name from there, if
+// dir, the folder where the case's files are now (perhaps under a staging
+// name), holds one; "" otherwise.
+func casePage(cases, name, dir string) string {
+	if dir == "" {
+		return ""
 	}
-	return out
+	if fi, err := os.Stat(filepath.Join(dir, ReportFile)); err != nil || !fi.Mode().IsRegular() {
+		return ""
+	}
+	return path.Join(filepath.ToSlash(cases), name, ReportFile)
 }
 
 // compareTable sets the summaries of the cases side by side, one column per

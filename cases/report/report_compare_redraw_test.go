@@ -21,7 +21,7 @@ func TestRedrawCompareReport(t *testing.T) {
 	rows := comparedRows(t, results.StatusNotRun)
 	c1, r1 := rows[0].Case, rows[0].Result
 	var mem bytes.Buffer
-	if err := CompareReport(context.Background(), &mem, rows); err != nil {
+	if err := CompareReport(context.Background(), &mem, rows, "."); err != nil {
 		t.Fatal(err)
 	}
 	dir := filepath.Join(t.TempDir(), "cmp")

@@ -26,7 +26,7 @@ func TestWriteCompareReport(t *testing.T) {
 	fixedClock(t)
 	rows := comparedRows(t, results.StatusFailed)
 	var b bytes.Buffer
-	if err := CompareReport(context.Background(), &b, rows); err != nil {
+	if err := CompareReport(context.Background(), &b, rows, "."); err != nil {
 		t.Fatal(err)
 	}
 	page := b.String()
@@ -59,7 +59,7 @@ func TestWriteCompareReport(t *testing.T) {
 			t.Errorf("comparison page lacks %q", want)
 		}
 	}
-	if err := CompareReport(context.Background(), &b, nil); err == nil {
+	if err := CompareReport(context.Background(), &b, nil, "."); err == nil {
 		t.Error("an empty comparison accepted")
 	}
 }

@@ -115,7 +115,7 @@ func TestOtherPagesInterrupted(t *testing.T) {
 		}, func() bool { return b.Len() == 0 })
 	}
 	t.Run("compare", func(t *testing.T) {
-		writerCase(t, 3, func(ctx context.Context, w io.Writer) error { return CompareReport(ctx, w, rows) })
+		writerCase(t, 3, func(ctx context.Context, w io.Writer) error { return CompareReport(ctx, w, rows, ".") })
 	})
 	t.Run("calibration", func(t *testing.T) {
 		cal := calibrationResult(t, 0)

@@ -117,7 +117,7 @@ func TestReportAbsorbedPower(t *testing.T) {
 		{Name: "band", Case: cb, Ran: true, Summary: results.Summarize(cb, rb), Result: rb},
 	}
 	var page bytes.Buffer
-	if err := CompareReport(context.Background(), &page, rows); err != nil {
+	if err := CompareReport(context.Background(), &page, rows, "."); err != nil {
 		t.Fatal(err)
 	}
 	if !strings.Contains(page.String(), "Absorbed power through the thickness") {

@@ -199,7 +199,7 @@ func Compare(ctx context.Context, cs []*cases.Case, dir string, opt Options) ([]
 	}
 	// The page is drawn from the cases' staged folders; they go in place
 	// with it.
-	err = commitComparison(ctx, set, rows, opt.Report)
+	err = commitComparison(ctx, set, rows, opt.Report, ".")
 	for i := range rows {
 		if rows[i].Dir != "" {
 			rows[i].Dir = filepath.Join(dir, names[i])
@@ -243,19 +243,21 @@ var ErrPageNotDrawn = errors.New("the comparison page was not drawn: interrupted
 // the rows that ran into dir as one output set of a comparison (package
 // outdir): both in place together, or the previous set left as it was.
 // When ctx is done before the page is drawn, compare.csv goes in place
-// alone and the error wraps ErrPageNotDrawn.
-func WriteComparison(ctx context.Context, dir string, rows []results.Compared, page bool) error {
+// alone and the error wraps ErrPageNotDrawn. cases is the folder holding
+// the rows' case folders, relative to dir: the page names each case's own
+// report.html from there (report.CompareReport).
+func WriteComparison(ctx context.Context, dir string, rows []results.Compared, page bool, cases string) error {
 	set, err := outdir.Open(dir, results.CompareKind)
 	if err != nil {
 		return err
 	}
 	defer set.Abort()
-	return commitComparison(ctx, set, rows, page)
+	return commitComparison(ctx, set, rows, page, cases)
 }
 
 // commitComparison stages compare.csv and the comparison page into set and
 // commits it (see WriteComparison).
-func commitComparison(ctx context.Context, set *outdir.Set, rows []results.Compared, page bool) error {
+func commitComparison(ctx context.Context, set *outdir.Set, rows []results.Compared, page bool, cases string) error {
 	if err := results.StageComparison(set, rows); err != nil {
 		return fmt.Errorf("writing %s: %w", results.CompareFile, err)
 	}
@@ -270,7 +272,7 @@ func commitComparison(ctx context.Context, set *outdir.Set, rows []results.Compa
 	}
 	var perr error
 	if page && len(ran) > 0 {
-		perr = set.Stage(report.CompareReportFile, func(w io.Writer) error { return report.CompareReport(ctx, w, ran) })
+		perr = set.Stage(report.CompareReportFile, func(w io.Writer) error { return report.CompareReport(ctx, w, ran, cases) })
 		if ctx.Err() != nil && errors.Is(perr, ctx.Err()) {
 			perr = fmt.Errorf("%w (%w)", ErrPageNotDrawn, perr)
 		}

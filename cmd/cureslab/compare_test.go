@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"cureslab/cases"
+	"cureslab/cases/report"
 	"cureslab/cases/results"
 )
 
@@ -80,5 +81,26 @@ func TestCompareRuns(t *testing.T) {
 	}
 	if !strings.Contains(out, "tile-2") || !strings.Contains(out, "peak temperature") {
 		t.Errorf("stdout lacks the table:\n%s", out)
+	}
+	// The cases' folders are inside the comparison's.
+	namesCasePages(t, "compare-out", "tile/report.html", "tile-2/report.html")
+}
+
+// namesCasePages checks that the comparison page in dir names the cases'
+// own pages by the given paths from dir, and that they are there.
+func namesCasePages(t *testing.T, dir string, pages ...string) {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join(dir, report.CompareReportFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "The report of each case, with its maps: " + strings.Join(pages, ", ") + " (paths from the folder of this page)."
+	if !strings.Contains(string(b), want) {
+		t.Errorf("%s does not say %q", filepath.Join(dir, report.CompareReportFile), want)
+	}
+	for _, p := range pages {
+		if _, err := os.Stat(filepath.Join(dir, filepath.FromSlash(p))); err != nil {
+			t.Errorf("the comparison page in %s names %s: %v", dir, p, err)
+		}
 	}
 }

@@ -202,7 +202,10 @@ func demoCompare(e *env, set *outdir.Set, ran map[string]results.Compared, names
 	fmt.Fprintf(e.stdout, "\n== comparison: %s\n", strings.Join(names, " vs "))
 	at, err := set.StageDir(sub)
 	if err == nil {
-		err = simulate.WriteComparison(e.ctx, at, rows, opt.Report)
+		// The examples' folders are beside the comparison's: its page
+		// names their pages from its own folder.
+		cases, _ := filepath.Rel(dir, out)
+		err = simulate.WriteComparison(e.ctx, at, rows, opt.Report, cases)
 	}
 	cut := errors.Is(err, simulate.ErrPageNotDrawn)
 	if err != nil && !cut {

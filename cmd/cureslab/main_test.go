@@ -16,7 +16,6 @@ import (
 	"testing"
 
 	"cureslab/cases"
-	"cureslab/cases/report"
 	"cureslab/cases/results"
 )
 
@@ -295,9 +294,9 @@ func TestDemo(t *testing.T) {
 	if !regexp.MustCompile(`volumetric heating against the oven: overshoot \+\d+\.\d K against \+\d+\.\d K, least final cure 0\.\d+ against 0\.\d+; min_cure reached after [0-9.]+ (min|h) against [0-9.]+ (min|h), program end`).MatchString(out) {
 		t.Errorf("the demo does not say what volumetric heating buys:\n%s", out)
 	}
-	if _, err := os.Stat(filepath.Join("tmp", "compare", report.CompareReportFile)); err != nil {
-		t.Errorf("no comparison report: %v", err)
-	}
+	// The examples' folders are beside the comparisons'.
+	namesCasePages(t, filepath.Join("tmp", "compare"), "../thick-potting-oven/report.html", "../thick-potting-microwave/report.html")
+	namesCasePages(t, filepath.Join("tmp", "compare-6ghz"), "../thick-potting-6ghz/report.html", "../thick-potting-6ghz-swept/report.html")
 
 	// Interrupted as its first example starts, before any example has
 	// finished, a demo into the same directory writes nothing: the
