@@ -77,7 +77,7 @@ func TestRedrawCompareReportBeside(t *testing.T) {
 	fixedClock(t)
 	rows := comparedRows(t, results.StatusNotRun)[:2]
 	var mem bytes.Buffer
-	if err := CompareReport(context.Background(), &mem, rows); err != nil {
+	if err := CompareReport(context.Background(), &mem, rows, ".."); err != nil {
 		t.Fatal(err)
 	}
 	base := t.TempDir()
