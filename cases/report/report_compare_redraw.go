@@ -76,6 +76,11 @@ func RedrawCompareReport(ctx context.Context, dir string) error {
 				return fmt.Errorf("report of %s: %w", r.name, err)
 			}
 			if slices.Equal(results.CompareRowOf(r.name, d.Summary), r.rec) {
+				// The case's page as the comparison names it: relative to
+				// the comparison's folder ("." inside it, ".." beside it).
+				if rel, err := filepath.Rel(absOr(dir), filepath.Dir(absOr(folder))); err == nil {
+					d.Page = casePage(rel, r.name, folder)
+				}
 				ds[i] = d
 				break
 			}
@@ -140,4 +145,12 @@ func readCompareCSV(path string) ([]compareCSVRow, error) {
 		out = append(out, r)
 	}
 	return out, nil
+}
+
+// absOr returns the absolute form of path, or path itself when it has none.
+func absOr(path string) string {
+	if a, err := filepath.Abs(path); err == nil {
+		return a
+	}
+	return path
 }
