@@ -59,10 +59,7 @@ func RedrawCompareReport(ctx context.Context, dir string) error {
 			continue
 		}
 		var tried []string
-		beside := filepath.Join(filepath.Dir(filepath.Clean(dir)), r.name)
-		if abs, err := filepath.Abs(dir); err == nil {
-			beside = filepath.Join(filepath.Dir(abs), r.name) // "." has a parent too
-		}
+		beside := filepath.Join(filepath.Dir(absOr(dir)), r.name) // "." has a parent too
 		for _, folder := range []string{filepath.Join(dir, r.name), beside} {
 			if slices.Contains(tried, folder) {
 				continue

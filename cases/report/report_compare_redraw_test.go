@@ -25,21 +25,7 @@ func TestRedrawCompareReport(t *testing.T) {
 		t.Fatal(err)
 	}
 	dir := filepath.Join(t.TempDir(), "cmp")
-	for _, r := range rows[:2] {
-		if err := results.WriteRun(filepath.Join(dir, r.Name), r.Case, r.Result, r.Summary); err != nil {
-			t.Fatal(err)
-		}
-	}
-	set, err := outdir.Open(dir, results.CompareKind)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := results.StageComparison(set, rows); err != nil {
-		t.Fatal(err)
-	}
-	if err := set.Commit(); err != nil {
-		t.Fatal(err)
-	}
+	writeComparison(t, dir, dir, rows)
 	if !IsComparison(dir) || IsComparison(filepath.Join(dir, "cool-limit")) {
 		t.Error("IsComparison does not tell the comparison from its cases")
 	}
@@ -59,7 +45,7 @@ func TestRedrawCompareReport(t *testing.T) {
 	if err := results.WriteRun(filepath.Join(dir, "tight-limit"), c1, r1, results.Summarize(c1, r1)); err != nil {
 		t.Fatal(err)
 	}
-	err = RedrawCompareReport(context.Background(), dir)
+	err := RedrawCompareReport(context.Background(), dir)
 	if err == nil || !strings.Contains(err.Error(), "compare.csv:3") || !strings.Contains(err.Error(), "no folder holds its outputs") {
 		t.Errorf("a folder of another run: %v", err)
 	}
@@ -82,21 +68,7 @@ func TestRedrawCompareReportBeside(t *testing.T) {
 	}
 	base := t.TempDir()
 	dir := filepath.Join(base, "compare")
-	for _, r := range rows {
-		if err := results.WriteRun(filepath.Join(base, r.Name), r.Case, r.Result, r.Summary); err != nil {
-			t.Fatal(err)
-		}
-	}
-	set, err := outdir.Open(dir, results.CompareKind)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := results.StageComparison(set, rows); err != nil {
-		t.Fatal(err)
-	}
-	if err := set.Commit(); err != nil {
-		t.Fatal(err)
-	}
+	writeComparison(t, dir, base, rows)
 	t.Chdir(dir)
 	if err := RedrawCompareReport(context.Background(), "."); err != nil {
 		t.Fatalf(`report ".": %v`, err)
@@ -112,11 +84,37 @@ func TestRedrawCompareReportBeside(t *testing.T) {
 	if err := results.WriteRun(filepath.Join(base, rows[0].Name), rows[0].Case, rows[0].Result, other); err != nil {
 		t.Fatal(err)
 	}
-	err = RedrawCompareReport(context.Background(), ".")
+	err := RedrawCompareReport(context.Background(), ".")
 	if err == nil || !strings.Contains(err.Error(), "no folder holds its outputs") {
 		t.Errorf("a folder beside holding another run of the same title and status: %v", err)
 	}
 	if _, err := os.Stat(CompareReportFile); !os.IsNotExist(err) {
 		t.Error("a page was written")
+	}
+}
+
+// writeComparison writes a comparison of rows into dir as compare does:
+// the folder of each case that ran under casesDir (dir itself, or its
+// parent for a demo's layout), then compare.csv through the comparison's
+// output set.
+func writeComparison(t *testing.T, dir, casesDir string, rows []results.Compared) {
+	t.Helper()
+	for _, r := range rows {
+		if !r.Ran {
+			continue
+		}
+		if err := results.WriteRun(filepath.Join(casesDir, r.Name), r.Case, r.Result, r.Summary); err != nil {
+			t.Fatal(err)
+		}
+	}
+	set, err := outdir.Open(dir, results.CompareKind)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := results.StageComparison(set, rows); err != nil {
+		t.Fatal(err)
+	}
+	if err := set.Commit(); err != nil {
+		t.Fatal(err)
 	}
 }

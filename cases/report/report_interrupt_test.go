@@ -141,21 +141,7 @@ func TestOtherPagesInterrupted(t *testing.T) {
 	t.Run("comparison from files", func(t *testing.T) {
 		rows := comparedRows(t, results.StatusNotRun)[:2]
 		dir := filepath.Join(t.TempDir(), "cmp")
-		for _, r := range rows {
-			if err := results.WriteRun(filepath.Join(dir, r.Name), r.Case, r.Result, r.Summary); err != nil {
-				t.Fatal(err)
-			}
-		}
-		set, err := outdir.Open(dir, results.CompareKind)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := results.StageComparison(set, rows); err != nil {
-			t.Fatal(err)
-		}
-		if err := set.Commit(); err != nil {
-			t.Fatal(err)
-		}
+		writeComparison(t, dir, dir, rows)
 		fileCase(t, 2, filepath.Join(dir, CompareReportFile), func(ctx context.Context) error { return RedrawCompareReport(ctx, dir) })
 	})
 	t.Run("fit", func(t *testing.T) {
